@@ -1,0 +1,16 @@
+/* embz: certified analysis of embezzling families of entangled states. Public API. */
+#ifndef EMBZ_H
+#define EMBZ_H
+
+#include "embz/flint.h"
+#include "embz/err.h"
+#include "embz/expr.h"
+#include "embz/family.h"
+#include "embz/vec.h"
+#include "embz/measure.h"
+#include "embz/sum.h"
+#include "embz/output.h"
+
+#define EMBZ_VERSION "0.1.0"
+
+#endif

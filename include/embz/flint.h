@@ -1,0 +1,36 @@
+/* The one place that knows where FLINT and arb live.
+ * FLINT 2.9 (Debian 12): arb is libflint-arb with top-level headers (arb.h, acb.h, ...).
+ * FLINT 3: arb is merged into FLINT (<flint/arb.h>). meson sets EMBZ_FLINT3. */
+#ifndef EMBZ_FLINT_H
+#define EMBZ_FLINT_H
+
+#include <stdio.h>
+#include <gmp.h>
+#include <mpfr.h>
+#include "embz_config.h"
+
+#ifdef EMBZ_FLINT3
+#include <flint/flint.h>
+#include <flint/fmpz.h>
+#include <flint/fmpq.h>
+#include <flint/arith.h>
+#include <flint/arb.h>
+#include <flint/acb.h>
+#include <flint/arb_poly.h>
+#include <flint/acb_calc.h>
+#include <flint/arb_hypgeom.h>
+#include <flint/acb_dirichlet.h>
+#else
+#include <flint/flint.h>
+#include <flint/fmpz.h>
+#include <flint/fmpq.h>
+#include <flint/arith.h>
+#include <arb.h>
+#include <acb.h>
+#include <arb_poly.h>
+#include <acb_calc.h>
+#include <arb_hypgeom.h>
+#include <acb_dirichlet.h>
+#endif
+
+#endif
