@@ -47,7 +47,15 @@ void embz_expr_set(embz_expr_t dst, const embz_expr_t src);
 
 /* Parse text. Identifiers other than i, n, constants and functions must be among the
  * nparams names in params, else "unknown name" with its column. On error returns
- * EMBZ_ERR_INPUT and fills err (col, source = text, text = message). */
+ * EMBZ_ERR_INPUT and fills err (col, source = text, text = message); e is left empty.
+ * Parameter names must be identifiers that are not built-in names (i, n, pi, e, gamma,
+ * function names), else EMBZ_ERR_INPUT with col 0. All nparams names are stored in e, in
+ * order, whether used or not (so bind's values line up with params).
+ * Syntax: numbers 2, 0.75, .5, 1e-3, 2.5E+4 (exact); + - * / ^ with ^ right-associative and
+ * binding tighter than unary minus (-i^2 = -(i^2), 2^-1 allowed); functions log log2 log10
+ * exp sqrt abs lgamma atan sin cos floor (one argument), min max pow (two); constants pi, e,
+ * gamma (Euler's constant). A text longer than EMBZ_EXPR_MAX_LEN is refused with col 0;
+ * a column beyond the capacity of err->source is named in err->text instead (source ""). */
 int embz_expr_parse(embz_expr_t e, const char *text,
                     const char *const *params, long nparams, embz_err_t *err);
 
@@ -68,16 +76,30 @@ int embz_number_parse(fmpq_t res, const char *s);
 #define EMBZ_USES_NONSMOOTH 8   /* floor, abs, min, max present */
 int embz_expr_uses(const embz_expr_t e);
 
-/* Canonical text (fully parenthesised where needed); parse(to_string(e)) has the same AST.
+/* Canonical text (parenthesised only where needed); parse(to_string(e)) has the same AST
+ * whenever every number node is a non-negative rational with denominator 2^a 5^b (all
+ * parsed numbers are). Other numbers (negative or e.g. 1/3, from bind) have no literal form
+ * and print as "(-0.5)", "(1/3)", which parse back to an equal value (NEG/DIV nodes).
  * Returns a malloc'ed string the caller frees. */
 char *embz_expr_to_string(const embz_expr_t e);
 
-/* Double evaluation (fast path). Returns NaN when undefined (log of non-positive, etc.). */
+/* Structural equality of the trees below the roots (ops, exact numbers, parameter names;
+ * columns are ignored). */
+int embz_expr_equal(const embz_expr_t x, const embz_expr_t y);
+
+/* Double evaluation (fast path, not certified). Returns NaN when undefined (log of
+ * non-positive, etc.), when any intermediate value is not finite (overflow included), and
+ * for unbound parameters. */
 double embz_expr_eval_d(const embz_expr_t e, double i, double n);
 
 /* Ball evaluation at precision prec. i and n are balls. Returns EMBZ_OK with a finite ball, or
- * EMBZ_ERR_DOMAIN when the value is certainly undefined or the ball is not finite (res is
- * set indeterminate then). */
+ * EMBZ_ERR_DOMAIN when the value is certainly undefined, when the domain condition cannot be
+ * decided at this precision (e.g. log of a ball containing 0; retrying at a higher precision
+ * may help), or when the ball is not finite (res is set indeterminate then).
+ * Real-domain rules: log, log2, log10, lgamma need x > 0, sqrt x >= 0, division a nonzero
+ * divisor; x^y with y an exact integer is defined for all x (x != 0 when y < 0); otherwise
+ * x^y needs x > 0, or x >= 0 and y > 0 (negative bases with fractional exponents are
+ * DOMAIN errors). An unbound parameter gives EMBZ_ERR_INPUT. */
 int embz_expr_eval_arb(arb_t res, const embz_expr_t e, const arb_t i, const arb_t n, slong prec);
 
 /* Taylor-mode evaluation: x is a power series (len coefficients) substituted for i; n a ball.
@@ -87,10 +109,19 @@ int embz_expr_eval_arb(arb_t res, const embz_expr_t e, const arb_t i, const arb_
  * otherwise EMBZ_ERR_NONSMOOTH. Domain failures give EMBZ_ERR_DOMAIN. res must not alias x. */
 int embz_expr_eval_series(arb_ptr res, const embz_expr_t e, arb_srcptr x,
                           const arb_t n, slong len, slong prec);
+/* Details: subexpressions not depending on i follow the scalar rules of embz_expr_eval_arb.
+ * Integer powers use exact truncated products (negative: inverse series first); other
+ * powers, log, sqrt, lgamma need a certainly positive constant term. With len == 1 the
+ * scalar rules apply throughout. x may have wide coefficients (interval enclosures). */
 
 /* Complex evaluation for acb_calc_integrate. With analytic != 0, the result is set
- * indeterminate wherever the function is not certainly holomorphic on the input box (branch
- * cuts of log/sqrt/pow/lgamma, any non-smooth operation). Returns EMBZ_OK or EMBZ_ERR_DOMAIN. */
+ * indeterminate (status EMBZ_OK) wherever the function is not certainly holomorphic on the
+ * input box (branch cuts of log/sqrt/pow/lgamma/atan). A non-smooth operation is replaced
+ * by the holomorphic piece that the real parts of the box select (abs(z) = z when Re z > 0,
+ * = -z when Re z < 0; min/max with separated real parts; floor = k when k < Re z < k+1),
+ * else indeterminate. With analytic == 0, real inputs (imaginary part exactly 0) follow
+ * the rules of embz_expr_eval_arb; EMBZ_ERR_DOMAIN is returned only for certain domain
+ * errors (log of a real number <= 0, division by exact 0, ...). */
 int embz_expr_eval_acb(acb_t res, const embz_expr_t e, const acb_t i, const acb_t n,
                        int analytic, slong prec);
 

@@ -14,6 +14,7 @@ typedef struct {
     char **param_names;
     fmpq *param_values;  /* current values (defaults overridden by --set) */
     embz_expr_t weight;  /* bound weight expression: parameters substituted, squared if amplitude */
+    embz_expr_t raw;     /* the text as parsed, parameters still symbolic, not squared */
 } embz_family_struct;
 typedef embz_family_struct embz_family_t[1];
 
@@ -51,5 +52,15 @@ int embz_family_weight_arb(arb_t w, const embz_family_t f, const fmpz_t i, const
                            slong prec, embz_err_t *err);
 double embz_family_weight_d(const embz_family_t f, double i, double n);
 int embz_family_depends_on_n(const embz_family_t f);
+
+/* Set parameters from NAME=VALUE settings (VALUE an exact decimal or p/q) and rebind
+ * f->weight. An unknown name or a bad value is EMBZ_ERR_INPUT with a message naming it. */
+int embz_family_apply_settings(embz_family_t f, const embz_setting_t *settings, long nsettings,
+                               embz_err_t *err);
+/* Rebuild f->weight from f->raw, f->param_values and f->amplitude. */
+void embz_family_bind(embz_family_t f);
+/* Split "NAME=VALUE" (as typed after --set) into a setting pointing into text. Returns
+ * EMBZ_OK or EMBZ_ERR_INPUT (no '=' or empty name). */
+int embz_setting_split(embz_setting_t *s, char *text, embz_err_t *err);
 
 #endif

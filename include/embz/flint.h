@@ -12,6 +12,7 @@
 #ifdef EMBZ_FLINT3
 #include <flint/flint.h>
 #include <flint/fmpz.h>
+#include <flint/fmpz_vec.h>
 #include <flint/fmpq.h>
 #include <flint/arith.h>
 #include <flint/arb.h>
@@ -23,6 +24,7 @@
 #else
 #include <flint/flint.h>
 #include <flint/fmpz.h>
+#include <flint/fmpz_vec.h>
 #include <flint/fmpq.h>
 #include <flint/arith.h>
 #include <arb.h>

@@ -45,6 +45,12 @@ void embz_error_result_clear(embz_error_result_t r);
 int embz_error_explicit(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
                         const embz_target_t q, slong prec, embz_err_t *err);
 
+/* The double fast path alone (no certification): estimate of E_n(q), the Ky Fan index where
+ * the estimate is largest, and the detected order of the weights (+1 non-increasing,
+ * -1 non-decreasing, 0 neither: stored and sorted). */
+int embz_error_explicit_estimate(double *E, slong *argk, int *order, const embz_family_t f,
+                                 const fmpz_t n, const embz_target_t q, embz_err_t *err);
+
 /* E_n(q) by the analytic engine (any n that fits an fmpz). */
 int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
                         const embz_target_t q, slong prec, embz_err_t *err);

@@ -17,7 +17,8 @@ char *embz_arb_certified_string(const arb_t x, slong max_digits);
 double embz_arb_mid_d(const arb_t x);
 
 /* Decimal text of an fmpz: all digits when it has at most max_digits digits, else
- * "d.ddddde+N" (10 significant digits, truncated, marked with "~" prefix). malloc'ed. */
+ * "d.ddddddddde+N" (10 significant digits, truncated; callers that show it to people mark it
+ * as shortened). malloc'ed. */
 char *embz_fmpz_string(const fmpz_t n, slong max_digits);
 
 /* JSON string escaping (quotes included) appended to a growing buffer. */

@@ -1,8 +1,61 @@
 /* Certified partial sums of a weight function at astronomically large sizes:
- * explicit head + Euler–Maclaurin tail with a rigorous remainder bound. */
+ * an explicit head plus an Euler–Maclaurin tail with a rigorous remainder bound.
+ *
+ * A tail object describes f(x) = w(x, n) for one fixed n on the range M <= x <= end, where the
+ * engine has certified that f is smooth (all needed derivatives finite) and monotone.
+ * For integer k in [M, end] the tail sum T(k) = sum_{M < i <= k} f(i) is
+ *     T(k) = I(M, k) + (f(k) - f(M))/2 + sum_{j=1}^{p} B_2j/(2j)! (f^(2j-1)(k) - f^(2j-1)(M)) + R,
+ *     |R| <= |B_2p|/(2p)! * integral_M^end |f^(2p)(x)| dx,
+ * with I(M, k) the integral of f, computed after x = e^u by arb's rigorous integrator.
+ * The same formula at real x defines a smooth extension T~(x) used by the maximisation. */
 #ifndef EMBZ_SUM_H
 #define EMBZ_SUM_H
 
 #include "embz/family.h"
+
+typedef struct {
+    const embz_expr_struct *w; /* borrowed weight expression in (i, n) */
+    arb_t n;                   /* the size as a ball (for weights that use n) */
+    slong M;                   /* the tail starts after index M */
+    fmpz_t end;                /* last index covered */
+    int dir;                   /* +1 non-increasing on [M, end], -1 non-decreasing */
+    slong p;                   /* Euler–Maclaurin order */
+    arb_ptr bern;              /* bern[j-1] = B_2j / (2j)!, j = 1..p */
+    arb_t base;                /* -f(M)/2 - sum_j bern_j f^(2j-1)(M) */
+    mag_t rem;                 /* bound on |R|, valid for every upper limit in [M, end] */
+    arb_t logM;                /* ln M */
+    double du;                 /* spacing of the integral cache nodes in u = ln x */
+    slong nnodes, nalloc;
+    arb_ptr icum;              /* icum[k] = integral of f from M to M e^(k du) */
+    slong prec;
+    long evals;                /* statistics: series evaluations */
+    long integrals;            /* statistics: integrator calls */
+} embz_tail_struct;
+typedef embz_tail_struct embz_tail_t[1];
+
+/* Certify f = w(., n) smooth and monotone on [M, end] and set up the Euler–Maclaurin data.
+ * Returns EMBZ_OK, EMBZ_ERR_NONSMOOTH / EMBZ_ERR_UNSUPPORTED (with a reason in err) when the
+ * tail cannot be certified, EMBZ_ERR_DOMAIN on undefined weights. end >= M + 1. */
+int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
+                   const fmpz_t end, slong prec, embz_err_t *err);
+void embz_tail_clear(embz_tail_t t);
+
+/* integral_M^x f(y) dy for a (narrow) ball x in [M, end]. */
+int embz_tail_integral(arb_t res, embz_tail_t t, const arb_t x, slong prec);
+/* T~(x) with the remainder bound added to the radius: for integer x it encloses
+ * sum_{M < i <= x} f(i). */
+int embz_tail_sum(arb_t res, embz_tail_t t, const arb_t x, slong prec);
+/* Taylor coefficients 1..len-1 of sigma -> T~(x + scale sigma) (res[0] is set to 0).
+ * x may be a wide ball: the coefficients then enclose the values over the whole ball,
+ * which is what Lagrange remainder bounds need. */
+int embz_tail_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
+                     slong len, slong prec);
+/* Taylor coefficients 0..len-1 of sigma -> f(x + scale sigma). */
+int embz_tail_weight_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
+                            slong len, slong prec);
+
+/* Sum of w(i, n) for i = a..b (explicit, arb). */
+int embz_sum_explicit(arb_t res, const embz_expr_t w, const arb_t n, slong a, slong b,
+                      slong prec, embz_err_t *err);
 
 #endif

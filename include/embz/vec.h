@@ -22,6 +22,11 @@ int embz_qvec_parse(embz_qvec_t v, const char *spec, int amplitude, embz_err_t *
 /* Sort non-increasing in place. */
 void embz_qvec_sort(embz_qvec_t v);
 
+/* Limits for targets: ebits:J with 1 <= J <= EMBZ_TARGET_MAX_EBITS, uniform:D with
+ * 2 <= D <= EMBZ_TARGET_MAX_D. */
+#define EMBZ_TARGET_MAX_EBITS 30
+#define EMBZ_TARGET_MAX_D (UWORD(1) << 30)
+
 /* A target state q for embezzlement. */
 typedef enum { EMBZ_TARGET_UNIFORM = 0, EMBZ_TARGET_VECTOR = 1 } embz_target_kind_t;
 typedef struct {
@@ -36,6 +41,8 @@ void embz_target_init(embz_target_t t);   /* one ebit */
 void embz_target_clear(embz_target_t t);
 /* "ebit", "ebits:J", "uniform:D", or a vector spec as for embz_qvec_parse. */
 int embz_target_parse(embz_target_t t, const char *spec, int amplitude, embz_err_t *err);
-/* A uniform target given as a vector (length d) is stored as UNIFORM. */
+/* A uniform target given as a vector (length d) is stored as UNIFORM. Zero entries of a
+ * vector target are dropped (they change no Ky Fan norm); a vector with a single nonzero
+ * entry is rejected (product state). */
 
 #endif

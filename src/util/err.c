@@ -38,9 +38,10 @@ void embz_err_format(char *buf, size_t len, const embz_err_t *err)
     EMBZ_APPEND("%s", err->text);
     if (err->col > 0 && err->source[0] != '\0') {
         EMBZ_APPEND("\n  %s\n  ", err->source);
-        for (long c = 1; c < err->col; c++) {
+        long srclen = (long) strlen(err->source);
+        for (long c = 1; c < err->col && c <= srclen + 1; c++) {
             /* keep tabs so the caret lines up under the same character */
-            EMBZ_APPEND("%c", err->source[c - 1] == '\t' ? '\t' : ' ');
+            EMBZ_APPEND("%c", (c <= srclen && err->source[c - 1] == '\t') ? '\t' : ' ');
         }
         EMBZ_APPEND("^");
     }

@@ -1,0 +1,90 @@
+/* Shared pieces of the command-line front end: the option parser, error reporting, output
+ * helpers. Every subcommand lives in its own cmd_NAME.c and is listed in main.c's table. */
+#ifndef EMBZ_CLI_H
+#define EMBZ_CLI_H
+
+#include <stdio.h>
+#include "embz.h"
+
+/* Exit codes. */
+#define CLI_EXIT_OK 0
+#define CLI_EXIT_RUNTIME 1
+#define CLI_EXIT_USAGE 2
+
+/* ---- options ---- */
+typedef enum {
+    CLI_FLAG = 0,   /* --json: counted */
+    CLI_VALUE,      /* -n N / --size=N: the last one given wins */
+    CLI_LIST        /* --set A=1 --set B=2: every value kept in order */
+} cli_opt_kind_t;
+
+typedef struct {
+    const char *name;       /* long name, without the leading "--" */
+    char short_name;        /* single-letter alias, or 0 */
+    int kind;               /* cli_opt_kind_t */
+    const char *metavar;    /* how the value is shown in the help ("N", "BITS"), NULL for flags */
+    const char *help;       /* one line */
+} cli_opt_t;
+
+#define CLI_MAX_OPTS 32
+
+typedef struct {
+    const char *name;       /* the subcommand ("error") */
+    const char *args;       /* positional synopsis ("FAMILY -n N") */
+    const char *summary;    /* one line */
+    const char *details;    /* longer text after the option list, or NULL */
+    const cli_opt_t *opts;  /* terminated by an entry with name == NULL */
+    long min_pos, max_pos;  /* number of positional arguments allowed */
+} cli_spec_t;
+
+typedef struct {
+    const cli_spec_t *spec;
+    int count[CLI_MAX_OPTS];
+    const char *value[CLI_MAX_OPTS];
+    const char **list[CLI_MAX_OPTS];
+    long nlist[CLI_MAX_OPTS];
+    const char **pos;
+    long npos;
+} cli_args_t;
+
+enum { CLI_PARSE_OK = 0, CLI_PARSE_HELP = 1, CLI_PARSE_ERROR = 2 };
+
+/* Parses argv[1..argc-1] (argv[0] is the subcommand name) against spec. On --help prints the
+ * help to stdout and returns CLI_PARSE_HELP; on a usage error prints the message and the usage
+ * to stderr and returns CLI_PARSE_ERROR. a must be freed with cli_args_clear in every case. */
+int cli_parse(cli_args_t *a, const cli_spec_t *spec, int argc, char **argv);
+void cli_args_clear(cli_args_t *a);
+int cli_flag(const cli_args_t *a, const char *name);
+const char *cli_value(const cli_args_t *a, const char *name);
+const char *const *cli_list(const cli_args_t *a, const char *name, long *len);
+
+void cli_print_help(FILE *out, const cli_spec_t *spec);
+/* "embz CMD: message" plus the usage on stderr; returns CLI_EXIT_USAGE. */
+int cli_usage_error(const cli_spec_t *spec, const char *fmt, ...)
+#if defined(__GNUC__)
+    __attribute__((format(printf, 2, 3)))
+#endif
+    ;
+
+/* ---- errors from the library ---- */
+/* Exit code for a library status: input and domain problems are the user's (2), the rest 1. */
+int cli_exit_code(int status);
+/* Prints "embz CMD: <formatted err>" to stderr and returns cli_exit_code(err->code or status). */
+int cli_report(const char *cmd, int status, const embz_err_t *err);
+
+/* ---- output helpers ---- */
+/* A double as a JSON number ("null" when not finite). */
+void cli_buf_json_double(embz_buf_t *b, double x);
+/* A CSV field, quoted when it holds a comma, a quote or a line break. */
+void cli_buf_csv_field(embz_buf_t *b, const char *text);
+/* Upper bound of the radius of x as a double. */
+double cli_arb_radius_d(const arb_t x);
+/* Parse a whole decimal integer in [lo, hi]; returns 0 on success. */
+int cli_parse_long(long *res, const char *s, long lo, long hi);
+
+/* ---- subcommands ---- */
+int cli_cmd_families(int argc, char **argv);
+int cli_cmd_convert(int argc, char **argv);
+int cli_cmd_error(int argc, char **argv);
+
+#endif

@@ -1,0 +1,193 @@
+/* Expression objects: memory, copying, binding, squaring, queries, structural equality. */
+#include <stdlib.h>
+#include <string.h>
+#include "expr_impl.h"
+
+void embz_expr_init(embz_expr_t e)
+{
+    e->nodes = NULL;
+    e->len = 0;
+    e->alloc = 0;
+    e->root = -1;
+    e->params = NULL;
+    e->nparams = 0;
+}
+
+void embz_expr_clear(embz_expr_t e)
+{
+    for (long k = 0; k < e->alloc; k++)
+        fmpq_clear(e->nodes[k].num);
+    free(e->nodes);
+    for (long k = 0; k < e->nparams; k++)
+        free(e->params[k]);
+    free(e->params);
+    embz_expr_init(e);
+}
+
+int _embz_expr_push(embz_expr_t e, int op, int a, int b, long col)
+{
+    if (e->len >= e->alloc) {
+        long na = e->alloc < 16 ? 16 : 2 * e->alloc;
+        embz_node_t *nn = realloc(e->nodes, (size_t) na * sizeof(embz_node_t));
+        if (nn == NULL) return -1;
+        for (long k = e->alloc; k < na; k++)
+            fmpq_init(nn[k].num);
+        e->nodes = nn;
+        e->alloc = na;
+    }
+    embz_node_t *nd = e->nodes + e->len;
+    nd->op = op;
+    nd->a = a;
+    nd->b = b;
+    nd->param = -1;
+    nd->col = col;
+    fmpq_zero(nd->num);
+    return (int) e->len++;
+}
+
+void embz_expr_set(embz_expr_t dst, const embz_expr_t src)
+{
+    if (dst == src) return;
+    embz_expr_clear(dst);
+    for (long k = 0; k < src->len; k++) {
+        const embz_node_t *s = src->nodes + k;
+        int j = _embz_expr_push(dst, s->op, s->a, s->b, s->col);
+        if (j < 0) abort();   /* out of memory, as FLINT does */
+        dst->nodes[j].param = s->param;
+        fmpq_set(dst->nodes[j].num, s->num);
+    }
+    dst->root = src->root;
+    if (src->nparams > 0) {
+        dst->params = malloc((size_t) src->nparams * sizeof(char *));
+        if (dst->params == NULL) abort();
+        for (long k = 0; k < src->nparams; k++) {
+            size_t l = strlen(src->params[k]) + 1;
+            dst->params[k] = malloc(l);
+            if (dst->params[k] == NULL) abort();
+            memcpy(dst->params[k], src->params[k], l);
+        }
+        dst->nparams = src->nparams;
+    }
+}
+
+void embz_expr_bind(embz_expr_t e, const fmpq *values)
+{
+    for (long k = 0; k < e->len; k++) {
+        embz_node_t *nd = e->nodes + k;
+        if (nd->op == EMBZ_OP_PARAM && nd->param >= 0 && nd->param < e->nparams) {
+            fmpq_set(nd->num, values + nd->param);
+            nd->op = EMBZ_OP_NUM;
+            nd->param = -1;
+        }
+    }
+}
+
+void embz_expr_square(embz_expr_t e)
+{
+    if (e->root < 0) return;
+    int two = _embz_expr_push(e, EMBZ_OP_NUM, -1, -1, 0);
+    if (two < 0) abort();
+    fmpq_set_si(e->nodes[two].num, 2, 1);
+    int p = _embz_expr_push(e, EMBZ_OP_POW, e->root, two, 0);
+    if (p < 0) abort();
+    e->root = p;
+}
+
+int _embz_op_arity(int op)
+{
+    switch (op) {
+    case EMBZ_OP_NUM: case EMBZ_OP_I: case EMBZ_OP_N: case EMBZ_OP_PARAM:
+    case EMBZ_OP_PI: case EMBZ_OP_E: case EMBZ_OP_GAMMA:
+        return 0;
+    case EMBZ_OP_ADD: case EMBZ_OP_SUB: case EMBZ_OP_MUL: case EMBZ_OP_DIV:
+    case EMBZ_OP_POW: case EMBZ_OP_MIN: case EMBZ_OP_MAX:
+        return 2;
+    default:
+        return 1;
+    }
+}
+
+const char *_embz_op_name(int op)
+{
+    switch (op) {
+    case EMBZ_OP_PI: return "pi";
+    case EMBZ_OP_E: return "e";
+    case EMBZ_OP_GAMMA: return "gamma";
+    case EMBZ_OP_LOG: return "log";
+    case EMBZ_OP_LOG2: return "log2";
+    case EMBZ_OP_LOG10: return "log10";
+    case EMBZ_OP_EXP: return "exp";
+    case EMBZ_OP_SQRT: return "sqrt";
+    case EMBZ_OP_ABS: return "abs";
+    case EMBZ_OP_LGAMMA: return "lgamma";
+    case EMBZ_OP_ATAN: return "atan";
+    case EMBZ_OP_SIN: return "sin";
+    case EMBZ_OP_COS: return "cos";
+    case EMBZ_OP_FLOOR: return "floor";
+    case EMBZ_OP_MIN: return "min";
+    case EMBZ_OP_MAX: return "max";
+    case EMBZ_OP_POW: return "pow";
+    default: return NULL;
+    }
+}
+
+/* Flags of the subtree below the root only (nodes left over elsewhere do not count). */
+int embz_expr_uses(const embz_expr_t e)
+{
+    int flags = 0;
+    if (e->root < 0) return 0;
+    char *reach = calloc((size_t) e->len, 1);
+    if (reach == NULL) abort();
+    reach[e->root] = 1;
+    for (long k = e->root; k >= 0; k--) {
+        if (!reach[k]) continue;
+        const embz_node_t *nd = e->nodes + k;
+        if (nd->a >= 0) reach[nd->a] = 1;
+        if (nd->b >= 0) reach[nd->b] = 1;
+        switch (nd->op) {
+        case EMBZ_OP_I: flags |= EMBZ_USES_I; break;
+        case EMBZ_OP_N: flags |= EMBZ_USES_N; break;
+        case EMBZ_OP_PARAM: flags |= EMBZ_USES_PARAM; break;
+        case EMBZ_OP_ABS: case EMBZ_OP_FLOOR: case EMBZ_OP_MIN: case EMBZ_OP_MAX:
+            flags |= EMBZ_USES_NONSMOOTH; break;
+        default: break;
+        }
+    }
+    free(reach);
+    return flags;
+}
+
+static int node_equal(const embz_expr_struct *x, int p, const embz_expr_struct *y, int q)
+{
+    /* explicit stack of pairs: no recursion depth issues on long chains */
+    /* each visited node of x pushes two pairs: 2 * len + 1 pairs suffice */
+    long top = 0;
+    int *st = malloc((size_t) (2 * x->len + 2) * 2 * sizeof(int));
+    int eq = 1;
+    if (st == NULL) abort();
+    st[0] = p; st[1] = q; top = 1;
+    while (top > 0 && eq) {
+        top--;
+        p = st[2 * top]; q = st[2 * top + 1];
+        if ((p < 0) != (q < 0)) { eq = 0; break; }
+        if (p < 0) continue;
+        const embz_node_t *a = x->nodes + p, *b = y->nodes + q;
+        if (a->op != b->op) { eq = 0; break; }
+        if (a->op == EMBZ_OP_NUM && !fmpq_equal(a->num, b->num)) { eq = 0; break; }
+        if (a->op == EMBZ_OP_PARAM) {
+            const char *na = (a->param >= 0 && a->param < x->nparams) ? x->params[a->param] : "";
+            const char *nb = (b->param >= 0 && b->param < y->nparams) ? y->params[b->param] : "";
+            if (strcmp(na, nb) != 0) { eq = 0; break; }
+        }
+        if (top + 2 > 2 * x->len + 2) { eq = 0; break; }   /* shared subtrees: not a tree */
+        st[2 * top] = a->a; st[2 * top + 1] = b->a; top++;
+        st[2 * top] = a->b; st[2 * top + 1] = b->b; top++;
+    }
+    free(st);
+    return eq;
+}
+
+int embz_expr_equal(const embz_expr_t x, const embz_expr_t y)
+{
+    return node_equal(x, x->root, y, y->root);
+}

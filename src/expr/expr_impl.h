@@ -1,0 +1,29 @@
+/* Internal helpers shared by the files of src/expr (not part of the public API). */
+#ifndef EMBZ_EXPR_IMPL_H
+#define EMBZ_EXPR_IMPL_H
+
+#include "embz/expr.h"
+
+/* Appends a node (num set to 0) and returns its index, or -1 when out of memory. */
+int _embz_expr_push(embz_expr_t e, int op, int a, int b, long col);
+
+/* Number of children of op (0, 1 or 2). */
+int _embz_op_arity(int op);
+
+/* Name of a function/constant op as written in text, or NULL. */
+const char *_embz_op_name(int op);
+
+/* Scanning of an unsigned decimal number "12", "0.75", ".5", "1e-3", "2.5E+4".
+ * Returns 0 and sets *end (index after the number) and val; 1 if s does not start with a
+ * number; 2 if the exponent is out of range (|exp| > EMBZ_NUMBER_MAX_EXP). */
+#define EMBZ_NUMBER_MAX_EXP 100000
+int _embz_number_scan(fmpq_t val, long *end, const char *s);
+
+/* One scalar operation on balls with the real-domain rules of embz_expr_eval_arb.
+ * Returns EMBZ_OK or EMBZ_ERR_DOMAIN (r is then indeterminate). */
+int _embz_expr_op_arb(arb_t r, int op, const arb_t a, const arb_t b, slong prec);
+
+/* Leaf value (NUM, constants) as a ball; EMBZ_ERR_INPUT for an unbound parameter. */
+int _embz_expr_leaf_arb(arb_t r, const embz_node_t *nd, const arb_t i, const arb_t n, slong prec);
+
+#endif

@@ -1,0 +1,724 @@
+/* The embezzlement error E_n(u_d) at astronomically large n.
+ *
+ * Sorted Schmidt probabilities are laid out as  A | tail | B : A holds the head values (i <= M)
+ * that are at least every tail value, B those that are at most every tail value, and the tail
+ * (i > M, certified monotone) sits between them in its own order. For the d-level maximally
+ * entangled target (Ky Fan form, k = d s + r, 0 <= r < d)
+ *     E = max_k  P_k - P_s - (r/d) p_(s+1),       P_k = sum of the k largest p,
+ * which is evaluated
+ *   - exactly for the first few positions (explicit sums),
+ *   - at k = n (P_k = 1 from there on and the expression only decreases afterwards),
+ *   - for k in B explicitly, and
+ *   - for k, s inside the tail by branch and bound over s: on each interval a Taylor model in s
+ *     (coefficients at the centre, Lagrange remainder from an enclosure over the interval) of
+ *     the smooth Euler–Maclaurin extension gives an upper bound; values at integers give lower
+ *     bounds. Every interval is either discarded (its bound is below a proven value), resolved
+ *     (bound within the tolerance of the best value), or split. */
+#include <string.h>
+#include <stdlib.h>
+#include "embz/sum.h"
+#include "embz/measure.h"
+
+#define TAYLOR_LEN 12          /* smallest Taylor model order */
+#define TAYLOR_MAX 80          /* largest Taylor model order */
+#define BB_BUDGET 40000        /* interval evaluations before giving up refining */
+#define BB_SMALL 6             /* intervals with at most this many integers are enumerated */
+
+typedef struct {
+    embz_tail_struct *t;
+    const embz_family_struct *f;
+    fmpz_t n;
+    ulong d;
+    slong M;             /* head size */
+    slong a, b;          /* sizes of A and B */
+    fmpz_t L;            /* tail length n - M */
+    arb_ptr A, B;        /* sorted non-increasing */
+    arb_t SA, SB, Ttot, W;
+    slong E;             /* explicit positions 1..E */
+    arb_ptr vals, S;     /* vals[K] value at position K (1-based), S[K] prefix sums, S[0] = 0 */
+    arb_t best;          /* best proven value (lower end used) */
+    fmpz_t argk;
+    arf_t upper;         /* running maximum of the upper bounds (points and intervals) */
+    long evals;
+    slong prec;
+} actx;
+
+/* ---------- tail positions (1-based, real balls) ---------- */
+
+/* x coordinate of tail position y: dec: M + y, inc: n + 1 - y */
+static void tail_x(arb_t x, const actx *c, const arb_t y, slong prec)
+{
+    if (c->t->dir > 0) {
+        arb_add_si(x, y, c->M, prec);
+    } else {
+        arb_set_fmpz(x, c->n);
+        arb_add_ui(x, x, 1, prec);
+        arb_sub(x, x, y, prec);
+    }
+}
+
+/* C(y) = sum of the first y sorted tail values (smooth extension for real y) */
+static int tail_C(arb_t res, actx *c, const arb_t y, slong prec)
+{
+    arb_t x;
+    arb_init(x);
+    int st;
+    if (c->t->dir > 0) {
+        arb_add_si(x, y, c->M, prec);
+        st = embz_tail_sum(res, c->t, x, prec);
+    } else {
+        arb_set_fmpz(x, c->n);
+        arb_sub(x, x, y, prec);
+        st = embz_tail_sum(res, c->t, x, prec);
+        arb_sub(res, c->Ttot, res, prec);
+    }
+    arb_clear(x);
+    return st;
+}
+
+/* Taylor coefficients 1..len-1 of sigma -> C(y + scale sigma) */
+static int tail_C_series(arb_ptr res, actx *c, const arb_t y, const arb_t scale, slong len,
+                         slong prec)
+{
+    arb_t x, sc;
+    arb_init(x); arb_init(sc);
+    int st;
+    if (c->t->dir > 0) {
+        arb_add_si(x, y, c->M, prec);
+        st = embz_tail_series(res, c->t, x, scale, len, prec);
+    } else {
+        arb_set_fmpz(x, c->n);
+        arb_sub(x, x, y, prec);
+        arb_neg(sc, scale);
+        st = embz_tail_series(res, c->t, x, sc, len, prec);
+        _arb_vec_neg(res, res, len);
+    }
+    arb_clear(x); arb_clear(sc);
+    return st;
+}
+
+/* value at tail position y + sigma, as a series in sigma */
+static int tail_v_series(arb_ptr res, actx *c, const arb_t y, slong len, slong prec)
+{
+    arb_t x, sc;
+    arb_init(x); arb_init(sc);
+    tail_x(x, c, y, prec);
+    arb_set_si(sc, c->t->dir > 0 ? 1 : -1);
+    int st = embz_tail_weight_series(res, c->t, x, sc, len, prec);
+    arb_clear(x); arb_clear(sc);
+    return st;
+}
+
+/* ---------- sorted positions (integers) ---------- */
+
+/* numerator of P_K (sum of the K largest weights), K in [0, n] */
+static int pos_sum(arb_t res, actx *c, const fmpz_t K, slong prec)
+{
+    if (fmpz_cmp_si(K, c->E) <= 0) {
+        arb_set(res, c->S + fmpz_get_si(K));
+        return EMBZ_OK;
+    }
+    fmpz_t j;
+    fmpz_init(j);
+    fmpz_sub_si(j, K, c->a);
+    int st = EMBZ_OK;
+    if (fmpz_cmp(j, c->L) <= 0) {
+        arb_t y;
+        arb_init(y);
+        arb_set_fmpz(y, j);
+        st = tail_C(res, c, y, prec);
+        arb_add(res, res, c->SA, prec);
+        arb_clear(y);
+    } else {
+        fmpz_sub(j, j, c->L);
+        slong m = fmpz_get_si(j);
+        arb_add(res, c->SA, c->Ttot, prec);
+        for (slong i = 0; i < m && i < c->b; i++) arb_add(res, res, c->B + i, prec);
+    }
+    fmpz_clear(j);
+    return st;
+}
+
+/* weight at sorted position K in [1, n] */
+static int pos_val(arb_t res, actx *c, const fmpz_t K, slong prec)
+{
+    if (fmpz_cmp_si(K, c->E) <= 0) {
+        arb_set(res, c->vals + fmpz_get_si(K));
+        return EMBZ_OK;
+    }
+    fmpz_t j;
+    fmpz_init(j);
+    fmpz_sub_si(j, K, c->a);
+    int st = EMBZ_OK;
+    if (fmpz_cmp(j, c->L) <= 0) {
+        arb_t y;
+        arb_ptr v = _arb_vec_init(1);
+        arb_init(y);
+        arb_set_fmpz(y, j);
+        st = tail_v_series(v, c, y, 1, prec);
+        arb_set(res, v);
+        arb_clear(y);
+        _arb_vec_clear(v, 1);
+    } else {
+        fmpz_sub(j, j, c->L);
+        arb_set(res, c->B + fmpz_get_si(j) - 1);
+    }
+    fmpz_clear(j);
+    return st;
+}
+
+/* h(k) = (P_k - P_s - (r/d) p_(s+1)) / W with P_k = W for k >= n */
+static int h_at(arb_t res, actx *c, const fmpz_t k, slong prec)
+{
+    fmpz_t s, s1, kk;
+    ulong r;
+    arb_t Pk, Ps, v;
+    fmpz_init(s); fmpz_init(s1); fmpz_init(kk);
+    arb_init(Pk); arb_init(Ps); arb_init(v);
+    r = fmpz_fdiv_ui(k, c->d);
+    fmpz_fdiv_q_ui(s, k, c->d);
+    fmpz_add_ui(s1, s, 1);
+    int st;
+    if (fmpz_cmp(k, c->n) >= 0) {
+        arb_set(Pk, c->W);
+        st = EMBZ_OK;
+    } else {
+        st = pos_sum(Pk, c, k, prec);
+    }
+    if (st == EMBZ_OK) st = pos_sum(Ps, c, s, prec);
+    arb_sub(res, Pk, Ps, prec);
+    if (st == EMBZ_OK && r != 0 && fmpz_cmp(s1, c->n) <= 0) {
+        st = pos_val(v, c, s1, prec);
+        arb_mul_ui(v, v, r, prec);
+        arb_div_ui(v, v, c->d, prec);
+        arb_sub(res, res, v, prec);
+    }
+    arb_div(res, res, c->W, prec);
+    fmpz_clear(s); fmpz_clear(s1); fmpz_clear(kk);
+    arb_clear(Pk); arb_clear(Ps); arb_clear(v);
+    c->evals++;
+    return st;
+}
+
+/* the final upper bound is the largest upper end over every evaluated point and every
+ * resolved or abandoned interval */
+static void raise_upper(actx *c, const arb_t x)
+{
+    arf_t u;
+    arf_init(u);
+    arb_get_ubound_arf(u, x, c->prec);
+    if (!arb_is_finite(x)) arf_pos_inf(u);
+    if (arf_cmp(u, c->upper) > 0) arf_set(c->upper, u);
+    arf_clear(u);
+}
+
+static void offer(actx *c, const arb_t h, const fmpz_t k)
+{
+    arf_t lo, blo;
+    arf_init(lo); arf_init(blo);
+    arb_get_lbound_arf(lo, h, c->prec);
+    arb_get_lbound_arf(blo, c->best, c->prec);
+    if (arb_is_finite(h) && (!arb_is_finite(c->best) || arf_cmp(lo, blo) > 0)) {
+        arb_set(c->best, h);
+        fmpz_set(c->argk, k);
+    }
+    raise_upper(c, h);
+    arf_clear(lo); arf_clear(blo);
+}
+
+/* ---------- branch and bound over s ---------- */
+
+/* Upper bound of h_r over the integers s in [lo, hi] from a Taylor model of order J at the
+ * centre (Lagrange remainder: the J-th coefficient enclosed over the whole interval).
+ * *mono is set to +1 (-1) when the model proves h_r increasing (decreasing) on the interval;
+ * the maximum over its integers is then at hi (lo) and U is not needed. */
+static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, const fmpz_t hi,
+                       slong prec)
+{
+    /* order: enough that (w/s)^J falls below 1/s, the relative size of the differences that
+     * decide the maximum on nearly flat stretches; at least TAYLOR_LEN */
+    slong J = TAYLOR_LEN;
+    {
+        double ls = fmpz_bits(hi), lw;
+        fmpz_t wd;
+        fmpz_init(wd);
+        fmpz_sub(wd, hi, lo);
+        lw = fmpz_bits(wd) + 1;
+        fmpz_clear(wd);
+        if (ls - lw >= 1) {
+            slong Jn = (slong) ((ls + 4) / (ls - lw)) + 1;
+            J = FLINT_MIN(FLINT_MAX(J, Jn), TAYLOR_MAX);
+        } else J = TAYLOR_MAX;
+    }
+    arb_t sc, w, y1, y2, y3, dd, one, tmp, acc, dacc, wp;
+    arb_ptr A1 = _arb_vec_init(J + 1), A2 = _arb_vec_init(J + 1), A3 = _arb_vec_init(J + 1);
+    arb_ptr co = _arb_vec_init(J + 1);
+    arb_init(sc); arb_init(w); arb_init(y1); arb_init(y2); arb_init(y3);
+    arb_init(dd); arb_init(one); arb_init(tmp); arb_init(acc); arb_init(dacc); arb_init(wp);
+    arb_one(one);
+    arb_set_ui(dd, c->d);
+    int st = EMBZ_OK;
+    *mono = 0;
+
+    /* centre and half width */
+    arb_set_fmpz(sc, lo);
+    arb_add_fmpz(sc, sc, hi, prec);
+    arb_mul_2exp_si(sc, sc, -1);
+    arb_set_fmpz(w, hi);
+    arb_sub_fmpz(w, w, lo, prec);
+    arb_mul_2exp_si(w, w, -1);
+
+    for (int pass = 0; pass < 2 && st == EMBZ_OK; pass++) {
+        /* pass 0: coefficients at the centre; pass 1: enclosures over the interval */
+        arb_t s;
+        arb_init(s);
+        arb_set(s, sc);
+        if (pass == 1) arb_add_error(s, w);
+        slong len = (pass == 0) ? J : J + 1;
+        /* y1 = d s + r - a (position of k), y2 = s - a (of s), y3 = s + 1 - a (of s + 1) */
+        arb_mul_ui(y1, s, c->d, prec);
+        arb_add_ui(y1, y1, r, prec);
+        arb_sub_si(y1, y1, c->a, prec);
+        arb_sub_si(y2, s, c->a, prec);
+        arb_add_ui(y3, y2, 1, prec);
+        /* the remainder coefficient is only needed to a few bits */
+        slong sp = (pass == 0) ? prec : FLINT_MIN(prec, 64 + (slong) fmpz_bits(hi));
+        st = tail_C_series(A1, c, y1, dd, len, sp);
+        if (st == EMBZ_OK) st = tail_C_series(A2, c, y2, one, len, sp);
+        if (st == EMBZ_OK && r != 0) st = tail_v_series(A3, c, y3, len, sp);
+        if (st == EMBZ_OK && pass == 0) {
+            st = tail_C(A1, c, y1, prec);
+            if (st == EMBZ_OK) st = tail_C(A2, c, y2, prec);
+        }
+        arb_clear(s);
+        if (st != EMBZ_OK) break;
+        for (slong j = (pass == 0 ? 0 : J); j < len; j++) {
+            arb_sub(co + j, A1 + j, A2 + j, prec);
+            if (r != 0) {
+                arb_mul_ui(tmp, A3 + j, r, prec);
+                arb_div_ui(tmp, tmp, c->d, prec);
+                arb_sub(co + j, co + j, tmp, prec);
+            }
+            arb_div(co + j, co + j, c->W, prec);
+        }
+    }
+    if (st == EMBZ_OK) {
+        /* U = c0 + |c1| w + sum_{j >= 2} |c_j| w^j;
+         * h' in c1 +- sum_{j >= 2} j |c_j| w^(j-1) */
+        arb_set(acc, co);
+        arb_zero(dacc);
+        arb_one(wp);                       /* w^(j-1) */
+        for (slong j = 1; j <= J; j++) {
+            arb_abs(tmp, co + j);
+            if (j >= 2) {
+                arb_mul_ui(y1, tmp, j, prec);
+                arb_mul(y1, y1, wp, prec);
+                arb_add(dacc, dacc, y1, prec);
+            }
+            arb_mul(wp, wp, w, prec);      /* w^j */
+            arb_mul(tmp, tmp, wp, prec);
+            arb_add(acc, acc, tmp, prec);
+        }
+        arb_get_ubound_arf(U, acc, prec);
+        if (!arb_is_finite(acc)) st = EMBZ_ERR_PREC;
+        /* monotone? */
+        arb_sub(tmp, co + 1, dacc, prec);
+        if (arb_is_positive(tmp)) *mono = 1;
+        arb_add(tmp, co + 1, dacc, prec);
+        if (arb_is_negative(tmp)) *mono = -1;
+    }
+    _arb_vec_clear(A1, J + 1); _arb_vec_clear(A2, J + 1); _arb_vec_clear(A3, J + 1);
+    _arb_vec_clear(co, J + 1);
+    arb_clear(sc); arb_clear(w); arb_clear(y1); arb_clear(y2); arb_clear(y3);
+    arb_clear(dd); arb_clear(one); arb_clear(tmp); arb_clear(acc); arb_clear(dacc); arb_clear(wp);
+    c->evals++;
+    return st;
+}
+
+static int h_at_s(arb_t h, actx *c, ulong r, const fmpz_t s, slong prec)
+{
+    fmpz_t k;
+    fmpz_init(k);
+    fmpz_mul_ui(k, s, c->d);
+    fmpz_add_ui(k, k, r);
+    int st = h_at(h, c, k, prec);
+    if (st == EMBZ_OK) offer(c, h, k);
+    fmpz_clear(k);
+    return st;
+}
+
+/* A pending interval of s for residue r with its upper bound U. */
+typedef struct { ulong r; fmpz_t lo, hi; arf_t U; } bb_item;
+
+typedef struct { bb_item *v; slong len, cap; } bb_heap;   /* max-heap on U */
+
+static void heap_swap(bb_item *a, bb_item *b) { bb_item t = *a; *a = *b; *b = t; }
+
+static void heap_push(bb_heap *h, bb_item *it)
+{
+    if (h->len == h->cap) {
+        h->cap = FLINT_MAX(64, 2 * h->cap);
+        h->v = flint_realloc(h->v, sizeof(bb_item) * h->cap);
+    }
+    slong i = h->len++;
+    h->v[i] = *it;
+    while (i > 0 && arf_cmp(h->v[(i - 1) / 2].U, h->v[i].U) < 0) {
+        heap_swap(h->v + (i - 1) / 2, h->v + i);
+        i = (i - 1) / 2;
+    }
+}
+
+static void heap_pop(bb_heap *h, bb_item *out)
+{
+    *out = h->v[0];
+    h->v[0] = h->v[--h->len];
+    slong i = 0;
+    for (;;) {
+        slong l = 2 * i + 1, r = l + 1, m = i;
+        if (l < h->len && arf_cmp(h->v[l].U, h->v[m].U) > 0) m = l;
+        if (r < h->len && arf_cmp(h->v[r].U, h->v[m].U) > 0) m = r;
+        if (m == i) break;
+        heap_swap(h->v + i, h->v + m);
+        i = m;
+    }
+}
+
+static void item_clear(bb_item *it) { fmpz_clear(it->lo); fmpz_clear(it->hi); arf_clear(it->U); }
+
+/* Bound [lo, hi] for residue r: enumerate small intervals, settle monotone ones at their
+ * maximising end, push the others (unless already below a proven value). */
+static int bb_consider(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmpz_t hi,
+                       slong prec)
+{
+    int st = EMBZ_OK;
+    arb_t h;
+    fmpz_t m;
+    arb_init(h);
+    fmpz_init(m);
+    fmpz_sub(m, hi, lo);
+    if (fmpz_cmp_ui(m, BB_SMALL) < 0) {
+        for (fmpz_set(m, lo); st == EMBZ_OK && fmpz_cmp(m, hi) <= 0; fmpz_add_ui(m, m, 1))
+            st = h_at_s(h, c, r, m, prec);
+    } else {
+        bb_item it;
+        int mono;
+        fmpz_init_set(it.lo, lo);
+        fmpz_init_set(it.hi, hi);
+        arf_init(it.U);
+        it.r = r;
+        st = model_bound(it.U, &mono, c, r, lo, hi, prec);
+        if (st != EMBZ_OK) {
+            /* no model (e.g. precision lost): split blindly */
+            st = EMBZ_OK;
+            mono = 0;
+            arf_pos_inf(it.U);
+        }
+        arf_t blo;
+        arf_init(blo);
+        arb_get_lbound_arf(blo, c->best, prec);
+        if (mono != 0) {
+            st = h_at_s(h, c, r, mono > 0 ? hi : lo, prec);
+            item_clear(&it);
+        } else if (arb_is_finite(c->best) && arf_cmp(it.U, blo) < 0) {
+            item_clear(&it);
+        } else {
+            heap_push(hp, &it);
+        }
+        arf_clear(blo);
+    }
+    arb_clear(h);
+    fmpz_clear(m);
+    return st;
+}
+
+/* Maximise h over the smooth region: for each residue r, s in [slo[r], shi[r]]. */
+static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf_t tol,
+                            slong prec)
+{
+    bb_heap hp = { NULL, 0, 0 };
+    int st = EMBZ_OK;
+    fmpz_t a, b, m;
+    arb_t h;
+    arf_t bhi, gap;
+    fmpz_init(a); fmpz_init(b); fmpz_init(m);
+    arb_init(h);
+    arf_init(bhi); arf_init(gap);
+
+    /* seeds: the ends, then pieces with ratio 2 */
+    for (ulong r = 0; st == EMBZ_OK && r < c->d; r++) {
+        if (fmpz_cmp(slo + r, shi + r) > 0) continue;
+        st = h_at_s(h, c, r, shi + r, prec);
+        if (st == EMBZ_OK) st = h_at_s(h, c, r, slo + r, prec);
+        fmpz_set(a, slo + r);
+        while (st == EMBZ_OK && fmpz_cmp(a, shi + r) <= 0) {
+            fmpz_mul_2exp(b, a, 1);
+            if (fmpz_cmp(b, shi + r) > 0) fmpz_set(b, shi + r);
+            st = bb_consider(&hp, c, r, a, b, prec);
+            fmpz_add_ui(a, b, 1);
+        }
+    }
+    /* best first: always refine the interval with the largest bound */
+    while (st == EMBZ_OK && hp.len > 0) {
+        arb_get_ubound_arf(bhi, c->best, prec);
+        arf_sub(gap, hp.v[0].U, bhi, prec, ARF_RND_UP);
+        if (arf_cmp(gap, tol) <= 0 || c->evals > BB_BUDGET) break;
+        bb_item it;
+        heap_pop(&hp, &it);
+        fmpz_add(m, it.lo, it.hi);
+        fmpz_fdiv_q_2exp(m, m, 1);
+        st = h_at_s(h, c, it.r, m, prec);
+        if (st == EMBZ_OK) st = bb_consider(&hp, c, it.r, it.lo, m, prec);
+        fmpz_add_ui(m, m, 1);
+        if (st == EMBZ_OK) st = bb_consider(&hp, c, it.r, m, it.hi, prec);
+        item_clear(&it);
+    }
+    /* whatever is left bounds the maximum from above */
+    if (hp.len > 0 && arf_cmp(hp.v[0].U, c->upper) > 0) arf_set(c->upper, hp.v[0].U);
+    for (slong i = 0; i < hp.len; i++) item_clear(hp.v + i);
+    flint_free(hp.v);
+    fmpz_clear(a); fmpz_clear(b); fmpz_clear(m);
+    arb_clear(h);
+    arf_clear(bhi); arf_clear(gap);
+    return st;
+}
+
+/* ---------- set-up ---------- */
+
+static void free_layout(actx *c)
+{
+    if (c->A) _arb_vec_clear(c->A, c->M);
+    if (c->B) _arb_vec_clear(c->B, c->M);
+    if (c->vals) _arb_vec_clear(c->vals, c->E + 1);
+    if (c->S) _arb_vec_clear(c->S, c->E + 1);
+    c->A = c->B = c->vals = c->S = NULL;
+}
+
+static int cmp_desc(const void *x, const void *y)
+{
+    const arb_struct *a = x, *b = y;
+    return -arf_cmp(arb_midref(a), arb_midref(b));
+}
+
+static int setup(actx *c, slong M, slong prec, embz_err_t *err)
+{
+    const embz_expr_struct *w = c->f->weight;
+    int st;
+    arb_t nn, x, v, tmax, tmin;
+    arb_ptr head = _arb_vec_init(M);
+    arb_init(nn); arb_init(x); arb_init(v); arb_init(tmax); arb_init(tmin);
+    arb_set_round_fmpz(nn, c->n, prec);
+    c->M = M;
+    fmpz_sub_ui(c->L, c->n, (ulong) M);
+
+    st = embz_tail_init(c->t, w, c->n, M, c->n, prec, err);
+    if (st != EMBZ_OK) goto out;
+
+    for (slong i = 1; i <= M; i++) {
+        arb_set_si(x, i);
+        if (embz_expr_eval_arb(head + i - 1, w, x, nn, prec) != EMBZ_OK
+            || !arb_is_nonnegative(head + i - 1)) {
+            st = embz_err_set(err, EMBZ_ERR_DOMAIN, "weight undefined or negative at i = %ld", i);
+            goto out;
+        }
+    }
+    /* tail extremes: dec: [f(n), f(M+1)], inc: [f(M+1), f(n)] */
+    arb_set_si(x, M + 1);
+    embz_expr_eval_arb(v, w, x, nn, prec);
+    arb_set_fmpz(x, c->n);
+    embz_expr_eval_arb(x, w, x, nn, prec);
+    if (c->t->dir > 0) { arb_set(tmax, v); arb_set(tmin, x); }
+    else { arb_set(tmax, x); arb_set(tmin, v); }
+    if (!arb_is_nonnegative(tmin)) {
+        st = embz_err_set(err, EMBZ_ERR_DOMAIN, "weight is negative or undefined in the tail");
+        goto out;
+    }
+    c->a = c->b = 0;
+    c->A = _arb_vec_init(M);
+    c->B = _arb_vec_init(M);
+    for (slong i = 0; i < M; i++) {
+        if (arb_ge(head + i, tmax)) arb_set(c->A + c->a++, head + i);
+        else if (arb_le(head + i, tmin)) arb_set(c->B + c->b++, head + i);
+        else {
+            st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                              "the weight at i = %ld falls inside the range of the tail", i + 1);
+            goto out;
+        }
+    }
+    qsort(c->A, c->a, sizeof(arb_struct), cmp_desc);
+    qsort(c->B, c->b, sizeof(arb_struct), cmp_desc);
+    for (slong i = 0; i + 1 < c->a; i++)
+        if (!arb_ge(c->A + i, c->A + i + 1)) {
+            st = embz_err_set(err, EMBZ_ERR_PREC, "cannot order the head weights at this precision");
+            goto out;
+        }
+    for (slong i = 0; i + 1 < c->b; i++)
+        if (!arb_ge(c->B + i, c->B + i + 1)) {
+            st = embz_err_set(err, EMBZ_ERR_PREC, "cannot order the head weights at this precision");
+            goto out;
+        }
+    arb_zero(c->SA);
+    for (slong i = 0; i < c->a; i++) arb_add(c->SA, c->SA, c->A + i, prec);
+    arb_zero(c->SB);
+    for (slong i = 0; i < c->b; i++) arb_add(c->SB, c->SB, c->B + i, prec);
+    /* total tail */
+    arb_set_fmpz(x, c->n);
+    st = embz_tail_sum(c->Ttot, c->t, x, prec);
+    if (st != EMBZ_OK) { embz_err_set(err, st, "cannot bound the tail sum"); goto out; }
+    if (getenv("EMBZ_DEBUG")) { arb_t I_; arb_init(I_); embz_tail_integral(I_, c->t, x, prec); flint_printf("Ttot at setup "); arb_printn(c->Ttot, 30, 0); flint_printf(" I "); arb_printn(I_, 30, 0); flint_printf(" x "); arb_printn(x, 40, 0); flint_printf(" prec %wd\n", prec); arb_clear(I_); }
+    arb_add(c->W, c->SA, c->Ttot, prec);
+    arb_add(c->W, c->W, c->SB, prec);
+    if (!arb_is_positive(c->W)) { st = embz_err_set(err, EMBZ_ERR_DOMAIN, "total weight is 0"); goto out; }
+
+    /* explicit positions 1..E */
+    c->E = (slong) c->d * (c->a + 2) + (slong) c->d;
+    c->vals = _arb_vec_init(c->E + 1);
+    c->S = _arb_vec_init(c->E + 1);
+    for (slong K = 1; K <= c->E; K++) {
+        if (K <= c->a) arb_set(c->vals + K, c->A + K - 1);
+        else {
+            arb_set_si(v, K - c->a);
+            tail_x(x, c, v, prec);
+            if (embz_expr_eval_arb(c->vals + K, w, x, nn, prec) != EMBZ_OK) {
+                st = embz_err_set(err, EMBZ_ERR_DOMAIN, "weight undefined in the tail");
+                goto out;
+            }
+        }
+        arb_add(c->S + K, c->S + K - 1, c->vals + K, prec);
+    }
+out:
+    _arb_vec_clear(head, M);
+    arb_clear(nn); arb_clear(x); arb_clear(v); arb_clear(tmax); arb_clear(tmin);
+    return st;
+}
+
+int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
+                        const embz_target_t q, slong prec, embz_err_t *err)
+{
+    if (q->kind != EMBZ_TARGET_UNIFORM)
+        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                            "the analytic engine handles ebit, ebits:J and uniform:D targets");
+    slong wp = prec + 32;
+    actx c;
+    memset(&c, 0, sizeof(c));
+    embz_tail_t tail;
+    c.t = tail;
+    c.f = f;
+    c.d = q->d;
+    c.prec = wp;
+    fmpz_init_set(c.n, n);
+    fmpz_init(c.L);
+    fmpz_init(c.argk);
+    arb_init(c.SA); arb_init(c.SB); arb_init(c.Ttot); arb_init(c.W);
+    arb_init(c.best); arf_init(c.upper);
+    arb_indeterminate(c.best);
+    int st = EMBZ_ERR_UNSUPPORTED;
+    int have_tail = 0;
+
+    slong M = 64;
+    for (int attempt = 0; attempt < 4; attempt++, M *= 4) {
+        /* the analytic layout needs a long tail */
+        if (fmpz_cmp_si(n, 8 * ((slong) c.d * (M + 2) + (slong) c.d)) <= 0) {
+            st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                              "n is too small for the analytic engine (use explicit mode)");
+            break;
+        }
+        embz_err_clear(err);
+        if (have_tail) {
+            embz_tail_clear(tail);
+            have_tail = 0;
+            free_layout(&c);
+        }
+        st = setup(&c, M, wp, err);
+        have_tail = 1;
+        if (st == EMBZ_OK || st == EMBZ_ERR_DOMAIN) break;
+    }
+    if (st != EMBZ_OK) goto cleanup;
+
+    {
+        arb_t h;
+        fmpz_t k, s, kmax, slo, shi, tmp;
+        arf_t tol;
+        arb_init(h);
+        fmpz_init(k); fmpz_init(s); fmpz_init(kmax); fmpz_init(slo); fmpz_init(shi);
+        fmpz_init(tmp);
+        arf_init(tol);
+        arf_zero(c.upper);
+        /* explicit positions */
+        for (slong kk = 1; kk <= c.E; kk++) {
+            fmpz_set_si(k, kk);
+            st = h_at(h, &c, k, wp);
+            if (st != EMBZ_OK) break;
+            offer(&c, h, k);
+        }
+        /* k = n */
+        if (st == EMBZ_OK) {
+            st = h_at(h, &c, n, wp);
+            if (st == EMBZ_OK) offer(&c, h, n);
+        }
+        /* k inside B: a + L < k < n */
+        if (st == EMBZ_OK) {
+            fmpz_add_si(k, c.L, c.a + 1);
+            for (; st == EMBZ_OK && fmpz_cmp(k, n) < 0; fmpz_add_ui(k, k, 1)) {
+                st = h_at(h, &c, k, wp);
+                if (st == EMBZ_OK) offer(&c, h, k);
+            }
+        }
+        /* the smooth region, residue by residue */
+        fmpz_add_si(kmax, c.L, c.a);
+        fmpz_sub_ui(tmp, n, 1);
+        if (fmpz_cmp(tmp, kmax) < 0) fmpz_set(kmax, tmp);
+        arf_one(tol);
+        arf_mul_2exp_si(tol, tol, -(prec - 16));
+        {
+            fmpz *vlo = _fmpz_vec_init(c.d), *vhi = _fmpz_vec_init(c.d);
+            for (ulong r = 0; r < c.d; r++) {
+                /* s_lo = floor((E - r)/d) + 1, s_hi = floor((kmax - r)/d) */
+                fmpz_set_si(vlo + r, c.E - (slong) r);
+                fmpz_fdiv_q_ui(vlo + r, vlo + r, c.d);
+                fmpz_add_ui(vlo + r, vlo + r, 1);
+                fmpz_sub_ui(vhi + r, kmax, r);
+                fmpz_fdiv_q_ui(vhi + r, vhi + r, c.d);
+            }
+            if (st == EMBZ_OK) st = branch_and_bound(&c, vlo, vhi, tol, wp);
+            _fmpz_vec_clear(vlo, c.d);
+            _fmpz_vec_clear(vhi, c.d);
+        }
+        if (st == EMBZ_OK) {
+            /* E in [best lower end, max(upper bounds)] */
+            arf_t lo, hi;
+            arf_init(lo); arf_init(hi);
+            arb_get_lbound_arf(lo, c.best, wp);
+            arf_set(hi, c.upper);
+            if (getenv("EMBZ_DEBUG")) { flint_printf("best "); arb_printn(c.best, 30, 0); flint_printf("\nupper "); arf_printd(c.upper, 30); flint_printf("\nrem "); mag_printd(c.t->rem, 5); flint_printf(" Ttot "); arb_printn(c.Ttot, 30, 0); flint_printf("\n"); }
+            if (arf_cmp(hi, lo) < 0) arf_set(hi, lo);
+            arb_set_interval_arf(res->error, lo, hi, wp);
+            arb_set_round(res->error, res->error, prec);
+            fmpz_set(res->argk, c.argk);
+            res->method = EMBZ_METHOD_ANALYTIC;
+            res->order = c.t->dir;
+            res->have_bounds = 0;
+            res->estimate = arf_get_d(arb_midref(res->error), ARF_RND_NEAR);
+            snprintf(res->detail, sizeof(res->detail),
+                     "analytic: %ld explicit terms + Euler-Maclaurin tail (order %ld, weights %s "
+                     "beyond i = %ld), branch and bound, %ld evaluations, arb %ld bits",
+                     (long) c.M, (long) c.t->p, c.t->dir > 0 ? "non-increasing" : "non-decreasing",
+                     (long) c.M, c.evals, (long) prec);
+            arf_clear(lo); arf_clear(hi);
+        } else {
+            embz_err_set(err, st, "the analytic engine could not certify the maximum");
+        }
+        arb_clear(h);
+        fmpz_clear(k); fmpz_clear(s); fmpz_clear(kmax); fmpz_clear(slo); fmpz_clear(shi);
+        fmpz_clear(tmp);
+        arf_clear(tol);
+    }
+cleanup:
+    if (have_tail) {
+        embz_tail_clear(tail);
+        free_layout(&c);
+    }
+    fmpz_clear(c.n); fmpz_clear(c.L); fmpz_clear(c.argk);
+    arb_clear(c.SA); arb_clear(c.SB); arb_clear(c.Ttot); arb_clear(c.W);
+    arb_clear(c.best); arf_clear(c.upper);
+    return st;
+}

@@ -1,0 +1,430 @@
+/* Euler–Maclaurin tail sums with a rigorous remainder bound (see include/embz/sum.h). */
+#include <math.h>
+#include <string.h>
+#include <stdlib.h>
+#include "embz/sum.h"
+
+#define EMBZ_TAIL_MAX_ORDER 60   /* largest Euler–Maclaurin order tried */
+#define EMBZ_TAIL_MAX_SPLIT 12   /* bisection depth when certifying a chunk */
+
+/* xs = x + scale*t as a series of length len. */
+static void lin_series(arb_ptr xs, const arb_t x, const arb_t scale, slong len)
+{
+    _arb_vec_zero(xs, len);
+    arb_set(xs, x);
+    if (len > 1) arb_set(xs + 1, scale);
+}
+
+int embz_tail_weight_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
+                            slong len, slong prec)
+{
+    arb_ptr xs = _arb_vec_init(len);
+    lin_series(xs, x, scale, len);
+    int st = embz_expr_eval_series(res, t->w, xs, t->n, len, prec);
+    t->evals++;
+    _arb_vec_clear(xs, len);
+    if (st == EMBZ_OK && !_arb_vec_is_finite(res, len)) st = EMBZ_ERR_DOMAIN;
+    return st;
+}
+
+/* f's Taylor coefficients g_m = f^(m)(x)/m!, m < len. */
+static int weight_taylor(arb_ptr g, embz_tail_t t, const arb_t x, slong len, slong prec)
+{
+    arb_t one;
+    arb_init(one);
+    arb_one(one);
+    int st = embz_tail_weight_series(g, t, x, one, len, prec);
+    arb_clear(one);
+    return st;
+}
+
+/* Euler–Maclaurin boundary terms at x: f(x)/2 + sum_j bern_j (2j-1)! g_(2j-1). */
+static void em_terms(arb_t res, const embz_tail_struct *t, arb_srcptr g, slong prec)
+{
+    arb_t u;
+    arb_init(u);
+    arb_mul_2exp_si(res, g, -1);
+    for (slong j = 1; j <= t->p; j++) {
+        arb_fac_ui(u, 2 * j - 1, prec);
+        arb_mul(u, u, g + 2 * j - 1, prec);
+        arb_addmul(res, u, t->bern + j - 1, prec);
+    }
+    arb_clear(u);
+}
+
+/* phi(u) = f(e^u) e^u for the integrator. */
+static int phi_acb(acb_ptr out, const acb_t u, void *param, slong order, slong prec)
+{
+    embz_tail_struct *t = param;
+    acb_t x, nn;
+    acb_init(x);
+    acb_init(nn);
+    acb_exp(x, u, prec);
+    acb_set_arb(nn, t->n);
+    if (embz_expr_eval_acb(out, t->w, x, nn, order != 0, prec) != EMBZ_OK)
+        acb_indeterminate(out);
+    acb_mul(out, out, x, prec);
+    acb_clear(x);
+    acb_clear(nn);
+    return 0;
+}
+
+static int integrate_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub, slong prec)
+{
+    acb_t a, b, r;
+    mag_t tol;
+    acb_calc_integrate_opt_t opt;
+    acb_init(a); acb_init(b); acb_init(r);
+    mag_init(tol);
+    acb_calc_integrate_opt_init(opt);
+    acb_set_arb(a, ua);
+    acb_set_arb(b, ub);
+    /* absolute tolerance relative to the size of the integrand at the left end */
+    {
+        acb_t fa;
+        acb_init(fa);
+        phi_acb(fa, a, t, 0, 64);
+        if (acb_is_finite(fa)) {
+            acb_get_mag(tol, fa);
+            mag_mul_2exp_si(tol, tol, -prec - 4);
+        }
+        if (mag_is_zero(tol) || !mag_is_finite(tol))
+            mag_set_ui_2exp_si(tol, 1, -prec - 4);
+        acb_clear(fa);
+    }
+    acb_calc_integrate(r, phi_acb, t, a, b, prec, tol, opt, prec + 10);
+    t->integrals++;
+    if (getenv("EMBZ_DEBUG2")) { flint_printf("piece rad a "); mag_printd(arb_radref(acb_realref(a)), 3); flint_printf(" b "); mag_printd(arb_radref(acb_realref(b)), 3); flint_printf(" r "); mag_printd(arb_radref(acb_realref(r)), 3); flint_printf(" tol "); mag_printd(tol, 3); flint_printf(" prec %wd\n", prec); }
+    int st = EMBZ_OK;
+    if (!acb_is_finite(r)) st = EMBZ_ERR_PREC;
+    arb_set(res, acb_realref(r));
+    /* the integrand is real on the real axis: the imaginary part is noise */
+    acb_clear(a); acb_clear(b); acb_clear(r);
+    mag_clear(tol);
+    return st;
+}
+
+static void node_u(arb_t u, const embz_tail_struct *t, slong k, slong prec)
+{
+    arb_set_d(u, t->du);
+    arb_mul_si(u, u, k, prec);
+    arb_add(u, u, t->logM, prec);
+}
+
+/* make sure icum[0..k] exist */
+static int extend_cache(embz_tail_t t, slong k, slong prec)
+{
+    if (k < t->nnodes) return EMBZ_OK;
+    if (k + 1 > t->nalloc) {
+        slong na = FLINT_MAX(k + 1, 2 * t->nalloc);
+        arb_ptr v = _arb_vec_init(na);
+        _arb_vec_swap(v, t->icum, t->nnodes);
+        _arb_vec_clear(t->icum, t->nalloc);
+        t->icum = v;
+        t->nalloc = na;
+    }
+    arb_t ua, ub, piece;
+    arb_init(ua); arb_init(ub); arb_init(piece);
+    int st = EMBZ_OK;
+    for (slong j = t->nnodes; j <= k; j++) {
+        if (j == 0) {
+            arb_zero(t->icum);
+        } else {
+            node_u(ua, t, j - 1, prec);
+            node_u(ub, t, j, prec);
+            st = integrate_u(piece, t, ua, ub, prec);
+            if (st != EMBZ_OK) break;
+            arb_add(t->icum + j, t->icum + j - 1, piece, prec);
+        }
+        t->nnodes = j + 1;
+    }
+    arb_clear(ua); arb_clear(ub); arb_clear(piece);
+    return st;
+}
+
+int embz_tail_integral(arb_t res, embz_tail_t t, const arb_t x, slong prec)
+{
+    arb_t u, uk;
+    arb_init(u); arb_init(uk);
+    arb_log(u, x, prec);
+    double rel = arf_get_d(arb_midref(u), ARF_RND_DOWN) - arf_get_d(arb_midref(t->logM), ARF_RND_DOWN);
+    slong k = (rel <= 0) ? 0 : (slong) floor(rel / t->du);
+    int st = extend_cache(t, k, prec);
+    if (st == EMBZ_OK) {
+        node_u(uk, t, k, prec);
+        if (arb_overlaps(uk, u) && arb_rel_accuracy_bits(u) > prec - 8 && arb_equal(uk, u)) {
+            arb_set(res, t->icum + k);
+        } else {
+            st = integrate_u(res, t, uk, u, prec);
+            arb_add(res, res, t->icum + k, prec);
+        }
+    }
+    arb_clear(u); arb_clear(uk);
+    return st;
+}
+
+int embz_tail_sum(arb_t res, embz_tail_t t, const arb_t x, slong prec)
+{
+    slong len = 2 * t->p + 1;
+    arb_ptr g = _arb_vec_init(len);
+    arb_t I, e;
+    arb_init(I); arb_init(e);
+    int st = weight_taylor(g, t, x, len, prec);
+    if (st == EMBZ_OK) st = embz_tail_integral(I, t, x, prec);
+    if (st == EMBZ_OK) {
+        em_terms(e, t, g, prec);
+        arb_add(res, I, e, prec);
+        arb_add(res, res, t->base, prec);
+        arb_add_error_mag(res, t->rem);
+    }
+    _arb_vec_clear(g, len);
+    arb_clear(I); arb_clear(e);
+    return st;
+}
+
+int embz_tail_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
+                     slong len, slong prec)
+{
+    slong L = len + 2 * t->p + 1;
+    arb_ptr g = _arb_vec_init(L);
+    arb_t d, c, sp;
+    fmpz_t rf;
+    arb_init(d); arb_init(c); arb_init(sp);
+    fmpz_init(rf);
+    int st = weight_taylor(g, t, x, L, prec);
+    if (st == EMBZ_OK) {
+        arb_zero(res);
+        arb_set(sp, scale);
+        for (slong l = 0; l + 1 < len; l++) {
+            /* D(y) = f + f'/2 + sum_j bern_j f^(2j): Taylor coefficient l of D at x */
+            arb_set(d, g + l);
+            arb_mul_ui(c, g + l + 1, l + 1, prec);
+            arb_mul_2exp_si(c, c, -1);
+            arb_add(d, d, c, prec);
+            for (slong j = 1; j <= t->p; j++) {
+                fmpz_rfac_uiui(rf, l + 1, 2 * j);
+                arb_mul_fmpz(c, g + l + 2 * j, rf, prec);
+                arb_addmul(d, c, t->bern + j - 1, prec);
+            }
+            arb_div_ui(d, d, l + 1, prec);
+            arb_mul(res + l + 1, d, sp, prec);
+            arb_mul(sp, sp, scale, prec);
+        }
+    }
+    _arb_vec_clear(g, L);
+    arb_clear(d); arb_clear(c); arb_clear(sp);
+    fmpz_clear(rf);
+    return st;
+}
+
+/* Certify smoothness and a monotone direction on the u-chunk [ua, ub] (x = e^u), adding
+ * sup |f^(2p)| * (xb - xa) to the remainder integral bound. */
+static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_t integral,
+                         int *dir, int depth, slong prec)
+{
+    slong len = 2 * t->p + 1;
+    arb_t xa, xb, x, one, w;
+    arf_t lo, hi;
+    arb_ptr g = _arb_vec_init(len);
+    arb_init(xa); arb_init(xb); arb_init(x); arb_init(one); arb_init(w);
+    arf_init(lo); arf_init(hi);
+    arb_one(one);
+    arb_set_arf(xa, ua);
+    arb_exp(xa, xa, prec);
+    arb_set_arf(xb, ub);
+    arb_exp(xb, xb, prec);
+    /* the last chunk ends exactly at `end` */
+    {
+        arb_t e;
+        arb_init(e);
+        arb_set_fmpz(e, t->end);
+        if (arb_gt(xb, e) || arb_overlaps(xb, e)) arb_set(xb, e);
+        arb_clear(e);
+    }
+    arb_get_lbound_arf(lo, xa, prec);
+    arb_get_ubound_arf(hi, xb, prec);
+    arb_set_interval_arf(x, lo, hi, prec);
+    int st = embz_tail_weight_series(g, t, x, one, len, prec);
+    int ok = (st == EMBZ_OK);
+    int d = 0;
+    if (ok) {
+        if (arb_is_zero(g + 1) || (arb_is_nonpositive(g + 1) && arb_is_nonnegative(g + 1)))
+            d = 0;
+        else if (arb_is_nonpositive(g + 1)) d = 1;
+        else if (arb_is_nonnegative(g + 1)) d = -1;
+        else ok = 0;
+        if (ok && d != 0 && *dir != 0 && d != *dir) {
+            /* the direction changes: not monotone on the tail */
+            st = EMBZ_ERR_UNSUPPORTED;
+            ok = 0;
+            depth = EMBZ_TAIL_MAX_SPLIT;
+        }
+    }
+    if (ok) {
+        if (d != 0) *dir = d;
+        /* sup |f^(2p)| = (2p)! |g_2p| over the chunk, times the chunk length */
+        mag_t m, tmp;
+        mag_init(m); mag_init(tmp);
+        arb_get_mag(m, g + 2 * t->p);
+        mag_fac_ui(tmp, 2 * t->p);
+        mag_mul(m, m, tmp);
+        arb_sub(w, xb, xa, prec);
+        arb_get_mag(tmp, w);
+        mag_mul(m, m, tmp);
+        mag_add(integral, integral, m);
+        mag_clear(m); mag_clear(tmp);
+        st = EMBZ_OK;
+    } else if (depth < EMBZ_TAIL_MAX_SPLIT) {
+        arf_t mid;
+        arf_init(mid);
+        arf_add(mid, ua, ub, ARF_PREC_EXACT, ARF_RND_DOWN);
+        arf_mul_2exp_si(mid, mid, -1);
+        st = certify_chunk(t, ua, mid, integral, dir, depth + 1, prec);
+        if (st == EMBZ_OK) st = certify_chunk(t, mid, ub, integral, dir, depth + 1, prec);
+        arf_clear(mid);
+    } else if (st == EMBZ_OK) {
+        st = EMBZ_ERR_UNSUPPORTED;
+    }
+    _arb_vec_clear(g, len);
+    arb_clear(xa); arb_clear(xb); arb_clear(x); arb_clear(one); arb_clear(w);
+    arf_clear(lo); arf_clear(hi);
+    return st;
+}
+
+int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
+                   const fmpz_t end, slong prec, embz_err_t *err)
+{
+    memset(t, 0, sizeof(*t));
+    t->w = w;
+    arb_init(t->n);
+    arb_set_round_fmpz(t->n, n, prec);
+    t->M = M;
+    fmpz_init_set(t->end, end);
+    arb_init(t->base);
+    mag_init(t->rem);
+    arb_init(t->logM);
+    arb_log_ui(t->logM, (ulong) M, prec);
+    t->du = 1.0;
+    t->nalloc = 16;
+    t->icum = _arb_vec_init(t->nalloc);
+    t->prec = prec;
+    t->bern = _arb_vec_init(EMBZ_TAIL_MAX_ORDER);
+
+    int st;
+    arb_t xM, term, goal, u;
+    slong len = 2 * EMBZ_TAIL_MAX_ORDER + 2;
+    arb_ptr g = _arb_vec_init(len);
+    arb_init(xM); arb_init(term); arb_init(goal); arb_init(u);
+    arb_set_ui(xM, (ulong) M);
+
+    t->p = EMBZ_TAIL_MAX_ORDER;
+    st = weight_taylor(g, t, xM, len, prec);
+    if (st != EMBZ_OK) {
+        embz_err_set(err, st, "the weight has no usable Taylor expansion at i = %ld", M);
+        goto done;
+    }
+    for (slong j = 1; j <= EMBZ_TAIL_MAX_ORDER; j++) {
+        arb_bernoulli_ui(t->bern + j - 1, 2 * j, prec);
+        arb_fac_ui(u, 2 * j, prec);
+        arb_div(t->bern + j - 1, t->bern + j - 1, u, prec);
+    }
+    /* order: the first p whose first omitted term bern_(p+1) f^(2p+1)(M) is below 2^-prec
+     * times M f(M) (the scale of the sums), or where the terms stop decreasing */
+    arb_mul_ui(goal, g, (ulong) M, prec);
+    {
+        slong p;
+        mag_t prev, cur, gm;
+        mag_init(prev); mag_init(cur); mag_init(gm);
+        arb_get_mag_lower(gm, goal);
+        mag_mul_2exp_si(gm, gm, -prec - 8);
+        mag_inf(prev);
+        for (p = 1; p < EMBZ_TAIL_MAX_ORDER - 1; p++) {
+            arb_fac_ui(u, 2 * p + 1, prec);
+            arb_mul(term, u, g + 2 * p + 1, prec);
+            arb_mul(term, term, t->bern + p, prec);
+            arb_get_mag(cur, term);
+            if (mag_cmp(cur, gm) < 0) break;
+            if (mag_cmp(cur, prev) > 0) { p = FLINT_MAX(p - 1, 1); break; }
+            mag_set(prev, cur);
+        }
+        t->p = p;
+        mag_clear(prev); mag_clear(cur); mag_clear(gm);
+    }
+    /* base = -(f(M)/2 + sum_j bern_j f^(2j-1)(M)) */
+    em_terms(t->base, t, g, prec);
+    arb_neg(t->base, t->base);
+
+    /* certify smoothness + monotonicity on [M, end], bounding the remainder integral */
+    {
+        mag_t integral, c;
+        arf_t ua, ub, uend;
+        arb_t le;
+        int dir = 0;
+        mag_init(integral); mag_init(c);
+        arf_init(ua); arf_init(ub); arf_init(uend);
+        arb_init(le);
+        arb_set_fmpz(le, end);
+        arb_log(le, le, prec);
+        arb_get_ubound_arf(uend, le, prec);
+        arb_get_lbound_arf(ua, t->logM, prec);
+        double width = 0.125;
+        st = EMBZ_OK;
+        while (arf_cmp(ua, uend) < 0) {
+            arf_set_d(ub, width);
+            arf_add(ub, ub, ua, prec, ARF_RND_UP);
+            if (arf_cmp(ub, uend) > 0) arf_set(ub, uend);
+            st = certify_chunk(t, ua, ub, integral, &dir, 0, prec);
+            if (st != EMBZ_OK) break;
+            arf_set(ua, ub);
+            width *= 2;
+        }
+        if (st != EMBZ_OK) {
+            embz_err_set(err, st == EMBZ_ERR_DOMAIN ? EMBZ_ERR_DOMAIN : EMBZ_ERR_UNSUPPORTED,
+                         "cannot certify that the weight is smooth and monotone for i > %ld", M);
+            st = err ? err->code : EMBZ_ERR_UNSUPPORTED;
+        } else {
+            t->dir = (dir == 0) ? 1 : dir;
+            /* |R| <= |B_2p|/(2p)! * integral */
+            arb_get_mag(c, t->bern + t->p - 1);
+            mag_mul(t->rem, c, integral);
+        }
+        mag_clear(integral); mag_clear(c);
+        arf_clear(ua); arf_clear(ub); arf_clear(uend);
+        arb_clear(le);
+    }
+done:
+    _arb_vec_clear(g, len);
+    arb_clear(xM); arb_clear(term); arb_clear(goal); arb_clear(u);
+    return st;
+}
+
+void embz_tail_clear(embz_tail_t t)
+{
+    arb_clear(t->n);
+    fmpz_clear(t->end);
+    _arb_vec_clear(t->bern, EMBZ_TAIL_MAX_ORDER);
+    arb_clear(t->base);
+    mag_clear(t->rem);
+    arb_clear(t->logM);
+    _arb_vec_clear(t->icum, t->nalloc);
+}
+
+int embz_sum_explicit(arb_t res, const embz_expr_t w, const arb_t n, slong a, slong b,
+                      slong prec, embz_err_t *err)
+{
+    arb_t x, v;
+    arb_init(x); arb_init(v);
+    arb_zero(res);
+    int st = EMBZ_OK;
+    for (slong i = a; i <= b; i++) {
+        arb_set_si(x, i);
+        st = embz_expr_eval_arb(v, w, x, n, prec);
+        if (st != EMBZ_OK) {
+            embz_err_set(err, EMBZ_ERR_DOMAIN, "weight undefined at i = %ld", i);
+            break;
+        }
+        arb_add(res, res, v, prec);
+    }
+    arb_clear(x); arb_clear(v);
+    return st;
+}

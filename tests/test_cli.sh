@@ -1,0 +1,225 @@
+#!/bin/bash
+# Command-line tests. $1 = path to the embz binary; EMBZ_FAMILY_PATH points at families/.
+set -u
+EMBZ=${1:?usage: test_cli.sh path/to/embz}
+PY=/usr/bin/python3
+TMP=$(mktemp -d)
+trap 'rm -rf "$TMP"' EXIT
+fails=0
+checks=0
+
+ok()   { checks=$((checks + 1)); }
+fail() { checks=$((checks + 1)); fails=$((fails + 1)); echo "FAIL: $*"; }
+
+# run ARGS...: sets $out, $err, $rc
+run() {
+    "$EMBZ" "$@" >"$TMP/out" 2>"$TMP/err"
+    rc=$?
+    out=$(cat "$TMP/out")
+    err=$(cat "$TMP/err")
+    # under -Db_sanitize a report on any path (also error paths) is a failure
+    if grep -q "Sanitizer" "$TMP/err"; then fail "sanitizer report for: $*"; fi
+}
+
+expect_rc() {  # expect_rc CODE DESCRIPTION
+    if [ "$rc" -eq "$1" ]; then ok; else fail "$2: exit $rc, expected $1 (stderr: $err)"; fi
+}
+expect_out() {  # expect_out TEXT DESCRIPTION (fixed string in stdout)
+    if printf '%s' "$out" | grep -qF -- "$1"; then ok; else fail "$2: stdout lacks '$1'"; fi
+}
+expect_err() {
+    if printf '%s' "$err" | grep -qF -- "$1"; then ok; else fail "$2: stderr lacks '$1' (got: $err)"; fi
+}
+json_ok() {  # stdout must be valid JSON
+    if printf '%s' "$out" | $PY -c 'import json,sys; json.load(sys.stdin)' 2>/dev/null; then ok
+    else fail "$1: stdout is not valid JSON: $out"; fi
+}
+pycheck() {  # pycheck DESCRIPTION PYTHON-CODE (stdout of the last run on stdin; exit 0 = pass)
+    if printf '%s' "$out" | $PY -c "$2"; then ok; else fail "$1"; fi
+}
+
+# ---------------------------------------------------------------- help, version, usage
+run --help;            expect_rc 0 "--help"; expect_out "usage: embz" "--help"
+for c in families convert error; do expect_out "$c" "--help lists $c"; done
+run --version;         expect_rc 0 "--version"
+if printf '%s' "$out" | grep -qE '^embz [0-9]+\.[0-9]+\.[0-9]+$'; then ok; else fail "--version: $out"; fi
+run;                   expect_rc 2 "no command"; expect_err "usage" "no command"
+run frobnicate;        expect_rc 2 "unknown command"; expect_err "unknown command 'frobnicate'" "unknown command"
+expect_err "usage" "unknown command shows usage"
+run --frob;            expect_rc 2 "unknown top-level option"
+for c in families convert error; do
+    run "$c" --help;   expect_rc 0 "$c --help"; expect_out "usage: embz $c" "$c --help"
+    run help "$c";     expect_rc 0 "help $c"; expect_out "usage: embz $c" "help $c"
+    run "$c" --no-such-option
+    expect_rc 2 "$c unknown option"; expect_err "unknown option '--no-such-option'" "$c unknown option"
+    expect_err "usage: embz $c" "$c unknown option shows usage"
+done
+run error inverse -n 10 -q; expect_rc 2 "unknown short option"
+run error inverse -n;       expect_rc 2 "option without its value"; expect_err "needs a value" "option without value"
+run error;                  expect_rc 2 "missing FAMILY"
+run error inverse;          expect_rc 2 "missing -n"; expect_err "-n N" "missing -n"
+run error inverse -n 10 extra; expect_rc 2 "extra argument"
+run families --json=3;      expect_rc 2 "value given to a flag"
+
+# ---------------------------------------------------------------- families
+run families; expect_rc 0 "families"
+for f in inverse power logpower iterlog nearmiss uniform geometric tilted invamp; do
+    if printf '%s\n' "$out" | grep -qE "^$f +"; then ok; else fail "families lists $f"; fi
+done
+expect_out "1/i" "families shows weights"
+expect_out "a = -1/2" "families shows parameter defaults"
+run families --json; expect_rc 0 "families --json"; json_ok "families --json"
+pycheck "families --json content" '
+import json, sys
+d = json.load(sys.stdin)
+names = {x["name"] for x in d}
+need = {"inverse","power","logpower","iterlog","nearmiss","uniform","geometric","tilted"}
+assert need <= names, names
+assert all(x["description"] for x in d)
+t = [x for x in d if x["name"] == "tilted"][0]
+assert t["depends_on_n"] is True
+p = [x for x in d if x["name"] == "power"][0]
+assert p["params"] == {"a": "-1/2"} and p["weight"] == "i^a"
+'
+
+# ---------------------------------------------------------------- input errors of `error`
+run error inverse -n abc;       expect_rc 2 "bad n"; expect_err "abc" "bad n is named"
+run error inverse -n 0;         expect_rc 2 "n = 0"; expect_err "at least 1" "n = 0"
+run error inverse -n -5;        expect_rc 2 "negative n"
+run error inverse -n 10 --target nonsense; expect_rc 2 "bad target"
+run error inverse -n 10 --method magic;    expect_rc 2 "bad method"
+run error inverse -n 10 --prec x;          expect_rc 2 "bad precision"
+run error inverse -n 10 --json --csv;      expect_rc 2 "--json with --csv"
+run error '1/(i + * 2)' -n 10;  expect_rc 2 "bad expression"
+expect_err "^" "expression error has a caret"; expect_err "1/(i + * 2)" "expression error shows the text"
+if printf '%s\n' "$err" | grep -qxF '         ^'; then ok; else fail "caret under column 8: $err"; fi
+run error 'i^a' -n 10;          expect_rc 2 "inline expression with unknown name"
+expect_err "column 3" "unknown name column"
+run error power -n 10 --set b=1; expect_rc 2 "unknown parameter"; expect_err "'b'" "unknown parameter named"
+run error power -n 10 --set a=zz; expect_rc 2 "bad parameter value"; expect_err "zz" "bad value named"
+run error power -n 10 --set a;   expect_rc 2 "setting without ="
+run error nosuchfamily -n 10;    expect_rc 2 "unknown family"; expect_err "nosuchfamily" "unknown family named"
+run error "$TMP/none.fam" -n 10; expect_rc 2 "missing family file"
+
+printf 'name = broken\ndescription = test\n\nwieght = 1/i\n' >"$TMP/broken.fam"
+run error "$TMP/broken.fam" -n 10; expect_rc 2 "family file error"
+expect_err "$TMP/broken.fam:4:" "family file error has file:line"; expect_err "wieght" "unknown key named"
+printf '# x\nparam a = 1\nweight = i^(a + foo)\n' >"$TMP/broken2.fam"
+run error "$TMP/broken2.fam" -n 10; expect_rc 2 "family file expression error"
+expect_err "$TMP/broken2.fam:3:" "expression error in file: file:line"
+expect_err "column 8" "expression error in file: column"; expect_err "^" "expression error in file: caret"
+
+# weight errors name the index
+# (each weight is fine at every other index up to n)
+run error 'log(abs(i-700)) + 1' -n 1000; expect_rc 2 "undefined weight"
+expect_err "i = 700" "undefined weight index"; expect_err "undefined" "undefined weight message"
+run error '(i-3)^2 - 0.5' -n 100; expect_rc 2 "negative weight"; expect_err "i = 3" "negative weight index"
+expect_err "negative" "negative weight message"
+run error '1/(i-2)^2' -n 100;  expect_rc 2 "infinite weight"; expect_err "i = 2" "infinite weight index"
+expect_err "infinite" "infinite weight message"
+
+# a size out of reach of explicit summation is a runtime failure, not an input error
+run error inverse -n 10^40 --method explicit; expect_rc 1 "explicit mode beyond its limit"
+
+# ---------------------------------------------------------------- convert
+# Jonathan & Plenio, Phys. Rev. Lett. 83, 3566 (1999): (0.4,0.4,0.1,0.1) cannot be turned
+# into (0.5,0.25,0.25) by LOCC, but can with the catalyst (0.6,0.4).
+P=0.4,0.4,0.1,0.1
+R=0.5,0.25,0.25
+run convert $P $R; expect_rc 0 "convert"
+expect_out "exact conversion FROM -> TO: not possible" "Jonathan-Plenio: not possible"
+run convert $P $R --json; expect_rc 0 "convert --json"; json_ok "convert --json"
+# independent reference: Ky Fan partial sums with Python fractions
+pycheck "convert K values against fractions" '
+import json, sys
+from fractions import Fraction as F
+d = json.load(sys.stdin)
+p = sorted([F("0.4"), F("0.4"), F("0.1"), F("0.1")], reverse=True)
+r = sorted([F("0.5"), F("0.25"), F("0.25")], reverse=True)
+L = max(len(p), len(r)); p += [F(0)] * (L - len(p)); r += [F(0)] * (L - len(r))
+cp = [sum(p[:k]) for k in range(1, L + 1)]; cr = [sum(r[:k]) for k in range(1, L + 1)]
+kf = max(max(a - b for a, b in zip(cp, cr)), F(0))
+kb = max(max(b - a for a, b in zip(cp, cr)), F(0))
+assert d["convertible"] is False and d["reverse_convertible"] is False
+assert F(d["K_forward"]["exact"]) == kf, (d["K_forward"], kf)
+assert F(d["K_backward"]["exact"]) == kb, (d["K_backward"], kb)
+k = d["K_forward"]["argk"]; assert cp[k - 1] - cr[k - 1] == kf
+k = d["K_backward"]["argk"]; assert cr[k - 1] - cp[k - 1] == kb
+'
+run convert 0.24,0.24,0.06,0.06,0.16,0.16,0.04,0.04 0.3,0.15,0.15,0.2,0.1,0.1
+expect_rc 0 "convert with catalyst"
+expect_out "exact conversion FROM -> TO: possible" "Jonathan-Plenio: possible with the catalyst"
+expect_out "K(FROM -> TO) = 0" "catalysed K is 0"
+run convert 2,1,1 1,1 ; expect_rc 0 "convert unnormalised"
+expect_out "FROM did not sum to 1" "normalisation notice"
+run convert 0.5,0.5 1 --amplitude --json; expect_rc 0 "convert --amplitude"; json_ok "convert --amplitude"
+run convert 0.5,-0.5 1;  expect_rc 2 "negative entry"
+run convert 0.5,abc 1;   expect_rc 2 "non-numeric entry"
+run convert 0.5;         expect_rc 2 "convert with one argument"
+printf '0.4\n0.4\n0.1\n0.1\n' >"$TMP/p.txt"
+run convert "$TMP/p.txt" $R --json; expect_rc 0 "convert from a file"
+pycheck "convert from a file" 'import json,sys; d=json.load(sys.stdin); assert d["from"]["length"] == 4 and d["convertible"] is False'
+
+# ---------------------------------------------------------------- error: values
+# Inverse family, one ebit, n = 2s: E_n = 1 - H_s / H_n (exact formula for 1/i with a
+# uniform target, n = d*s + r); reference computed here with Python fractions.
+run error inverse -n 1000 --json; expect_rc 0 "error inverse n=1000"; json_ok "error --json"
+pycheck "inverse n=1000 contains 1 - H_500/H_1000" '
+import json, sys
+from fractions import Fraction as F
+d = json.load(sys.stdin)
+H = lambda m: sum(F(1, k) for k in range(1, m + 1))
+ref = 1 - H(500) / H(1000)
+lo, hi = F(d["error_lo"]), F(d["error_hi"])
+assert lo <= ref <= hi, (d["error_lo"], d["error_hi"], float(ref))
+assert hi - lo < F(1, 10**20), "enclosure too wide"
+assert d["n"] == "1000" and d["family"] == "inverse" and d["target"] == "ebit"
+assert abs(d["error"] - float(ref)) < 1e-12
+assert d["estimate"] is None or abs(d["estimate"] - float(ref)) < 1e-6
+for key in ("radius", "method", "argmax", "detail"): assert key in d, key
+assert int(d["argmax"]) >= 1
+if "bound_lo" in d: assert F(d["bound_lo"]) <= ref <= F(d["bound_hi"])
+'
+# n = 2s + 1 and a three-level target: E_n(u_d) = 1 - (H_s + r/(d (s+1))) / H_n, n = d s + r
+run error inverse -n 1001 --target uniform:3 --json; expect_rc 0 "error inverse uniform:3"
+pycheck "inverse n=1001, d=3" '
+import json, sys
+from fractions import Fraction as F
+d = json.load(sys.stdin)
+H = lambda m: sum(F(1, k) for k in range(1, m + 1))
+n, dd = 1001, 3; s, r = divmod(n, dd)
+ref = 1 - (H(s) + F(r, dd * (s + 1))) / H(n)
+assert F(d["error_lo"]) <= ref <= F(d["error_hi"]), (d, float(ref))
+'
+run error inverse -n 10^3 --csv; expect_rc 0 "error --csv"
+pycheck "csv: header and one row" '
+import csv, sys
+rows = list(csv.reader(sys.stdin))
+assert len(rows) == 2 and len(rows[0]) == len(rows[1]), rows
+row = dict(zip(rows[0], rows[1]))
+assert row["n"] == "1000" and row["family"] == "inverse"
+'
+run error inverse -n 1000; expect_rc 0 "error table"
+for w in family target error enclosure estimate method; do expect_out "$w" "table has $w"; done
+# the uniform family: E_n = 1/2 for every n (maximally entangled resource)
+run error uniform -n 2^5 --json; expect_rc 0 "uniform"
+pycheck "uniform gives 1/2" '
+import json, sys
+from fractions import Fraction as F
+d = json.load(sys.stdin)
+assert d["n"] == "32"
+assert F(d["error_lo"]) <= F(1, 2) <= F(d["error_hi"])
+'
+# --set and --amplitude: amplitudes i^(-1/2) are the weights 1/i
+run error power --set a=-0.5 --amplitude -n 1000 --json; expect_rc 0 "amplitude power"
+pycheck "amplitude i^(-1/2) equals inverse" '
+import json, sys
+from fractions import Fraction as F
+d = json.load(sys.stdin)
+H = lambda m: sum(F(1, k) for k in range(1, m + 1))
+ref = 1 - H(500) / H(1000)
+assert F(d["error_lo"]) <= ref <= F(d["error_hi"])
+'
+
+echo "$((checks - fails)) passed, $fails failed"
+[ "$fails" -eq 0 ]
