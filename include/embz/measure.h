@@ -40,8 +40,10 @@ void embz_error_result_clear(embz_error_result_t r);
 /* Largest n handled by explicit mode. */
 #define EMBZ_EXPLICIT_MAX_N 100000000L
 
-/* E_n(q) by explicit summation over i = 1..n (n <= EMBZ_EXPLICIT_MAX_N).
- * fast != 0 also computes the double estimate. */
+/* E_n(q) by explicit summation over i = 1..n (n <= EMBZ_EXPLICIT_MAX_N). Always fills the
+ * double estimate too. Monotone weights are streamed in O(1) memory; otherwise the weights are
+ * stored and sorted (n <= 2^24). The enclosure's radius is at least about n d 2^-120 (exact
+ * fixed-point sums), whatever prec. */
 int embz_error_explicit(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
                         const embz_target_t q, slong prec, embz_err_t *err);
 

@@ -17,7 +17,10 @@ typedef struct {
     const embz_expr_struct *w; /* borrowed weight expression in (i, n) */
     arb_t n;                   /* the size as a ball (for weights that use n) */
     slong M;                   /* the tail starts after index M */
-    fmpz_t end;                /* last index covered */
+    fmpz_t end;                /* last index covered (may be lowered by embz_tail_init, see
+                                  neglected) */
+    mag_t neglected;           /* bound on the total weight beyond end when embz_tail_init
+                                  found it negligible and lowered end; 0 otherwise */
     int dir;                   /* +1 non-increasing on [M, end], -1 non-decreasing */
     slong p;                   /* Euler–Maclaurin order */
     arb_ptr bern;              /* bern[j-1] = B_2j / (2j)!, j = 1..p */
@@ -34,6 +37,9 @@ typedef struct {
 typedef embz_tail_struct embz_tail_t[1];
 
 /* Certify f = w(., n) smooth and monotone on [M, end] and set up the Euler–Maclaurin data.
+ * If f cannot be certified from some point on but the total weight from there to end is
+ * certainly below 2^-(prec+20) f(M), t->end is lowered to that point and t->neglected bounds
+ * the mass left out.
  * Returns EMBZ_OK, EMBZ_ERR_NONSMOOTH / EMBZ_ERR_UNSUPPORTED (with a reason in err) when the
  * tail cannot be certified, EMBZ_ERR_DOMAIN on undefined weights. end >= M + 1. */
 int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,

@@ -27,7 +27,9 @@
 typedef struct {
     embz_tail_struct *t;
     const embz_family_struct *f;
-    fmpz_t n;
+    fmpz_t n;            /* effective dimension: the true n, or less when the weights beyond
+                            it were found negligible (their mass is t->neglected) */
+    fmpz_t ntrue;        /* the size n of the family (weights may depend on it) */
     ulong d;
     slong M;             /* head size */
     slong a, b;          /* sizes of A and B */
@@ -35,6 +37,7 @@ typedef struct {
     arb_ptr A, B;        /* sorted non-increasing */
     arb_t SA, SB, Ttot, W;
     slong E;             /* explicit positions 1..E */
+    fmpz_t kmax;         /* last k whose position lies in the tail */
     arb_ptr vals, S;     /* vals[K] value at position K (1-based), S[K] prefix sums, S[0] = 0 */
     arb_t best;          /* best proven value (lower end used) */
     fmpz_t argk;
@@ -444,18 +447,92 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
     arb_init(h);
     arf_init(bhi); arf_init(gap);
 
-    /* seeds: the ends, then pieces with ratio 2 */
+    /* the ends of every residue's range first: they often hold the maximum */
     for (ulong r = 0; st == EMBZ_OK && r < c->d; r++) {
         if (fmpz_cmp(slo + r, shi + r) > 0) continue;
         st = h_at_s(h, c, r, shi + r, prec);
         if (st == EMBZ_OK) st = h_at_s(h, c, r, slo + r, prec);
-        fmpz_set(a, slo + r);
-        while (st == EMBZ_OK && fmpz_cmp(a, shi + r) <= 0) {
-            fmpz_mul_2exp(b, a, 1);
-            if (fmpz_cmp(b, shi + r) > 0) fmpz_set(b, shi + r);
-            st = bb_consider(&hp, c, r, a, b, prec);
-            fmpz_add_ui(a, b, 1);
+    }
+    /* Coarse pass over s for all residues at once: since the tail sums only grow,
+     *     h_r(s) <= (C(d hi + d - 1 - a) - C(lo - a)) / W   for lo <= s <= hi,
+     * which discards long stretches far below the maximum. Stretches that survive are halved
+     * on a log scale down to ratio 2, then handed to the Taylor models residue by residue. */
+    if (st == EMBZ_OK) {
+        slong cap = 64, top = 0;
+        fmpz *stk = _fmpz_vec_init(2 * cap);
+        fmpz_t Slo, Shi, kk;
+        arb_t y, ca, cb, ub;
+        arf_t blo, u;
+        fmpz_init(Slo); fmpz_init(Shi); fmpz_init(kk);
+        arb_init(y); arb_init(ca); arb_init(cb); arb_init(ub);
+        arf_init(blo); arf_init(u);
+        fmpz_set(Slo, slo); fmpz_set(Shi, shi);
+        for (ulong r = 1; r < c->d; r++) {
+            if (fmpz_cmp(slo + r, Slo) < 0) fmpz_set(Slo, slo + r);
+            if (fmpz_cmp(shi + r, Shi) > 0) fmpz_set(Shi, shi + r);
         }
+        if (fmpz_cmp(Slo, Shi) <= 0) {
+            fmpz_set(stk, Slo); fmpz_set(stk + 1, Shi); top = 1;
+        }
+        while (st == EMBZ_OK && top > 0) {
+            top--;
+            fmpz_set(a, stk + 2 * top);
+            fmpz_set(b, stk + 2 * top + 1);
+            /* crude bound */
+            fmpz_mul_ui(kk, b, c->d);
+            fmpz_add_ui(kk, kk, c->d - 1);
+            if (fmpz_cmp(kk, c->kmax) > 0) fmpz_set(kk, c->kmax);
+            fmpz_sub_si(kk, kk, c->a);
+            arb_set_fmpz(y, kk);
+            st = tail_C(cb, c, y, prec);
+            if (st != EMBZ_OK) break;
+            fmpz_sub_si(kk, a, c->a);
+            arb_set_fmpz(y, kk);
+            st = tail_C(ca, c, y, prec);
+            if (st != EMBZ_OK) break;
+            arb_sub(ub, cb, ca, prec);
+            arb_div(ub, ub, c->W, prec);
+            c->evals++;
+            arb_get_ubound_arf(u, ub, prec);
+            arb_get_lbound_arf(blo, c->best, prec);
+            if (arb_is_finite(ub) && arb_is_finite(c->best) && arf_cmp(u, blo) < 0)
+                continue;                     /* the whole stretch is below a proven value */
+            fmpz_mul_2exp(m, a, 1);
+            if (fmpz_cmp(m, b) >= 0) {
+                /* ratio at most 2: Taylor models per residue */
+                for (ulong r = 0; st == EMBZ_OK && r < c->d; r++) {
+                    fmpz_t lo_r, hi_r;
+                    fmpz_init(lo_r); fmpz_init(hi_r);
+                    fmpz_set(lo_r, fmpz_cmp(a, slo + r) > 0 ? a : slo + r);
+                    fmpz_set(hi_r, fmpz_cmp(b, shi + r) < 0 ? b : shi + r);
+                    if (fmpz_cmp(lo_r, hi_r) <= 0) st = bb_consider(&hp, c, r, lo_r, hi_r, prec);
+                    fmpz_clear(lo_r); fmpz_clear(hi_r);
+                }
+                continue;
+            }
+            /* split at the geometric mean; push the lower half first so the upper half,
+             * where maxima usually sit, is examined first */
+            fmpz_mul(m, a, b);
+            fmpz_sqrt(m, m);
+            if (fmpz_cmp(m, a) <= 0) fmpz_add_ui(m, a, 1);
+            if (top + 2 > cap) {
+                fmpz *ns = _fmpz_vec_init(4 * cap);
+                _fmpz_vec_set(ns, stk, 2 * top);
+                _fmpz_vec_clear(stk, 2 * cap);
+                stk = ns;
+                cap *= 2;
+            }
+            fmpz_set(stk + 2 * top, a);
+            fmpz_sub_ui(stk + 2 * top + 1, m, 1);
+            top++;
+            fmpz_set(stk + 2 * top, m);
+            fmpz_set(stk + 2 * top + 1, b);
+            top++;
+        }
+        _fmpz_vec_clear(stk, 2 * cap);
+        fmpz_clear(Slo); fmpz_clear(Shi); fmpz_clear(kk);
+        arb_clear(y); arb_clear(ca); arb_clear(cb); arb_clear(ub);
+        arf_clear(blo); arf_clear(u);
     }
     /* best first: always refine the interval with the largest bound */
     while (st == EMBZ_OK && hp.len > 0) {
@@ -506,12 +583,13 @@ static int setup(actx *c, slong M, slong prec, embz_err_t *err)
     arb_t nn, x, v, tmax, tmin;
     arb_ptr head = _arb_vec_init(M);
     arb_init(nn); arb_init(x); arb_init(v); arb_init(tmax); arb_init(tmin);
-    arb_set_round_fmpz(nn, c->n, prec);
+    arb_set_round_fmpz(nn, c->ntrue, prec);
     c->M = M;
-    fmpz_sub_ui(c->L, c->n, (ulong) M);
 
-    st = embz_tail_init(c->t, w, c->n, M, c->n, prec, err);
+    st = embz_tail_init(c->t, w, c->ntrue, M, c->ntrue, prec, err);
     if (st != EMBZ_OK) goto out;
+    fmpz_set(c->n, c->t->end);
+    fmpz_sub_ui(c->L, c->n, (ulong) M);
 
     for (slong i = 1; i <= M; i++) {
         arb_set_si(x, i);
@@ -606,8 +684,10 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
     c.d = q->d;
     c.prec = wp;
     fmpz_init_set(c.n, n);
+    fmpz_init_set(c.ntrue, n);
     fmpz_init(c.L);
     fmpz_init(c.argk);
+    fmpz_init(c.kmax);
     arb_init(c.SA); arb_init(c.SB); arb_init(c.Ttot); arb_init(c.W);
     arb_init(c.best); arf_init(c.upper);
     arb_indeterminate(c.best);
@@ -652,21 +732,22 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
         }
         /* k = n */
         if (st == EMBZ_OK) {
-            st = h_at(h, &c, n, wp);
-            if (st == EMBZ_OK) offer(&c, h, n);
+            st = h_at(h, &c, c.n, wp);
+            if (st == EMBZ_OK) offer(&c, h, c.n);
         }
         /* k inside B: a + L < k < n */
         if (st == EMBZ_OK) {
             fmpz_add_si(k, c.L, c.a + 1);
-            for (; st == EMBZ_OK && fmpz_cmp(k, n) < 0; fmpz_add_ui(k, k, 1)) {
+            for (; st == EMBZ_OK && fmpz_cmp(k, c.n) < 0; fmpz_add_ui(k, k, 1)) {
                 st = h_at(h, &c, k, wp);
                 if (st == EMBZ_OK) offer(&c, h, k);
             }
         }
         /* the smooth region, residue by residue */
         fmpz_add_si(kmax, c.L, c.a);
-        fmpz_sub_ui(tmp, n, 1);
+        fmpz_sub_ui(tmp, c.n, 1);
         if (fmpz_cmp(tmp, kmax) < 0) fmpz_set(kmax, tmp);
+        fmpz_set(c.kmax, kmax);
         arf_one(tol);
         arf_mul_2exp_si(tol, tol, -(prec - 16));
         {
@@ -692,6 +773,17 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
             if (getenv("EMBZ_DEBUG")) { flint_printf("best "); arb_printn(c.best, 30, 0); flint_printf("\nupper "); arf_printd(c.upper, 30); flint_printf("\nrem "); mag_printd(c.t->rem, 5); flint_printf(" Ttot "); arb_printn(c.Ttot, 30, 0); flint_printf("\n"); }
             if (arf_cmp(hi, lo) < 0) arf_set(hi, lo);
             arb_set_interval_arf(res->error, lo, hi, wp);
+            if (!mag_is_zero(c.t->neglected)) {
+                /* K moves by at most twice the l1 change of p, which is at most
+                 * 2 * neglected / W when the negligible weights are dropped */
+                mag_t e;
+                mag_init(e);
+                arb_get_mag_lower(e, c.W);
+                mag_div(e, c.t->neglected, e);
+                mag_mul_2exp_si(e, e, 2);
+                arb_add_error_mag(res->error, e);
+                mag_clear(e);
+            }
             arb_set_round(res->error, res->error, prec);
             fmpz_set(res->argk, c.argk);
             res->method = EMBZ_METHOD_ANALYTIC;
@@ -700,9 +792,9 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
             res->estimate = arf_get_d(arb_midref(res->error), ARF_RND_NEAR);
             snprintf(res->detail, sizeof(res->detail),
                      "analytic: %ld explicit terms + Euler-Maclaurin tail (order %ld, weights %s "
-                     "beyond i = %ld), branch and bound, %ld evaluations, arb %ld bits",
+                     "beyond i = %ld), branch and bound: %ld bounds, %ld series, %ld integrals, arb %ld bits",
                      (long) c.M, (long) c.t->p, c.t->dir > 0 ? "non-increasing" : "non-decreasing",
-                     (long) c.M, c.evals, (long) prec);
+                     (long) c.M, c.evals, c.t->evals, c.t->integrals, (long) prec);
             arf_clear(lo); arf_clear(hi);
         } else {
             embz_err_set(err, st, "the analytic engine could not certify the maximum");
@@ -717,7 +809,7 @@ cleanup:
         embz_tail_clear(tail);
         free_layout(&c);
     }
-    fmpz_clear(c.n); fmpz_clear(c.L); fmpz_clear(c.argk);
+    fmpz_clear(c.n); fmpz_clear(c.ntrue); fmpz_clear(c.L); fmpz_clear(c.argk); fmpz_clear(c.kmax);
     arb_clear(c.SA); arb_clear(c.SB); arb_clear(c.Ttot); arb_clear(c.W);
     arb_clear(c.best); arf_clear(c.upper);
     return st;

@@ -217,52 +217,86 @@ int embz_tail_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scal
     return st;
 }
 
-/* Certify smoothness and a monotone direction on the u-chunk [ua, ub] (x = e^u), adding
- * sup |f^(2p)| * (xb - xa) to the remainder integral bound. */
+/* The x-range of the u-chunk [ua, ub] (x = e^u, clipped to end) as a ball x, with its ends. */
+static void chunk_ball(arb_t x, arb_t xa, arb_t xb, const embz_tail_struct *t,
+                       const arf_t ua, const arf_t ub, slong prec)
+{
+    arf_t lo, hi;
+    arb_t e;
+    arf_init(lo); arf_init(hi);
+    arb_init(e);
+    arb_set_arf(xa, ua);
+    arb_exp(xa, xa, prec);
+    arb_set_arf(xb, ub);
+    arb_exp(xb, xb, prec);
+    arb_set_fmpz(e, t->end);
+    if (arb_gt(xb, e) || arb_overlaps(xb, e)) arb_set(xb, e);
+    arb_get_lbound_arf(lo, xa, prec);
+    arb_get_ubound_arf(hi, xb, prec);
+    arb_set_interval_arf(x, lo, hi, prec);
+    arf_clear(lo); arf_clear(hi);
+    arb_clear(e);
+}
+
+/* sign of a derivative ball: +1 / -1 decided (0 allowed as either), 2 undecided */
+static int sign_of(const arb_t d)
+{
+    if (arb_is_zero(d)) return 0;
+    if (arb_is_nonpositive(d)) return 1;    /* non-increasing */
+    if (arb_is_nonnegative(d)) return -1;   /* non-decreasing */
+    return 2;
+}
+
+static int merge_dir(int *dir, int d)
+{
+    if (d == 0) return EMBZ_OK;
+    if (*dir != 0 && d != *dir) return EMBZ_ERR_UNSUPPORTED;   /* direction changes */
+    *dir = d;
+    return EMBZ_OK;
+}
+
+/* Certify the sign of f' on [ua, ub] with first-order enclosures, bisecting as needed. */
+static int certify_sign(embz_tail_t t, const arf_t ua, const arf_t ub, int *dir, int depth,
+                        slong prec)
+{
+    arb_t x, xa, xb, one;
+    arb_ptr g = _arb_vec_init(2);
+    arb_init(x); arb_init(xa); arb_init(xb); arb_init(one);
+    arb_one(one);
+    chunk_ball(x, xa, xb, t, ua, ub, prec);
+    int st = embz_tail_weight_series(g, t, x, one, 2, prec);
+    int d = (st == EMBZ_OK) ? sign_of(g + 1) : 2;
+    if (d != 2) {
+        st = merge_dir(dir, d);
+    } else if (depth < EMBZ_TAIL_MAX_SPLIT) {
+        arf_t mid;
+        arf_init(mid);
+        arf_add(mid, ua, ub, ARF_PREC_EXACT, ARF_RND_DOWN);
+        arf_mul_2exp_si(mid, mid, -1);
+        st = certify_sign(t, ua, mid, dir, depth + 1, prec);
+        if (st == EMBZ_OK) st = certify_sign(t, mid, ub, dir, depth + 1, prec);
+        arf_clear(mid);
+    } else if (st == EMBZ_OK) {
+        st = EMBZ_ERR_UNSUPPORTED;
+    }
+    _arb_vec_clear(g, 2);
+    arb_clear(x); arb_clear(xa); arb_clear(xb); arb_clear(one);
+    return st;
+}
+
+/* On the u-chunk [ua, ub]: certify smoothness (finite enclosures of f^(j), j <= 2p) and the
+ * monotone direction, adding sup |f^(2p)| * (xb - xa) to the remainder integral bound. */
 static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_t integral,
                          int *dir, int depth, slong prec)
 {
     slong len = 2 * t->p + 1;
     arb_t xa, xb, x, one, w;
-    arf_t lo, hi;
     arb_ptr g = _arb_vec_init(len);
     arb_init(xa); arb_init(xb); arb_init(x); arb_init(one); arb_init(w);
-    arf_init(lo); arf_init(hi);
     arb_one(one);
-    arb_set_arf(xa, ua);
-    arb_exp(xa, xa, prec);
-    arb_set_arf(xb, ub);
-    arb_exp(xb, xb, prec);
-    /* the last chunk ends exactly at `end` */
-    {
-        arb_t e;
-        arb_init(e);
-        arb_set_fmpz(e, t->end);
-        if (arb_gt(xb, e) || arb_overlaps(xb, e)) arb_set(xb, e);
-        arb_clear(e);
-    }
-    arb_get_lbound_arf(lo, xa, prec);
-    arb_get_ubound_arf(hi, xb, prec);
-    arb_set_interval_arf(x, lo, hi, prec);
+    chunk_ball(x, xa, xb, t, ua, ub, prec);
     int st = embz_tail_weight_series(g, t, x, one, len, prec);
-    int ok = (st == EMBZ_OK);
-    int d = 0;
-    if (ok) {
-        if (arb_is_zero(g + 1) || (arb_is_nonpositive(g + 1) && arb_is_nonnegative(g + 1)))
-            d = 0;
-        else if (arb_is_nonpositive(g + 1)) d = 1;
-        else if (arb_is_nonnegative(g + 1)) d = -1;
-        else ok = 0;
-        if (ok && d != 0 && *dir != 0 && d != *dir) {
-            /* the direction changes: not monotone on the tail */
-            st = EMBZ_ERR_UNSUPPORTED;
-            ok = 0;
-            depth = EMBZ_TAIL_MAX_SPLIT;
-        }
-    }
-    if (ok) {
-        if (d != 0) *dir = d;
-        /* sup |f^(2p)| = (2p)! |g_2p| over the chunk, times the chunk length */
+    if (st == EMBZ_OK) {
         mag_t m, tmp;
         mag_init(m); mag_init(tmp);
         arb_get_mag(m, g + 2 * t->p);
@@ -273,8 +307,11 @@ static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_t in
         mag_mul(m, m, tmp);
         mag_add(integral, integral, m);
         mag_clear(m); mag_clear(tmp);
-        st = EMBZ_OK;
-    } else if (depth < EMBZ_TAIL_MAX_SPLIT) {
+        int d = sign_of(g + 1);
+        if (d != 2) st = merge_dir(dir, d);
+        else st = certify_sign(t, ua, ub, dir, 0, prec);
+    } else if (st != EMBZ_ERR_NONSMOOTH && depth < EMBZ_TAIL_MAX_SPLIT) {
+        /* enclosures too wide to be finite: halve the chunk */
         arf_t mid;
         arf_init(mid);
         arf_add(mid, ua, ub, ARF_PREC_EXACT, ARF_RND_DOWN);
@@ -287,7 +324,46 @@ static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_t in
     }
     _arb_vec_clear(g, len);
     arb_clear(xa); arb_clear(xb); arb_clear(x); arb_clear(one); arb_clear(w);
-    arf_clear(lo); arf_clear(hi);
+    return st;
+}
+
+/* Bound the total weight on [e^ua, e^ub] by sup |f| times the number of integers there,
+ * halving the chunk until each piece is within its share of the allowance. */
+static int negligible_mass(mag_t mass, embz_tail_t t, const arf_t ua, const arf_t ub,
+                           const mag_t allow, int depth, slong prec)
+{
+    arb_t x, xa, xb, v, cnt;
+    arb_init(x); arb_init(xa); arb_init(xb); arb_init(v); arb_init(cnt);
+    chunk_ball(x, xa, xb, t, ua, ub, prec);
+    int st = embz_expr_eval_arb(v, t->w, x, t->n, prec);
+    t->evals++;
+    mag_t m, c, share;
+    mag_init(m); mag_init(c); mag_init(share);
+    mag_inf(m);
+    if (st == EMBZ_OK && arb_is_finite(v)) {
+        arb_get_mag(m, v);
+        arb_sub(cnt, xb, xa, prec);
+        arb_add_ui(cnt, cnt, 1, prec);
+        arb_get_mag(c, cnt);
+        mag_mul(m, m, c);
+    }
+    mag_mul_2exp_si(share, allow, -depth);
+    if (mag_cmp(m, share) <= 0) {
+        mag_add(mass, mass, m);
+        st = EMBZ_OK;
+    } else if (depth < EMBZ_TAIL_MAX_SPLIT) {
+        arf_t mid;
+        arf_init(mid);
+        arf_add(mid, ua, ub, ARF_PREC_EXACT, ARF_RND_DOWN);
+        arf_mul_2exp_si(mid, mid, -1);
+        st = negligible_mass(mass, t, ua, mid, allow, depth + 1, prec);
+        if (st == EMBZ_OK) st = negligible_mass(mass, t, mid, ub, allow, depth + 1, prec);
+        arf_clear(mid);
+    } else {
+        st = EMBZ_ERR_UNSUPPORTED;
+    }
+    mag_clear(m); mag_clear(c); mag_clear(share);
+    arb_clear(x); arb_clear(xa); arb_clear(xb); arb_clear(v); arb_clear(cnt);
     return st;
 }
 
@@ -302,6 +378,7 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
     fmpz_init_set(t->end, end);
     arb_init(t->base);
     mag_init(t->rem);
+    mag_init(t->neglected);
     arb_init(t->logM);
     arb_log_ui(t->logM, (ulong) M, prec);
     t->du = 1.0;
@@ -376,7 +453,42 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
             st = certify_chunk(t, ua, ub, integral, &dir, 0, prec);
             if (st != EMBZ_OK) break;
             arf_set(ua, ub);
-            width *= 2;
+            /* wider chunks are cheaper, but enclosures over x-ranges wider than a factor
+             * e^8 lose all meaning */
+            width = FLINT_MIN(2 * width, 8.0);
+        }
+        if (st != EMBZ_OK && st != EMBZ_ERR_DOMAIN) {
+            /* Perhaps the weights from here on are too small to matter (a geometric
+             * family far out): if their total is certainly below 2^-(prec+20) of the
+             * first weight, stop the tail here and report the neglected mass. */
+            mag_t mass, goal;
+            arb_t x0;
+            fmpz_t X;
+            mag_init(mass); mag_init(goal);
+            arb_init(x0);
+            fmpz_init(X);
+            arb_get_mag_lower(goal, g);
+            mag_mul_2exp_si(goal, goal, -prec - 20);
+            int ok = (negligible_mass(mass, t, ua, uend, goal, 0, prec) == EMBZ_OK)
+                     && mag_cmp(mass, goal) <= 0;
+            if (ok) {
+                arf_t xl;
+                arf_init(xl);
+                arb_set_arf(x0, ua);
+                arb_exp(x0, x0, prec);
+                arb_get_lbound_arf(xl, x0, prec);
+                arf_get_fmpz(X, xl, ARF_RND_FLOOR);   /* certified up to e^ua >= X */
+                arf_clear(xl);
+                ok = ok && fmpz_cmp_si(X, M + 1) > 0;
+            }
+            if (ok) {
+                fmpz_set(t->end, X);
+                mag_set(t->neglected, mass);
+                st = EMBZ_OK;
+            }
+            mag_clear(mass); mag_clear(goal);
+            arb_clear(x0);
+            fmpz_clear(X);
         }
         if (st != EMBZ_OK) {
             embz_err_set(err, st == EMBZ_ERR_DOMAIN ? EMBZ_ERR_DOMAIN : EMBZ_ERR_UNSUPPORTED,
@@ -405,6 +517,7 @@ void embz_tail_clear(embz_tail_t t)
     _arb_vec_clear(t->bern, EMBZ_TAIL_MAX_ORDER);
     arb_clear(t->base);
     mag_clear(t->rem);
+    mag_clear(t->neglected);
     arb_clear(t->logM);
     _arb_vec_clear(t->icum, t->nalloc);
 }
