@@ -9,7 +9,12 @@
 #include "embz/vec.h"
 #include "embz/measure.h"
 #include "embz/sum.h"
+#include "embz/fidelity.h"
 #include "embz/output.h"
+#include "embz/analysis.h"
+#include "embz/render.h"
+#include "embz/asym.h"
+#include "embz/size.h"
 
 #define EMBZ_VERSION "0.1.0"
 

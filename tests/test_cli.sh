@@ -221,5 +221,100 @@ ref = 1 - H(500) / H(1000)
 assert F(d["error_lo"]) <= ref <= F(d["error_hi"])
 '
 
+
+# ================================================================ fidelity measures
+# (optimal LOCC fidelity F_max, purified distance, local-unitary overlap; convert and error)
+# Catalysis, Jonathan and Plenio, Phys. Rev. Lett. 83, 3566 (1999): without the catalyst
+# (0.6,0.4) F_max < 1; with it on both sides the conversion is exact, F_max = 1.
+run convert 0.4,0.4,0.1,0.1 0.5,0.25,0.25,0 --json; expect_rc 0 "convert fidelity json"; json_ok "convert fidelity json"
+pycheck "F_max < 1 without catalyst; hand-computed hull value; K <= P <= sqrt(K(2-K))" '
+import json, sys, math
+from fractions import Fraction as F
+d = json.load(sys.stdin)
+f, p = d["F_max_forward"], d["P_forward"]
+assert F(f["hi"]) < 1
+# lower hull of (tail r, tail p): pieces (dR, dP) = (1/4, 1/5), (3/4, 4/5) [derived by hand]
+ref = (math.sqrt(0.25 * 0.2) + math.sqrt(0.75 * 0.8)) ** 2
+assert abs(f["value"] - ref) < 1e-14, (f, ref)
+K = F(d["K_forward"]["exact"])
+assert F(p["lo"]) >= K - F(1, 10**25) and float(F(p["hi"])) <= math.sqrt(K * (2 - K)) + 1e-15
+'
+run convert 0.24,0.16,0.24,0.16,0.06,0.04,0.06,0.04 0.3,0.2,0.15,0.1,0.15,0.1,0,0 --json
+expect_rc 0 "convert with catalyst"
+pycheck "catalysed conversion: F_max = 1 exactly, P = 0" '
+import json, sys
+d = json.load(sys.stdin)
+assert d["convertible"] is True
+assert d["F_max_forward"]["exact"] and d["F_max_forward"]["lo"] == "1"
+assert d["P_forward"]["exact"] and d["P_forward"]["hi"] == "0"
+'
+run convert 0.8,0.2 0.6,0.4; expect_rc 0 "convert table"
+expect_out "F_max(FROM -> TO) = " "convert prints F_max"; expect_out "P(FROM -> TO) = " "convert prints P"
+# two levels [derived]: F_max = (sqrt(p1 r1) + sqrt(p2 r2))^2 when p1 > r1
+pycheck "two-level closed form" '
+import sys, math
+t = sys.stdin.read()
+v = [l for l in t.splitlines() if l.startswith("F_max(FROM -> TO)")][0].split("=")[1].split()[0]
+ref = (math.sqrt(0.48) + math.sqrt(0.08)) ** 2
+assert abs(float(v) - ref) < 1e-15, (v, ref)
+'
+# error --measure: values at explicit sizes, against an independent computation in python
+run error inverse -n 40 --measure overlap --json; expect_rc 0 "overlap json"; json_ok "overlap json"
+pycheck "overlap of the inverse family vs direct sum; O^2 <= F_max" '
+import json, sys, math
+from fractions import Fraction as F
+d = json.load(sys.stdin)
+assert d["measure"] == "overlap" and d["bounds_only"] is False
+n = 40; H = sum(1.0 / i for i in range(1, n + 1))
+p = [1.0 / (i * H) for i in range(1, n + 1)]
+r = sorted([x / 2 for x in p for _ in range(2)], reverse=True)[:n]
+O = sum(math.sqrt(a * b) for a, b in zip(p, r))
+assert abs(float(F(d["overlap_lo"])) - O) < 1e-13
+assert abs(d["value"] - O * O) < 1e-13
+assert F(d["value_hi"]) <= F(d["fidelity_hi"])
+# van Dam and Hayden (2003), fidelity |<a|b>| >= 1 - log d / log n [form as recalled in the project notes]
+assert O >= 1 - math.log(2) / math.log(n)
+'
+run error inverse -n 1000 --measure fidelity --json; expect_rc 0 "fidelity json"; json_ok "fidelity json"
+pycheck "fidelity value, P consistent" '
+import json, sys
+from fractions import Fraction as F
+d = json.load(sys.stdin)
+assert d["measure"] == "fidelity" and d["bounds_only"] is False and d["method"] == "explicit"
+lo, hi = F(d["value_lo"]), F(d["value_hi"])
+assert 0 < lo <= hi < 1 and hi - lo < F(1, 10**30)
+plo, phi = F(d["purified_lo"]), F(d["purified_hi"])
+assert 1 - phi**2 <= hi and 1 - plo**2 >= lo
+'
+run error inverse -n 1000 --measure purified; expect_rc 0 "purified table"
+expect_out "measure    purified" "purified table labels the measure"; expect_out "certified digits" "purified table"
+# beyond explicit sizes: bounds only, clearly marked, consistent with K from the default measure
+run error inverse -n 10^40 --measure purified --json; expect_rc 0 "purified bounds"; json_ok "purified bounds"
+cp "$TMP/out" "$TMP/bounds.json"
+run error inverse -n 10^40 --json; expect_rc 0 "K at 10^40"
+printf '%s' "$out" > "$TMP/k.json"
+pycheck "bounds_only and K <= P <= sqrt(K(2-K))" "
+import json
+from fractions import Fraction as F
+b = json.load(open('$TMP/bounds.json')); k = json.load(open('$TMP/k.json'))
+assert b['bounds_only'] is True and b['value'] is None and 'value_certified' not in b
+assert k['measure'] == 'k' and k['bounds_only'] is False
+K_lo, K_hi = F(k['error_lo']), F(k['error_hi'])
+assert F(b['value_lo']) <= K_lo + F(1, 10**20)
+assert F(b['value_hi'])**2 >= K_hi * (2 - K_hi) - F(1, 10**20)
+"
+run error inverse -n 10^40 --measure fidelity; expect_rc 0 "fidelity bounds table"
+expect_out "BOUNDS ONLY" "bounds are marked in the table"
+run error inverse -n 10^40 --measure overlap; expect_rc 1 "overlap has no bounds"; expect_err "explicit sizes" "overlap beyond explicit"
+run error inverse -n 100 --measure trace; expect_rc 2 "bad measure"; expect_err "unknown measure 'trace'" "bad measure"
+run error inverse -n 100 --measure fidelity --csv; expect_rc 0 "fidelity csv"
+pycheck "fidelity csv" '
+import csv, sys
+rows = list(csv.reader(sys.stdin))
+assert len(rows) == 2 and len(rows[0]) == len(rows[1])
+row = dict(zip(rows[0], rows[1]))
+assert row["measure"] == "fidelity" and row["bounds_only"] == "false"
+'
+
 echo "$((checks - fails)) passed, $fails failed"
 [ "$fails" -eq 0 ]

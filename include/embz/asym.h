@@ -21,7 +21,7 @@
 typedef struct {
     fmpq e[EMBZ_ASYM_LEVELS];
     arb_struct c;      /* coefficient ball (a point ball equal to q when exact) */
-    fmpq q;            /* the exact coefficient when exact != 0 */
+    fmpq_t q;          /* the exact coefficient when exact != 0 */
     int exact;
 } embz_asym_term_struct;
 
@@ -76,8 +76,9 @@ int embz_asym_series_eval(arb_t res, const embz_asym_series_t s, const arb_t x, 
 /* Text of a monomial: "x^-1 (log x)^-2", "x^(1/2) log log x", "1". Writes at most len bytes
  * (always NUL-terminated when len > 0). */
 void embz_asym_mono_str(char *buf, size_t len, const fmpq *e);
-/* Text of a whole expansion, "1*x^-1 - 1*x^-2 + O(x^-3)" style, coefficients with `digits`
- * significant digits (midpoints of balls, marked "~" when inexact). malloc'ed; caller frees. */
+/* Text of a whole expansion, "(1)*x^-1 + (-1)*x^-2 + O(x^-3)": exact coefficients as p/q,
+ * others as arb balls with `digits` digits. For people and debugging; flint_malloc'ed, the
+ * caller frees it with flint_free (or free). */
 char *embz_asym_series_to_string(const embz_asym_series_t s, slong digits);
 
 /* ---------------------------------------------------------------- verdict */

@@ -62,6 +62,11 @@ int embz_expr_parse(embz_expr_t e, const char *text,
 /* Replace every parameter node by its exact value (values[k] for params[k]). */
 void embz_expr_bind(embz_expr_t e, const fmpq *values);
 
+/* phi(u) = w(e^u) e^u as a new expression in which the variable i stands for u; products and
+ * powers of e^u are merged exactly (w = 1/i gives the constant 1). Parameters must be bound.
+ * Returns EMBZ_OK, or EMBZ_ERR_INPUT for an empty expression. */
+int embz_expr_log_substitute(embz_expr_t out, const embz_expr_t w);
+
 /* Wrap: e <- e^2 (used for amplitude families). */
 void embz_expr_square(embz_expr_t e);
 

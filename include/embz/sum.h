@@ -12,6 +12,8 @@
 #define EMBZ_SUM_H
 
 #include "embz/family.h"
+#include "embz/vec.h"
+#include "embz/measure.h"
 
 typedef struct {
     const embz_expr_struct *w; /* borrowed weight expression in (i, n) */
@@ -31,6 +33,7 @@ typedef struct {
     slong nnodes, nalloc;
     arb_ptr icum;              /* icum[k] = integral of f from M to M e^(k du) */
     slong prec;
+    embz_expr_t phi;           /* phi(u) = w(e^u) e^u, simplified (embz_expr_log_substitute) */
     long evals;                /* statistics: series evaluations */
     long integrals;            /* statistics: integrator calls */
 } embz_tail_struct;
@@ -59,6 +62,36 @@ int embz_tail_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scal
 /* Taylor coefficients 0..len-1 of sigma -> f(x + scale sigma). */
 int embz_tail_weight_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
                             slong len, slong prec);
+
+/* The analytic engine for one family, reusable across sizes: for weights that do not depend on
+ * n the certified tail (and its integral cache) is built once and serves every n up to nmax. */
+typedef struct {
+    const embz_family_struct *f;   /* borrowed */
+    slong prec;
+    int uses_n;
+    int have_tail;
+    fmpz_t nmax;
+    embz_tail_t tail;
+    int have_decide;
+    arf_t decide;                  /* decision threshold (see embz_analytic_set_decision) */
+} embz_analytic_struct;
+typedef embz_analytic_struct embz_analytic_t[1];
+
+void embz_analytic_init(embz_analytic_t a, const embz_family_t f, slong prec);
+void embz_analytic_clear(embz_analytic_t a);
+/* Optional: certify the tail for all sizes up to nmax at once (saves work in sweeps). */
+int embz_analytic_prepare(embz_analytic_t a, const fmpz_t nmax, embz_err_t *err);
+/* Decision mode: the maximisation may stop as soon as the enclosure lies entirely above or
+ * entirely below the threshold (the result is still a valid, possibly wider, enclosure).
+ * Used by size searches that only need the side of an error goal. */
+void embz_analytic_set_decision(embz_analytic_t a, const arb_t threshold);
+void embz_analytic_clear_decision(embz_analytic_t a);
+/* E_n(q) for a uniform target (embz_error_analytic is init + this + clear). */
+int embz_analytic_error(embz_error_result_t res, embz_analytic_t a, const fmpz_t n,
+                        const embz_target_t q, embz_err_t *err);
+
+/* Taylor coefficients 0..len-1 of tau -> phi(v + tau), phi(u) = w(e^u) e^u; v may be wide. */
+int embz_tail_phi_series(arb_ptr res, embz_tail_t t, const arb_t v, slong len, slong prec);
 
 /* Sum of w(i, n) for i = a..b (explicit, arb). */
 int embz_sum_explicit(arb_t res, const embz_expr_t w, const arb_t n, slong a, slong b,

@@ -82,9 +82,26 @@ double cli_arb_radius_d(const arb_t x);
 /* Parse a whole decimal integer in [lo, hi]; returns 0 on success. */
 int cli_parse_long(long *res, const char *s, long lo, long hi);
 
+/* ---- common inputs (load.c) ---- */
+/* The family named by spec_text, with the --set and --amplitude options of a. On failure the
+ * message is printed ("embz CMD: ...") and the exit code returned; 0 on success. */
+int cli_load_family(embz_family_t fam, const cli_args_t *a, const char *spec_text,
+                    const char *cmd);
+/* The --target option (one ebit when absent); message + exit code on failure, 0 on success. */
+int cli_load_target(embz_target_t q, const cli_args_t *a, const char *cmd);
+/* The --prec option (unchanged when absent); usage error on a bad value, 0 on success. */
+int cli_load_prec(long *prec, const cli_args_t *a, const cli_spec_t *spec);
+
 /* ---- subcommands ---- */
 int cli_cmd_families(int argc, char **argv);
 int cli_cmd_convert(int argc, char **argv);
 int cli_cmd_error(int argc, char **argv);
+int cli_cmd_sweep(int argc, char **argv);
+int cli_cmd_classify(int argc, char **argv);
+int cli_cmd_scan(int argc, char **argv);
+int cli_cmd_size(int argc, char **argv);
+int cli_cmd_plot(int argc, char **argv);
+int cli_cmd_report(int argc, char **argv);
+int cli_cmd_demo(int argc, char **argv);
 
 #endif

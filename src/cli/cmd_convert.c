@@ -1,5 +1,6 @@
 /* embz convert FROM TO: exact LOCC convertibility (Nielsen's majorization criterion) and the
- * conversion distance K in both directions, all in exact rational arithmetic. */
+ * conversion distance K in both directions, all in exact rational arithmetic; the optimal LOCC
+ * fidelity F_max and the purified distance P = sqrt(1 - F_max) as certified enclosures. */
 #include <stdlib.h>
 #include <string.h>
 #include "cli.h"
@@ -18,7 +19,8 @@ static const cli_spec_t convert_spec = {
     "FROM and TO are comma-separated lists of numbers (\"0.4,0.4,0.1,0.1\") or files of\n"
     "numbers. They are normalised to sum 1 when they do not. Numbers are read exactly\n"
     "(decimals, 1e-3, 2/3), so every printed result is exact: K as a certified decimal and,\n"
-    "when short, as a fraction.\n",
+    "when short, as a fraction. F_max is the largest fidelity (squared overlap) with TO that\n"
+    "LOCC reaches from FROM, P = sqrt(1 - F_max); both are printed with certified digits.\n",
     convert_opts, 2, 2
 };
 
@@ -89,6 +91,32 @@ static void json_distance(embz_buf_t *out, const fmpq_t K, long argk)
     free(dec);
 }
 
+#define FID_PREC 256
+#define FID_DIGITS 30
+
+static void json_ball(embz_buf_t *out, const arb_t x)
+{
+    char *lo = embz_arb_lo_string(x, FID_DIGITS), *hi = embz_arb_hi_string(x, FID_DIGITS);
+    char *c = embz_arb_certified_string(x, FID_DIGITS);
+    embz_buf_printf(out, "{\"value\": ");
+    cli_buf_json_double(out, embz_arb_mid_d(x));
+    embz_buf_printf(out, ", \"lo\": ");
+    embz_buf_json_string(out, lo);
+    embz_buf_printf(out, ", \"hi\": ");
+    embz_buf_json_string(out, hi);
+    embz_buf_printf(out, ", \"certified\": ");
+    embz_buf_json_string(out, c);
+    embz_buf_printf(out, ", \"exact\": %s}", arb_is_exact(x) ? "true" : "false");
+    free(lo); free(hi); free(c);
+}
+
+static void text_ball(embz_buf_t *out, const char *label, const arb_t x, const char *what)
+{
+    char *c = embz_arb_certified_string(x, FID_DIGITS);
+    embz_buf_printf(out, "%s = %s%s   (%s)\n", label, c, arb_is_exact(x) ? " exactly" : "", what);
+    free(c);
+}
+
 static void text_distance(embz_buf_t *out, const char *label, const fmpq_t K, long argk)
 {
     char *ex = fmpq_get_str(NULL, 10, K);
@@ -147,6 +175,12 @@ int cli_cmd_convert(int argc, char **argv)
     int fwd = embz_qvec_convertible(p, r), bwd = embz_qvec_convertible(r, p);
     embz_qvec_distance(K1, &k1, p, r);
     embz_qvec_distance(K2, &k2, r, p);
+    arb_t F1, F2, P1, P2;
+    arb_init(F1); arb_init(F2); arb_init(P1); arb_init(P2);
+    embz_qvec_fidelity(F1, NULL, NULL, p, r, FID_PREC);
+    embz_qvec_fidelity(F2, NULL, NULL, r, p, FID_PREC);
+    embz_qvec_purified(P1, p, r, FID_PREC);
+    embz_qvec_purified(P2, r, p, FID_PREC);
 
     embz_buf_t out;
     embz_buf_init(&out);
@@ -162,6 +196,14 @@ int cli_cmd_convert(int argc, char **argv)
         json_distance(&out, K1, k1);
         embz_buf_printf(&out, ", \"K_backward\": ");
         json_distance(&out, K2, k2);
+        embz_buf_printf(&out, ", \"F_max_forward\": ");
+        json_ball(&out, F1);
+        embz_buf_printf(&out, ", \"P_forward\": ");
+        json_ball(&out, P1);
+        embz_buf_printf(&out, ", \"F_max_backward\": ");
+        json_ball(&out, F2);
+        embz_buf_printf(&out, ", \"P_backward\": ");
+        json_ball(&out, P2);
         embz_buf_printf(&out, "}\n");
     } else {
         show_vector(&out, "FROM", p);
@@ -178,9 +220,16 @@ int cli_cmd_convert(int argc, char **argv)
                             : "not possible (TO is not majorized by FROM)");
         text_distance(&out, "K(FROM -> TO)", K1, k1);
         text_distance(&out, "K(TO -> FROM)", K2, k2);
+        text_ball(&out, "F_max(FROM -> TO)", F1,
+                  "optimal LOCC fidelity, |<a|b>|^2; certified digits");
+        text_ball(&out, "P(FROM -> TO)", P1, "purified distance sqrt(1 - F_max)");
+        text_ball(&out, "F_max(TO -> FROM)", F2,
+                  "optimal LOCC fidelity, |<a|b>|^2; certified digits");
+        text_ball(&out, "P(TO -> FROM)", P2, "purified distance sqrt(1 - F_max)");
     }
     fputs(out.s, stdout);
     embz_buf_clear(&out);
+    arb_clear(F1); arb_clear(F2); arb_clear(P1); arb_clear(P2);
 
 done:
     fmpq_clear(K1);

@@ -9,6 +9,8 @@ static const cli_opt_t error_opts[] = {
       "target state: ebit (default), ebits:J, uniform:D, or a list/file of numbers" },
     { "prec", 'p', CLI_VALUE, "BITS", "working precision of the ball arithmetic (default 128)" },
     { "method", 'm', CLI_VALUE, "M", "auto (default), explicit or analytic" },
+    { "measure", 0, CLI_VALUE, "M",
+      "k (default: the distance K), fidelity, purified or overlap" },
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter (exact decimal, e.g. a=-0.7)" },
     { "amplitude", 0, CLI_FLAG, NULL, "the expression gives amplitudes; weights are squares" },
     { "json", 0, CLI_FLAG, NULL, "print one JSON object" },
@@ -23,7 +25,11 @@ static const cli_spec_t error_spec = {
     "FAMILY is a library name (see 'embz families'), the path of a family file, or an\n"
     "expression in i (and n), e.g. '1/i' or 'i^a' with --set a=-0.5.\n"
     "The printed error shows only digits certified by the enclosure; 'estimate' is a\n"
-    "double-precision value without guarantee.\n",
+    "double-precision value without guarantee.\n"
+    "--measure fidelity: the optimal LOCC fidelity F_max(p -> p (x) q) (fidelity = squared\n"
+    "overlap); purified: sqrt(1 - F_max); overlap: the best squared overlap with local\n"
+    "unitaries only. These are values for n up to 2^20; beyond, fidelity and purified are\n"
+    "certified BOUNDS from K (K <= P <= sqrt(K(2-K))), marked as such.\n",
     error_opts, 1, 1
 };
 
@@ -75,6 +81,7 @@ static void emit_json(embz_buf_t *b, const row_t *r)
     embz_buf_json_string(b, r->target);
     embz_buf_printf(b, ", \"method\": ");
     embz_buf_json_string(b, r->method);
+    embz_buf_printf(b, ", \"measure\": \"k\", \"bounds_only\": false");
     embz_buf_printf(b, ", \"error\": ");
     cli_buf_json_double(b, r->mid);
     embz_buf_printf(b, ", \"error_lo\": ");
@@ -192,6 +199,191 @@ static char *family_label(const embz_family_t f)
     return b.s;
 }
 
+/* ---------------------------------------------------------------- fidelity measures */
+
+static const char *measure_meaning(int m)
+{
+    switch (m) {
+    case EMBZ_MEASURE_FIDELITY: return "optimal LOCC fidelity F_max (fidelity = |<a|b>|^2)";
+    case EMBZ_MEASURE_PURIFIED: return "purified distance P = sqrt(1 - F_max)";
+    case EMBZ_MEASURE_OVERLAP:
+        return "best fidelity with local unitaries only, O^2 (O = sum sqrt(p r))";
+    default: return "conversion distance K";
+    }
+}
+
+static void json_ends(embz_buf_t *b, const char *name, const arb_t x)
+{
+    char *lo = embz_arb_lo_string(x, JSON_DIGITS), *hi = embz_arb_hi_string(x, JSON_DIGITS);
+    embz_buf_printf(b, ", \"%s_lo\": ", name);
+    embz_buf_json_string(b, lo);
+    embz_buf_printf(b, ", \"%s_hi\": ", name);
+    embz_buf_json_string(b, hi);
+    free(lo); free(hi);
+}
+
+static char *params_text(const embz_family_t fam, int json)
+{
+    embz_buf_t pj;
+    embz_buf_init(&pj);
+    if (json) embz_buf_printf(&pj, "{");
+    for (long k = 0; k < fam->nparams; k++) {
+        char *v = fmpq_get_str(NULL, 10, fam->param_values + k);
+        if (json) {
+            embz_buf_printf(&pj, "%s", k ? ", " : "");
+            embz_buf_json_string(&pj, fam->param_names[k]);
+            embz_buf_printf(&pj, ": ");
+            embz_buf_json_string(&pj, v);
+        } else {
+            embz_buf_printf(&pj, "%s%s=%s", k ? ";" : "", fam->param_names[k], v);
+        }
+        flint_free(v);
+    }
+    if (json) embz_buf_printf(&pj, "}");
+    return pj.s;
+}
+
+static char *weight_text(const embz_family_t fam)
+{
+    size_t l = strlen(fam->weight_text) + 32;
+    char *w = malloc(l);
+    snprintf(w, l, fam->amplitude ? "(%s)^2" : "%s", fam->weight_text);
+    return w;
+}
+
+static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_target_t q,
+                        int measure, int method, slong prec, int json, int csv)
+{
+    embz_err_t err;
+    embz_err_clear(&err);
+    embz_fidelity_result_t res;
+    embz_fidelity_result_init(res);
+    int status = embz_fidelity(res, fam, n, q, measure, method, prec, &err);
+    if (status != EMBZ_OK) {
+        embz_fidelity_result_clear(res);
+        return cli_report("error", status, &err);
+    }
+    const char *mname = embz_measure_name(measure);
+    const char *how = res->bounds_only ? "bounds" : "explicit";
+    char *ns = fmpz_get_str(NULL, 10, n);
+    char *w = weight_text(fam);
+    /* lower and upper are exact ends (for bounds tighter than the ball around them) */
+    char *lo = embz_arb_lo_string(res->lower, JSON_DIGITS);
+    char *hi = embz_arb_hi_string(res->upper, JSON_DIGITS);
+    embz_buf_t b;
+    embz_buf_init(&b);
+    if (json) {
+        char *pj = params_text(fam, 1);
+        embz_buf_printf(&b, "{\"family\": ");
+        embz_buf_json_string(&b, fam->name);
+        embz_buf_printf(&b, ", \"params\": %s, \"weight\": ", pj);
+        embz_buf_json_string(&b, w);
+        embz_buf_printf(&b, ", \"n\": ");
+        embz_buf_json_string(&b, ns);
+        embz_buf_printf(&b, ", \"target\": ");
+        embz_buf_json_string(&b, q->label);
+        embz_buf_printf(&b, ", \"measure\": ");
+        embz_buf_json_string(&b, mname);
+        embz_buf_printf(&b, ", \"meaning\": ");
+        embz_buf_json_string(&b, measure_meaning(measure));
+        embz_buf_printf(&b, ", \"method\": ");
+        embz_buf_json_string(&b, how);
+        embz_buf_printf(&b, ", \"bounds_only\": %s", res->bounds_only ? "true" : "false");
+        embz_buf_printf(&b, ", \"value\": ");
+        if (res->bounds_only) embz_buf_printf(&b, "null");
+        else cli_buf_json_double(&b, embz_arb_mid_d(res->value));
+        embz_buf_printf(&b, ", \"value_lo\": ");
+        embz_buf_json_string(&b, lo);
+        embz_buf_printf(&b, ", \"value_hi\": ");
+        embz_buf_json_string(&b, hi);
+        if (!res->bounds_only) {
+            char *c = embz_arb_certified_string(res->value, CERT_DIGITS);
+            embz_buf_printf(&b, ", \"value_certified\": ");
+            embz_buf_json_string(&b, c);
+            free(c);
+        }
+        if (!res->bounds_only) {
+            json_ends(&b, "fidelity", res->fidelity);
+            json_ends(&b, "purified", res->purified);
+        }
+        if (measure == EMBZ_MEASURE_OVERLAP) json_ends(&b, "overlap", res->overlap);
+        if (res->bounds_only) json_ends(&b, "K", res->K);
+        embz_buf_printf(&b, ", \"detail\": ");
+        embz_buf_json_string(&b, res->detail);
+        embz_buf_printf(&b, "}\n");
+        free(pj);
+    } else if (csv) {
+        char *pt = params_text(fam, 0);
+        embz_buf_printf(&b, "family,params,weight,n,target,measure,bounds_only,value,value_lo,"
+                        "value_hi,detail\n");
+        const char *f1[] = { fam->name, pt, w, ns, q->label, mname };
+        for (int k = 0; k < 6; k++) {
+            cli_buf_csv_field(&b, f1[k]);
+            embz_buf_printf(&b, ",");
+        }
+        embz_buf_printf(&b, "%s,", res->bounds_only ? "true" : "false");
+        if (!res->bounds_only) embz_buf_printf(&b, "%.17g", embz_arb_mid_d(res->value));
+        embz_buf_printf(&b, ",");
+        cli_buf_csv_field(&b, lo);
+        embz_buf_printf(&b, ",");
+        cli_buf_csv_field(&b, hi);
+        embz_buf_printf(&b, ",");
+        cli_buf_csv_field(&b, res->detail);
+        embz_buf_printf(&b, "\n");
+        free(pt);
+    } else {
+        char *label = family_label(fam);
+        char *nt = int_text(n);
+        embz_buf_printf(&b, "%-10s %s\n", "family", label);
+        if (strcmp(fam->name, w) != 0) embz_buf_printf(&b, "%-10s %s\n", "weight", w);
+        embz_buf_printf(&b, "%-10s %s\n", "n", nt);
+        embz_buf_printf(&b, "%-10s %s\n", "target", q->label);
+        embz_buf_printf(&b, "%-10s %s: %s\n", "measure", mname, measure_meaning(measure));
+        char *tl = embz_arb_lo_string(res->lower, TABLE_DIGITS);
+        char *th = embz_arb_hi_string(res->upper, TABLE_DIGITS);
+        if (res->bounds_only) {
+            embz_buf_printf(&b, "%-10s BOUNDS ONLY, no value (explicit sizes are n <= %ld)\n",
+                            "value", (long) EMBZ_FIDELITY_MAX_N);
+            embz_buf_printf(&b, "%-10s %s <= %s <= %s   (from K <= P <= sqrt(K(2-K)))\n",
+                            "bounds", tl, mname, th);
+            char *kc = embz_arb_certified_string(res->K, CERT_DIGITS);
+            embz_buf_printf(&b, "%-10s %s   (conversion distance, certified digits)\n", "K",
+                            kc);
+            free(kc);
+        } else {
+            char *c = embz_arb_certified_string(res->value, CERT_DIGITS);
+            embz_buf_printf(&b, "%-10s %s   (certified digits)\n", "value", c);
+            embz_buf_printf(&b, "%-10s [%s, %s]\n", "enclosure", tl, th);
+            free(c);
+            if (measure != EMBZ_MEASURE_FIDELITY) {
+                char *x = embz_arb_certified_string(res->fidelity, CERT_DIGITS);
+                embz_buf_printf(&b, "%-10s %s   (F_max, certified digits)\n", "fidelity", x);
+                free(x);
+            }
+            if (measure != EMBZ_MEASURE_PURIFIED) {
+                char *x = embz_arb_certified_string(res->purified, CERT_DIGITS);
+                embz_buf_printf(&b, "%-10s %s   (sqrt(1 - F_max), certified digits)\n",
+                                "purified", x);
+                free(x);
+            }
+            if (measure == EMBZ_MEASURE_OVERLAP) {
+                char *x = embz_arb_certified_string(res->overlap, CERT_DIGITS);
+                embz_buf_printf(&b, "%-10s %s   (O = sum sqrt(p r), certified digits)\n",
+                                "overlap", x);
+                free(x);
+            }
+        }
+        free(tl); free(th);
+        embz_buf_printf(&b, "%-10s %s (%s)\n", "method", how, res->detail);
+        free(label); free(nt);
+    }
+    fputs(b.s, stdout);
+    embz_buf_clear(&b);
+    free(ns); free(w); free(lo); free(hi);
+    embz_fidelity_result_clear(res);
+    return CLI_EXIT_OK;
+}
+
 int cli_cmd_error(int argc, char **argv)
 {
     cli_args_t a;
@@ -224,6 +416,8 @@ int cli_cmd_error(int argc, char **argv)
     const char *target_text = cli_value(&a, "target");
     const char *prec_text = cli_value(&a, "prec");
     const char *method_text = cli_value(&a, "method");
+    const char *measure_text = cli_value(&a, "measure");
+    int measure = EMBZ_MEASURE_K;
 
     if (json && csv) {
         code = cli_usage_error(&error_spec, "--json and --csv exclude each other");
@@ -247,6 +441,10 @@ int cli_cmd_error(int argc, char **argv)
                                    "bad method '%s' (auto, explicit or analytic)", method_text);
             goto done;
         }
+    }
+    if (measure_text != NULL && embz_measure_parse(&measure, measure_text, &err) != EMBZ_OK) {
+        code = cli_usage_error(&error_spec, "%s", err.text);
+        goto done;
     }
     status = embz_size_parse(n, size_text, &err);
     if (status != EMBZ_OK) {
@@ -289,6 +487,10 @@ int cli_cmd_error(int argc, char **argv)
     }
 
     embz_err_clear(&err);
+    if (measure != EMBZ_MEASURE_K) {
+        code = run_fidelity(fam, n, q, measure, method, prec, json, csv);
+        goto done;
+    }
     status = embz_error(res, fam, n, q, method, prec, &err);
     if (status != EMBZ_OK) {
         code = cli_report("error", status, &err);

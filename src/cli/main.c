@@ -14,7 +14,13 @@ static const cli_command_t commands[] = {
     { "families", cli_cmd_families, "list the shipped family library" },
     { "convert",  cli_cmd_convert,  "exact convertibility and distance K between two states" },
     { "error",    cli_cmd_error,    "certified embezzlement error of a family at size n" },
-    /* later: sweep, classify, size, scan, report, plot, demo */
+    { "sweep",    cli_cmd_sweep,    "error versus size over a log-spaced range, with fitted laws" },
+    { "classify", cli_cmd_classify, "verdict: universal embezzler or not, and how fast" },
+    { "scan",     cli_cmd_scan,     "verdict, limit and rate over a parameter grid" },
+    { "size",     cli_cmd_size,     "smallest size (and qubits) reaching an error goal" },
+    { "plot",     cli_cmd_plot,     "plots of error versus size and of the weights" },
+    { "report",   cli_cmd_report,   "one document comparing families (HTML, Markdown, LaTeX, PDF)" },
+    { "demo",     cli_cmd_demo,     "the built-in scenario: which family embezzles two ebits cheapest" },
 };
 #define NCOMMANDS ((long) (sizeof(commands) / sizeof(commands[0])))
 

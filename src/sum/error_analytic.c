@@ -27,6 +27,7 @@
 typedef struct {
     embz_tail_struct *t;
     const embz_family_struct *f;
+    const arf_struct *decide;   /* stop as soon as E is known to be above or below this */
     fmpz_t n;            /* effective dimension: the true n, or less when the weights beyond
                             it were found negligible (their mass is t->neglected) */
     fmpz_t ntrue;        /* the size n of the family (weights may depend on it) */
@@ -338,6 +339,409 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
     return st;
 }
 
+/* ---------- Taylor models in v = ln y (large s, non-increasing tails) ----------
+ *
+ * With P = M - a, y = s + (r + P)/d and v = ln y, the positions are x1 = d y (of k = d s + r),
+ * x2 = y + delta (of s; delta = (P (d-1) - r)/d) and x3 = x2 + 1 (of s + 1), and
+ *   W h_r = G(v) - S(v) + em(x1) - em(x2) - (r/d) f(x3),
+ *   G(v) = integral_v^(v + ln d) phi,  S(v) = integral_v^(v + lambda(v)) phi,
+ *   lambda = ln(1 + delta e^-v),  em(x) = f(x)/2 + sum_j B_2j/(2j)! f^(2j-1)(x),
+ * phi(u) = f(e^u) e^u taken from the symbolically simplified expression. The part G is O(1)
+ * but only as variable as phi (constant for f = 1/i: no cancellation left to the balls); the
+ * other parts are O(1/y). This lets long stretches of s be settled at once. */
+
+#define VMODEL_FROM_BITS 40    /* v-models for s >= 2^20 */
+#define VMODEL_LEN 16          /* their order */
+#define VMODEL_SHORT 12        /* terms kept of the short integral S */
+
+/* em(x(tau)) with x(tau) = scale e^(v + tau) + shift, as a series in tau */
+static int em_composed(arb_ptr res, actx *c, const arb_t v, const arb_t scale,
+                       const arb_t shift, slong len, slong prec)
+{
+    embz_tail_struct *t = c->t;
+    slong L = len + 2 * t->p;
+    arb_ptr g = _arb_vec_init(L), em = _arb_vec_init(len), ts = _arb_vec_init(len);
+    arb_t xc, ev, one, u;
+    fmpz_t rf;
+    arb_init(xc); arb_init(ev); arb_init(one); arb_init(u);
+    fmpz_init(rf);
+    arb_one(one);
+    arb_exp(ev, v, prec);
+    arb_mul(ev, ev, scale, prec);
+    arb_add(xc, ev, shift, prec);
+    int st = embz_tail_weight_series(g, t, xc, one, L, prec);
+    if (st == EMBZ_OK) {
+        for (slong l = 0; l < len; l++) {
+            arb_mul_2exp_si(em + l, g + l, -1);
+            for (slong j = 1; j <= t->p; j++) {
+                fmpz_rfac_uiui(rf, l + 1, 2 * j - 1);
+                arb_mul_fmpz(u, g + l + 2 * j - 1, rf, prec);
+                arb_addmul(em + l, u, t->bern + j - 1, prec);
+            }
+        }
+        /* x(tau) - x(0) = scale e^v (e^tau - 1) */
+        arb_zero(ts);
+        arb_set(u, ev);
+        for (slong k = 1; k < len; k++) {
+            arb_div_ui(u, u, (ulong) k, prec);
+            arb_set(ts + k, u);
+        }
+        _arb_poly_compose_series(res, em, len, ts, len, len, prec);
+    }
+    _arb_vec_clear(g, L); _arb_vec_clear(em, len); _arb_vec_clear(ts, len);
+    arb_clear(xc); arb_clear(ev); arb_clear(one); arb_clear(u);
+    fmpz_clear(rf);
+    return st;
+}
+
+/* f(e^(v + tau) + shift) as a series in tau */
+static int f_composed(arb_ptr res, actx *c, const arb_t v, const arb_t shift, slong len,
+                      slong prec)
+{
+    arb_ptr xs = _arb_vec_init(len);
+    arb_t u;
+    arb_init(u);
+    arb_exp(u, v, prec);
+    for (slong k = 0; k < len; k++) {
+        arb_set(xs + k, u);
+        arb_div_ui(u, u, (ulong) (k + 1), prec);
+    }
+    arb_add(xs, xs, shift, prec);
+    int st = embz_expr_eval_series(res, c->t->w, xs, c->t->n, len, prec);
+    c->t->evals++;
+    if (st == EMBZ_OK && !_arb_vec_is_finite(res, len)) st = EMBZ_ERR_DOMAIN;
+    _arb_vec_clear(xs, len);
+    arb_clear(u);
+    return st;
+}
+
+/* S(v + tau) = sum_{m=1}^{K} phi^(m-1)(v + tau) lambda(v + tau)^m / m!  (series in tau) */
+static int short_integral(arb_ptr res, actx *c, const arb_t v, const arb_t delta, slong len,
+                          slong prec)
+{
+    slong K = VMODEL_SHORT;
+    arb_ptr ph = _arb_vec_init(len + K), lam = _arb_vec_init(len), e = _arb_vec_init(len);
+    arb_ptr lp = _arb_vec_init(len), dm = _arb_vec_init(len), tmp = _arb_vec_init(len);
+    arb_t u;
+    fmpz_t rf;
+    arb_init(u);
+    fmpz_init(rf);
+    _arb_vec_zero(res, len);
+    int st = embz_tail_phi_series(ph, c->t, v, len + K, prec);
+    if (st == EMBZ_OK) {
+        /* lambda = log1p(delta e^(-v - tau)) */
+        arb_neg(u, v);
+        arb_exp(u, u, prec);
+        arb_mul(u, u, delta, prec);
+        for (slong k = 0; k < len; k++) {
+            arb_set(e + k, u);
+            arb_div_si(u, u, -(slong) (k + 1), prec);
+        }
+        _arb_poly_log1p_series(lam, e, len, len, prec);
+        _arb_vec_set(lp, lam, len);               /* lambda^m */
+        for (slong m = 1; m <= K; m++) {
+            /* phi^(m-1)(v + tau): coefficient l is ph[l + m - 1] (l + m - 1)!/l! */
+            for (slong l = 0; l < len; l++) {
+                fmpz_rfac_uiui(rf, l + 1, m - 1);
+                arb_mul_fmpz(dm + l, ph + l + m - 1, rf, prec);
+            }
+            _arb_poly_mullow(tmp, dm, len, lp, len, len, prec);
+            arb_fac_ui(u, m, prec);
+            _arb_vec_scalar_div(tmp, tmp, len, u, prec);
+            _arb_vec_add(res, res, tmp, len, prec);
+            _arb_poly_mullow(tmp, lp, len, lam, len, len, prec);
+            _arb_vec_set(lp, tmp, len);
+        }
+    }
+    _arb_vec_clear(ph, len + K); _arb_vec_clear(lam, len); _arb_vec_clear(e, len);
+    _arb_vec_clear(lp, len); _arb_vec_clear(dm, len); _arb_vec_clear(tmp, len);
+    arb_clear(u);
+    fmpz_clear(rf);
+    return st;
+}
+
+/* The series of W h_r in tau at v (len coefficients; coefficient 0 only when point != 0). */
+static int vmodel_series(arb_ptr co, actx *c, ulong r, const arb_t v, const arb_t delta,
+                         slong len, int point, slong prec)
+{
+    arb_ptr G = _arb_vec_init(len), S = _arb_vec_init(len), E1 = _arb_vec_init(len);
+    arb_ptr E2 = _arb_vec_init(len), F3 = _arb_vec_init(len);
+    arb_ptr p0 = _arb_vec_init(len), p1 = _arb_vec_init(len);
+    arb_t ld, v1, dd, zero, sh, y;
+    arb_init(ld); arb_init(v1); arb_init(dd); arb_init(zero); arb_init(sh); arb_init(y);
+    arb_log_ui(ld, c->d, prec);
+    arb_add(v1, v, ld, prec);
+    arb_set_ui(dd, c->d);
+    int st = embz_tail_phi_series(p0, c->t, v, len, prec);
+    if (st == EMBZ_OK) st = embz_tail_phi_series(p1, c->t, v1, len, prec);
+    if (st == EMBZ_OK) {
+        for (slong j = 1; j < len; j++) {
+            arb_sub(G + j, p1 + j - 1, p0 + j - 1, prec);
+            arb_div_ui(G + j, G + j, (ulong) j, prec);
+        }
+        if (point) {
+            /* G(v) = I(d y) - I(y) from the integral cache */
+            arb_t a1;
+            arb_init(a1);
+            arb_exp(y, v, prec);
+            st = embz_tail_integral(G, c->t, y, prec);
+            arb_mul_ui(y, y, c->d, prec);
+            if (st == EMBZ_OK) st = embz_tail_integral(a1, c->t, y, prec);
+            arb_sub(G, a1, G, prec);
+            arb_clear(a1);
+        }
+    }
+    if (st == EMBZ_OK && !arb_is_zero(delta)) st = short_integral(S, c, v, delta, len, prec);
+    if (st == EMBZ_OK) st = em_composed(E1, c, v, dd, zero, len, prec);
+    arb_one(y);
+    if (st == EMBZ_OK) st = em_composed(E2, c, v, y, delta, len, prec);
+    arb_add_ui(sh, delta, 1, prec);
+    if (st == EMBZ_OK && r != 0) st = f_composed(F3, c, v, sh, len, prec);
+    if (st == EMBZ_OK) {
+        for (slong j = point ? 0 : 1; j < len; j++) {
+            arb_sub(co + j, G + j, S + j, prec);
+            arb_add(co + j, co + j, E1 + j, prec);
+            arb_sub(co + j, co + j, E2 + j, prec);
+            if (r != 0) {
+                arb_mul_ui(y, F3 + j, r, prec);
+                arb_div_ui(y, y, c->d, prec);
+                arb_sub(co + j, co + j, y, prec);
+            }
+            arb_div(co + j, co + j, c->W, prec);
+        }
+    }
+    _arb_vec_clear(G, len); _arb_vec_clear(S, len); _arb_vec_clear(E1, len);
+    _arb_vec_clear(E2, len); _arb_vec_clear(F3, len);
+    _arb_vec_clear(p0, len); _arb_vec_clear(p1, len);
+    arb_clear(ld); arb_clear(v1); arb_clear(dd); arb_clear(zero); arb_clear(sh); arb_clear(y);
+    return st;
+}
+
+/* Coarser bound for wide v-intervals: a Taylor model of G alone (from phi) plus plain
+ * enclosures of the small parts, |S| + |em(x1)| + |em(x2)| + (r/d) |f(x3)|, over the interval.
+ * Far out, where those parts are below the tolerance, this settles very long stretches. */
+static int model_bound_wide(arf_t U, actx *c, ulong r, const arb_t vc, const arb_t w,
+                            const arb_t vball, const arb_t delta, slong prec)
+{
+    slong J = VMODEL_LEN;
+    embz_tail_struct *t = c->t;
+    slong L = 2 * t->p + 1, sp = FLINT_MIN(prec, 96);
+    arb_ptr p0 = _arb_vec_init(J + 1), p1 = _arb_vec_init(J + 1), G = _arb_vec_init(J + 1);
+    arb_ptr g = _arb_vec_init(L);
+    arb_t ld, v1, y, a1, acc, wp, tmp, x, one, rest, lam;
+    arb_init(ld); arb_init(v1); arb_init(y); arb_init(a1); arb_init(acc); arb_init(wp);
+    arb_init(tmp); arb_init(x); arb_init(one); arb_init(rest); arb_init(lam);
+    arb_one(one);
+    arb_log_ui(ld, c->d, prec);
+    int st = EMBZ_OK;
+    /* G at the centre and its Taylor coefficients; the last over the whole interval */
+    arb_add(v1, vc, ld, prec);
+    st = embz_tail_phi_series(p0, t, vc, J, prec);
+    if (st == EMBZ_OK) st = embz_tail_phi_series(p1, t, v1, J, prec);
+    for (slong j = 1; st == EMBZ_OK && j < J; j++) {
+        arb_sub(G + j, p1 + j - 1, p0 + j - 1, prec);
+        arb_div_ui(G + j, G + j, (ulong) j, prec);
+    }
+    if (st == EMBZ_OK) {
+        arb_add(v1, vball, ld, sp);
+        st = embz_tail_phi_series(p0, t, vball, J, sp);
+        if (st == EMBZ_OK) st = embz_tail_phi_series(p1, t, v1, J, sp);
+        if (st == EMBZ_OK) {
+            arb_sub(G + J, p1 + J - 1, p0 + J - 1, sp);
+            arb_div_ui(G + J, G + J, (ulong) J, sp);
+        }
+    }
+    if (st == EMBZ_OK) {
+        arb_exp(y, vc, prec);
+        st = embz_tail_integral(acc, t, y, prec);
+        arb_mul_ui(y, y, c->d, prec);
+        if (st == EMBZ_OK) st = embz_tail_integral(a1, t, y, prec);
+        arb_sub(acc, a1, acc, prec);
+        arb_one(wp);
+        for (slong j = 1; j <= J; j++) {
+            arb_mul(wp, wp, w, prec);
+            arb_abs(tmp, G + j);
+            arb_addmul(acc, tmp, wp, prec);
+        }
+    }
+    /* the small parts, enclosed over the interval */
+    arb_zero(rest);
+    for (int part = 0; st == EMBZ_OK && part < 3; part++) {
+        /* part 0: em(x1), x1 = d e^v; part 1: em(x2), x2 = e^v + delta; part 2: f(x3) */
+        arb_exp(x, vball, sp);
+        if (part == 0) arb_mul_ui(x, x, c->d, sp);
+        else arb_add(x, x, delta, sp);
+        if (part == 2) {
+            if (r == 0) break;
+            arb_add_ui(x, x, 1, sp);
+        }
+        st = embz_tail_weight_series(g, t, x, one, part == 2 ? 1 : L, sp);
+        if (st != EMBZ_OK) break;
+        if (part == 2) {
+            arb_abs(tmp, g);
+            arb_mul_ui(tmp, tmp, r, sp);
+            arb_div_ui(tmp, tmp, c->d, sp);
+            arb_add(rest, rest, tmp, sp);
+        } else {
+            arb_abs(tmp, g);
+            arb_mul_2exp_si(tmp, tmp, -1);
+            arb_add(rest, rest, tmp, sp);
+            for (slong j = 1; j <= t->p; j++) {
+                arb_fac_ui(a1, 2 * j - 1, sp);
+                arb_mul(a1, a1, g + 2 * j - 1, sp);
+                arb_mul(a1, a1, t->bern + j - 1, sp);
+                arb_abs(a1, a1);
+                arb_add(rest, rest, a1, sp);
+            }
+        }
+    }
+    if (st == EMBZ_OK && !arb_is_zero(delta)) {
+        /* |S| <= |lambda| sup |phi| on [v, v + lambda] */
+        arb_neg(lam, vball);
+        arb_exp(lam, lam, sp);
+        arb_mul(lam, lam, delta, sp);
+        arb_log1p(lam, lam, sp);
+        arb_abs(lam, lam);
+        arb_add(y, vball, lam, sp);
+        arb_union(y, y, vball, sp);
+        st = embz_tail_phi_series(g, t, y, 1, sp);
+        if (st == EMBZ_OK) {
+            arb_abs(tmp, g);
+            arb_mul(tmp, tmp, lam, sp);
+            arb_add(rest, rest, tmp, sp);
+        }
+    }
+    if (st == EMBZ_OK) {
+        arb_add(acc, acc, rest, prec);
+        arb_div(acc, acc, c->W, prec);
+        arb_get_ubound_arf(U, acc, prec);
+        if (!arb_is_finite(acc)) st = EMBZ_ERR_PREC;
+    }
+    _arb_vec_clear(p0, J + 1); _arb_vec_clear(p1, J + 1); _arb_vec_clear(G, J + 1);
+    _arb_vec_clear(g, L);
+    arb_clear(ld); arb_clear(v1); arb_clear(y); arb_clear(a1); arb_clear(acc); arb_clear(wp);
+    arb_clear(tmp); arb_clear(x); arb_clear(one); arb_clear(rest); arb_clear(lam);
+    return st;
+}
+
+/* Upper bound of h_r over the integers s in [lo, hi] from a Taylor model in v; *slack bounds
+ * the part of h_r the model leaves out (the tail of the short integral S), uniformly. */
+static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, const fmpz_t lo,
+                         const fmpz_t hi, slong prec)
+{
+    slong J = VMODEL_LEN;
+    arb_ptr co = _arb_vec_init(J + 1), ci = _arb_vec_init(J + 1);
+    arb_t delta, va, vb, vc, w, vball, tmp, acc, dacc, wp, lam;
+    arb_init(delta); arb_init(va); arb_init(vb); arb_init(vc); arb_init(w); arb_init(vball);
+    arb_init(tmp); arb_init(acc); arb_init(dacc); arb_init(wp); arb_init(lam);
+    *mono = 0;
+    mag_zero(slack);
+    /* delta = (P (d - 1) - r)/d, y = s + (r + P)/d */
+    slong P = c->M - c->a;
+    arb_set_si(delta, P * (slong) (c->d - 1) - (slong) r);
+    arb_div_ui(delta, delta, c->d, prec);
+    arb_set_si(tmp, (slong) r + P);
+    arb_div_ui(tmp, tmp, c->d, prec);
+    arb_set_fmpz(va, lo);
+    arb_add(va, va, tmp, prec);
+    arb_log(va, va, prec);
+    arb_set_fmpz(vb, hi);
+    arb_add(vb, vb, tmp, prec);
+    arb_log(vb, vb, prec);
+    arb_add(vc, va, vb, prec);
+    arb_mul_2exp_si(vc, vc, -1);
+    arb_set_arf(vc, arb_midref(vc));                    /* an exact centre */
+    {
+        /* w >= |v - vc| for every v in [va, vb]; the ball vball covers [va, vb] */
+        arf_t w1, w2;
+        arf_init(w1); arf_init(w2);
+        arb_sub(tmp, vb, vc, prec);
+        arb_get_ubound_arf(w1, tmp, prec);
+        arb_sub(tmp, vc, va, prec);
+        arb_get_ubound_arf(w2, tmp, prec);
+        if (arf_cmp(w2, w1) > 0) arf_set(w1, w2);
+        arb_set_arf(w, w1);
+        arf_clear(w1); arf_clear(w2);
+        arb_union(vball, va, vb, prec);
+    }
+    if (arf_cmpabs_2exp_si(arb_midref(w), -2) > 0) {
+        /* wide: enclosures of the small parts lose too much under a full model */
+        int st = EMBZ_ERR_PREC;
+        if (arf_cmpabs_2exp_si(arb_midref(w), 3) <= 0)
+            st = model_bound_wide(U, c, r, vc, w, vball, delta, prec);
+        _arb_vec_clear(co, J + 1); _arb_vec_clear(ci, J + 1);
+        arb_clear(delta); arb_clear(va); arb_clear(vb); arb_clear(vc); arb_clear(w);
+        arb_clear(vball); arb_clear(tmp); arb_clear(acc); arb_clear(dacc); arb_clear(wp);
+        arb_clear(lam);
+        c->evals++;
+        return st;
+    }
+    int st = vmodel_series(co, c, r, vc, delta, J, 1, prec);
+    slong sp = FLINT_MIN(prec, 96);
+    if (st == EMBZ_OK) st = vmodel_series(ci, c, r, vball, delta, J + 1, 0, sp);
+    if (st == EMBZ_OK && !arb_is_zero(delta)) {
+        /* tail of S: |R| <= sup |phi^(K)| |lambda|^(K+1) / (K+1)!, over [va, vb + |lambda|] */
+        slong K = VMODEL_SHORT;
+        arb_ptr ph = _arb_vec_init(K + 1);
+        arb_neg(lam, va);
+        arb_exp(lam, lam, sp);
+        arb_mul(lam, lam, delta, sp);
+        arb_log1p(lam, lam, sp);
+        arb_abs(lam, lam);
+        arb_t b;
+        arb_init(b);
+        arb_add(b, vball, lam, sp);
+        arb_union(b, b, vball, sp);
+        st = embz_tail_phi_series(ph, c->t, b, K + 1, sp);
+        if (st == EMBZ_OK) {
+            /* ph[K] = phi^(K)/K!: sup|phi^(K)|/(K+1)! = |ph[K]|/(K+1) */
+            arb_abs(tmp, ph + K);
+            arb_pow_ui(acc, lam, (ulong) K + 1, sp);
+            arb_mul(tmp, tmp, acc, sp);
+            arb_div_ui(tmp, tmp, (ulong) K + 1, sp);
+            arb_div(tmp, tmp, c->W, sp);
+            arb_get_mag(slack, tmp);
+        }
+        arb_clear(b);
+        _arb_vec_clear(ph, K + 1);
+    }
+    if (st == EMBZ_OK) {
+        arb_set(co + J, ci + J);
+        arb_set(acc, co);
+        arb_zero(dacc);
+        arb_one(wp);
+        for (slong j = 1; j <= J; j++) {
+            arb_abs(tmp, co + j);
+            if (j >= 2) {
+                arb_mul_ui(lam, tmp, (ulong) j, prec);
+                arb_mul(lam, lam, wp, prec);
+                arb_add(dacc, dacc, lam, prec);
+            }
+            arb_mul(wp, wp, w, prec);
+            arb_mul(tmp, tmp, wp, prec);
+            arb_add(acc, acc, tmp, prec);
+        }
+        arb_add_error_mag(acc, slack);
+        arb_get_ubound_arf(U, acc, prec);
+        if (!arb_is_finite(acc)) st = EMBZ_ERR_PREC;
+        arb_sub(tmp, co + 1, dacc, prec);
+        if (arb_is_positive(tmp)) *mono = 1;
+        arb_add(tmp, co + 1, dacc, prec);
+        if (arb_is_negative(tmp)) *mono = -1;
+    }
+    _arb_vec_clear(co, J + 1); _arb_vec_clear(ci, J + 1);
+    arb_clear(delta); arb_clear(va); arb_clear(vb); arb_clear(vc); arb_clear(w); arb_clear(vball);
+    arb_clear(tmp); arb_clear(acc); arb_clear(dacc); arb_clear(wp); arb_clear(lam);
+    c->evals++;
+    return st;
+}
+
+/* v-models apply to non-increasing tails from s = 2^VMODEL_FROM_BITS on */
+static int use_vmodel(const actx *c, const fmpz_t lo)
+{
+    return c->t->dir > 0 && fmpz_bits(lo) > VMODEL_FROM_BITS;
+}
+
 static int h_at_s(arb_t h, actx *c, ulong r, const fmpz_t s, slong prec)
 {
     fmpz_t k;
@@ -409,7 +813,10 @@ static int bb_consider(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmp
         fmpz_init_set(it.hi, hi);
         arf_init(it.U);
         it.r = r;
-        st = model_bound(it.U, &mono, c, r, lo, hi, prec);
+        mag_t slack;
+        mag_init(slack);
+        if (use_vmodel(c, lo)) st = model_bound_v(it.U, &mono, slack, c, r, lo, hi, prec);
+        else st = model_bound(it.U, &mono, c, r, lo, hi, prec);
         if (st != EMBZ_OK) {
             /* no model (e.g. precision lost): split blindly */
             st = EMBZ_OK;
@@ -420,7 +827,18 @@ static int bb_consider(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmp
         arf_init(blo);
         arb_get_lbound_arf(blo, c->best, prec);
         if (mono != 0) {
+            /* the model is monotone; h itself may exceed it by the slack at most, so the
+             * maximum over the interval is at most h(end) + 2 slack */
             st = h_at_s(h, c, r, mono > 0 ? hi : lo, prec);
+            if (st == EMBZ_OK && !mag_is_zero(slack)) {
+                arb_t hs;
+                arb_init(hs);
+                arb_set(hs, h);
+                arb_add_error_mag(hs, slack);
+                arb_add_error_mag(hs, slack);
+                raise_upper(c, hs);
+                arb_clear(hs);
+            }
             item_clear(&it);
         } else if (arb_is_finite(c->best) && arf_cmp(it.U, blo) < 0) {
             item_clear(&it);
@@ -428,6 +846,7 @@ static int bb_consider(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmp
             heap_push(hp, &it);
         }
         arf_clear(blo);
+        mag_clear(slack);
     }
     arb_clear(h);
     fmpz_clear(m);
@@ -475,6 +894,11 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
             fmpz_set(stk, Slo); fmpz_set(stk + 1, Shi); top = 1;
         }
         while (st == EMBZ_OK && top > 0) {
+            if (c->decide != NULL && arb_is_finite(c->best)) {
+                /* decision mode: a proven value above the threshold settles it */
+                arb_get_lbound_arf(blo, c->best, prec);
+                if (arf_cmp(blo, c->decide) > 0) break;
+            }
             top--;
             fmpz_set(a, stk + 2 * top);
             fmpz_set(b, stk + 2 * top + 1);
@@ -498,8 +922,8 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
             if (arb_is_finite(ub) && arb_is_finite(c->best) && arf_cmp(u, blo) < 0)
                 continue;                     /* the whole stretch is below a proven value */
             fmpz_mul_2exp(m, a, 1);
-            if (fmpz_cmp(m, b) >= 0) {
-                /* ratio at most 2: Taylor models per residue */
+            if (fmpz_cmp(m, b) >= 0 || use_vmodel(c, a)) {
+                /* ratio at most 2 (or v-models, which take any ratio): models per residue */
                 for (ulong r = 0; st == EMBZ_OK && r < c->d; r++) {
                     fmpz_t lo_r, hi_r;
                     fmpz_init(lo_r); fmpz_init(hi_r);
@@ -539,10 +963,30 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
         arb_get_ubound_arf(bhi, c->best, prec);
         arf_sub(gap, hp.v[0].U, bhi, prec, ARF_RND_UP);
         if (arf_cmp(gap, tol) <= 0 || c->evals > BB_BUDGET) break;
+        if (c->decide != NULL) {
+            /* decision mode: enough once a proven value exceeds the threshold, or once every
+             * bound is below it */
+            arf_t blo2;
+            arf_init(blo2);
+            arb_get_lbound_arf(blo2, c->best, prec);
+            int above = arb_is_finite(c->best) && arf_cmp(blo2, c->decide) > 0;
+            int below = arf_cmp(hp.v[0].U, c->decide) < 0 && arf_cmp(c->upper, c->decide) < 0;
+            arf_clear(blo2);
+            if (above || below) break;
+        }
         bb_item it;
         heap_pop(&hp, &it);
-        fmpz_add(m, it.lo, it.hi);
-        fmpz_fdiv_q_2exp(m, m, 1);
+        /* split at the geometric mean when the ratio is large, else at the midpoint */
+        fmpz_mul_2exp(m, it.lo, 1);
+        if (fmpz_cmp(m, it.hi) < 0) {
+            fmpz_mul(m, it.lo, it.hi);
+            fmpz_sqrt(m, m);
+        } else {
+            fmpz_add(m, it.lo, it.hi);
+            fmpz_fdiv_q_2exp(m, m, 1);
+        }
+        if (fmpz_cmp(m, it.lo) < 0) fmpz_set(m, it.lo);
+        if (fmpz_cmp(m, it.hi) >= 0) fmpz_sub_ui(m, it.hi, 1);
         st = h_at_s(h, c, it.r, m, prec);
         if (st == EMBZ_OK) st = bb_consider(&hp, c, it.r, it.lo, m, prec);
         fmpz_add_ui(m, m, 1);
@@ -576,7 +1020,7 @@ static int cmp_desc(const void *x, const void *y)
     return -arf_cmp(arb_midref(a), arb_midref(b));
 }
 
-static int setup(actx *c, slong M, slong prec, embz_err_t *err)
+static int setup(actx *c, slong M, int shared, slong prec, embz_err_t *err)
 {
     const embz_expr_struct *w = c->f->weight;
     int st;
@@ -586,9 +1030,13 @@ static int setup(actx *c, slong M, slong prec, embz_err_t *err)
     arb_set_round_fmpz(nn, c->ntrue, prec);
     c->M = M;
 
-    st = embz_tail_init(c->t, w, c->ntrue, M, c->ntrue, prec, err);
-    if (st != EMBZ_OK) goto out;
-    fmpz_set(c->n, c->t->end);
+    if (!shared) {
+        st = embz_tail_init(c->t, w, c->ntrue, M, c->ntrue, prec, err);
+        if (st != EMBZ_OK) goto out;
+    }
+    /* the tail may end early when the weights beyond are negligible */
+    if (fmpz_cmp(c->t->end, c->ntrue) < 0) fmpz_set(c->n, c->t->end);
+    else fmpz_set(c->n, c->ntrue);
     fmpz_sub_ui(c->L, c->n, (ulong) M);
 
     for (slong i = 1; i <= M; i++) {
@@ -642,7 +1090,6 @@ static int setup(actx *c, slong M, slong prec, embz_err_t *err)
     arb_set_fmpz(x, c->n);
     st = embz_tail_sum(c->Ttot, c->t, x, prec);
     if (st != EMBZ_OK) { embz_err_set(err, st, "cannot bound the tail sum"); goto out; }
-    if (getenv("EMBZ_DEBUG")) { arb_t I_; arb_init(I_); embz_tail_integral(I_, c->t, x, prec); flint_printf("Ttot at setup "); arb_printn(c->Ttot, 30, 0); flint_printf(" I "); arb_printn(I_, 30, 0); flint_printf(" x "); arb_printn(x, 40, 0); flint_printf(" prec %wd\n", prec); arb_clear(I_); }
     arb_add(c->W, c->SA, c->Ttot, prec);
     arb_add(c->W, c->W, c->SB, prec);
     if (!arb_is_positive(c->W)) { st = embz_err_set(err, EMBZ_ERR_DOMAIN, "total weight is 0"); goto out; }
@@ -669,9 +1116,73 @@ out:
     return st;
 }
 
+void embz_analytic_init(embz_analytic_t a, const embz_family_t f, slong prec)
+{
+    memset(a, 0, sizeof(*a));
+    a->f = f;
+    a->prec = prec;
+    a->uses_n = (embz_expr_uses(f->weight) & EMBZ_USES_N) != 0;
+    fmpz_init(a->nmax);
+}
+
+void embz_analytic_clear(embz_analytic_t a)
+{
+    if (a->have_tail) embz_tail_clear(a->tail);
+    fmpz_clear(a->nmax);
+    if (a->have_decide) arf_clear(a->decide);
+}
+
+void embz_analytic_set_decision(embz_analytic_t a, const arb_t threshold)
+{
+    if (!a->have_decide) arf_init(a->decide);
+    a->have_decide = 1;
+    arf_set(a->decide, arb_midref(threshold));
+}
+
+void embz_analytic_clear_decision(embz_analytic_t a)
+{
+    if (a->have_decide) arf_clear(a->decide);
+    a->have_decide = 0;
+}
+
+/* Certify the tail once for all sizes up to nmax (weights that do not depend on n). */
+int embz_analytic_prepare(embz_analytic_t a, const fmpz_t nmax, embz_err_t *err)
+{
+    if (a->uses_n) return EMBZ_OK;
+    if (a->have_tail && fmpz_cmp(a->nmax, nmax) >= 0) return EMBZ_OK;
+    if (a->have_tail) embz_tail_clear(a->tail);
+    a->have_tail = 0;
+    slong wp = a->prec + 32;
+    int st = EMBZ_ERR_UNSUPPORTED;
+    for (slong M = 64; M <= 4096; M *= 4) {
+        embz_err_clear(err);
+        st = embz_tail_init(a->tail, a->f->weight, nmax, M, nmax, wp, err);
+        if (st == EMBZ_OK) {
+            a->have_tail = 1;
+            fmpz_set(a->nmax, nmax);
+            break;
+        }
+        embz_tail_clear(a->tail);
+        if (st == EMBZ_ERR_DOMAIN) break;
+    }
+    return st;
+}
+
 int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
                         const embz_target_t q, slong prec, embz_err_t *err)
 {
+    embz_analytic_t a;
+    embz_analytic_init(a, f, prec);
+    int st = embz_analytic_error(res, a, n, q, err);
+    embz_analytic_clear(a);
+    return st;
+}
+
+int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
+                        const embz_target_t q, embz_err_t *err)
+{
+    const embz_family_struct *f = an->f;
+    slong prec = an->prec;
     if (q->kind != EMBZ_TARGET_UNIFORM)
         return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
                             "the analytic engine handles ebit, ebits:J and uniform:D targets");
@@ -683,6 +1194,7 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
     c.f = f;
     c.d = q->d;
     c.prec = wp;
+    c.decide = an->have_decide ? an->decide : NULL;
     fmpz_init_set(c.n, n);
     fmpz_init_set(c.ntrue, n);
     fmpz_init(c.L);
@@ -692,25 +1204,38 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
     arb_init(c.best); arf_init(c.upper);
     arb_indeterminate(c.best);
     int st = EMBZ_ERR_UNSUPPORTED;
-    int have_tail = 0;
+    int have_tail = 0;      /* a tail of our own to clear */
 
-    slong M = 64;
-    for (int attempt = 0; attempt < 4; attempt++, M *= 4) {
-        /* the analytic layout needs a long tail */
-        if (fmpz_cmp_si(n, 8 * ((slong) c.d * (M + 2) + (slong) c.d)) <= 0) {
+    if (!an->uses_n) {
+        /* one certified tail serves every size up to its end */
+        st = embz_analytic_prepare(an, fmpz_cmp(an->nmax, n) >= 0 ? an->nmax : n, err);
+        if (st != EMBZ_OK) goto cleanup;
+        c.t = an->tail;
+        if (fmpz_cmp_si(n, 8 * ((slong) c.d * (an->tail->M + 2) + (slong) c.d)) <= 0) {
             st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
                               "n is too small for the analytic engine (use explicit mode)");
-            break;
+            goto cleanup;
         }
-        embz_err_clear(err);
-        if (have_tail) {
-            embz_tail_clear(tail);
-            have_tail = 0;
-            free_layout(&c);
+        st = setup(&c, an->tail->M, 1, wp, err);
+    } else {
+        slong M = 64;
+        for (int attempt = 0; attempt < 4; attempt++, M *= 4) {
+            /* the analytic layout needs a long tail */
+            if (fmpz_cmp_si(n, 8 * ((slong) c.d * (M + 2) + (slong) c.d)) <= 0) {
+                st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                                  "n is too small for the analytic engine (use explicit mode)");
+                break;
+            }
+            embz_err_clear(err);
+            if (have_tail) {
+                embz_tail_clear(tail);
+                have_tail = 0;
+                free_layout(&c);
+            }
+            st = setup(&c, M, 0, wp, err);
+            have_tail = 1;
+            if (st == EMBZ_OK || st == EMBZ_ERR_DOMAIN) break;
         }
-        st = setup(&c, M, wp, err);
-        have_tail = 1;
-        if (st == EMBZ_OK || st == EMBZ_ERR_DOMAIN) break;
     }
     if (st != EMBZ_OK) goto cleanup;
 
@@ -760,7 +1285,15 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
                 fmpz_sub_ui(vhi + r, kmax, r);
                 fmpz_fdiv_q_ui(vhi + r, vhi + r, c.d);
             }
-            if (st == EMBZ_OK) st = branch_and_bound(&c, vlo, vhi, tol, wp);
+            int decided = 0;
+            if (c.decide != NULL && arb_is_finite(c.best)) {
+                arf_t b0;
+                arf_init(b0);
+                arb_get_lbound_arf(b0, c.best, wp);
+                decided = arf_cmp(b0, c.decide) > 0;
+                arf_clear(b0);
+            }
+            if (st == EMBZ_OK && !decided) st = branch_and_bound(&c, vlo, vhi, tol, wp);
             _fmpz_vec_clear(vlo, c.d);
             _fmpz_vec_clear(vhi, c.d);
         }
@@ -770,10 +1303,9 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
             arf_init(lo); arf_init(hi);
             arb_get_lbound_arf(lo, c.best, wp);
             arf_set(hi, c.upper);
-            if (getenv("EMBZ_DEBUG")) { flint_printf("best "); arb_printn(c.best, 30, 0); flint_printf("\nupper "); arf_printd(c.upper, 30); flint_printf("\nrem "); mag_printd(c.t->rem, 5); flint_printf(" Ttot "); arb_printn(c.Ttot, 30, 0); flint_printf("\n"); }
             if (arf_cmp(hi, lo) < 0) arf_set(hi, lo);
             arb_set_interval_arf(res->error, lo, hi, wp);
-            if (!mag_is_zero(c.t->neglected)) {
+            if (fmpz_cmp(c.n, c.ntrue) < 0 && !mag_is_zero(c.t->neglected)) {
                 /* K moves by at most twice the l1 change of p, which is at most
                  * 2 * neglected / W when the negligible weights are dropped */
                 mag_t e;
@@ -805,10 +1337,8 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
         arf_clear(tol);
     }
 cleanup:
-    if (have_tail) {
-        embz_tail_clear(tail);
-        free_layout(&c);
-    }
+    if (have_tail) embz_tail_clear(tail);
+    free_layout(&c);
     fmpz_clear(c.n); fmpz_clear(c.ntrue); fmpz_clear(c.L); fmpz_clear(c.argk); fmpz_clear(c.kmax);
     arb_clear(c.SA); arb_clear(c.SB); arb_clear(c.Ttot); arb_clear(c.W);
     arb_clear(c.best); arf_clear(c.upper);

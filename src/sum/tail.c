@@ -56,15 +56,12 @@ static void em_terms(arb_t res, const embz_tail_struct *t, arb_srcptr g, slong p
 static int phi_acb(acb_ptr out, const acb_t u, void *param, slong order, slong prec)
 {
     embz_tail_struct *t = param;
-    acb_t x, nn;
-    acb_init(x);
+    acb_t nn;
     acb_init(nn);
-    acb_exp(x, u, prec);
     acb_set_arb(nn, t->n);
-    if (embz_expr_eval_acb(out, t->w, x, nn, order != 0, prec) != EMBZ_OK)
+    /* phi(u) = w(e^u) e^u, simplified symbolically (see embz_expr_log_substitute) */
+    if (embz_expr_eval_acb(out, t->phi, u, nn, order != 0, prec) != EMBZ_OK)
         acb_indeterminate(out);
-    acb_mul(out, out, x, prec);
-    acb_clear(x);
     acb_clear(nn);
     return 0;
 }
@@ -94,7 +91,6 @@ static int integrate_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub,
     }
     acb_calc_integrate(r, phi_acb, t, a, b, prec, tol, opt, prec + 10);
     t->integrals++;
-    if (getenv("EMBZ_DEBUG2")) { flint_printf("piece rad a "); mag_printd(arb_radref(acb_realref(a)), 3); flint_printf(" b "); mag_printd(arb_radref(acb_realref(b)), 3); flint_printf(" r "); mag_printd(arb_radref(acb_realref(r)), 3); flint_printf(" tol "); mag_printd(tol, 3); flint_printf(" prec %wd\n", prec); }
     int st = EMBZ_OK;
     if (!acb_is_finite(r)) st = EMBZ_ERR_PREC;
     arb_set(res, acb_realref(r));
@@ -106,9 +102,13 @@ static int integrate_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub,
 
 static void node_u(arb_t u, const embz_tail_struct *t, slong k, slong prec)
 {
+    arb_t lm;
+    arb_init(lm);
+    arb_log_ui(lm, (ulong) t->M, prec);
     arb_set_d(u, t->du);
     arb_mul_si(u, u, k, prec);
-    arb_add(u, u, t->logM, prec);
+    arb_add(u, u, lm, prec);
+    arb_clear(lm);
 }
 
 /* make sure icum[0..k] exist */
@@ -386,6 +386,8 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
     t->icum = _arb_vec_init(t->nalloc);
     t->prec = prec;
     t->bern = _arb_vec_init(EMBZ_TAIL_MAX_ORDER);
+    embz_expr_init(t->phi);
+    embz_expr_log_substitute(t->phi, w);
 
     int st;
     arb_t xM, term, goal, u;
@@ -405,8 +407,9 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
         arb_fac_ui(u, 2 * j, prec);
         arb_div(t->bern + j - 1, t->bern + j - 1, u, prec);
     }
-    /* order: the first p whose first omitted term bern_(p+1) f^(2p+1)(M) is below 2^-prec
-     * times M f(M) (the scale of the sums), or where the terms stop decreasing */
+    /* order: the first p whose remainder estimate |B_2p|/(2p)! |f^(2p-1)(M)| (the size of
+     * the bound below when f^(2p) keeps its sign) is below 2^-prec times M f(M), the scale of
+     * the sums; or the p where these estimates stop decreasing */
     arb_mul_ui(goal, g, (ulong) M, prec);
     {
         slong p;
@@ -415,16 +418,16 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
         arb_get_mag_lower(gm, goal);
         mag_mul_2exp_si(gm, gm, -prec - 8);
         mag_inf(prev);
-        for (p = 1; p < EMBZ_TAIL_MAX_ORDER - 1; p++) {
-            arb_fac_ui(u, 2 * p + 1, prec);
-            arb_mul(term, u, g + 2 * p + 1, prec);
-            arb_mul(term, term, t->bern + p, prec);
+        for (p = 1; p < EMBZ_TAIL_MAX_ORDER; p++) {
+            arb_fac_ui(u, 2 * p - 1, prec);
+            arb_mul(term, u, g + 2 * p - 1, prec);
+            arb_mul(term, term, t->bern + p - 1, prec);
             arb_get_mag(cur, term);
             if (mag_cmp(cur, gm) < 0) break;
             if (mag_cmp(cur, prev) > 0) { p = FLINT_MAX(p - 1, 1); break; }
             mag_set(prev, cur);
         }
-        t->p = p;
+        t->p = FLINT_MIN(p, EMBZ_TAIL_MAX_ORDER - 1);
         mag_clear(prev); mag_clear(cur); mag_clear(gm);
     }
     /* base = -(f(M)/2 + sum_j bern_j f^(2j-1)(M)) */
@@ -510,8 +513,21 @@ done:
     return st;
 }
 
+int embz_tail_phi_series(arb_ptr res, embz_tail_t t, const arb_t v, slong len, slong prec)
+{
+    arb_ptr vs = _arb_vec_init(len);
+    arb_set(vs, v);
+    if (len > 1) arb_one(vs + 1);
+    int st = embz_expr_eval_series(res, t->phi, vs, t->n, len, prec);
+    t->evals++;
+    _arb_vec_clear(vs, len);
+    if (st == EMBZ_OK && !_arb_vec_is_finite(res, len)) st = EMBZ_ERR_DOMAIN;
+    return st;
+}
+
 void embz_tail_clear(embz_tail_t t)
 {
+    embz_expr_clear(t->phi);
     arb_clear(t->n);
     fmpz_clear(t->end);
     _arb_vec_clear(t->bern, EMBZ_TAIL_MAX_ORDER);

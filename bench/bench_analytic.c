@@ -1,0 +1,164 @@
+/* Benchmark of the analytic engine (embz_error_analytic), one ebit.
+ *
+ * For each shipped smooth family: E_n at n = 10^30, 10^100, 10^1000 (median wall time of a few
+ * runs; a single run when the first one takes over 2 s), the same family by the explicit engine
+ * at n = 10^6 measured in the same process, and their ratio. Then 100 sizes log-spaced from 10
+ * to 10^100 for the inverse family in one process (sizes the analytic engine declines are done
+ * by the dispatcher embz_error in auto mode). Peak RSS from getrusage.
+ * Usage: bench_analytic [prec] [runs] [family ...]   (EMBZ_FAMILY_PATH must name families/) */
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+#include <sys/resource.h>
+#include "embz.h"
+
+static double now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
+}
+
+static long peak_kb(void)
+{
+    struct rusage ru;
+    getrusage(RUSAGE_SELF, &ru);
+    return ru.ru_maxrss;
+}
+
+static int cmp_d(const void *a, const void *b)
+{
+    double x = *(const double *) a, y = *(const double *) b;
+    return (x > y) - (x < y);
+}
+
+/* median time in ms of up to `runs` calls; status of the last call in *st, radius in *rad */
+static double time_error(int *st, double *rad, int method, const embz_family_t f, const fmpz_t n,
+                         const embz_target_t q, slong prec, int runs, char *msg, size_t msglen)
+{
+    double t[16];
+    int k;
+    if (runs > 16) runs = 16;
+    for (k = 0; k < runs; k++) {
+        embz_error_result_t res;
+        embz_err_t err;
+        embz_err_clear(&err);
+        embz_error_result_init(res);
+        double t0 = now();
+        if (method == EMBZ_METHOD_ANALYTIC) *st = embz_error_analytic(res, f, n, q, prec, &err);
+        else if (method == EMBZ_METHOD_EXPLICIT) *st = embz_error_explicit(res, f, n, q, prec, &err);
+        else *st = embz_error(res, f, n, q, EMBZ_METHOD_AUTO, prec, &err);
+        t[k] = 1e3 * (now() - t0);
+        *rad = mag_get_d(arb_radref(res->error));
+        if (*st != EMBZ_OK) snprintf(msg, msglen, "%s", err.text);
+        else msg[0] = '\0';
+        embz_error_result_clear(res);
+        if (*st != EMBZ_OK || t[k] > 2000.0) { k++; break; }
+    }
+    qsort(t, k, sizeof(double), cmp_d);
+    return t[k / 2];
+}
+
+int main(int argc, char **argv)
+{
+    static const char *const all[] = { "inverse", "power", "logpower", "iterlog", "nearmiss",
+                                       "uniform", "geometric", "tilted", "invamp" };
+    slong prec = argc > 1 ? atol(argv[1]) : 128;
+    int runs = argc > 2 ? atoi(argv[2]) : 3;
+    const char *const *fams = all;
+    int nf = 9;
+    if (argc > 3) { fams = (const char *const *) (argv + 3); nf = argc - 3; }
+    static const ulong exps[3] = { 30, 100, 1000 };
+    embz_target_t q;
+    embz_err_t err;
+    fmpz_t n;
+    char msg[512];
+    int fails = 0;
+    fmpz_init(n);
+    embz_target_init(q);          /* one ebit */
+    embz_err_clear(&err);
+
+    printf("analytic engine, one ebit, %ld bits, median of up to %d runs (goal: each < 20 ms)\n",
+           (long) prec, runs);
+    printf("%-10s %12s %12s %12s   %12s  %s\n", "family", "n=10^30", "n=10^100", "n=10^1000",
+           "explicit 1e6", "ratio analytic(10^30,10^100,10^1000)/explicit(10^6)");
+    for (int i = 0; i < nf; i++) {
+        embz_family_t f;
+        double ta[3], tx, rad;
+        int st[3], sx;
+        embz_family_init(f);
+        if (embz_family_resolve(f, fams[i], NULL, 0, 0, &err) != EMBZ_OK) {
+            printf("%-10s cannot resolve: %s\n", fams[i], err.text);
+            embz_family_clear(f);
+            fails++;
+            continue;
+        }
+        for (int j = 0; j < 3; j++) {
+            fmpz_set_ui(n, 10);
+            fmpz_pow_ui(n, n, exps[j]);
+            ta[j] = time_error(st + j, &rad, EMBZ_METHOD_ANALYTIC, f, n, q, prec, runs, msg,
+                               sizeof(msg));
+            if (st[j] != EMBZ_OK) {
+                fprintf(stderr, "%s at 10^%lu: status %d: %s\n", fams[i], exps[j], st[j], msg);
+                fails++;
+            }
+        }
+        fmpz_set_ui(n, 1000000);
+        tx = time_error(&sx, &rad, EMBZ_METHOD_EXPLICIT, f, n, q, prec, runs, msg, sizeof(msg));
+        printf("%-10s", fams[i]);
+        for (int j = 0; j < 3; j++) {
+            if (st[j] == EMBZ_OK) printf(" %9.1f ms%s", ta[j], ta[j] < 20.0 ? " " : "*");
+            else printf(" %9s (%d)", "fail", st[j]);
+        }
+        if (sx == EMBZ_OK) printf("   %9.1f ms ", tx);
+        else printf("   %9s (%d)", "fail", sx);
+        printf(" ");
+        for (int j = 0; j < 3; j++)
+            if (st[j] == EMBZ_OK && sx == EMBZ_OK) printf(" %8.3f", ta[j] / tx);
+            else printf(" %8s", "-");
+        printf("\n");
+        fflush(stdout);
+        embz_family_clear(f);
+    }
+    printf("(* = above the 20 ms goal)\n");
+
+    /* 100 sizes log-spaced from 10 to 10^100, inverse family, one process */
+    {
+        embz_family_t f;
+        embz_family_init(f);
+        if (embz_family_resolve(f, "inverse", NULL, 0, 0, &err) == EMBZ_OK) {
+            int nan = 0, nauto = 0, nfail = 0;
+            double worst = 0.0, rad;
+            double t0 = now();
+            for (int k = 0; k < 100; k++) {
+                /* 100 points log-spaced from 10 to 10^100: ratio 10, n = 10^(k+1) */
+                fmpz_set_ui(n, 10);
+                fmpz_pow_ui(n, n, (ulong) k + 1);
+                int st;
+                double t1 = now();
+                time_error(&st, &rad, EMBZ_METHOD_ANALYTIC, f, n, q, prec, 1, msg, sizeof(msg));
+                if (st == EMBZ_OK) nan++;
+                else {
+                    /* declined (small n): the dispatcher picks the explicit engine */
+                    time_error(&st, &rad, EMBZ_METHOD_AUTO, f, n, q, prec, 1, msg, sizeof(msg));
+                    if (st == EMBZ_OK) nauto++;
+                    else nfail++;
+                }
+                double dt = now() - t1;
+                if (dt > worst) worst = dt;
+            }
+            double tot = now() - t0;
+            printf("inverse, 100 sizes log-spaced 10 .. 10^100 (step 10x): total %.3f s "
+                   "(goal < 1 s)%s; slowest %.1f ms; %d analytic, %d by auto dispatch, %d failed\n",
+                   tot, tot < 1.0 ? "" : " *", 1e3 * worst, nan, nauto, nfail);
+            fails += nfail;
+        }
+        embz_family_clear(f);
+    }
+    printf("peak RSS: %.1f MB\n", (double) peak_kb() / 1024.0);
+    embz_target_clear(q);
+    fmpz_clear(n);
+    flint_cleanup();
+    return fails ? 1 : 0;
+}

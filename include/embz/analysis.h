@@ -1,0 +1,207 @@
+/* Sweeps of the embezzlement error over log-spaced sizes, fits of candidate decay laws, the
+ * embezzler verdict and parameter scans.
+ *
+ * What is certified and what is not: every E_n in a sweep is a certified enclosure (arb ball).
+ * Fits, fitted limits, exponents and their intervals are statistical estimates computed in
+ * double precision from the midpoints; they are never presented as certified. */
+#ifndef EMBZ_ANALYSIS_H
+#define EMBZ_ANALYSIS_H
+
+#include "embz/family.h"
+#include "embz/vec.h"
+#include "embz/measure.h"
+
+/* ------------------------------------------------------------------ sweep */
+
+typedef struct {
+    fmpz_t n;            /* the size */
+    int status;          /* EMBZ_OK, or the code for which this size was skipped */
+    arb_t error;         /* certified enclosure of E_n(q) (status EMBZ_OK) */
+    fmpz_t argk;         /* Ky Fan index of the maximum */
+    int have_bounds;     /* block-mass bounds present */
+    arb_t lower, upper;
+    int method;          /* EMBZ_METHOD_EXPLICIT / EMBZ_METHOD_ANALYTIC */
+    double seconds;      /* wall time spent on this size */
+    double log_n;        /* ln n as a double (for fits and plots) */
+    char note[256];      /* the engine's detail, or the reason the size was skipped */
+} embz_sweep_point_struct;
+
+typedef struct {
+    embz_sweep_point_struct *pts;
+    slong len;
+    slong nok;           /* number of points with status EMBZ_OK */
+    slong prec;
+    char target[64];     /* label of the target */
+} embz_sweep_struct;
+typedef embz_sweep_struct embz_sweep_t[1];
+
+void embz_sweep_init(embz_sweep_t s);
+void embz_sweep_clear(embz_sweep_t s);
+
+/* Up to k sizes log-spaced from a to b inclusive (1 <= a <= b, k >= 1), each the exact integer
+ * nearest to a^(1-t) b^t, t = j/(k-1); duplicates (small ranges) are dropped, so *len <= k.
+ * sizes must hold k entries (initialised fmpz). Returns EMBZ_OK or EMBZ_ERR_INPUT. */
+int embz_sweep_sizes(fmpz *sizes, slong *len, const fmpz_t a, const fmpz_t b, slong k,
+                     embz_err_t *err);
+
+/* Progress callback: called after each size with (done, total). May be NULL. */
+typedef void (*embz_progress_fn)(void *ctx, slong done, slong total);
+
+/* E_n(q) at the sizes from embz_sweep_sizes(a, b, k). Uses one reusable analytic engine for
+ * all sizes (uniform targets), explicit summation where the analytic engine declines and
+ * n <= EMBZ_EXPLICIT_MAX_N, and embz_error otherwise; sizes nothing can handle are kept with
+ * their status and reason in note. Returns EMBZ_OK if at least one size succeeded, else the
+ * status of the last failure (err filled). Input errors (bad range) give EMBZ_ERR_INPUT. */
+int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const fmpz_t b,
+                   slong k, const embz_target_t q, slong prec, embz_progress_fn progress,
+                   void *ctx, embz_err_t *err);
+
+/* ------------------------------------------------------------------ fits */
+
+/* Candidate laws for E as a function of n (x = ln n). */
+enum {
+    EMBZ_LAW_NONE = 0,
+    EMBZ_LAW_POWER_LIMIT,    /* L + C n^-g       (limit L) */
+    EMBZ_LAW_LOG,            /* C (ln n)^-g      (limit 0) */
+    EMBZ_LAW_LOGLOG,         /* C (ln ln n)^-g   (limit 0) */
+    EMBZ_LAW_LOG_LIMIT,      /* L + C (ln n)^-g  (limit L; a summable weight's tail) */
+    EMBZ_LAW_COUNT
+};
+
+typedef struct {
+    int law;                 /* EMBZ_LAW_* */
+    int ok;                  /* the fit converged */
+    int nparams;
+    double L, C, g;          /* parameters (L = 0 for the zero-limit laws) */
+    double L_lo, L_hi, C_lo, C_hi, g_lo, g_hi;   /* jackknife intervals (estimates) */
+    double rss;              /* sum of squared relative residuals (E_fit - E) / E */
+    double max_rel;          /* largest |relative residual| */
+    double bic;              /* m ln(rss/m) + k ln m, m points, k parameters */
+    double *resid;           /* relative residuals, one per point used (malloc'ed) */
+    slong m;
+} embz_fit_struct;
+
+typedef struct {
+    embz_fit_struct fits[EMBZ_LAW_COUNT];   /* index by law; fits[0] unused */
+    int best;                /* selected law (lowest BIC among converged fits), or NONE */
+    slong first, m;          /* the fits use the points first .. first+m-1 of the data */
+    double *logn, *E;        /* the data used (copies) */
+} embz_fitset_struct;
+typedef embz_fitset_struct embz_fitset_t[1];
+
+void embz_fitset_init(embz_fitset_t fs);
+void embz_fitset_clear(embz_fitset_t fs);
+
+/* Fit every law to the points (ln n_j, E_j), j = 0..len-1 (increasing n, E_j > 0), using the
+ * upper part of the range: the points with ln n >= sqrt(ln n_min ln n_max) (at least 6 points;
+ * all when fewer are given). Returns EMBZ_OK, or EMBZ_ERR_INPUT with fewer than 5 usable
+ * points. */
+int embz_fit_laws(embz_fitset_t fs, const double *logn, const double *E, slong len,
+                  embz_err_t *err);
+/* Same on the successful points of a sweep. */
+int embz_fit_sweep(embz_fitset_t fs, const embz_sweep_t s, embz_err_t *err);
+
+/* Short names: "L + C n^-g", "C (ln n)^-g", "C (ln ln n)^-g", "L + C (ln n)^-g", "none";
+ * and identifiers for JSON/CSV: "power_limit", "log", "loglog", "log_limit", "none". */
+const char *embz_law_formula(int law);
+const char *embz_law_id(int law);
+
+/* ------------------------------------------------------------------ verdict */
+
+enum {
+    EMBZ_VERDICT_INCONCLUSIVE = 0,
+    EMBZ_VERDICT_EMBEZZLER,
+    EMBZ_VERDICT_NOT_EMBEZZLER
+};
+const char *embz_verdict_id(int v);   /* "inconclusive", "embezzler", "not_embezzler" */
+
+#define EMBZ_CLASSIFY_MAX_REASONS 16
+
+typedef struct {
+    int verdict;                 /* combined verdict */
+    int numeric_verdict;         /* from the sweep and fits */
+    int analytic_available;      /* the asymptotic route ran (weight without n, engine built) */
+    int analytic_verdict;        /* EMBZ_VERDICT_*, from the asymptotic route */
+    int disagree;                /* both routes gave a definite and different answer */
+    /* limit of E_n: lo/hi bounds as doubles. limit_certified_hi is a certified upper bound on
+     * E at the largest size (so on how small the error has become there); the interval
+     * [limit_lo, limit_hi] is an estimate unless limit_certified is set. */
+    double limit_lo, limit_hi, limit_value;
+    int limit_certified;
+    int law;                     /* fitted law (EMBZ_LAW_*) */
+    double exponent, exponent_lo, exponent_hi;
+    double coeff;                /* fitted C */
+    char asymptotic_form[160];   /* leading term of f from the asymptotic route, or "" */
+    char analytic_rate[128];     /* predicted rate class text, or "" */
+    char *reasons[EMBZ_CLASSIFY_MAX_REASONS];  /* malloc'ed sentences */
+    slong nreasons;
+    embz_sweep_t sweep;          /* the sweep used */
+    embz_fitset_t fits;          /* the fits used */
+} embz_classify_struct;
+typedef embz_classify_struct embz_classify_t[1];
+
+void embz_classify_init(embz_classify_t c);
+void embz_classify_clear(embz_classify_t c);
+
+/* Options of a classification. */
+typedef struct {
+    fmpz_t from, to;             /* sweep range (default 10^2 .. 10^120) */
+    slong points;                /* default 16 */
+    slong prec;                  /* default 64 */
+    int use_analytic;            /* 1: also run the asymptotic route when it applies */
+} embz_classify_opts_struct;
+typedef embz_classify_opts_struct embz_classify_opts_t[1];
+
+void embz_classify_opts_init(embz_classify_opts_t o);
+void embz_classify_opts_clear(embz_classify_opts_t o);
+
+/* Classify the family for one ebit. Returns EMBZ_OK when a verdict (possibly inconclusive) was
+ * produced; errors of the family itself (domain) are returned with err filled. Thread-safe for
+ * distinct objects. */
+int embz_classify(embz_classify_t c, const embz_family_t f, const embz_classify_opts_t o,
+                  embz_progress_fn progress, void *ctx, embz_err_t *err);
+
+/* ------------------------------------------------------------------ scans */
+
+typedef struct {
+    char *name;                  /* parameter name */
+    fmpq_t lo, hi;               /* inclusive range */
+    slong count;                 /* number of values, >= 1 */
+} embz_grid_axis_struct;
+
+/* Parse "NAME=LO:HI:COUNT" (LO, HI exact decimals or p/q; COUNT >= 1; COUNT = 1 uses LO). Returns EMBZ_OK or EMBZ_ERR_INPUT with a message. axis must be cleared with
+ * embz_grid_axis_clear. */
+int embz_grid_axis_parse(embz_grid_axis_struct *axis, const char *text, embz_err_t *err);
+void embz_grid_axis_clear(embz_grid_axis_struct *axis);
+/* The j-th value lo + j (hi - lo)/(count - 1), exactly. */
+void embz_grid_axis_value(fmpq_t res, const embz_grid_axis_struct *axis, slong j);
+
+typedef struct {
+    slong index;                 /* position in the full grid (row-major, first axis slowest) */
+    fmpq *values;                /* one per axis */
+    int status;                  /* EMBZ_OK or the failure */
+    embz_classify_t c;           /* only the summary fields are kept (sweep/fits cleared) */
+    char message[256];           /* failure reason */
+} embz_scan_row_struct;
+
+typedef struct {
+    embz_scan_row_struct *rows;
+    slong len;                   /* rows of this shard */
+    slong total;                 /* size of the full grid */
+    slong naxes;
+} embz_scan_struct;
+typedef embz_scan_struct embz_scan_t[1];
+
+void embz_scan_init(embz_scan_t s);
+void embz_scan_clear(embz_scan_t s);
+
+/* Classify f at every grid point of shard `shard` of `nshards` (0-based here; the CLI counts
+ * from 1). Shard I takes the contiguous block of grid indices [I total/N, (I+1) total/N), so
+ * the shards' rows, concatenated in shard order, are exactly the rows of the full grid. threads > 1 uses OpenMP
+ * when built with it. Failures at single points are recorded in their rows. Returns EMBZ_OK,
+ * or EMBZ_ERR_INPUT for a bad grid (unknown parameter name, empty). */
+int embz_scan_run(embz_scan_t s, const embz_family_t f, const embz_grid_axis_struct *axes,
+                  slong naxes, slong shard, slong nshards, int threads,
+                  const embz_classify_opts_t o, embz_err_t *err);
+
+#endif

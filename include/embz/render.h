@@ -1,0 +1,226 @@
+/* Rendering: plots drawn with cairo (SVG, PDF, PNG) and report documents (HTML, Markdown,
+ * LaTeX, PDF). The inputs are plain structs that the commands fill; nothing here computes an
+ * embezzlement error. Every file is written atomically (temporary file in the same directory,
+ * then rename), so a failed or interrupted write leaves the previous file, or none, and no
+ * temporary file behind. */
+#ifndef EMBZ_RENDER_H
+#define EMBZ_RENDER_H
+
+#include <stddef.h>
+#include "embz/flint.h"
+#include "embz/err.h"
+
+/* ------------------------------------------------------------------ colours */
+
+typedef struct { double r, g, b; } embz_rgb_t;
+
+/* Number of colours in the series palette. */
+#define EMBZ_PLOT_NCOLOURS 6
+/* Special colour indices besides 0 .. EMBZ_PLOT_NCOLOURS-1 (which cycle for larger k). */
+#define EMBZ_PLOT_GREY (-1)      /* reference lines, envelopes */
+#define EMBZ_PLOT_LIGHT (-2)     /* light grey: "no answer" cells */
+#define EMBZ_PLOT_DARK (-3)      /* near black: failures */
+/* The colour for index k (see above). */
+embz_rgb_t embz_plot_colour(long k);
+
+/* ------------------------------------------------------------------ axes and ticks */
+
+typedef struct {
+    double pos;         /* axis coordinate (log10 of the value on log axes) */
+    int major;          /* 1: labelled */
+    char text[40];      /* label text on the base line ("10", "2×10", "0.5"), "" for minor */
+    char sup[24];       /* superscript drawn after text ("100", "-3"), or "" */
+} embz_plot_tick_t;
+
+#define EMBZ_PLOT_MAX_TICKS 512
+
+/* Ticks for the axis range [lo, hi] (log10 values when logscale) at coarseness level `level`
+ * (0 finest; each level roughly doubles the spacing of the labelled ticks). Log axes label
+ * decades 10^k (every 1, 2, 5, 10, 20, 50, ... decades as the level grows) with unlabelled
+ * minor ticks in between; ranges under about three decades also label 2 and 5 times a power
+ * of ten at level 0. Fills at most EMBZ_PLOT_MAX_TICKS entries of ticks; returns the count,
+ * or -1 when the level is too coarse to give any labelled tick (callers stop there). */
+slong embz_plot_ticks(embz_plot_tick_t *ticks, double lo, double hi, int logscale, int level);
+
+/* ------------------------------------------------------------------ figures */
+
+/* Series style flags. */
+#define EMBZ_PLOT_POINTS 1   /* markers at the points */
+#define EMBZ_PLOT_LINE 2     /* a polyline through the points (NaN y breaks it) */
+#define EMBZ_PLOT_DASHED 4   /* dashed line */
+#define EMBZ_PLOT_BAND 8     /* lo/hi drawn as a shaded band (else as error bars) */
+
+typedef struct {
+    char *label;             /* legend text; NULL or "" keeps it out of the legend */
+    int style;               /* EMBZ_PLOT_* flags */
+    long colour;             /* embz_plot_colour index */
+    int marker;              /* 0 circle, 1 square, 2 triangle, 3 diamond, 4 down, 5 cross */
+    slong len, alloc;
+    double *x, *y;           /* axis coordinates (log10 values on log axes) */
+    double *lo, *hi;         /* enclosure of y, or NaN where none (arrays always present) */
+} embz_plot_series_struct;
+
+typedef struct {
+    char *name;              /* legend text */
+    long colour;             /* embz_plot_colour index */
+} embz_plot_category_struct;
+
+enum { EMBZ_PANEL_XY = 0, EMBZ_PANEL_MAP = 1 };
+
+typedef struct {
+    int kind;                /* EMBZ_PANEL_XY or EMBZ_PANEL_MAP */
+    char *title, *xlabel, *ylabel;
+    int xlog, ylog;          /* XY: log10 axes */
+    int have_xrange, have_yrange;
+    double xmin, xmax, ymin, ymax;   /* fixed ranges (else from the data) */
+    slong nseries;
+    embz_plot_series_struct *series;
+    /* MAP: nx columns by ny rows of cells; cells[iy * nx + ix] is a category index or -1. */
+    slong nx, ny;
+    char **xticks, **yticks; /* nx and ny labels (the parameter values as text) */
+    int *cells;
+    slong ncat;
+    embz_plot_category_struct *cat;
+} embz_plot_panel_struct;
+
+typedef struct {
+    char *title;             /* drawn above the panels, or NULL */
+    slong npanels;
+    embz_plot_panel_struct *panels;
+    slong columns;           /* panels per row (default 1) */
+    double panel_width, panel_height;   /* in points (default 640 x 420) */
+    double png_scale;        /* pixels per point for PNG output (default 1.5) */
+    size_t fail_after;       /* testing: file writes fail after this many bytes (0: never) */
+} embz_plot_struct;
+typedef embz_plot_struct embz_plot_t[1];
+
+void embz_plot_init(embz_plot_t fig, const char *title);
+void embz_plot_clear(embz_plot_t fig);
+
+/* Add an XY panel; returns its index. */
+slong embz_plot_add_panel(embz_plot_t fig, const char *title, const char *xlabel,
+                          const char *ylabel, int xlog, int ylog);
+void embz_plot_set_xrange(embz_plot_t fig, slong panel, double lo, double hi);
+void embz_plot_set_yrange(embz_plot_t fig, slong panel, double lo, double hi);
+/* Add a series to a panel; colour < -100 picks the next palette colour. Returns its index. */
+slong embz_plot_add_series(embz_plot_t fig, slong panel, const char *label, int style,
+                           long colour);
+/* Append a point; lo/hi NaN when there is no enclosure. lo may be -inf (clipped at the axis). */
+void embz_plot_push(embz_plot_t fig, slong panel, slong series, double x, double y,
+                    double lo, double hi);
+
+/* Add a map panel of nx by ny cells, all empty (-1). Labels are copied. Returns its index. */
+slong embz_plot_add_map(embz_plot_t fig, const char *title, const char *xlabel,
+                        const char *ylabel, slong nx, const char *const *xticks,
+                        slong ny, const char *const *yticks);
+/* Add a category (legend entry) to a map panel; returns its index. */
+slong embz_plot_add_category(embz_plot_t fig, slong panel, const char *name, long colour);
+void embz_plot_set_cell(embz_plot_t fig, slong panel, slong ix, slong iy, int category);
+
+/* Write the figure; the format comes from the extension of path (.svg, .pdf, .png, any case).
+ * EMBZ_ERR_INPUT for an unknown extension, EMBZ_ERR_IO when the file cannot be written. */
+int embz_plot_write(const embz_plot_t fig, const char *path, embz_err_t *err);
+/* The figure as SVG text for inlining in HTML: no XML declaration, ids prefixed with
+ * id_prefix (so several figures can share one document), width 100% with the aspect ratio
+ * kept. *svg is malloc'ed. */
+int embz_plot_svg_string(char **svg, const embz_plot_t fig, const char *id_prefix,
+                         embz_err_t *err);
+/* Total size of the figure in points. */
+void embz_plot_size(double *width, double *height, const embz_plot_t fig);
+
+/* ------------------------------------------------------------------ atomic files */
+
+/* A file being written: bytes go to a temporary file next to path; commit renames it into
+ * place, abort removes it. Termination signals (INT, TERM, HUP, QUIT) are held back between
+ * open and commit/abort, so an interrupted run never leaves the temporary file behind. */
+typedef struct {
+    int fd;
+    char *path, *tmp;
+    size_t written, fail_after;
+    int failed;              /* a write failed: commit will refuse */
+    int saved_errno;
+    int have_mask;
+    unsigned char mask[256]; /* the caller's signal mask (a sigset_t) */
+} embz_afile_struct;
+typedef embz_afile_struct embz_afile_t[1];
+
+int embz_afile_open(embz_afile_t f, const char *path, embz_err_t *err);
+/* Returns 0 on success, -1 after a failure (the failure is reported by commit). */
+int embz_afile_write(embz_afile_t f, const void *data, size_t len);
+int embz_afile_commit(embz_afile_t f, embz_err_t *err);
+void embz_afile_abort(embz_afile_t f);
+/* data to path through an embz_afile_t (fail_after as above, 0: never). */
+int embz_afile_write_all(const char *path, const char *data, size_t len, size_t fail_after,
+                         embz_err_t *err);
+
+/* ------------------------------------------------------------------ reports */
+
+/* One family's row. All strings are malloc'ed (NULL: not available, shown as "–"). Numbers are
+ * given as text exactly as they should appear: certified digits, or estimates that say so. */
+typedef struct {
+    char *name;
+    char *weight;            /* the weight expression */
+    char *verdict;           /* e.g. "embezzler" */
+    char *law;               /* fitted law, e.g. "C (ln n)^-g" */
+    char *exponent;          /* e.g. "g ≈ 1.00 (estimate)" */
+    char *limit_lo, *limit_hi;
+    char **error_at;         /* report->nsizes entries */
+    char **need_n;           /* report->ngoals entries */
+    char **need_qubits;      /* report->ngoals entries */
+    char *notes;             /* free text (paragraphs separated by blank lines) */
+} embz_report_family_struct;
+
+typedef struct {
+    char *caption;
+    const embz_plot_struct *plot;   /* borrowed; drawn natively (HTML: inline SVG; PDF) */
+    char *svg;               /* or SVG text to inline (HTML only) */
+    char *path;              /* or a file: .svg inlined / .png embedded in HTML, linked in
+                                Markdown and LaTeX, drawn in PDF when .png */
+} embz_report_figure_struct;
+
+typedef struct {
+    char *title;
+    char *subtitle;          /* e.g. "target: 2 ebits; goal 1e-3" */
+    char *intro;             /* free text */
+    slong nsizes;
+    char **sizes;            /* column heads of the error columns, e.g. "10^6" */
+    slong ngoals;
+    char **goals;            /* error goals, e.g. "1e-3" */
+    slong nfam;
+    embz_report_family_struct *fam;
+    slong nfig;
+    embz_report_figure_struct *fig;
+    char *footer;            /* e.g. how the numbers were computed */
+    size_t fail_after;       /* testing: file writes fail after this many bytes (0: never) */
+} embz_report_struct;
+typedef embz_report_struct embz_report_t[1];
+
+void embz_report_init(embz_report_t r, const char *title);
+void embz_report_clear(embz_report_t r);
+/* Replace a string field by a copy of text (NULL allowed). */
+void embz_report_set(char **field, const char *text);
+/* Column heads; must be called before families are added. */
+void embz_report_set_sizes(embz_report_t r, slong n, const char *const *sizes);
+void embz_report_set_goals(embz_report_t r, slong n, const char *const *goals);
+/* A new family row with every field NULL (arrays sized by the current sizes and goals). */
+embz_report_family_struct *embz_report_add_family(embz_report_t r, const char *name);
+embz_report_figure_struct *embz_report_add_figure(embz_report_t r, const char *caption,
+                                                 const embz_plot_struct *plot);
+
+enum { EMBZ_REPORT_HTML = 0, EMBZ_REPORT_MD, EMBZ_REPORT_TEX, EMBZ_REPORT_PDF };
+/* "html"/"htm", "md"/"markdown", "tex"/"latex", "pdf"; -1 when unknown. */
+int embz_report_format_from_name(const char *name);
+
+/* Document text (HTML, Markdown, LaTeX table); *text malloc'ed. */
+int embz_report_html(char **text, const embz_report_t r, embz_err_t *err);
+int embz_report_markdown(char **text, const embz_report_t r, embz_err_t *err);
+int embz_report_latex(char **text, const embz_report_t r, embz_err_t *err);
+/* Write the report to path in the given format (PDF drawn with cairo). */
+int embz_report_write(const embz_report_t r, const char *path, int format, embz_err_t *err);
+
+/* Escaped copies of text (malloc'ed): HTML (& < > " '), LaTeX specials, Markdown specials. */
+char *embz_html_escape(const char *text);
+char *embz_latex_escape(const char *text);
+char *embz_markdown_escape(const char *text);
+
+#endif

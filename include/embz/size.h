@@ -1,0 +1,45 @@
+/* Resource size: the smallest n whose embezzlement error reaches a goal. */
+#ifndef EMBZ_SIZE_H
+#define EMBZ_SIZE_H
+
+#include "embz/measure.h"
+
+typedef enum {
+    EMBZ_SIZE_FOUND = 0,      /* n found: E_n <= eps certified, E_(n-1) > eps certified */
+    EMBZ_SIZE_NOT_REACHED,    /* E > eps certified at the largest size tried */
+    EMBZ_SIZE_UNDECIDED       /* enclosures straddle eps even at raised precision */
+} embz_size_status_t;
+
+typedef struct {
+    int status;
+    fmpz_t n;             /* FOUND: the size */
+    arb_t err_n;          /* enclosure of E at n */
+    arb_t err_prev;       /* enclosure of E at n - 1 */
+    int exhaustive;       /* every m < n was checked (E_m > eps certified) */
+    long checked_below;   /* number of sizes below n with E > eps certified */
+    fmpz_t stay_checked_to;/* E <= eps certified at every sampled size in [n, this] */
+    long stay_samples;    /* how many sizes were sampled there */
+    fmpz_t again_above;   /* a size > n with E > eps found by the sampling (0 if none) */
+    fmpz_t undecided_lo, undecided_hi; /* UNDECIDED: the n whose side could not be decided */
+    fmpz_t largest;       /* NOT_REACHED: the largest size tried */
+    arb_t err_largest;    /* NOT_REACHED: E there */
+    long evaluations;
+    char method[128];     /* how the sizes were evaluated */
+} embz_size_result_struct;
+typedef embz_size_result_struct embz_size_result_t[1];
+
+void embz_size_result_init(embz_size_result_t r);
+void embz_size_result_clear(embz_size_result_t r);
+
+/* Largest size the search tries: 2^(12 * 2^8) = 2^3072, about 10^925. */
+#define EMBZ_SIZE_MAX_LOG2 3072
+
+/* Smallest n with E_n(q) <= eps for the family (measure K). Sizes up to EMBZ_SIZE_EXHAUSTIVE
+ * are checked one by one; beyond, a bracketing search in ln n (regula falsi with bisection
+ * safeguards) on certified enclosures locates the crossing, and sampled sizes below and above
+ * it are checked. prec is raised (up to 4x) where an enclosure straddles eps. */
+#define EMBZ_SIZE_EXHAUSTIVE 2048
+int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
+                    const embz_target_t q, slong prec, embz_err_t *err);
+
+#endif

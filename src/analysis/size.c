@@ -1,0 +1,338 @@
+/* Smallest size n whose embezzlement error reaches a goal eps (see include/embz/size.h).
+ *
+ * Every decision "E_n <= eps" or "E_n > eps" rests on a certified enclosure of E_n: the side is
+ * taken only when the whole ball lies on it; otherwise the precision is raised. The search
+ * itself (which n to look at) may use any heuristic: exhaustive for small n, then a bracket
+ * in ln n refined by regula falsi (Illinois variant) with bisection safeguards. What the
+ * search cannot prove (that no smaller n works when E_n is not monotone, that E_n stays below
+ * eps) is checked on samples and reported as such. */
+#include <string.h>
+#include "embz/size.h"
+#include "embz/sum.h"
+
+#define SIZE_ANALYTIC_FROM 4096   /* explicit below, analytic engine from here */
+#define SIZE_PREC_STEPS 3         /* prec, 2 prec, 4 prec */
+#define SIZE_MAX_STEPS 400
+
+typedef struct {
+    const embz_family_struct *f;
+    const embz_target_struct *q;
+    slong prec;
+    arb_t eps;
+    embz_analytic_t an[SIZE_PREC_STEPS];
+    int used_explicit, used_analytic;
+    long evals;
+} sctx;
+
+void embz_size_result_init(embz_size_result_t r)
+{
+    memset(r, 0, sizeof(*r));
+    fmpz_init(r->n);
+    arb_init(r->err_n);
+    arb_init(r->err_prev);
+    fmpz_init(r->stay_checked_to);
+    fmpz_init(r->again_above);
+    fmpz_init(r->undecided_lo);
+    fmpz_init(r->undecided_hi);
+    fmpz_init(r->largest);
+    arb_init(r->err_largest);
+}
+
+void embz_size_result_clear(embz_size_result_t r)
+{
+    fmpz_clear(r->n);
+    arb_clear(r->err_n);
+    arb_clear(r->err_prev);
+    fmpz_clear(r->stay_checked_to);
+    fmpz_clear(r->again_above);
+    fmpz_clear(r->undecided_lo);
+    fmpz_clear(r->undecided_hi);
+    fmpz_clear(r->largest);
+    arb_clear(r->err_largest);
+}
+
+/* Which side of eps E_n lies on: -1 (E_n <= eps), +1 (E_n > eps), 0 undecided even at the
+ * highest precision tried. E receives the last enclosure. Returns a status. */
+static int side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
+{
+    embz_error_result_t res;
+    embz_error_result_init(res);
+    int st = EMBZ_OK;
+    *sd = 0;
+    for (int step = 0; step < SIZE_PREC_STEPS; step++) {
+        slong p = c->prec << step;
+        st = EMBZ_ERR_UNSUPPORTED;
+        if (fmpz_cmp_si(n, SIZE_ANALYTIC_FROM) > 0) {
+            st = embz_analytic_error(res, c->an[step], n, c->q, err);
+            if (st == EMBZ_OK) c->used_analytic = 1;
+        }
+        if (st == EMBZ_ERR_UNSUPPORTED && fmpz_cmp_si(n, EMBZ_EXPLICIT_MAX_N) <= 0) {
+            embz_err_clear(err);
+            st = embz_error_explicit(res, c->f, n, c->q, p, err);
+            if (st == EMBZ_OK) c->used_explicit = 1;
+        }
+        c->evals++;
+        if (st != EMBZ_OK) break;
+        arb_set(E, res->error);
+        if (arb_le(E, c->eps)) { *sd = -1; break; }
+        if (arb_gt(E, c->eps)) { *sd = 1; break; }
+    }
+    embz_error_result_clear(res);
+    return st;
+}
+
+/* floor(exp(x)) for a ball x, clamped to [lo, hi] */
+static void exp_floor_clamp(fmpz_t r, const arb_t x, const fmpz_t lo, const fmpz_t hi, slong prec)
+{
+    arb_t e;
+    arb_init(e);
+    arb_exp(e, x, prec);
+    if (arb_is_finite(e)) arf_get_fmpz(r, arb_midref(e), ARF_RND_FLOOR);
+    else fmpz_set(r, lo);
+    if (fmpz_cmp(r, lo) < 0) fmpz_set(r, lo);
+    if (fmpz_cmp(r, hi) > 0) fmpz_set(r, hi);
+    arb_clear(e);
+}
+
+/* Refine the bracket (E_lo > eps at nlo, E_hi <= eps at nhi) down to adjacent integers.
+ * Returns status; *undecided set when a size could not be decided. */
+static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *undecided,
+                  fmpz_t und, embz_err_t *err)
+{
+    fmpz_t cand, width, prevw, lo1, hi1;
+    arb_t xlo, xhi, ylo, yhi, x, t, E;
+    int st = EMBZ_OK, last = 0, stuck = 0;
+    fmpz_init(cand); fmpz_init(width); fmpz_init(prevw); fmpz_init(lo1); fmpz_init(hi1);
+    arb_init(xlo); arb_init(xhi); arb_init(ylo); arb_init(yhi); arb_init(x); arb_init(t);
+    arb_init(E);
+    *undecided = 0;
+    slong wp = 2 * fmpz_bits(nhi) + 64;
+    /* y = E - eps at the midpoints: only used to choose where to look */
+#define SET_XY(xx, yy, nn, EE) do { arb_set_fmpz(xx, nn); arb_log(xx, xx, wp); \
+        arb_set_arf(yy, arb_midref(EE)); arb_sub(yy, yy, c->eps, wp); \
+        arb_set_arf(yy, arb_midref(yy)); } while (0)
+    SET_XY(xlo, ylo, nlo, Elo);
+    SET_XY(xhi, yhi, nhi, Ehi);
+    fmpz_sub(prevw, nhi, nlo);
+    for (int it = 0; it < SIZE_MAX_STEPS; it++) {
+        fmpz_sub(width, nhi, nlo);
+        if (fmpz_cmp_ui(width, 1) <= 0) break;
+        fmpz_add_ui(lo1, nlo, 1);
+        fmpz_sub_ui(hi1, nhi, 1);
+        int bisect = stuck >= 2 || !arb_is_positive(ylo) || arb_is_positive(yhi);
+        if (!bisect) {
+            /* x = xlo - ylo (xhi - xlo) / (yhi - ylo) */
+            arb_sub(t, xhi, xlo, wp);
+            arb_mul(t, t, ylo, wp);
+            arb_sub(x, yhi, ylo, wp);
+            arb_div(t, t, x, wp);
+            arb_sub(x, xlo, t, wp);
+            exp_floor_clamp(cand, x, lo1, hi1, wp);
+        } else {
+            /* geometric midpoint while the ratio is large, else arithmetic */
+            fmpz_mul_2exp(cand, nlo, 1);
+            if (fmpz_cmp(nhi, cand) > 0) {
+                fmpz_mul(cand, nlo, nhi);
+                fmpz_sqrt(cand, cand);
+            } else {
+                fmpz_add(cand, nlo, nhi);
+                fmpz_fdiv_q_2exp(cand, cand, 1);
+            }
+            if (fmpz_cmp(cand, lo1) < 0) fmpz_set(cand, lo1);
+            if (fmpz_cmp(cand, hi1) > 0) fmpz_set(cand, hi1);
+            stuck = 0;
+        }
+        int sd;
+        st = side(&sd, E, c, cand, err);
+        if (st != EMBZ_OK) break;
+        if (sd == 0) {
+            *undecided = 1;
+            fmpz_set(und, cand);
+            break;
+        }
+        if (sd < 0) {
+            fmpz_set(nhi, cand);
+            arb_set(Ehi, E);
+            SET_XY(xhi, yhi, nhi, E);
+            if (last < 0) arb_mul_2exp_si(ylo, ylo, -1);    /* Illinois */
+            last = -1;
+        } else {
+            fmpz_set(nlo, cand);
+            arb_set(Elo, E);
+            SET_XY(xlo, ylo, nlo, E);
+            if (last > 0) arb_mul_2exp_si(yhi, yhi, -1);
+            last = 1;
+        }
+        /* the bracket must at least halve every other step, else bisect */
+        fmpz_sub(width, nhi, nlo);
+        fmpz_mul_2exp(width, width, 1);
+        if (fmpz_cmp(width, prevw) > 0) stuck++;
+        else stuck = 0;
+        fmpz_sub(prevw, nhi, nlo);
+    }
+#undef SET_XY
+    fmpz_clear(cand); fmpz_clear(width); fmpz_clear(prevw); fmpz_clear(lo1); fmpz_clear(hi1);
+    arb_clear(xlo); arb_clear(xhi); arb_clear(ylo); arb_clear(yhi); arb_clear(x); arb_clear(t);
+    arb_clear(E);
+    return st;
+}
+
+int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
+                    const embz_target_t q, slong prec, embz_err_t *err)
+{
+    sctx c;
+    memset(&c, 0, sizeof(c));
+    c.f = f;
+    c.q = q;
+    c.prec = prec;
+    arb_init(c.eps);
+    arb_set(c.eps, eps);
+    for (int s = 0; s < SIZE_PREC_STEPS; s++) {
+        embz_analytic_init(c.an[s], f, prec << s);
+        embz_analytic_set_decision(c.an[s], eps);
+    }
+    fmpz_t n, nlo, nhi, m;
+    arb_t E, Elo, Ehi;
+    fmpz_init(n); fmpz_init(nlo); fmpz_init(nhi); fmpz_init(m);
+    arb_init(E); arb_init(Elo); arb_init(Ehi);
+    int st = EMBZ_OK, sd = 0, found = 0;
+    res->status = EMBZ_SIZE_NOT_REACHED;
+
+    if (!arb_is_positive(eps)) {
+        st = embz_err_set(err, EMBZ_ERR_INPUT, "the error goal must be positive");
+        goto done;
+    }
+    /* 1. small sizes one by one */
+    for (slong k = 1; k <= EMBZ_SIZE_EXHAUSTIVE; k++) {
+        fmpz_set_si(n, k);
+        st = side(&sd, E, &c, n, err);
+        if (st != EMBZ_OK) goto done;
+        if (sd == 0) {
+            res->status = EMBZ_SIZE_UNDECIDED;
+            fmpz_set(res->undecided_lo, n);
+            fmpz_set(res->undecided_hi, n);
+            goto done;
+        }
+        if (sd < 0) {
+            fmpz_set(res->n, n);
+            arb_set(res->err_n, E);
+            res->exhaustive = 1;
+            res->checked_below = k - 1;
+            found = 1;
+            break;
+        }
+        arb_set(res->err_prev, E);
+    }
+    if (!found) {
+        /* 2. bracket: n = 2^(12 * 2^j) */
+        fmpz_set_si(nlo, EMBZ_SIZE_EXHAUSTIVE);
+        arb_set(Elo, res->err_prev);
+        for (slong e = 12; e <= EMBZ_SIZE_MAX_LOG2; e *= 2) {
+            fmpz_one(n);
+            fmpz_mul_2exp(n, n, (ulong) e);
+            st = side(&sd, E, &c, n, err);
+            if (st != EMBZ_OK) goto done;
+            fmpz_set(res->largest, n);
+            arb_set(res->err_largest, E);
+            if (sd < 0) {
+                fmpz_set(nhi, n);
+                arb_set(Ehi, E);
+                found = 1;
+                break;
+            }
+            if (sd > 0) {
+                fmpz_set(nlo, n);
+                arb_set(Elo, E);
+            }
+        }
+        if (!found) {
+            res->status = EMBZ_SIZE_NOT_REACHED;
+            goto done;
+        }
+        /* 3. refine to adjacent integers; then look below for a smaller crossing */
+        for (int round = 0; round < 4; round++) {
+            int und = 0;
+            st = refine(&c, nlo, Elo, nhi, Ehi, &und, m, err);
+            if (st != EMBZ_OK) goto done;
+            if (und) {
+                res->status = EMBZ_SIZE_UNDECIDED;
+                fmpz_set(res->undecided_lo, m);
+                fmpz_set(res->undecided_hi, m);
+                goto done;
+            }
+            fmpz_set(res->n, nhi);
+            arb_set(res->err_n, Ehi);
+            arb_set(res->err_prev, Elo);
+            /* samples below: the 8 sizes just below n - 1, then n / 16^j down to the
+             * exhaustive range */
+            int again = 0;
+            res->checked_below = 0;
+            for (int j = 2; j <= 9 + 1000 && !again; j++) {
+                if (j <= 9) fmpz_sub_ui(m, nhi, (ulong) j);
+                else fmpz_fdiv_q_2exp(m, nhi, (ulong) (4 * (j - 9)));
+                if (fmpz_cmp_si(m, EMBZ_SIZE_EXHAUSTIVE) <= 0) break;
+                st = side(&sd, E, &c, m, err);
+                if (st != EMBZ_OK) goto done;
+                if (sd > 0) res->checked_below++;
+                else if (sd < 0) {
+                    /* a smaller size also reaches the goal: search below it */
+                    again = 1;
+                    fmpz_set(nhi, m);
+                    arb_set(Ehi, E);
+                }
+            }
+            if (!again) break;
+            /* new lower end: the largest size below nhi known to be above eps */
+            fmpz_set_si(nlo, EMBZ_SIZE_EXHAUSTIVE);
+            fmpz_fdiv_q_2exp(m, nhi, 1);
+            while (fmpz_cmp_si(m, EMBZ_SIZE_EXHAUSTIVE) > 0) {
+                st = side(&sd, E, &c, m, err);
+                if (st != EMBZ_OK) goto done;
+                if (sd > 0) { fmpz_set(nlo, m); arb_set(Elo, E); break; }
+                fmpz_fdiv_q_2exp(m, m, 1);
+            }
+            if (fmpz_equal_si(nlo, EMBZ_SIZE_EXHAUSTIVE)) {
+                fmpz_set_si(m, EMBZ_SIZE_EXHAUSTIVE);
+                st = side(&sd, Elo, &c, m, err);
+                if (st != EMBZ_OK) goto done;
+            }
+        }
+        res->checked_below += EMBZ_SIZE_EXHAUSTIVE;
+    }
+    res->status = EMBZ_SIZE_FOUND;
+    /* 4. does E stay below eps? sample sizes above n */
+    {
+        fmpz_set(res->stay_checked_to, res->n);
+        res->stay_samples = 0;
+        for (int j = 0; j < 24; j++) {
+            if (j < 8) fmpz_add_ui(m, res->n, (ulong) j + 1);
+            else if (j < 16) {
+                fmpz_fdiv_q_2exp(m, res->n, (ulong) (16 - j));   /* n + n / 2^(16-j) */
+                fmpz_add(m, m, res->n);
+            } else {
+                fmpz_mul_2exp(m, res->n, (ulong) (1 << (j - 16)));
+            }
+            st = side(&sd, E, &c, m, err);
+            if (st != EMBZ_OK) goto done;
+            if (sd > 0) {
+                fmpz_set(res->again_above, m);
+                break;
+            }
+            if (sd < 0) {
+                res->stay_samples++;
+                if (fmpz_cmp(m, res->stay_checked_to) > 0) fmpz_set(res->stay_checked_to, m);
+            }
+        }
+    }
+done:
+    res->evaluations = c.evals;
+    snprintf(res->method, sizeof(res->method), "%s%s%s",
+             c.used_explicit ? "explicit" : "",
+             (c.used_explicit && c.used_analytic) ? " and " : "",
+             c.used_analytic ? "analytic (decision mode)" : "");
+    for (int s = 0; s < SIZE_PREC_STEPS; s++) embz_analytic_clear(c.an[s]);
+    arb_clear(c.eps);
+    fmpz_clear(n); fmpz_clear(nlo); fmpz_clear(nhi); fmpz_clear(m);
+    arb_clear(E); arb_clear(Elo); arb_clear(Ehi);
+    return st;
+}

@@ -1,0 +1,238 @@
+/* Sweeps: the certified error E_n(q) at log-spaced sizes, with one analytic engine reused
+ * across all sizes. */
+#include <stdlib.h>
+#include <string.h>
+#include <math.h>
+#include <time.h>
+#include "embz/analysis.h"
+#include "embz/sum.h"
+#include "embz/output.h"
+
+static double now_seconds(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
+}
+
+void embz_sweep_init(embz_sweep_t s)
+{
+    s->pts = NULL;
+    s->len = 0;
+    s->nok = 0;
+    s->prec = 0;
+    s->target[0] = '\0';
+}
+
+static void point_init(embz_sweep_point_struct *p)
+{
+    memset(p, 0, sizeof(*p));
+    fmpz_init(p->n);
+    fmpz_init(p->argk);
+    arb_init(p->error);
+    arb_init(p->lower);
+    arb_init(p->upper);
+    p->status = EMBZ_ERR_UNSUPPORTED;
+}
+
+static void point_clear(embz_sweep_point_struct *p)
+{
+    fmpz_clear(p->n);
+    fmpz_clear(p->argk);
+    arb_clear(p->error);
+    arb_clear(p->lower);
+    arb_clear(p->upper);
+}
+
+void embz_sweep_clear(embz_sweep_t s)
+{
+    for (slong j = 0; j < s->len; j++) point_clear(s->pts + j);
+    free(s->pts);
+    embz_sweep_init(s);
+}
+
+/* ln n as a double, also for n far beyond the double range. */
+static double fmpz_log_d(const fmpz_t n)
+{
+    slong bits = fmpz_bits(n);
+    if (bits <= 1000) return log(fmpz_get_d(n));
+    fmpz_t t;
+    fmpz_init(t);
+    fmpz_fdiv_q_2exp(t, n, (ulong) (bits - 60));
+    double r = log(fmpz_get_d(t)) + (double) (bits - 60) * log(2.0);
+    fmpz_clear(t);
+    return r;
+}
+
+int embz_sweep_sizes(fmpz *sizes, slong *len, const fmpz_t a, const fmpz_t b, slong k,
+                     embz_err_t *err)
+{
+    *len = 0;
+    if (fmpz_cmp_ui(a, 1) < 0 || fmpz_cmp(a, b) > 0)
+        return embz_err_set(err, EMBZ_ERR_INPUT, "the size range must satisfy 1 <= from <= to");
+    if (k < 1) return embz_err_set(err, EMBZ_ERR_INPUT, "at least one point is needed");
+    slong prec = fmpz_bits(b) + 64;
+    arb_t la, lb, x, t;
+    arb_init(la); arb_init(lb); arb_init(x); arb_init(t);
+    arb_set_fmpz(x, a);
+    arb_log(la, x, prec);
+    arb_set_fmpz(x, b);
+    arb_log(lb, x, prec);
+    arb_sub(lb, lb, la, prec);         /* lb <- ln b - ln a */
+    fmpz_t z;
+    fmpz_init(z);
+    for (slong j = 0; j < k; j++) {
+        if (j == 0) fmpz_set(z, a);
+        else if (j == k - 1) fmpz_set(z, b);
+        else {
+            arb_mul_si(t, lb, j, prec);
+            arb_div_si(t, t, k - 1, prec);
+            arb_add(t, t, la, prec);
+            arb_exp(x, t, prec);
+            /* nearest integer to the midpoint (x + 1/2 floored) */
+            arb_set_d(t, 0.5);
+            arb_add(x, x, t, prec);
+            arf_get_fmpz(z, arb_midref(x), ARF_RND_FLOOR);
+            if (fmpz_cmp(z, a) < 0) fmpz_set(z, a);
+            if (fmpz_cmp(z, b) > 0) fmpz_set(z, b);
+        }
+        if (*len > 0 && fmpz_cmp(z, sizes + *len - 1) <= 0) continue;
+        fmpz_set(sizes + *len, z);
+        (*len)++;
+    }
+    fmpz_clear(z);
+    arb_clear(la); arb_clear(lb); arb_clear(x); arb_clear(t);
+    return EMBZ_OK;
+}
+
+/* a finite enclosure with at least a few correct bits */
+static int usable(const arb_t x)
+{
+    return arb_is_finite(x) && arb_rel_accuracy_bits(x) >= 8;
+}
+
+static void take_result(embz_sweep_point_struct *p, const embz_error_result_t r)
+{
+    arb_set(p->error, r->error);
+    fmpz_set(p->argk, r->argk);
+    p->have_bounds = r->have_bounds;
+    if (r->have_bounds) {
+        arb_set(p->lower, r->lower);
+        arb_set(p->upper, r->upper);
+    }
+    p->method = r->method;
+    snprintf(p->note, sizeof(p->note), "%s", r->detail);
+}
+
+int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const fmpz_t b,
+                   slong k, const embz_target_t q, slong prec, embz_progress_fn progress,
+                   void *ctx, embz_err_t *err)
+{
+    embz_sweep_clear(s);
+    fmpz *sizes = _fmpz_vec_init(k > 0 ? k : 1);
+    slong len = 0;
+    int st = embz_sweep_sizes(sizes, &len, a, b, k, err);
+    if (st != EMBZ_OK) {
+        _fmpz_vec_clear(sizes, k > 0 ? k : 1);
+        return st;
+    }
+    s->pts = malloc((size_t) len * sizeof(embz_sweep_point_struct));
+    s->len = len;
+    s->prec = prec;
+    snprintf(s->target, sizeof(s->target), "%s", q->label);
+    for (slong j = 0; j < len; j++) {
+        point_init(s->pts + j);
+        fmpz_set(s->pts[j].n, sizes + j);
+        s->pts[j].log_n = fmpz_log_d(sizes + j);
+    }
+    _fmpz_vec_clear(sizes, k);
+
+    embz_analytic_t an;
+    embz_error_result_t r;
+    embz_err_t e2;
+    int analytic_ok = (q->kind == EMBZ_TARGET_UNIFORM);
+    int last_fail = EMBZ_OK;
+    char prep_reason[200] = "";
+    embz_analytic_init(an, f, prec);
+    embz_error_result_init(r);
+    if (analytic_ok) {
+        /* certify the tail once for the largest size: every smaller size reuses it */
+        embz_err_clear(&e2);
+        int ps = embz_analytic_prepare(an, s->pts[len - 1].n, &e2);
+        if (ps != EMBZ_OK) {
+            analytic_ok = 0;
+            snprintf(prep_reason, sizeof(prep_reason), "%.190s", e2.text);
+            if (ps == EMBZ_ERR_DOMAIN) {
+                st = embz_err_set(err, ps, "%s", e2.text);
+                goto out;
+            }
+        }
+    }
+    for (slong j = 0; j < len; j++) {
+        embz_sweep_point_struct *p = s->pts + j;
+        double t0 = now_seconds();
+        int ps = EMBZ_ERR_UNSUPPORTED;
+        char why[200] = "";
+        if (analytic_ok) {
+            embz_err_clear(&e2);
+            ps = embz_analytic_error(r, an, p->n, q, &e2);
+            /* an enclosure without any certified bit: retry at higher precision with an
+             * engine of its own (rare: e.g. increasing weights at huge n) */
+            for (slong wp = 2 * prec; ps == EMBZ_OK && !usable(r->error) && wp <= 8 * prec;
+                 wp *= 2) {
+                embz_analytic_t hi;
+                embz_analytic_init(hi, f, wp);
+                embz_err_clear(&e2);
+                ps = embz_analytic_error(r, hi, p->n, q, &e2);
+                embz_analytic_clear(hi);
+            }
+            if (ps == EMBZ_OK && !usable(r->error)) {
+                ps = EMBZ_ERR_PREC;
+                snprintf(e2.text, sizeof(e2.text), "no certified digit up to %ld bits",
+                         (long) (8 * prec));
+            }
+            if (ps == EMBZ_OK) r->method = EMBZ_METHOD_ANALYTIC;
+            else snprintf(why, sizeof(why), "%.190s", e2.text);
+        } else if (prep_reason[0]) {
+            snprintf(why, sizeof(why), "%.190s", prep_reason);
+        }
+        if (ps != EMBZ_OK && ps != EMBZ_ERR_DOMAIN
+            && fmpz_cmp_si(p->n, EMBZ_EXPLICIT_MAX_N) <= 0) {
+            embz_err_clear(&e2);
+            ps = embz_error_explicit(r, f, p->n, q, prec, &e2);
+            if (ps == EMBZ_OK && !usable(r->error)) {
+                ps = EMBZ_ERR_PREC;
+                snprintf(e2.text, sizeof(e2.text), "no certified digit at %ld bits", (long) prec);
+            }
+            if (ps == EMBZ_OK) r->method = EMBZ_METHOD_EXPLICIT;
+            else snprintf(why, sizeof(why), "%.190s", e2.text);
+        }
+        p->status = ps;
+        if (ps == EMBZ_OK) {
+            take_result(p, r);
+            s->nok++;
+        } else {
+            last_fail = ps;
+            snprintf(p->note, sizeof(p->note), "skipped: %s",
+                     why[0] ? why : "no method handles this size");
+            if (ps == EMBZ_ERR_DOMAIN) {
+                /* the weight itself is invalid: no point in going on */
+                char *ns = embz_fmpz_string(p->n, 30);
+                st = embz_err_set(err, ps, "n = %s: %s", ns, why);
+                free(ns);
+                p->seconds = now_seconds() - t0;
+                goto out;
+            }
+        }
+        p->seconds = now_seconds() - t0;
+        if (progress != NULL) progress(ctx, j + 1, len);
+    }
+    if (s->nok == 0) {
+        st = embz_err_set(err, last_fail ? last_fail : EMBZ_ERR_UNSUPPORTED,
+                          "no size of the sweep could be computed: %s", s->pts[len - 1].note);
+    }
+out:
+    embz_error_result_clear(r);
+    embz_analytic_clear(an);
+    return st;
+}

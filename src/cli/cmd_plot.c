@@ -1,0 +1,420 @@
+/* embz plot FAMILY... -o FILE: error versus size on log axes (and the weights against the
+ * x^(-1 -+ eps) envelopes with --weights), written as SVG, PDF or PNG. */
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+#include <strings.h>
+#include "cli.h"
+
+static const cli_opt_t plot_opts[] = {
+    { "output", 'o', CLI_VALUE, "FILE", "the figure: .svg, .pdf or .png (required)" },
+    { "from", 0, CLI_VALUE, "A", "smallest size n (default 10)" },
+    { "to", 0, CLI_VALUE, "B", "largest size n (default 10^6)" },
+    { "points", 'k', CLI_VALUE, "K", "number of log-spaced sizes (default 12)" },
+    { "target", 't', CLI_VALUE, "T", "target state: ebit (default), ebits:J, uniform:D, ..." },
+    { "weights", 0, CLI_FLAG, NULL, "add a panel: weights against x^(-1-eps) and x^(-1+eps)" },
+    { "eps", 0, CLI_VALUE, "EPS", "exponent offset of the envelopes (default 0.1)" },
+    { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter of the families that have it" },
+    { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 64)" },
+    { "title", 0, CLI_VALUE, "TEXT", "title of the figure" },
+    { NULL, 0, 0, NULL, NULL }
+};
+
+static const cli_spec_t plot_spec = {
+    "plot", "FAMILY... -o FILE",
+    "Plot the certified embezzlement error E_n(q) against n on log axes for each family.",
+    "The sizes are log-spaced from A to B (any size embz accepts, e.g. 10^1000); each point\n"
+    "is the midpoint of a certified enclosure, with a bar where the enclosure is wide\n"
+    "enough to see. Sizes above 10^5 use the analytic engine (one per family, reused for\n"
+    "all sizes). --weights adds the normalised weights w(x)/w(1) (with n = B when the\n"
+    "weight depends on n) against the envelopes x^(-1-eps) and x^(-1+eps).\n"
+    "Files are written atomically: an interrupted run leaves no partial file.\n",
+    plot_opts, 1, 16
+};
+
+#define EXPLICIT_UP_TO 100000
+
+static char *sdup(const char *s)
+{
+    size_t l = strlen(s) + 1;
+    char *d = malloc(l);
+    memcpy(d, s, l);
+    return d;
+}
+
+/* log10 of the ball's lower end, midpoint and upper end (doubles, for drawing). */
+static void arb_log10_d(double *lo, double *mid, double *hi, const arb_t x)
+{
+    arb_t t, ln10;
+    arf_t b;
+    arb_init(t);
+    arb_init(ln10);
+    arf_init(b);
+    arb_const_log10(ln10, 64);
+    arb_get_lbound_arf(b, x, 64);
+    double *out[3] = { lo, mid, hi };
+    for (int k = 0; k < 3; k++) {
+        if (k == 1)
+            arf_set(b, arb_midref(x));
+        if (k == 2)
+            arb_get_ubound_arf(b, x, 64);
+        if (arf_sgn(b) <= 0) {
+            *out[k] = k == 0 ? -INFINITY : NAN;
+            continue;
+        }
+        arb_set_arf(t, b);
+        arb_log(t, t, 64);
+        arb_div(t, t, ln10, 64);
+        *out[k] = arf_get_d(arb_midref(t), ARF_RND_NEAR);
+    }
+    arf_clear(b);
+    arb_clear(ln10);
+    arb_clear(t);
+}
+
+static double fmpz_log10_d(const fmpz_t n)
+{
+    arb_t x;
+    arb_init(x);
+    arb_set_fmpz(x, n);
+    double lo, mid, hi;
+    arb_log10_d(&lo, &mid, &hi, x);
+    arb_clear(x);
+    return mid;
+}
+
+/* Up to k integers log-spaced from a to b (ends exact, duplicates dropped). */
+static slong log_sizes(fmpz *out, const fmpz_t a, const fmpz_t b, slong k)
+{
+    double la = fmpz_log10_d(a), lb = fmpz_log10_d(b);
+    slong len = 0;
+    arb_t x, ln10;
+    arb_init(x);
+    arb_init(ln10);
+    for (slong j = 0; j < k; j++) {
+        fmpz_t n;
+        fmpz_init(n);
+        if (j == 0)
+            fmpz_set(n, a);
+        else if (j == k - 1)
+            fmpz_set(n, b);
+        else {
+            double t = la + (lb - la) * (double) j / (double) (k - 1);
+            slong prec = (slong) (3.33 * t) + 64;
+            arb_const_log10(ln10, prec);
+            arb_set_d(x, t);
+            arb_mul(x, x, ln10, prec);
+            arb_exp(x, x, prec);
+            arf_get_fmpz(n, arb_midref(x), ARF_RND_NEAR);
+            if (fmpz_cmp(n, a) < 0)
+                fmpz_set(n, a);
+            if (fmpz_cmp(n, b) > 0)
+                fmpz_set(n, b);
+        }
+        if (len == 0 || fmpz_cmp(n, out + len - 1) > 0)
+            fmpz_set(out + len++, n);
+        fmpz_clear(n);
+    }
+    arb_clear(ln10);
+    arb_clear(x);
+    return len;
+}
+
+static char *family_label(const embz_family_t f)
+{
+    embz_buf_t b;
+    embz_buf_init(&b);
+    embz_buf_printf(&b, "%s", f->name);
+    for (long k = 0; k < f->nparams; k++) {
+        char *v = fmpq_get_str(NULL, 10, f->param_values + k);
+        embz_buf_printf(&b, "%s%s=%s", k ? ", " : " (", f->param_names[k], v);
+        flint_free(v);
+    }
+    if (f->nparams > 0)
+        embz_buf_printf(&b, ")");
+    return b.s;
+}
+
+static int has_param(const embz_family_t f, const char *name)
+{
+    for (long k = 0; k < f->nparams; k++)
+        if (strcmp(f->param_names[k], name) == 0)
+            return 1;
+    return 0;
+}
+
+static int bad_size(const char *what, const char *text, embz_err_t *err)
+{
+    char buf[3000];
+    embz_err_format(buf, sizeof(buf), err);
+    fprintf(stderr, "embz plot: bad %s '%s': %s\n", what, text, buf);
+    return CLI_EXIT_USAGE;
+}
+
+int cli_cmd_plot(int argc, char **argv)
+{
+    cli_args_t a;
+    int pr = cli_parse(&a, &plot_spec, argc, argv);
+    if (pr != CLI_PARSE_OK) {
+        cli_args_clear(&a);
+        return pr == CLI_PARSE_HELP ? CLI_EXIT_OK : CLI_EXIT_USAGE;
+    }
+    int code = CLI_EXIT_OK, status;
+    embz_err_t err;
+    embz_err_clear(&err);
+    const char *out = cli_value(&a, "output");
+    const char *from_text = cli_value(&a, "from") ? cli_value(&a, "from") : "10";
+    const char *to_text = cli_value(&a, "to") ? cli_value(&a, "to") : "10^6";
+    const char *eps_text = cli_value(&a, "eps") ? cli_value(&a, "eps") : "0.1";
+    long points = 12, prec = 64;
+    double eps = 0.1;
+    long nfam = a.npos, nset = 0;
+    const char *const *sets = cli_list(&a, "set", &nset);
+    embz_setting_t *settings = calloc(nset + 1, sizeof(embz_setting_t));
+    char **setcopies = calloc(nset + 1, sizeof(char *));
+    int *used = calloc(nset + 1, sizeof(int));
+    embz_family_struct *fam = calloc(nfam, sizeof(embz_family_struct));
+    fmpz *sizes = _fmpz_vec_init(1024);
+    fmpz_t A, B;
+    embz_target_t q;
+    embz_plot_t fig;
+    fmpz_init(A);
+    fmpz_init(B);
+    embz_target_init(q);
+    for (long i = 0; i < nfam; i++)
+        embz_family_init(fam + i);
+    embz_plot_init(fig, cli_value(&a, "title"));
+
+    if (out == NULL) {
+        code = cli_usage_error(&plot_spec, "the output file is required: -o FILE");
+        goto done;
+    }
+    {
+        char *ext = strrchr(out, '.');
+        if (ext == NULL || (strcasecmp(ext, ".svg") && strcasecmp(ext, ".pdf")
+                            && strcasecmp(ext, ".png"))) {
+            code = cli_usage_error(&plot_spec, "the output file must end in .svg, .pdf or .png");
+            goto done;
+        }
+    }
+    if (cli_value(&a, "points") && cli_parse_long(&points, cli_value(&a, "points"), 2, 1000)) {
+        code = cli_usage_error(&plot_spec, "bad number of points '%s' (2 to 1000)",
+                               cli_value(&a, "points"));
+        goto done;
+    }
+    if (cli_value(&a, "prec") && cli_parse_long(&prec, cli_value(&a, "prec"), 16, 1L << 16)) {
+        code = cli_usage_error(&plot_spec, "bad precision '%s'", cli_value(&a, "prec"));
+        goto done;
+    }
+    {
+        char *end;
+        eps = strtod(eps_text, &end);
+        if (*end || !(eps > 0 && eps < 1)) {
+            code = cli_usage_error(&plot_spec, "bad --eps '%s' (a number between 0 and 1)",
+                                   eps_text);
+            goto done;
+        }
+    }
+    if ((status = embz_size_parse(A, from_text, &err)) != EMBZ_OK) {
+        code = bad_size("size", from_text, &err);
+        goto done;
+    }
+    if ((status = embz_size_parse(B, to_text, &err)) != EMBZ_OK) {
+        code = bad_size("size", to_text, &err);
+        goto done;
+    }
+    if (fmpz_cmp_ui(A, 1) < 0 || fmpz_cmp(A, B) >= 0) {
+        code = cli_usage_error(&plot_spec, "need 1 <= --from < --to");
+        goto done;
+    }
+    if (cli_value(&a, "target")) {
+        status = embz_target_parse(q, cli_value(&a, "target"), 0, &err);
+        if (status != EMBZ_OK) {
+            code = bad_size("target", cli_value(&a, "target"), &err);
+            goto done;
+        }
+    }
+    for (long k = 0; k < nset; k++) {
+        setcopies[k] = sdup(sets[k]);
+        if ((status = embz_setting_split(&settings[k], setcopies[k], &err)) != EMBZ_OK) {
+            code = cli_report("plot", status, &err);
+            goto done;
+        }
+    }
+    /* families: each takes the settings naming one of its parameters */
+    for (long i = 0; i < nfam; i++) {
+        embz_err_clear(&err);
+        status = embz_family_resolve(fam + i, a.pos[i], NULL, 0, 0, &err);
+        if (status != EMBZ_OK) {
+            /* an inline expression declares its parameters through the settings */
+            embz_family_clear(fam + i);
+            embz_family_init(fam + i);
+            embz_err_clear(&err);
+            status = embz_family_resolve(fam + i, a.pos[i], settings, nset, 0, &err);
+            if (status != EMBZ_OK) {
+                code = cli_report("plot", status, &err);
+                goto done;
+            }
+            for (long k = 0; k < nset; k++)
+                used[k] = 1;
+            continue;
+        }
+        embz_setting_t *mine = calloc(nset + 1, sizeof(embz_setting_t));
+        long nmine = 0;
+        for (long k = 0; k < nset; k++)
+            if (has_param(fam + i, settings[k].name)) {
+                mine[nmine++] = settings[k];
+                used[k] = 1;
+            }
+        status = nmine ? embz_family_apply_settings(fam + i, mine, nmine, &err) : EMBZ_OK;
+        free(mine);
+        if (status != EMBZ_OK) {
+            code = cli_report("plot", status, &err);
+            goto done;
+        }
+    }
+    for (long k = 0; k < nset; k++)
+        if (!used[k]) {
+            code = cli_usage_error(&plot_spec, "no family has a parameter '%s'",
+                                   settings[k].name);
+            goto done;
+        }
+
+    slong ns = log_sizes(sizes, A, B, points);
+    char title[160];
+    snprintf(title, sizeof(title), "Embezzlement error, target %s", q->label);
+    slong pe = embz_plot_add_panel(fig, title, "size n",
+                                   "E\xe2\x82\x99(q) (certified; bars where visible)", 1, 1);
+    long skipped = 0;
+    for (long i = 0; i < nfam; i++) {
+        char *label = family_label(fam + i);
+        slong s = embz_plot_add_series(fig, pe, label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE, -1000);
+        embz_analytic_t eng;
+        embz_analytic_init(eng, fam + i, prec);
+        int have_engine = q->kind == EMBZ_TARGET_UNIFORM;
+        for (slong j = 0; j < ns; j++) {
+            embz_error_result_t res;
+            embz_error_result_init(res);
+            embz_err_clear(&err);
+            status = -1;
+            if (have_engine && fmpz_cmp_ui(sizes + j, EXPLICIT_UP_TO) > 0)
+                status = embz_analytic_error(res, eng, sizes + j, q, &err);
+            if (status != EMBZ_OK) {
+                embz_err_clear(&err);
+                status = embz_error(res, fam + i, sizes + j, q, EMBZ_METHOD_AUTO, prec, &err);
+            }
+            if (status == EMBZ_OK) {
+                double lo, mid, hi;
+                arb_log10_d(&lo, &mid, &hi, res->error);
+                embz_plot_push(fig, pe, s, fmpz_log10_d(sizes + j), mid, lo, hi);
+            } else {
+                char buf[3000], *ns_text = embz_fmpz_string(sizes + j, 30);
+                embz_err_format(buf, sizeof(buf), &err);
+                fprintf(stderr, "embz plot: %s: n = %s left out: %s\n", label, ns_text, buf);
+                free(ns_text);
+                skipped++;
+                if (status == EMBZ_ERR_DOMAIN) {
+                    embz_error_result_clear(res);
+                    embz_analytic_clear(eng);
+                    free(label);
+                    code = cli_exit_code(status);
+                    goto done;
+                }
+            }
+            embz_error_result_clear(res);
+        }
+        embz_analytic_clear(eng);
+        free(label);
+    }
+
+    if (cli_flag(&a, "weights")) {
+        char wt[160];
+        snprintf(wt, sizeof(wt), "Weights against x^(-1\xc2\xb1%s)", eps_text);
+        slong pw = embz_plot_add_panel(fig, wt, "index x", "w(x) / w(1)", 1, 1);
+        slong nw = points * 2 < 24 ? 24 : points * 2;
+        fmpz *xs = _fmpz_vec_init(nw);
+        fmpz_t one;
+        fmpz_init_set_ui(one, 1);
+        slong nx = log_sizes(xs, one, B, nw);
+        double LB = fmpz_log10_d(B), ymin = INFINITY, ymax = -INFINITY;
+        arb_t w, w1;
+        arb_init(w);
+        arb_init(w1);
+        for (long i = 0; i < nfam; i++) {
+            char *label = family_label(fam + i);
+            slong s = embz_plot_add_series(fig, pw, label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE,
+                                           i);
+            embz_err_clear(&err);
+            status = embz_family_weight_arb(w1, fam + i, one, B, prec, &err);
+            if (status == EMBZ_OK && arb_is_positive(w1)) {
+                for (slong j = 0; j < nx; j++) {
+                    embz_err_clear(&err);
+                    if (embz_family_weight_arb(w, fam + i, xs + j, B, prec, &err) != EMBZ_OK)
+                        continue;
+                    arb_div(w, w, w1, prec);
+                    double lo, mid, hi;
+                    arb_log10_d(&lo, &mid, &hi, w);
+                    if (!isfinite(mid)) {
+                        embz_plot_push(fig, pw, s, NAN, NAN, NAN, NAN);
+                        continue;
+                    }
+                    embz_plot_push(fig, pw, s, fmpz_log10_d(xs + j), mid, NAN, NAN);
+                    ymin = mid < ymin ? mid : ymin;
+                    ymax = mid > ymax ? mid : ymax;
+                }
+            } else {
+                fprintf(stderr, "embz plot: %s: w(1) is not positive; weights panel left "
+                        "empty for it\n", label);
+            }
+            free(label);
+        }
+        char l1[64], l2[64];
+        snprintf(l1, sizeof(l1), "x^(-1-%s)", eps_text);
+        snprintf(l2, sizeof(l2), "x^(-1+%s)", eps_text);
+        slong e1 = embz_plot_add_series(fig, pw, l1, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED,
+                                        EMBZ_PLOT_GREY);
+        slong e2 = embz_plot_add_series(fig, pw, l2, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED,
+                                        EMBZ_PLOT_DARK);
+        embz_plot_push(fig, pw, e1, 0, 0, NAN, NAN);
+        embz_plot_push(fig, pw, e1, LB, (-1 - eps) * LB, NAN, NAN);
+        embz_plot_push(fig, pw, e2, 0, 0, NAN, NAN);
+        embz_plot_push(fig, pw, e2, LB, (-1 + eps) * LB, NAN, NAN);
+        /* keep the envelopes readable: weights falling far below them are clipped */
+        double lo_env = (-1 - eps) * LB, floor_y = 3 * lo_env - 1;
+        double y0 = ymin < lo_env ? (ymin > floor_y ? ymin : floor_y) : lo_env;
+        double y1 = ymax > 0 ? ymax : 0;
+        double pad = 0.04 * (y1 - y0 + 1e-9);
+        embz_plot_set_yrange(fig, pw, y0 - pad, y1 + pad);
+        arb_clear(w);
+        arb_clear(w1);
+        fmpz_clear(one);
+        _fmpz_vec_clear(xs, nw);
+        fig->columns = 1;
+    }
+
+    embz_err_clear(&err);
+    status = embz_plot_write(fig, out, &err);
+    if (status != EMBZ_OK) {
+        code = cli_report("plot", status, &err);
+        goto done;
+    }
+    fprintf(stderr, "embz plot: wrote %s (%ld families, %ld sizes each%s)\n", out, nfam,
+            (long) ns, skipped ? ", some left out" : "");
+
+done:
+    embz_plot_clear(fig);
+    for (long i = 0; i < nfam; i++)
+        embz_family_clear(fam + i);
+    free(fam);
+    for (long k = 0; k < nset; k++)
+        free(setcopies[k]);
+    free(setcopies);
+    free(settings);
+    free(used);
+    _fmpz_vec_clear(sizes, 1024);
+    embz_target_clear(q);
+    fmpz_clear(A);
+    fmpz_clear(B);
+    cli_args_clear(&a);
+    return code;
+}

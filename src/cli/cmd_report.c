@@ -1,0 +1,11 @@
+/* PLACEHOLDER while the command is being written: replaced before release. */
+#include <stdio.h>
+#include "cli.h"
+
+int cli_cmd_report(int argc, char **argv)
+{
+    (void) argc;
+    (void) argv;
+    fprintf(stderr, "embz report: not available in this build\n");
+    return 1;
+}

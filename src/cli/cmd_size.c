@@ -1,0 +1,302 @@
+/* embz size FAMILY --eps E[,E2,...]: the smallest size reaching an error goal. */
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+#include "cli.h"
+
+static const cli_opt_t size_opts[] = {
+    { "eps", 'e', CLI_VALUE, "E[,E2,...]", "error goals (exact decimals, e.g. 0.01,1e-3); required" },
+    { "target", 't', CLI_VALUE, "T", "target state: ebit (default), ebits:J, uniform:D, or a list" },
+    { "measure", 0, CLI_VALUE, "M", "k (conversion distance, default) or purified" },
+    { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 128; raised where undecided)" },
+    { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter" },
+    { "amplitude", 0, CLI_FLAG, NULL, "the expression gives amplitudes; weights are squares" },
+    { "json", 0, CLI_FLAG, NULL, "print one JSON object" },
+    { NULL, 0, 0, NULL, NULL }
+};
+
+static const cli_spec_t size_spec = {
+    "size", "FAMILY --eps E[,E2,...]",
+    "Smallest size n whose embezzlement error is at most each goal, with log10 n and the\n"
+    "number of qubits per side, ceil(log2 n).",
+    "Every comparison with a goal rests on a certified enclosure of the error. Sizes up to\n"
+    "2048 are checked one by one, so a size found there is the smallest. Beyond, a bracketing\n"
+    "search locates n with E_n <= eps < E_(n-1); smaller sizes are then checked on samples\n"
+    "only (E_n need not be monotone in n), and so is whether the error stays below the goal\n"
+    "for larger sizes: the output says which. The search goes up to n = 2^3072 (~10^925).\n"
+    "--measure purified: the purified distance P obeys K <= P <= sqrt(K(2-K)), so the size for\n"
+    "P <= eps lies between the sizes for K <= eps and K <= 1 - sqrt(1 - eps^2); both are shown.\n",
+    size_opts, 1, 1
+};
+
+#define INT_DIGITS 60
+
+/* log10 n and ceil(log2 n), from the exact integer */
+static void size_numbers(double *l10, long *qubits, const fmpz_t n)
+{
+    arb_t x;
+    arb_init(x);
+    arb_set_fmpz(x, n);
+    arb_log_base_ui(x, x, 10, 64);
+    *l10 = embz_arb_mid_d(x);
+    arb_clear(x);
+    fmpz_t m;
+    fmpz_init(m);
+    fmpz_sub_ui(m, n, 1);
+    *qubits = fmpz_sgn(m) > 0 ? (long) fmpz_bits(m) : 0;   /* ceil(log2 n) */
+    fmpz_clear(m);
+}
+
+/* One solved goal as JSON (status, n, digits, qubits, enclosures, evidence). */
+static void json_result(embz_buf_t *b, const char *goal, const embz_size_result_t r)
+{
+    embz_buf_printf(b, "{\"eps\": ");
+    embz_buf_json_string(b, goal);
+    const char *st = r->status == EMBZ_SIZE_FOUND ? "found"
+                   : r->status == EMBZ_SIZE_NOT_REACHED ? "not_reached" : "undecided";
+    embz_buf_printf(b, ", \"status\": \"%s\"", st);
+    if (r->status == EMBZ_SIZE_FOUND) {
+        char *ns = fmpz_get_str(NULL, 10, r->n);
+        char *lo = embz_arb_lo_string(r->err_n, 30), *hi = embz_arb_hi_string(r->err_n, 30);
+        char *plo = embz_arb_lo_string(r->err_prev, 30), *phi = embz_arb_hi_string(r->err_prev, 30);
+        double l10;
+        long qb;
+        size_numbers(&l10, &qb, r->n);
+        embz_buf_printf(b, ", \"n\": ");
+        embz_buf_json_string(b, ns);
+        embz_buf_printf(b, ", \"log10_n\": ");
+        cli_buf_json_double(b, l10);
+        embz_buf_printf(b, ", \"qubits\": %ld, \"error_at_n\": [\"%s\", \"%s\"], "
+                           "\"error_at_n_minus_1\": [\"%s\", \"%s\"], \"exhaustive\": %s, "
+                           "\"checked_below\": %ld, \"stay_samples\": %ld",
+                        qb, lo, hi, plo, phi, r->exhaustive ? "true" : "false",
+                        r->checked_below, r->stay_samples);
+        char *to = fmpz_get_str(NULL, 10, r->stay_checked_to);
+        embz_buf_printf(b, ", \"stay_checked_to\": ");
+        embz_buf_json_string(b, to);
+        if (!fmpz_is_zero(r->again_above)) {
+            char *ag = fmpz_get_str(NULL, 10, r->again_above);
+            embz_buf_printf(b, ", \"above_again_at\": ");
+            embz_buf_json_string(b, ag);
+            flint_free(ag);
+        }
+        flint_free(ns); flint_free(to);
+        free(lo); free(hi); free(plo); free(phi);
+    } else if (r->status == EMBZ_SIZE_NOT_REACHED) {
+        char *ns = fmpz_get_str(NULL, 10, r->largest);
+        char *lo = embz_arb_lo_string(r->err_largest, 30), *hi = embz_arb_hi_string(r->err_largest, 30);
+        embz_buf_printf(b, ", \"largest_tried_log2\": %ld, \"error_at_largest\": [\"%s\", \"%s\"]",
+                        (long) fmpz_bits(r->largest) - 1, lo, hi);
+        flint_free(ns);
+        free(lo); free(hi);
+    } else {
+        char *u = fmpz_get_str(NULL, 10, r->undecided_lo);
+        embz_buf_printf(b, ", \"undecided_n\": ");
+        embz_buf_json_string(b, u);
+        flint_free(u);
+    }
+    embz_buf_printf(b, ", \"evaluations\": %ld, \"method\": ", r->evaluations);
+    embz_buf_json_string(b, r->method);
+    embz_buf_printf(b, "}");
+}
+
+/* One solved goal as lines of text. */
+static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_t r,
+                        const char *never_reason)
+{
+    embz_buf_printf(b, "goal E <= %s\n", goal);
+    if (r->status == EMBZ_SIZE_FOUND) {
+        char *ns = embz_fmpz_string(r->n, INT_DIGITS);
+        double l10;
+        long qb;
+        size_numbers(&l10, &qb, r->n);
+        char *e = embz_arb_certified_string(r->err_n, 12);
+        char *ep = embz_arb_certified_string(r->err_prev, 12);
+        embz_buf_printf(b, "  n          %s%s\n", fmpz_sizeinbase(r->n, 10) > INT_DIGITS ? "~" : "", ns);
+        embz_buf_printf(b, "  log10 n    %.4f\n", l10);
+        embz_buf_printf(b, "  qubits     %ld per side (ceil(log2 n))\n", qb);
+        embz_buf_printf(b, "  E at n     %s   E at n-1  %s   (certified)\n", e, ep);
+        if (r->exhaustive)
+            embz_buf_printf(b, "  smallest   yes: every smaller size was checked\n");
+        else
+            embz_buf_printf(b, "  smallest   first crossing of a bracketing search; E > goal checked at %ld "
+                               "smaller sizes (samples, not all)\n", r->checked_below);
+        if (!fmpz_is_zero(r->again_above)) {
+            char *ag = embz_fmpz_string(r->again_above, INT_DIGITS);
+            embz_buf_printf(b, "  stays      no: E exceeds the goal again at n = %s\n", ag);
+            free(ag);
+        } else {
+            char *to = embz_fmpz_string(r->stay_checked_to, INT_DIGITS);
+            embz_buf_printf(b, "  stays      E <= goal at all %ld sampled sizes up to %s%s (not a proof)\n",
+                            r->stay_samples, fmpz_sizeinbase(r->stay_checked_to, 10) > INT_DIGITS ? "~" : "", to);
+            free(to);
+        }
+        free(ns); free(e); free(ep);
+    } else if (r->status == EMBZ_SIZE_NOT_REACHED) {
+        char *e = embz_arb_certified_string(r->err_largest, 12);
+        embz_buf_printf(b, "  n          %s\n", never_reason != NULL ? "never" : "not reached");
+        embz_buf_printf(b, "  largest    n = 2^%ld: E = %s (certified)\n",
+                        (long) fmpz_bits(r->largest) - 1, e);
+        if (never_reason != NULL) embz_buf_printf(b, "  why        %s\n", never_reason);
+        free(e);
+    } else {
+        char *u = embz_fmpz_string(r->undecided_lo, INT_DIGITS);
+        embz_buf_printf(b, "  undecided  at n = %s the enclosure of E straddles the goal even at raised precision\n", u);
+        free(u);
+    }
+    embz_buf_printf(b, "  method     %s, %ld evaluations\n", r->method, r->evaluations);
+}
+
+/* "never" when the analytic route proves a positive one-ebit limit above the goal. */
+static int never_reason(char *buf, size_t len, const embz_family_t fam, const embz_target_t q,
+                        const arb_t goal)
+{
+    if (q->kind != EMBZ_TARGET_UNIFORM || q->d != 2) return 0;
+    if (embz_expr_uses(fam->weight) & EMBZ_USES_N) return 0;
+    embz_asym_result_t ar;
+    embz_err_t err;
+    embz_err_clear(&err);
+    embz_asym_result_init(ar);
+    int ok = 0;
+    if (embz_asym_analyse(ar, fam->weight, 128, &err) == EMBZ_OK && ar->limit_known
+        && arb_gt(ar->limit, goal)) {
+        char *l = embz_arb_certified_string(ar->limit, 10);
+        snprintf(buf, len, "the error tends to the positive limit %s [derived: math notes "
+                           "section 5], above the goal", l);
+        free(l);
+        ok = 1;
+    }
+    embz_asym_result_clear(ar);
+    return ok;
+}
+
+int cli_cmd_size(int argc, char **argv)
+{
+    cli_args_t a;
+    int pr = cli_parse(&a, &size_spec, argc, argv);
+    if (pr != CLI_PARSE_OK) {
+        cli_args_clear(&a);
+        return pr == CLI_PARSE_HELP ? CLI_EXIT_OK : CLI_EXIT_USAGE;
+    }
+    int code = CLI_EXIT_OK;
+    long prec = 128;
+    embz_family_t fam;
+    embz_target_t q;
+    embz_buf_t out;
+    embz_family_init(fam);
+    embz_target_init(q);
+    embz_buf_init(&out);
+    int json = cli_flag(&a, "json");
+    const char *eps_text = cli_value(&a, "eps");
+    const char *measure = cli_value(&a, "measure");
+    int purified = 0;
+    char *goals = NULL;
+
+    if (eps_text == NULL) { code = cli_usage_error(&size_spec, "the error goal is required: --eps E"); goto done; }
+    if (measure != NULL) {
+        if (strcmp(measure, "purified") == 0) purified = 1;
+        else if (strcmp(measure, "k") != 0) {
+            code = cli_usage_error(&size_spec, "bad measure '%s' (k or purified)", measure);
+            goto done;
+        }
+    }
+    if ((code = cli_load_prec(&prec, &a, &size_spec)) != 0) goto done;
+    if ((code = cli_load_family(fam, &a, a.pos[0], "size")) != 0) goto done;
+    if ((code = cli_load_target(q, &a, "size")) != 0) goto done;
+
+    goals = malloc(strlen(eps_text) + 1);
+    strcpy(goals, eps_text);
+    if (json) {
+        embz_buf_printf(&out, "{\"family\": ");
+        embz_buf_json_string(&out, fam->name);
+        embz_buf_printf(&out, ", \"target\": ");
+        embz_buf_json_string(&out, q->label);
+        embz_buf_printf(&out, ", \"measure\": \"%s\", \"goals\": [", purified ? "purified" : "k");
+    } else {
+        embz_buf_printf(&out, "family     %s\ntarget     %s\nmeasure    %s\n\n", fam->name, q->label,
+                        purified ? "purified distance P (from bounds on K)" : "conversion distance K");
+    }
+    int first = 1;
+    for (char *save = NULL, *tok = strtok_r(goals, ",", &save); tok != NULL;
+         tok = strtok_r(NULL, ",", &save)) {
+        fmpq_t e;
+        fmpq_init(e);
+        if (embz_number_parse(e, tok) != EMBZ_OK || fmpq_sgn(e) <= 0 || fmpq_cmp_ui(e, 1) >= 0) {
+            fmpq_clear(e);
+            code = cli_usage_error(&size_spec, "bad error goal '%s' (a number between 0 and 1)", tok);
+            goto done;
+        }
+        /* the goals for K: eps itself, and for the purified distance also 1 - sqrt(1 - eps^2) */
+        arb_t g[2];
+        arb_init(g[0]); arb_init(g[1]);
+        arb_set_fmpq(g[0], e, 4 * prec);
+        arb_sqr(g[1], g[0], 4 * prec);
+        arb_sub_ui(g[1], g[1], 1, 4 * prec);
+        arb_neg(g[1], g[1]);
+        arb_sqrt(g[1], g[1], 4 * prec);
+        arb_sub_ui(g[1], g[1], 1, 4 * prec);
+        arb_neg(g[1], g[1]);
+        /* use the lower end, so that the size found certainly suffices */
+        {
+            arf_t lo;
+            arf_init(lo);
+            arb_get_lbound_arf(lo, g[1], 4 * prec);
+            arb_set_arf(g[1], lo);
+            arf_clear(lo);
+        }
+        fmpq_clear(e);
+        for (int part = 0; part < (purified ? 2 : 1); part++) {
+            embz_size_result_t r;
+            embz_err_t err;
+            char reason[300];
+            embz_err_clear(&err);
+            embz_size_result_init(r);
+            int status = embz_size_solve(r, fam, g[part], q, prec, &err);
+            if (status != EMBZ_OK) {
+                code = cli_report("size", status, &err);
+                embz_size_result_clear(r);
+                arb_clear(g[0]); arb_clear(g[1]);
+                goto done;
+            }
+            char label[128];
+            if (part == 0) snprintf(label, sizeof(label), "%s", tok);
+            else {
+                char *gs = embz_arb_hi_string(g[1], 12);
+                snprintf(label, sizeof(label), "%s", gs);
+                free(gs);
+            }
+            int nev = r->status == EMBZ_SIZE_NOT_REACHED
+                      && never_reason(reason, sizeof(reason), fam, q, g[part]);
+            if (json) {
+                embz_buf_printf(&out, "%s", first ? "" : ", ");
+                json_result(&out, label, r);
+                if (nev) {
+                    out.len--;   /* reopen the object */
+                    out.s[out.len] = '\0';
+                    embz_buf_printf(&out, ", \"never\": true, \"never_reason\": ");
+                    embz_buf_json_string(&out, reason);
+                    embz_buf_printf(&out, "}");
+                }
+            } else {
+                if (purified)
+                    embz_buf_printf(&out, "%s\n", part == 0
+                        ? "P <= eps needs at least the size for K <= eps (P >= K):"
+                        : "and at most the size for K <= 1 - sqrt(1 - eps^2) (P <= sqrt(K(2-K))):");
+                text_result(&out, label, r, nev ? reason : NULL);
+                embz_buf_printf(&out, "\n");
+            }
+            first = 0;
+            embz_size_result_clear(r);
+        }
+        arb_clear(g[0]); arb_clear(g[1]);
+    }
+    if (json) embz_buf_printf(&out, "]}\n");
+    fputs(out.s, stdout);
+done:
+    free(goals);
+    embz_buf_clear(&out);
+    embz_family_clear(fam);
+    embz_target_clear(q);
+    cli_args_clear(&a);
+    return code;
+}

@@ -1,0 +1,222 @@
+/* The substitution x = e^u with the Jacobian: phi(u) = w(e^u) e^u, simplified so that powers
+ * and products of e^u are merged exactly. For w = 1/i this gives phi = 1 with no cancellation
+ * left to ball arithmetic; for w = i^a, phi = exp((a+1) u). The large-n engine integrates and
+ * models sums in the variable u, where this simplification keeps enclosures tight. */
+#include <stdlib.h>
+#include "expr_impl.h"
+
+/* GCC 12 reports false buffer overflows for fmpq_t fields passed to inline FLINT functions. */
+#if defined(__GNUC__) && !defined(__clang__)
+#pragma GCC diagnostic ignored "-Wstringop-overflow"
+#endif
+
+/* A transformed subtree: value = core * exp(alpha * u); core == -1 means the constant 1. */
+typedef struct {
+    int core;
+    fmpq_t alpha;
+} part_t;
+
+static int push(embz_expr_t e, int op, int a, int b)
+{
+    int k = _embz_expr_push(e, op, a, b, 0);
+    if (k < 0) abort();
+    return k;
+}
+
+static int push_num(embz_expr_t e, const fmpq_t v)
+{
+    int k = push(e, EMBZ_OP_NUM, -1, -1);
+    fmpq_set(e->nodes[k].num, v);
+    return k;
+}
+
+/* core as a node (1 when absent) */
+static int core_node(embz_expr_t e, int core)
+{
+    if (core >= 0) return core;
+    fmpq_t one;
+    fmpq_init(one);
+    fmpq_one(one);
+    int k = push_num(e, one);
+    fmpq_clear(one);
+    return k;
+}
+
+/* exp(alpha u) as a node (alpha != 0) */
+static int exp_node(embz_expr_t e, const fmpq_t alpha)
+{
+    int u = push(e, EMBZ_OP_I, -1, -1);
+    if (fmpq_is_one(alpha)) return push(e, EMBZ_OP_EXP, u, -1);
+    int a = push_num(e, alpha);
+    int m = push(e, EMBZ_OP_MUL, a, u);
+    return push(e, EMBZ_OP_EXP, m, -1);
+}
+
+static int materialize(embz_expr_t e, const part_t *p)
+{
+    if (fmpq_is_zero(p->alpha)) return core_node(e, p->core);
+    int x = exp_node(e, p->alpha);
+    if (p->core < 0) return x;
+    return push(e, EMBZ_OP_MUL, p->core, x);
+}
+
+static int mul_core(embz_expr_t e, int a, int b, int op)
+{
+    if (op == EMBZ_OP_MUL) {
+        if (a < 0) return b;
+        if (b < 0) return a;
+        return push(e, EMBZ_OP_MUL, a, b);
+    }
+    /* division */
+    if (b < 0) return a;
+    return push(e, EMBZ_OP_DIV, core_node(e, a), b);
+}
+
+/* exact rational value of a constant subtree built from numbers with + - * / and small
+ * integer powers; 0 when the subtree is not of that kind */
+static int const_rational(fmpq_t v, const embz_expr_struct *src, int k)
+{
+    const embz_node_t *nd = src->nodes + k;
+    fmpq_t a, b;
+    int ok = 0;
+    if (nd->op == EMBZ_OP_NUM) { fmpq_set(v, nd->num); return 1; }
+    fmpq_init(a);
+    fmpq_init(b);
+    switch (nd->op) {
+    case EMBZ_OP_NEG:
+        if ((ok = const_rational(a, src, nd->a))) fmpq_neg(v, a);
+        break;
+    case EMBZ_OP_ADD: case EMBZ_OP_SUB: case EMBZ_OP_MUL: case EMBZ_OP_DIV:
+        ok = const_rational(a, src, nd->a) && const_rational(b, src, nd->b);
+        if (ok) {
+            if (nd->op == EMBZ_OP_ADD) fmpq_add(v, a, b);
+            else if (nd->op == EMBZ_OP_SUB) fmpq_sub(v, a, b);
+            else if (nd->op == EMBZ_OP_MUL) fmpq_mul(v, a, b);
+            else if (fmpq_is_zero(b)) ok = 0;
+            else fmpq_div(v, a, b);
+        }
+        break;
+    case EMBZ_OP_POW:
+        ok = const_rational(a, src, nd->a) && const_rational(b, src, nd->b)
+             && fmpz_is_one(fmpq_denref(b)) && fmpz_bits(fmpq_numref(b)) <= 6
+             && !(fmpq_is_zero(a) && fmpz_sgn(fmpq_numref(b)) < 0);
+        if (ok) fmpq_pow_si(v, a, fmpz_get_si(fmpq_numref(b)));
+        break;
+    default:
+        break;
+    }
+    fmpq_clear(a);
+    fmpq_clear(b);
+    return ok;
+}
+
+static void transform(part_t *res, embz_expr_t out, const embz_expr_struct *src, int k)
+{
+    const embz_node_t *nd = src->nodes + k;
+    part_t a, b;
+    fmpq_init(a.alpha);
+    fmpq_init(b.alpha);
+    fmpq_zero(res->alpha);
+    res->core = -1;
+    switch (nd->op) {
+    case EMBZ_OP_I:
+        fmpq_one(res->alpha);
+        break;
+    case EMBZ_OP_NUM: case EMBZ_OP_N: case EMBZ_OP_PARAM:
+    case EMBZ_OP_PI: case EMBZ_OP_E: case EMBZ_OP_GAMMA: {
+        int j = push(out, nd->op, -1, -1);
+        out->nodes[j].param = nd->param;
+        fmpq_set(out->nodes[j].num, nd->num);
+        res->core = j;
+        break;
+    }
+    case EMBZ_OP_MUL: case EMBZ_OP_DIV:
+        transform(&a, out, src, nd->a);
+        transform(&b, out, src, nd->b);
+        res->core = mul_core(out, a.core, b.core, nd->op);
+        if (nd->op == EMBZ_OP_MUL) fmpq_add(res->alpha, a.alpha, b.alpha);
+        else fmpq_sub(res->alpha, a.alpha, b.alpha);
+        break;
+    case EMBZ_OP_NEG:
+        transform(&a, out, src, nd->a);
+        res->core = push(out, EMBZ_OP_NEG, core_node(out, a.core), -1);
+        fmpq_set(res->alpha, a.alpha);
+        break;
+    case EMBZ_OP_SQRT:
+        transform(&a, out, src, nd->a);
+        res->core = a.core < 0 ? -1 : push(out, EMBZ_OP_SQRT, a.core, -1);
+        fmpq_div_2exp(res->alpha, a.alpha, 1);
+        break;
+    case EMBZ_OP_POW: {
+        fmpq_t v;
+        fmpq_init(v);
+        transform(&a, out, src, nd->a);
+        if (const_rational(v, src, nd->b)) {
+            /* (core e^(alpha u))^v = core^v e^(alpha v u) for a positive base */
+            if (a.core >= 0) res->core = push(out, EMBZ_OP_POW, a.core, push_num(out, v));
+            fmpq_mul(res->alpha, a.alpha, v);
+        } else {
+            transform(&b, out, src, nd->b);
+            res->core = push(out, EMBZ_OP_POW, materialize(out, &a), materialize(out, &b));
+        }
+        fmpq_clear(v);
+        break;
+    }
+    case EMBZ_OP_LOG: case EMBZ_OP_LOG2: case EMBZ_OP_LOG10:
+        transform(&a, out, src, nd->a);
+        if (!fmpq_is_zero(a.alpha)) {
+            /* log(core e^(alpha u)) = log(core) + alpha u */
+            int u = push(out, EMBZ_OP_I, -1, -1);
+            int lin = push(out, EMBZ_OP_MUL, push_num(out, a.alpha), u);
+            int sum = a.core < 0 ? lin
+                                 : push(out, EMBZ_OP_ADD, push(out, EMBZ_OP_LOG, a.core, -1), lin);
+            if (nd->op != EMBZ_OP_LOG) {
+                fmpq_t base;
+                fmpq_init(base);
+                fmpq_set_si(base, nd->op == EMBZ_OP_LOG2 ? 2 : 10, 1);
+                int lb = push(out, EMBZ_OP_LOG, push_num(out, base), -1);
+                sum = push(out, EMBZ_OP_DIV, sum, lb);
+                fmpq_clear(base);
+            }
+            res->core = sum;
+        } else {
+            res->core = push(out, nd->op, core_node(out, a.core), -1);
+        }
+        break;
+    case EMBZ_OP_ADD: case EMBZ_OP_SUB:
+        transform(&a, out, src, nd->a);
+        transform(&b, out, src, nd->b);
+        if (fmpq_equal(a.alpha, b.alpha)) {
+            res->core = push(out, nd->op, core_node(out, a.core), core_node(out, b.core));
+            fmpq_set(res->alpha, a.alpha);
+        } else {
+            res->core = push(out, nd->op, materialize(out, &a), materialize(out, &b));
+        }
+        break;
+    default:
+        /* every other operation sees its arguments materialised */
+        transform(&a, out, src, nd->a);
+        if (_embz_op_arity(nd->op) == 2) {
+            transform(&b, out, src, nd->b);
+            res->core = push(out, nd->op, materialize(out, &a), materialize(out, &b));
+        } else {
+            res->core = push(out, nd->op, materialize(out, &a), -1);
+        }
+        break;
+    }
+    fmpq_clear(a.alpha);
+    fmpq_clear(b.alpha);
+}
+
+int embz_expr_log_substitute(embz_expr_t out, const embz_expr_t w)
+{
+    embz_expr_clear(out);
+    if (w->root < 0) return EMBZ_ERR_INPUT;
+    part_t r;
+    fmpq_init(r.alpha);
+    transform(&r, out, w, w->root);
+    fmpq_add_ui(r.alpha, r.alpha, 1);      /* the Jacobian dx/du = e^u */
+    out->root = materialize(out, &r);
+    fmpq_clear(r.alpha);
+    return EMBZ_OK;
+}

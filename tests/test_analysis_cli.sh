@@ -1,0 +1,161 @@
+#!/bin/bash
+# Command-line tests of sweep, classify and scan. $1 = path to the embz binary;
+# EMBZ_FAMILY_PATH points at families/. Reference values: docs/math.md section 5 (leading-order
+# estimates, tested with stated tolerances) and [memory] constants.
+set -u
+EMBZ=${1:?usage: test_analysis_cli.sh path/to/embz}
+PY=/usr/bin/python3
+TMP=$(mktemp -d)
+trap 'rm -rf "$TMP"' EXIT
+fails=0
+checks=0
+
+ok()   { checks=$((checks + 1)); }
+fail() { checks=$((checks + 1)); fails=$((fails + 1)); echo "FAIL: $*"; }
+
+run() {
+    "$EMBZ" "$@" >"$TMP/out" 2>"$TMP/err"
+    rc=$?
+    out=$(cat "$TMP/out")
+    err=$(cat "$TMP/err")
+    if grep -q "Sanitizer" "$TMP/err"; then fail "sanitizer report for: $*"; fi
+}
+expect_rc() { if [ "$rc" -eq "$1" ]; then ok; else fail "$2: exit $rc, expected $1 (stderr: $err)"; fi; }
+expect_out() { if printf '%s' "$out" | grep -qF -- "$1"; then ok; else fail "$2: stdout lacks '$1'"; fi; }
+expect_err() { if printf '%s' "$err" | grep -qF -- "$1"; then ok; else fail "$2: stderr lacks '$1' (got: $err)"; fi; }
+pycheck() { if printf '%s' "$out" | $PY -c "$2"; then ok; else fail "$1"; fi; }
+
+# ---- sweep
+run sweep inverse --to 10^30 --points 7 --csv
+expect_rc 0 "sweep csv"
+pycheck "sweep csv: 7 rows, sizes 10^(1+29j/6) rounded, E decreasing, no progress bar" '
+import csv, sys, math
+rows = list(csv.DictReader(sys.stdin))
+assert len(rows) == 7, len(rows)
+assert rows[0]["n"] == "10" and rows[-1]["n"] == "1" + "0" * 30
+for j, r in enumerate(rows):
+    want = 10 ** (1 + 29 * j / 6)
+    assert abs(int(r["n"]) - want) <= 0.5 + want * 1e-12, (r["n"], want)
+    assert r["status"] == "ok"
+    assert float(r["error_lo"]) <= float(r["error"]) <= float(r["error_hi"])
+E = [float(r["error"]) for r in rows]
+assert all(E[i + 1] < E[i] for i in range(6))
+# ln 2 / (ln n + gamma) to leading order [math.md 5]: within 1% at n >= 10^10
+g = 0.5772156649015329  # [memory]
+for r in rows[2:]:
+    n = int(r["n"]); want = math.log(2) / (math.log(n) + g)
+    assert abs(float(r["error"]) / want - 1) < 0.01, (n, r["error"], want)
+'
+if [ -s "$TMP/err" ]; then fail "sweep: stderr not empty when not a terminal: $err"; else ok; fi
+
+run sweep inverse --to 10^30 --points 8 --json
+expect_rc 0 "sweep json"
+pycheck "sweep json: points, fits with residuals, best law" '
+import json, sys
+d = json.load(sys.stdin)
+assert d["family"] == "inverse" and d["target"] == "ebit"
+assert len(d["points"]) == 8
+assert d["fits"]["estimate"] is True
+laws = {l["law"]: l for l in d["fits"]["laws"]}
+assert set(laws) == {"power_limit", "log", "loglog", "log_limit"}
+assert len(laws["log"]["residuals"]) == d["fits"]["points_used"]
+assert abs(laws["log"]["g"]["value"] - 1) < 0.05, laws["log"]["g"]
+assert d["fits"]["best"] in laws
+'
+run sweep power --set a=-0.5 --to 10^12 --points 5
+expect_rc 0 "sweep table"
+expect_out "fitted laws (estimates, not certified" "sweep table marks fits as estimates"
+expect_out "(certified digits)" "sweep table header"
+
+run sweep inverse --from 100 --to 10
+expect_rc 2 "sweep: from > to"
+run sweep inverse --points 0
+expect_rc 2 "sweep: zero points"
+run sweep inverse --to banana
+expect_rc 2 "sweep: bad size"
+run sweep inverse --json --csv
+expect_rc 2 "sweep: json and csv"
+run sweep "1/(i-5)" --to 10^6 --points 4
+expect_rc 2 "sweep: weight undefined is an input/domain error"
+
+# ---- classify
+run classify inverse --to 10^30 --points 8 --json
+expect_rc 0 "classify inverse"
+pycheck "classify inverse: embezzler, C (ln n)^-g with g near 1 and C near ln 2 (10%)" '
+import json, sys, math
+d = json.load(sys.stdin)
+assert d["verdict"] == "embezzler", d["verdict"]
+assert d["numeric_verdict"] == "embezzler" and d["analytic_verdict"] == "embezzler"
+assert d["law"] == "log"
+e = d["exponent"]; assert e["lo"] <= e["value"] <= e["hi"] and abs(e["value"] - 1) < 0.05
+assert abs(d["coefficient"] / math.log(2) - 1) < 0.10
+assert d["limit"]["lo"] == 0 and 0 < d["limit"]["hi"] < 0.02
+assert d["asymptotic_form"] and isinstance(d["reasons"], list) and len(d["reasons"]) >= 3
+assert len(d["points"]) >= 5
+'
+run classify nearmiss --to 10^30 --points 8 --json
+expect_rc 0 "classify nearmiss"
+pycheck "classify nearmiss: not_embezzler by both routes, limit near 0.31" '
+import json, sys
+d = json.load(sys.stdin)
+assert d["verdict"] == "not_embezzler"
+assert d["numeric_verdict"] == "not_embezzler" and d["analytic_verdict"] == "not_embezzler"
+assert abs(d["limit"]["value"] - 0.31) < 0.01
+'
+run classify power --set a=-2 --to 10^30 --points 8 --json
+pycheck "classify i^-2: limit 3/pi^2 (1e-6)" '
+import json, sys, math
+d = json.load(sys.stdin)
+assert d["verdict"] == "not_embezzler"
+assert abs(d["limit"]["value"] - 3 / math.pi ** 2) < 1e-6, d["limit"]
+'
+run classify tilted --to 10^30 --points 8
+expect_rc 0 "classify tilted"
+expect_out "verdict    embezzler" "n-dependent family classified numerically"
+expect_out "analytic   not applicable" "n-dependent family: no analytic route"
+run classify inverse --points 2
+expect_rc 2 "classify: too few points"
+
+# ---- scan: shards concatenate to the full scan
+run scan power --grid a=-1.5:-0.5:5 --to 10^20 --points 8
+expect_rc 0 "scan full"
+cp "$TMP/out" "$TMP/full.csv"
+: > "$TMP/cat.csv"
+for i in 1 2 3; do
+    if [ "$i" -eq 1 ]; then h=""; else h="--no-header"; fi
+    run scan power --grid a=-1.5:-0.5:5 --to 10^20 --points 8 --shard $i/3 $h
+    expect_rc 0 "scan shard $i/3"
+    cat "$TMP/out" >> "$TMP/cat.csv"
+done
+if cmp -s "$TMP/full.csv" "$TMP/cat.csv"; then ok; else fail "shards 1..3 do not concatenate to the full scan"; fi
+out=$(cat "$TMP/full.csv")
+pycheck "scan: 5 rows, a = -1 embezzles, the rest not" '
+import csv, sys
+rows = list(csv.DictReader(sys.stdin))
+assert [int(r["index"]) for r in rows] == list(range(5))
+assert [r["a"] for r in rows] == ["-3/2", "-5/4", "-1", "-3/4", "-1/2"], [r["a"] for r in rows]
+v = [r["verdict"] for r in rows]
+assert v == ["not_embezzler", "not_embezzler", "embezzler", "not_embezzler", "not_embezzler"], v
+'
+run scan power --grid a=-1.5:-0.5:3 --to 10^20 --points 8 --threads 2 --json
+expect_rc 0 "scan json threads"
+pycheck "scan json lines" '
+import json, sys
+rows = [json.loads(l) for l in sys.stdin.read().splitlines()]
+assert [r["index"] for r in rows] == [0, 1, 2]
+assert rows[1]["verdict"] == "embezzler"
+'
+run scan power --grid zz=0:1:3
+expect_rc 2 "scan: unknown parameter"
+expect_err "'zz'" "scan: names the parameter"
+run scan power --grid a=0:1
+expect_rc 2 "scan: bad grid"
+run scan power --grid a=0:1:3 --shard 4/3
+expect_rc 2 "scan: bad shard"
+run scan power
+expect_rc 2 "scan: no grid"
+run scan "i^c" --grid c=-1.5:-0.5:3 --to 10^20 --points 8 --numeric-only
+expect_rc 0 "scan inline expression with a grid parameter"
+
+echo "$checks checks, $fails failures"
+[ "$fails" -eq 0 ]

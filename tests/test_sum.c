@@ -1,0 +1,534 @@
+/* Tests of the certified Euler–Maclaurin tail sums (include/embz/sum.h).
+ *
+ * Every check compares the tail object with an outside reference: FLINT's exact harmonic
+ * numbers, arb's digamma and Hurwitz zeta functions, plain arb loops over the weights written
+ * directly with arb functions (not through the expression evaluator), closed-form integrals,
+ * and finite differences of the tail sum itself for the Taylor coefficients. */
+#include <check.h>
+#include <stdlib.h>
+#include <string.h>
+#include <math.h>
+#include "embz.h"
+
+static int quick(void) { return getenv("EMBZ_QUICK") != NULL; }
+
+static void parse_or_die(embz_expr_t e, const char *text)
+{
+    embz_err_t err;
+    embz_err_clear(&err);
+    embz_expr_init(e);
+    int st = embz_expr_parse(e, text, NULL, 0, &err);
+    ck_assert_msg(st == EMBZ_OK, "parse '%s': %s", text, err.text);
+}
+
+/* 10^e as an fmpz */
+static void ten_pow(fmpz_t r, ulong e) { fmpz_set_ui(r, 10); fmpz_pow_ui(r, r, e); }
+
+/* finite with radius below bound */
+static int rad_below(const arb_t x, double bound)
+{
+    return arb_is_finite(x) && mag_get_d(arb_radref(x)) < bound;
+}
+
+/* rad(x) <= |mid(x)| * 2^-bits */
+static int rel_ok(const arb_t x, slong bits)
+{
+    return arb_is_finite(x) && arb_rel_accuracy_bits(x) >= bits;
+}
+
+static int init_tail(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
+                     const fmpz_t end, slong prec)
+{
+    embz_err_t err;
+    embz_err_clear(&err);
+    int st = embz_tail_init(t, w, n, M, end, prec, &err);
+    ck_assert_msg(st == EMBZ_OK, "embz_tail_init failed (%d): %s", st, err.text);
+    return st;
+}
+
+/* ---------------------------------------------------------------------------------------
+ * 1/i: T(k) + H_M = H_k, exact harmonic numbers from FLINT (arith_harmonic_number). */
+START_TEST(test_harmonic_exact)
+{
+    const slong M = 64, prec = 128, top = 100000;
+    embz_expr_t w;
+    embz_tail_t t;
+    fmpz_t n, end;
+    fmpq_t Hk, HM;
+    arb_t x, T;
+    flint_rand_t st;
+    flint_randinit(st);
+    fmpz_init(n); fmpz_init(end);
+    fmpq_init(Hk); fmpq_init(HM);
+    arb_init(x); arb_init(T);
+    parse_or_die(w, "1/i");
+    fmpz_set_si(end, top);
+    fmpz_set(n, end);
+    init_tail(t, w, n, M, end, prec);
+    ck_assert_int_eq(t->dir, 1);
+    arith_harmonic_number(HM, M);
+    int count = quick() ? 15 : 60;
+    for (int it = 0; it < count + 4; it++) {
+        slong k;
+        if (it == 0) k = M;
+        else if (it == 1) k = M + 1;
+        else if (it == 2) k = 100;
+        else if (it == 3) k = top;
+        else k = 100 + (slong) n_randint(st, top - 100 + 1);
+        arith_harmonic_number(Hk, k);
+        fmpq_sub(Hk, Hk, HM);         /* sum_{M < i <= k} 1/i, exactly */
+        arb_set_si(x, k);
+        ck_assert_int_eq(embz_tail_sum(T, t, x, prec), EMBZ_OK);
+        ck_assert_msg(arb_contains_fmpq(T, Hk), "T(%ld) does not contain H_k - H_M", (long) k);
+        ck_assert_msg(rad_below(T, 1e-30), "T(%ld) radius too large: %g", (long) k,
+                      mag_get_d(arb_radref(T)));
+    }
+    embz_tail_clear(t);
+    embz_expr_clear(w);
+    fmpz_clear(n); fmpz_clear(end);
+    fmpq_clear(Hk); fmpq_clear(HM);
+    arb_clear(x); arb_clear(T);
+    flint_randclear(st);
+}
+END_TEST
+
+/* H_k = digamma(k + 1) + gamma (arb_digamma) at k = 10^30 and k = 10^1000. */
+static void digamma_case(ulong e, slong prec)
+{
+    const slong M = 64;
+    embz_expr_t w;
+    embz_tail_t t;
+    fmpz_t n;
+    fmpq_t HM;
+    arb_t x, T, ref, g, h;
+    fmpz_init(n);
+    fmpq_init(HM);
+    arb_init(x); arb_init(T); arb_init(ref); arb_init(g); arb_init(h);
+    parse_or_die(w, "1/i");
+    ten_pow(n, e);
+    init_tail(t, w, n, M, n, prec);
+    arb_set_fmpz(x, n);
+    ck_assert_int_eq(embz_tail_sum(T, t, x, prec), EMBZ_OK);
+    arith_harmonic_number(HM, M);
+    arb_set_fmpq(h, HM, prec);
+    arb_add(T, T, h, prec);                       /* H_k from the engine */
+    arb_add_ui(ref, x, 1, prec + 16 + 4 * (slong) e);
+    arb_digamma(ref, ref, prec);
+    arb_const_euler(g, prec);
+    arb_add(ref, ref, g, prec);                   /* H_k from digamma */
+    ck_assert_msg(arb_overlaps(T, ref), "H_(10^%lu): tail sum does not overlap digamma", e);
+    ck_assert_msg(rad_below(T, 1e-30), "H_(10^%lu): radius %g", e, mag_get_d(arb_radref(T)));
+    embz_tail_clear(t);
+    embz_expr_clear(w);
+    fmpz_clear(n);
+    fmpq_clear(HM);
+    arb_clear(x); arb_clear(T); arb_clear(ref); arb_clear(g); arb_clear(h);
+}
+
+START_TEST(test_harmonic_digamma_1e30) { digamma_case(30, 128); }
+END_TEST
+START_TEST(test_harmonic_digamma_1e1000) { digamma_case(1000, 128); }
+END_TEST
+
+/* ---------------------------------------------------------------------------------------
+ * i^-s: sum_{i <= k} i^-s = zeta(s) - zeta(s, k + 1) (arb_hurwitz_zeta), for s = 1/2, 2, 3/2
+ * and s = -2 (weights i^2, increasing). zeta(1/2) < 0; the identity still holds by analytic
+ * continuation (both sides are entire in s apart from s = 1). */
+static void zeta_case(const char *text, slong snum, slong sden)
+{
+    const slong M = 64, prec = 128;
+    const ulong exps[3] = { 6, 30, 100 };
+    embz_expr_t w;
+    embz_tail_t t;
+    fmpz_t n;
+    fmpq_t sq;
+    arb_t s, x, T, head, ref, z, v;
+    fmpz_init(n);
+    fmpq_init(sq);
+    arb_init(s); arb_init(x); arb_init(T); arb_init(head); arb_init(ref); arb_init(z);
+    arb_init(v);
+    fmpq_set_si(sq, snum, sden);
+    arb_set_fmpq(s, sq, prec);
+    parse_or_die(w, text);
+    /* the head, written directly: sum_{i <= M} i^-s */
+    arb_zero(head);
+    for (slong i = 1; i <= M; i++) {
+        arb_set_si(v, i);
+        arb_neg(z, s);
+        arb_pow(v, v, z, prec);
+        arb_add(head, head, v, prec);
+    }
+    arb_zeta(z, s, prec);
+    /* one tail object covering [M, 10^100]: its remainder bound holds for every upper limit,
+     * so every partial sum must be enclosed (accuracy is only required at the far end: for
+     * increasing weights the uniform bound is dominated by the end of the range) */
+    ten_pow(n, 100);
+    init_tail(t, w, n, M, n, prec);
+    ck_assert_int_eq(t->dir, snum > 0 ? 1 : -1);
+    for (int pass = 0; pass < 2; pass++) {
+        for (int j = 0; j < 3; j++) {
+            ten_pow(n, exps[j]);
+            if (pass == 1) {
+                /* a tail object ending exactly at k */
+                embz_tail_clear(t);
+                init_tail(t, w, n, M, n, prec);
+            }
+            arb_set_fmpz(x, n);
+            ck_assert_int_eq(embz_tail_sum(T, t, x, prec), EMBZ_OK);
+            arb_add(T, T, head, prec);
+            arb_add_ui(v, x, 1, prec);
+            arb_hurwitz_zeta(ref, s, v, prec);
+            arb_sub(ref, z, ref, prec);
+            ck_assert_msg(arb_overlaps(T, ref), "%s at k = 10^%lu: no overlap with Hurwitz zeta",
+                          text, exps[j]);
+            if (pass == 1 || j == 2 || snum > 0)
+                ck_assert_msg(rel_ok(T, 100), "%s at k = 10^%lu (pass %d): relative accuracy %ld "
+                              "bits", text, exps[j], pass, (long) arb_rel_accuracy_bits(T));
+        }
+    }
+    embz_tail_clear(t);
+    embz_expr_clear(w);
+    fmpz_clear(n);
+    fmpq_clear(sq);
+    arb_clear(s); arb_clear(x); arb_clear(T); arb_clear(head); arb_clear(ref); arb_clear(z);
+    arb_clear(v);
+}
+
+START_TEST(test_zeta_half) { zeta_case("i^-0.5", 1, 2); }
+END_TEST
+START_TEST(test_zeta_two) { zeta_case("1/i^2", 2, 1); }
+END_TEST
+START_TEST(test_zeta_three_halves) { zeta_case("i^(-1.5)", 3, 2); }
+END_TEST
+START_TEST(test_zeta_minus_two) { zeta_case("i^2", -2, 1); }
+END_TEST
+
+/* ---------------------------------------------------------------------------------------
+ * Explicit arb sums at moderate sizes: an increasing weight sqrt(i), and n-dependent weights
+ * at a fixed n. The reference weights are computed with arb functions directly. */
+typedef void (*direct_w)(arb_t res, slong i, const fmpz_t n, slong prec);
+
+static void w_sqrt(arb_t r, slong i, const fmpz_t n, slong prec)
+{
+    (void) n;
+    arb_sqrt_ui(r, (ulong) i, prec);
+}
+
+/* exp(-i/n) */
+static void w_expdecay(arb_t r, slong i, const fmpz_t n, slong prec)
+{
+    arb_set_si(r, i);
+    arb_div_fmpz(r, r, n, prec);
+    arb_neg(r, r);
+    arb_exp(r, r, prec);
+}
+
+/* i^(-1 + 1/log(n+1)) */
+static void w_tilted(arb_t r, slong i, const fmpz_t n, slong prec)
+{
+    arb_t a, l;
+    arb_init(a); arb_init(l);
+    arb_set_fmpz(a, n);
+    arb_add_ui(a, a, 1, prec);
+    arb_log(a, a, prec);
+    arb_inv(a, a, prec);
+    arb_sub_ui(a, a, 1, prec);
+    arb_log_ui(l, (ulong) i, prec);
+    arb_mul(a, a, l, prec);
+    arb_exp(r, a, prec);
+    arb_clear(a); arb_clear(l);
+}
+
+/* n/(n + i^2): n-dependent, decreasing */
+static void w_lorentz(arb_t r, slong i, const fmpz_t n, slong prec)
+{
+    arb_t d;
+    arb_init(d);
+    arb_set_si(d, i);
+    arb_mul(d, d, d, prec);
+    arb_add_fmpz(d, d, n, prec);
+    arb_set_fmpz(r, n);
+    arb_div(r, r, d, prec);
+    arb_clear(d);
+}
+
+static void explicit_case(const char *text, direct_w fn, slong nval, slong top, int dir,
+                          slong bits)
+{
+    const slong M = 64, prec = 128;
+    embz_expr_t w;
+    embz_tail_t t;
+    fmpz_t n, end;
+    arb_t x, T, v;
+    arb_ptr cum;
+    flint_rand_t st;
+    flint_randinit(st);
+    fmpz_init(n); fmpz_init(end);
+    arb_init(x); arb_init(T); arb_init(v);
+    parse_or_die(w, text);
+    fmpz_set_si(n, nval);
+    fmpz_set_si(end, top);
+    init_tail(t, w, n, M, end, prec);
+    ck_assert_msg(t->dir == dir, "%s: direction %d, expected %d", text, t->dir, dir);
+    cum = _arb_vec_init(top + 1);        /* cum[k] = sum_{M < i <= k} w(i) */
+    for (slong i = M + 1; i <= top; i++) {
+        fn(v, i, n, prec);
+        arb_add(cum + i, cum + i - 1, v, prec);
+    }
+    int count = quick() ? 10 : 40;
+    for (int it = 0; it < count; it++) {
+        slong k = (it == 0) ? top : (it == 1) ? M + 1 : M + 1 + (slong) n_randint(st, top - M);
+        arb_set_si(x, k);
+        ck_assert_int_eq(embz_tail_sum(T, t, x, prec), EMBZ_OK);
+        ck_assert_msg(arb_overlaps(T, cum + k), "%s (n = %ld): T(%ld) misses the explicit sum",
+                      text, (long) nval, (long) k);
+        ck_assert_msg(rel_ok(T, bits), "%s: T(%ld) relative accuracy %ld bits", text, (long) k,
+                      (long) arb_rel_accuracy_bits(T));
+    }
+    _arb_vec_clear(cum, top + 1);
+    embz_tail_clear(t);
+    embz_expr_clear(w);
+    fmpz_clear(n); fmpz_clear(end);
+    arb_clear(x); arb_clear(T); arb_clear(v);
+    flint_randclear(st);
+}
+
+START_TEST(test_explicit_sqrt) { explicit_case("i^0.5", w_sqrt, 1, 5000, -1, 100); }
+END_TEST
+START_TEST(test_explicit_expdecay) { explicit_case("exp(-i/n)", w_expdecay, 2000, 6000, 1, 100); }
+END_TEST
+START_TEST(test_explicit_tilted)
+{
+    explicit_case("i^(-1 + 1/log(n+1))", w_tilted, 10000, 10000, 1, 100);
+}
+END_TEST
+/* Poles at +-i sqrt(n), close to the real axis: the engine picks a lower Euler-Maclaurin order
+ * here (about 92 bits of 128 were observed), so only 85 bits are required. */
+START_TEST(test_explicit_lorentz)
+{
+    explicit_case("n/(n + i^2)", w_lorentz, 3000, 8000, 1, 85);
+}
+END_TEST
+
+/* ---------------------------------------------------------------------------------------
+ * Taylor coefficients of T~ against finite differences of embz_tail_sum at 256 bits:
+ * c1 = scale T~'(x), c2 = scale^2 T~''(x)/2. Central differences with step h = x 2^-48 have
+ * truncation error about (h/x)^2 = 2^-96 relative (the derivatives of these weights scale
+ * like f/x^j), far above the 256-bit rounding and the remainder bound divided by h^2. */
+static void series_case(const char *text, const char *endtext)
+{
+    const slong M = 64, prec = 256;
+    embz_expr_t w;
+    embz_tail_t t;
+    fmpz_t n;
+    embz_err_t err;
+    arb_t x, xp, xm, h, Tp, Tm, T0, d1, d2, sc, diff;
+    arb_ptr c = _arb_vec_init(3), g = _arb_vec_init(1);
+    flint_rand_t st;
+    flint_randinit(st);
+    fmpz_init(n);
+    arb_init(x); arb_init(xp); arb_init(xm); arb_init(h); arb_init(Tp); arb_init(Tm);
+    arb_init(T0); arb_init(d1); arb_init(d2); arb_init(sc); arb_init(diff);
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_size_parse(n, endtext, &err), EMBZ_OK);
+    parse_or_die(w, text);
+    init_tail(t, w, n, M, n, prec);
+    double lmax = (double) fmpz_bits(n) * 0.6931 - 1.0;
+    int count = quick() ? 6 : 20;
+    for (int it = 0; it < count; it++) {
+        /* x = e^u, u uniform in [log(M+1), lmax], rounded to a double (exact in arb) */
+        double u = log((double) (M + 1)) + (lmax - log((double) (M + 1)))
+                   * (double) n_randint(st, 1000000) / 1e6;
+        arb_set_d(x, exp(u));
+        arf_t hx;
+        arf_init(hx);
+        arf_set_ui_2exp_si(hx, 1, arf_abs_bound_lt_2exp_si(arb_midref(x)) - 48);
+        arb_set_arf(h, hx);
+        arf_clear(hx);
+        arb_add(xp, x, h, prec);
+        arb_sub(xm, x, h, prec);
+        ck_assert_int_eq(embz_tail_sum(Tp, t, xp, prec), EMBZ_OK);
+        ck_assert_int_eq(embz_tail_sum(Tm, t, xm, prec), EMBZ_OK);
+        ck_assert_int_eq(embz_tail_sum(T0, t, x, prec), EMBZ_OK);
+        arb_sub(d1, Tp, Tm, prec);
+        arb_div(d1, d1, h, prec);
+        arb_mul_2exp_si(d1, d1, -1);                  /* ~ T'(x) */
+        arb_add(d2, Tp, Tm, prec);
+        arb_submul_ui(d2, T0, 2, prec);
+        arb_div(d2, d2, h, prec);
+        arb_div(d2, d2, h, prec);
+        arb_mul_2exp_si(d2, d2, -1);                  /* ~ T''(x)/2 */
+        /* a random scale, exact */
+        arb_set_si(sc, 1 + (slong) n_randint(st, 1000));
+        arb_mul_2exp_si(sc, sc, -(slong) n_randint(st, 12));
+        ck_assert_int_eq(embz_tail_series(c, t, x, sc, 3, prec), EMBZ_OK);
+        ck_assert_msg(arb_is_zero(c), "%s: coefficient 0 is not 0", text);
+        arb_mul(d1, d1, sc, prec);
+        arb_mul(d2, d2, sc, prec);
+        arb_mul(d2, d2, sc, prec);
+        arb_sub(diff, c + 1, d1, prec);
+        ck_assert_msg(arb_is_finite(diff) && arb_rel_accuracy_bits(c + 1) > 150,
+                      "%s: coefficient 1 not finite or not accurate", text);
+        {
+            /* |c1 - d1| <= 2^-80 |c1| */
+            arb_t tol;
+            arb_init(tol);
+            arb_abs(tol, c + 1);
+            arb_mul_2exp_si(tol, tol, -80);
+            arb_abs(diff, diff);
+            ck_assert_msg(arb_le(diff, tol), "%s at x = %g: c1 differs from the finite difference",
+                          text, exp(u));
+            arb_sub(diff, c + 2, d2, prec);
+            arb_abs(diff, diff);
+            arb_abs(tol, c + 2);
+            arb_mul_2exp_si(tol, tol, -60);
+            ck_assert_msg(arb_le(diff, tol), "%s at x = %g: c2 differs from the second difference",
+                          text, exp(u));
+            arb_clear(tol);
+        }
+        /* weight series coefficient 0 is the weight itself */
+        ck_assert_int_eq(embz_tail_weight_series(g, t, x, sc, 1, prec), EMBZ_OK);
+        ck_assert_int_eq(embz_expr_eval_arb(d1, w, x, t->n, prec), EMBZ_OK);
+        ck_assert(arb_overlaps(g, d1));
+    }
+    embz_tail_clear(t);
+    embz_expr_clear(w);
+    fmpz_clear(n);
+    arb_clear(x); arb_clear(xp); arb_clear(xm); arb_clear(h); arb_clear(Tp); arb_clear(Tm);
+    arb_clear(T0); arb_clear(d1); arb_clear(d2); arb_clear(sc); arb_clear(diff);
+    _arb_vec_clear(c, 3);
+    _arb_vec_clear(g, 1);
+    flint_randclear(st);
+}
+
+START_TEST(test_series_inverse_log) { series_case("1/(i*log(i))", "10^12"); }
+END_TEST
+START_TEST(test_series_power) { series_case("i^-0.5", "10^15"); }
+END_TEST
+START_TEST(test_series_increasing) { series_case("sqrt(i)*log(i)", "10^10"); }
+END_TEST
+
+/* ---------------------------------------------------------------------------------------
+ * Integrals in closed form: int_M^x dy/y = log(x/M); int_M^x dy/(y log y) = log log x - log log M. */
+static void integral_case(const char *text, int kind, ulong e)
+{
+    const slong M = 64, prec = 128;
+    embz_expr_t w;
+    embz_tail_t t;
+    fmpz_t n;
+    arb_t x, I, ref, lm;
+    flint_rand_t st;
+    flint_randinit(st);
+    fmpz_init(n);
+    arb_init(x); arb_init(I); arb_init(ref); arb_init(lm);
+    parse_or_die(w, text);
+    ten_pow(n, e);
+    init_tail(t, w, n, M, n, prec);
+    int count = quick() ? 8 : 25;
+    for (int it = 0; it < count; it++) {
+        if (it == 0) arb_set_fmpz(x, n);
+        else if (it == 1) arb_set_si(x, M);
+        else {
+            /* x = 10^(random real in [2, e]) as an exact ball midpoint */
+            arb_set_si(x, 2000 + (slong) n_randint(st, (e - 2) * 1000 + 1));
+            arb_div_ui(x, x, 1000, prec);
+            arb_set_ui(lm, 10);
+            arb_pow(x, lm, x, prec);
+            arf_set(arb_midref(lm), arb_midref(x));
+            arb_set_arf(x, arb_midref(lm));
+            if (arf_cmp_si(arb_midref(x), M + 1) < 0) arb_set_si(x, M + 1);
+        }
+        ck_assert_int_eq(embz_tail_integral(I, t, x, prec), EMBZ_OK);
+        arb_log(ref, x, prec);
+        arb_log_ui(lm, M, prec);
+        if (kind == 1) {
+            arb_log(ref, ref, prec);
+            arb_log(lm, lm, prec);
+        }
+        arb_sub(ref, ref, lm, prec);
+        ck_assert_msg(arb_overlaps(I, ref), "%s: integral misses the closed form", text);
+        ck_assert_msg(rad_below(I, 1e-30), "%s: integral radius %g", text,
+                      mag_get_d(arb_radref(I)));
+    }
+    embz_tail_clear(t);
+    embz_expr_clear(w);
+    fmpz_clear(n);
+    arb_clear(x); arb_clear(I); arb_clear(ref); arb_clear(lm);
+    flint_randclear(st);
+}
+
+START_TEST(test_integral_log) { integral_case("1/i", 0, 60); }
+END_TEST
+START_TEST(test_integral_loglog) { integral_case("1/(i*log(i))", 1, 60); }
+END_TEST
+
+/* ---------------------------------------------------------------------------------------
+ * Weights that are not monotone beyond M must be refused, never summed. */
+static void refuse_case(const char *text, slong top)
+{
+    embz_expr_t w;
+    embz_tail_t t;
+    fmpz_t n;
+    embz_err_t err;
+    embz_err_clear(&err);
+    fmpz_init(n);
+    fmpz_set_si(n, top);
+    parse_or_die(w, text);
+    int st = embz_tail_init(t, w, n, 64, n, 128, &err);
+    ck_assert_msg(st == EMBZ_ERR_UNSUPPORTED || st == EMBZ_ERR_NONSMOOTH,
+                  "%s: expected a refusal, got status %d", text, st);
+    ck_assert_int_eq(err.code, st);
+    ck_assert_msg(strlen(err.text) > 0, "%s: refusal without a message", text);
+    embz_tail_clear(t);
+    embz_expr_clear(w);
+    fmpz_clear(n);
+}
+
+START_TEST(test_refuse_sin) { refuse_case("1 + sin(i)/2", 1000000); }
+END_TEST
+START_TEST(test_refuse_sin_over_i) { refuse_case("(1 + sin(i)/2)/i", 1000000); }
+END_TEST
+START_TEST(test_refuse_valley) { refuse_case("(i - 100)^2 + 1", 10000); }
+END_TEST
+START_TEST(test_refuse_floor) { refuse_case("1/floor(sqrt(i))", 10000); }
+END_TEST
+
+static Suite *sum_suite(void)
+{
+    Suite *s = suite_create("sum");
+    TCase *tc = tcase_create("core");
+    tcase_set_timeout(tc, 600);
+    tcase_add_test(tc, test_harmonic_exact);
+    tcase_add_test(tc, test_harmonic_digamma_1e30);
+    tcase_add_test(tc, test_harmonic_digamma_1e1000);
+    tcase_add_test(tc, test_zeta_half);
+    tcase_add_test(tc, test_zeta_two);
+    tcase_add_test(tc, test_zeta_three_halves);
+    tcase_add_test(tc, test_zeta_minus_two);
+    tcase_add_test(tc, test_explicit_sqrt);
+    tcase_add_test(tc, test_explicit_expdecay);
+    tcase_add_test(tc, test_explicit_tilted);
+    tcase_add_test(tc, test_explicit_lorentz);
+    tcase_add_test(tc, test_series_inverse_log);
+    tcase_add_test(tc, test_series_power);
+    tcase_add_test(tc, test_series_increasing);
+    tcase_add_test(tc, test_integral_log);
+    tcase_add_test(tc, test_integral_loglog);
+    tcase_add_test(tc, test_refuse_sin);
+    tcase_add_test(tc, test_refuse_sin_over_i);
+    tcase_add_test(tc, test_refuse_valley);
+    tcase_add_test(tc, test_refuse_floor);
+    suite_add_tcase(s, tc);
+    return s;
+}
+
+int main(void)
+{
+    Suite *s = sum_suite();
+    SRunner *sr = srunner_create(s);
+    srunner_run_all(sr, CK_NORMAL);
+    int failed = srunner_ntests_failed(sr);
+    srunner_free(sr);
+    flint_cleanup();
+    return failed != 0;
+}
