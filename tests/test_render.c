@@ -10,6 +10,7 @@
 #include <string.h>
 #include <sys/stat.h>
 #include <unistd.h>
+#include <cairo.h>
 #include "embz.h"
 
 static char tmpdir[256];
@@ -360,6 +361,7 @@ START_TEST(test_svg_inline)
     ck_assert(xml_ok(path_in("a.svg")));
     ck_assert(xml_ok(path_in("b.svg")));
     remove_tmpdir();
+    free(a);
     free(b);
     embz_plot_clear(fig);
 }
@@ -671,11 +673,19 @@ START_TEST(test_report_pdf)
 }
 END_TEST
 
+/* cairo keeps font caches for the life of the process; free them after each test so that
+ * leak checkers see only our own allocations */
+static void release_caches(void)
+{
+    cairo_debug_reset_static_data();
+}
+
 static Suite *render_suite(void)
 {
     Suite *s = suite_create("render");
     TCase *tc = tcase_create("core");
     tcase_set_timeout(tc, 300);
+    tcase_add_checked_fixture(tc, NULL, release_caches);
     tcase_add_test(tc, test_ticks_log_wide);
     tcase_add_test(tc, test_ticks_random);
     tcase_add_test(tc, test_ticks_linear_values);

@@ -27,7 +27,7 @@ if command -v pdftoppm >/dev/null; then
     check "pdf page image" png_ok "$T/c-1.png"
 fi
 # a very wide range uses the analytic engine and still plots
-check "plot 10^300" "$EMBZ" plot inverse --from 10 --to 10^300 --points 3 -o "$T/w.svg"
+check "plot 10^300" "$EMBZ" plot inverse --from 10 --to 10^300 --points 2 -o "$T/w.svg"
 check "wide svg parses" xml_ok "$T/w.svg"
 
 # usage errors: exit 2, nothing written
@@ -47,12 +47,12 @@ if [ "$(id -u)" != 0 ]; then check "read-only dir exit 1" test $st -eq 1; fi
 check "no temporary file in read-only dir" no_temp "$T/ro"
 check "no temporary file" no_temp "$T"
 
-# an interrupted run: the old file stays whole
+# an interrupted run (SIGTERM: background jobs of a script ignore SIGINT): the old file stays
 echo "old" > "$T/keep.svg"
 "$EMBZ" plot inverse iterlog --from 10 --to 10^2000 --points 40 -o "$T/keep.svg" 2>/dev/null &
 pid=$!
 sleep 1
-kill -INT $pid 2>/dev/null
+kill -TERM $pid 2>/dev/null
 wait $pid 2>/dev/null
 check "interrupted run keeps the old file" test "$(cat "$T/keep.svg")" = "old"
 check "interrupted run leaves no temporary file" no_temp "$T"

@@ -23,6 +23,10 @@ typedef struct {
     fmpz_t undecided_lo, undecided_hi; /* UNDECIDED: the n whose side could not be decided */
     fmpz_t largest;       /* NOT_REACHED: the largest size tried */
     arb_t err_largest;    /* NOT_REACHED: E there */
+    int qubits_only;      /* the search stopped once ceil(log2 n) was decided */
+    fmpz_t n_low;         /* the largest size known not to reach the goal (E > eps) */
+    int small_by_bound;   /* sizes up to EMBZ_SIZE_EXHAUSTIVE excluded at once by
+                             E_m >= p_1 (1 - q_max) > eps, not one by one */
     long evaluations;
     char method[128];     /* how the sizes were evaluated */
 } embz_size_result_struct;
@@ -41,5 +45,11 @@ void embz_size_result_clear(embz_size_result_t r);
 #define EMBZ_SIZE_EXHAUSTIVE 2048
 int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
                     const embz_target_t q, slong prec, embz_err_t *err);
+
+/* The same search stopped as soon as the number of qubits per side, ceil(log2 n), is decided:
+ * res->n is then a size that reaches the goal, res->n_low < n one that does not, with
+ * ceil(log2 (n_low + 1)) = ceil(log2 n); sampling above n is lighter. */
+int embz_size_solve_qubits(embz_size_result_t res, const embz_family_t f, const arb_t eps,
+                           const embz_target_t q, slong prec, embz_err_t *err);
 
 #endif

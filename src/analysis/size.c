@@ -21,6 +21,7 @@ typedef struct {
     arb_t eps;
     embz_analytic_t an[SIZE_PREC_STEPS];
     int used_explicit, used_analytic;
+    int qubits_only;
     long evals;
 } sctx;
 
@@ -36,6 +37,7 @@ void embz_size_result_init(embz_size_result_t r)
     fmpz_init(r->undecided_hi);
     fmpz_init(r->largest);
     arb_init(r->err_largest);
+    fmpz_init(r->n_low);
 }
 
 void embz_size_result_clear(embz_size_result_t r)
@@ -49,6 +51,7 @@ void embz_size_result_clear(embz_size_result_t r)
     fmpz_clear(r->undecided_hi);
     fmpz_clear(r->largest);
     arb_clear(r->err_largest);
+    fmpz_clear(r->n_low);
 }
 
 /* Which side of eps E_n lies on: -1 (E_n <= eps), +1 (E_n > eps), 0 undecided even at the
@@ -96,6 +99,18 @@ static void exp_floor_clamp(fmpz_t r, const arb_t x, const fmpz_t lo, const fmpz
 
 /* Refine the bracket (E_lo > eps at nlo, E_hi <= eps at nhi) down to adjacent integers.
  * Returns status; *undecided set when a size could not be decided. */
+/* ceil(log2 (nlo + 1)) == ceil(log2 nhi): every n in (nlo, nhi] needs the same qubits */
+static int same_qubits(const fmpz_t nlo, const fmpz_t nhi)
+{
+    fmpz_t a, b;
+    fmpz_init(a); fmpz_init(b);
+    fmpz_set(a, nlo);                 /* ceil(log2 (nlo+1)) = bits(nlo) */
+    fmpz_sub_ui(b, nhi, 1);           /* ceil(log2 nhi) = bits(nhi - 1) */
+    int r = fmpz_bits(a) == fmpz_bits(b);
+    fmpz_clear(a); fmpz_clear(b);
+    return r;
+}
+
 static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *undecided,
                   fmpz_t und, embz_err_t *err)
 {
@@ -117,6 +132,7 @@ static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *un
     for (int it = 0; it < SIZE_MAX_STEPS; it++) {
         fmpz_sub(width, nhi, nlo);
         if (fmpz_cmp_ui(width, 1) <= 0) break;
+        if (c->qubits_only && same_qubits(nlo, nhi)) break;
         fmpz_add_ui(lo1, nlo, 1);
         fmpz_sub_ui(hi1, nhi, 1);
         int bisect = stuck >= 2 || !arb_is_positive(ylo) || arb_is_positive(yhi);
@@ -177,11 +193,59 @@ static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *un
     return st;
 }
 
+/* A lower bound valid for every n <= N at once: E_n >= p_1 (1 - q_max), p_1 = w(1)/W_n and
+ * W_n <= W_N (weights are non-negative). Returns 1 when it exceeds eps. Only for weights that
+ * do not depend on n. */
+static int small_sizes_excluded(sctx *c, slong N)
+{
+    if (embz_expr_uses(c->f->weight) & EMBZ_USES_N) return 0;
+    arb_t W, w1, x, nn, qm;
+    embz_err_t e;
+    arb_init(W); arb_init(w1); arb_init(x); arb_init(nn); arb_init(qm);
+    embz_err_clear(&e);
+    arb_set_si(nn, N);
+    int ok = embz_sum_explicit(W, c->f->weight, nn, 1, N, c->prec, &e) == EMBZ_OK;
+    arb_one(x);
+    ok = ok && embz_expr_eval_arb(w1, c->f->weight, x, nn, c->prec) == EMBZ_OK;
+    if (ok) {
+        if (c->q->kind == EMBZ_TARGET_UNIFORM) {
+            arb_set_ui(qm, c->q->d);
+            arb_inv(qm, qm, c->prec);
+        } else {
+            arb_set_fmpq(qm, c->q->q->p, c->prec);   /* sorted: the largest first */
+        }
+        arb_sub_ui(qm, qm, 1, c->prec);
+        arb_neg(qm, qm);
+        arb_mul(w1, w1, qm, c->prec);
+        arb_div(w1, w1, W, c->prec);
+        ok = arb_gt(w1, c->eps);
+    }
+    arb_clear(W); arb_clear(w1); arb_clear(x); arb_clear(nn); arb_clear(qm);
+    return ok;
+}
+
+static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
+                      const embz_target_t q, slong prec, int qubits_only, embz_err_t *err);
+
 int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
                     const embz_target_t q, slong prec, embz_err_t *err)
 {
+    return size_solve(res, f, eps, q, prec, 0, err);
+}
+
+int embz_size_solve_qubits(embz_size_result_t res, const embz_family_t f, const arb_t eps,
+                           const embz_target_t q, slong prec, embz_err_t *err)
+{
+    return size_solve(res, f, eps, q, prec, 1, err);
+}
+
+static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
+                      const embz_target_t q, slong prec, int qubits_only, embz_err_t *err)
+{
     sctx c;
     memset(&c, 0, sizeof(c));
+    c.qubits_only = qubits_only;
+    res->qubits_only = qubits_only;
     c.f = f;
     c.q = q;
     c.prec = prec;
@@ -202,8 +266,15 @@ int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t e
         st = embz_err_set(err, EMBZ_ERR_INPUT, "the error goal must be positive");
         goto done;
     }
-    /* 1. small sizes one by one */
-    for (slong k = 1; k <= EMBZ_SIZE_EXHAUSTIVE; k++) {
+    /* 1. small sizes one by one (or all at once by the p_1 bound) */
+    if (small_sizes_excluded(&c, EMBZ_SIZE_EXHAUSTIVE)) {
+        res->small_by_bound = 1;
+        fmpz_set_si(n, EMBZ_SIZE_EXHAUSTIVE);
+        st = side(&sd, E, &c, n, err);
+        if (st != EMBZ_OK) goto done;
+        arb_set(res->err_prev, E);
+    }
+    for (slong k = 1; !res->small_by_bound && k <= EMBZ_SIZE_EXHAUSTIVE; k++) {
         fmpz_set_si(n, k);
         st = side(&sd, E, &c, n, err);
         if (st != EMBZ_OK) goto done;
@@ -215,6 +286,7 @@ int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t e
         }
         if (sd < 0) {
             fmpz_set(res->n, n);
+            fmpz_sub_ui(res->n_low, n, 1);
             arb_set(res->err_n, E);
             res->exhaustive = 1;
             res->checked_below = k - 1;
@@ -261,15 +333,29 @@ int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t e
                 goto done;
             }
             fmpz_set(res->n, nhi);
+            fmpz_set(res->n_low, nlo);
             arb_set(res->err_n, Ehi);
             arb_set(res->err_prev, Elo);
             /* samples below: the 8 sizes just below n - 1, then n / 16^j down to the
              * exhaustive range */
             int again = 0;
             res->checked_below = 0;
-            for (int j = 2; j <= 9 + 1000 && !again; j++) {
+            for (int j = qubits_only ? 10 : 2; j <= 9 + 40 && !again; j++) {
                 if (j <= 9) fmpz_sub_ui(m, nhi, (ulong) j);
-                else fmpz_fdiv_q_2exp(m, nhi, (ulong) (4 * (j - 9)));
+                else {
+                    /* log-spaced: m = floor(nhi^(1 - (j - 9)/40)) */
+                    arb_t lg;
+                    arb_init(lg);
+                    slong wp2 = 2 * fmpz_bits(nhi) + 64;
+                    arb_set_fmpz(lg, nhi);
+                    arb_log(lg, lg, wp2);
+                    arb_mul_si(lg, lg, 40 - (j - 9), wp2);
+                    arb_div_ui(lg, lg, 40, wp2);
+                    arb_exp(lg, lg, wp2);
+                    arf_get_fmpz(m, arb_midref(lg), ARF_RND_FLOOR);
+                    arb_clear(lg);
+                    if (fmpz_cmp(m, nhi) >= 0) continue;
+                }
                 if (fmpz_cmp_si(m, EMBZ_SIZE_EXHAUSTIVE) <= 0) break;
                 st = side(&sd, E, &c, m, err);
                 if (st != EMBZ_OK) goto done;
@@ -297,14 +383,14 @@ int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t e
                 if (st != EMBZ_OK) goto done;
             }
         }
-        res->checked_below += EMBZ_SIZE_EXHAUSTIVE;
+        if (!res->small_by_bound) res->checked_below += EMBZ_SIZE_EXHAUSTIVE;
     }
     res->status = EMBZ_SIZE_FOUND;
     /* 4. does E stay below eps? sample sizes above n */
     {
         fmpz_set(res->stay_checked_to, res->n);
         res->stay_samples = 0;
-        for (int j = 0; j < 24; j++) {
+        for (int j = qubits_only ? 16 : 0; j < 24; j++) {
             if (j < 8) fmpz_add_ui(m, res->n, (ulong) j + 1);
             else if (j < 16) {
                 fmpz_fdiv_q_2exp(m, res->n, (ulong) (16 - j));   /* n + n / 2^(16-j) */

@@ -398,8 +398,8 @@ int cli_cmd_plot(int argc, char **argv)
         code = cli_report("plot", status, &err);
         goto done;
     }
-    fprintf(stderr, "embz plot: wrote %s (%ld families, %ld sizes each%s)\n", out, nfam,
-            (long) ns, skipped ? ", some left out" : "");
+    fprintf(stderr, "embz plot: wrote %s (%ld %s, %ld sizes each%s)\n", out, nfam,
+            nfam == 1 ? "family" : "families", (long) ns, skipped ? ", some left out" : "");
 
 done:
     embz_plot_clear(fig);

@@ -8,6 +8,7 @@ static const cli_opt_t size_opts[] = {
     { "eps", 'e', CLI_VALUE, "E[,E2,...]", "error goals (exact decimals, e.g. 0.01,1e-3); required" },
     { "target", 't', CLI_VALUE, "T", "target state: ebit (default), ebits:J, uniform:D, or a list" },
     { "measure", 0, CLI_VALUE, "M", "k (conversion distance, default) or purified" },
+    { "qubits", 0, CLI_FLAG, NULL, "stop once the qubits per side are decided (faster at huge n)" },
     { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 128; raised where undecided)" },
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter" },
     { "amplitude", 0, CLI_FLAG, NULL, "the expression gives amplitudes; weights are squares" },
@@ -71,6 +72,13 @@ static void json_result(embz_buf_t *b, const char *goal, const embz_size_result_
                            "\"checked_below\": %ld, \"stay_samples\": %ld",
                         qb, lo, hi, plo, phi, r->exhaustive ? "true" : "false",
                         r->checked_below, r->stay_samples);
+        {
+            char *nl = fmpz_get_str(NULL, 10, r->n_low);
+            embz_buf_printf(b, ", \"n_low\": ");
+            embz_buf_json_string(b, nl);
+            embz_buf_printf(b, ", \"resolution\": \"%s\"", r->qubits_only ? "qubits" : "exact");
+            flint_free(nl);
+        }
         char *to = fmpz_get_str(NULL, 10, r->stay_checked_to);
         embz_buf_printf(b, ", \"stay_checked_to\": ");
         embz_buf_json_string(b, to);
@@ -115,12 +123,23 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
         embz_buf_printf(b, "  n          %s%s\n", fmpz_sizeinbase(r->n, 10) > INT_DIGITS ? "~" : "", ns);
         embz_buf_printf(b, "  log10 n    %.4f\n", l10);
         embz_buf_printf(b, "  qubits     %ld per side (ceil(log2 n))\n", qb);
-        embz_buf_printf(b, "  E at n     %s   E at n-1  %s   (certified)\n", e, ep);
+        if (r->qubits_only && !r->exhaustive) {
+            char *nl = embz_fmpz_string(r->n_low, INT_DIGITS);
+            embz_buf_printf(b, "  E at n     %s   E at %s%s  %s   (certified)\n", e,
+                            fmpz_sizeinbase(r->n_low, 10) > INT_DIGITS ? "~" : "", nl, ep);
+            embz_buf_printf(b, "  resolution the smallest size lies in (%s%s, n]: same qubits\n",
+                            fmpz_sizeinbase(r->n_low, 10) > INT_DIGITS ? "~" : "", nl);
+            free(nl);
+        } else
+            embz_buf_printf(b, "  E at n     %s   E at n-1  %s   (certified)\n", e, ep);
+        if (r->small_by_bound && !r->exhaustive)
+            embz_buf_printf(b, "  small n    every n <= 2048 excluded at once: E_n >= p_1 (1 - q_max) > goal\n");
         if (r->exhaustive)
             embz_buf_printf(b, "  smallest   yes: every smaller size was checked\n");
         else
             embz_buf_printf(b, "  smallest   first crossing of a bracketing search; E > goal checked at %ld "
-                               "smaller sizes (samples, not all)\n", r->checked_below);
+                               "smaller sizes%s (samples, not all)\n", r->checked_below,
+                            r->small_by_bound ? " and, by the bound above, at every n <= 2048" : "");
         if (!fmpz_is_zero(r->again_above)) {
             char *ag = embz_fmpz_string(r->again_above, INT_DIGITS);
             embz_buf_printf(b, "  stays      no: E exceeds the goal again at n = %s\n", ag);
@@ -251,7 +270,9 @@ int cli_cmd_size(int argc, char **argv)
             char reason[300];
             embz_err_clear(&err);
             embz_size_result_init(r);
-            int status = embz_size_solve(r, fam, g[part], q, prec, &err);
+            int status = cli_flag(&a, "qubits")
+                ? embz_size_solve_qubits(r, fam, g[part], q, prec, &err)
+                : embz_size_solve(r, fam, g[part], q, prec, &err);
             if (status != EMBZ_OK) {
                 code = cli_report("size", status, &err);
                 embz_size_result_clear(r);

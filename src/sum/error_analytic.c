@@ -350,7 +350,7 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
  * but only as variable as phi (constant for f = 1/i: no cancellation left to the balls); the
  * other parts are O(1/y). This lets long stretches of s be settled at once. */
 
-#define VMODEL_FROM_BITS 40    /* v-models for s >= 2^20 */
+#define VMODEL_FROM_BITS 32    /* v-models for s >= 2^20 */
 #define VMODEL_LEN 16          /* their order */
 #define VMODEL_SHORT 12        /* terms kept of the short integral S */
 
@@ -491,12 +491,18 @@ static int vmodel_series(arb_ptr co, actx *c, ulong r, const arb_t v, const arb_
             arb_clear(a1);
         }
     }
-    if (st == EMBZ_OK && !arb_is_zero(delta)) st = short_integral(S, c, v, delta, len, prec);
-    if (st == EMBZ_OK) st = em_composed(E1, c, v, dd, zero, len, prec);
+    /* the other parts are O(e^-v): they need fewer bits for the same absolute accuracy */
+    slong lp = prec;
+    {
+        double vm = arf_get_d(arb_midref(v), ARF_RND_DOWN);
+        if (vm > 0) lp = FLINT_MAX(64, prec - (slong) (vm / 0.6931471805599453) + 8);
+    }
+    if (st == EMBZ_OK && !arb_is_zero(delta)) st = short_integral(S, c, v, delta, len, lp);
+    if (st == EMBZ_OK) st = em_composed(E1, c, v, dd, zero, len, lp);
     arb_one(y);
-    if (st == EMBZ_OK) st = em_composed(E2, c, v, y, delta, len, prec);
+    if (st == EMBZ_OK) st = em_composed(E2, c, v, y, delta, len, lp);
     arb_add_ui(sh, delta, 1, prec);
-    if (st == EMBZ_OK && r != 0) st = f_composed(F3, c, v, sh, len, prec);
+    if (st == EMBZ_OK && r != 0) st = f_composed(F3, c, v, sh, len, lp);
     if (st == EMBZ_OK) {
         for (slong j = point ? 0 : 1; j < len; j++) {
             arb_sub(co + j, G + j, S + j, prec);
