@@ -10,7 +10,6 @@
 #include <string.h>
 #include <sys/stat.h>
 #include <unistd.h>
-#include <cairo.h>
 #include "embz.h"
 
 static char tmpdir[256];
@@ -677,7 +676,7 @@ END_TEST
  * leak checkers see only our own allocations */
 static void release_caches(void)
 {
-    cairo_debug_reset_static_data();
+    embz_render_release_caches();
 }
 
 static Suite *render_suite(void)

@@ -128,6 +128,11 @@ int embz_plot_svg_string(char **svg, const embz_plot_t fig, const char *id_prefi
 /* Total size of the figure in points. */
 void embz_plot_size(double *width, double *height, const embz_plot_t fig);
 
+/* Free the font caches cairo and fontconfig keep for the whole process. Call only when
+ * nothing is drawing any more (end of a test, end of a command): leak checkers then see only
+ * real leaks. Drawing afterwards still works (the caches are rebuilt). */
+void embz_render_release_caches(void);
+
 /* ------------------------------------------------------------------ atomic files */
 
 /* A file being written: bytes go to a temporary file next to path; commit renames it into

@@ -92,6 +92,74 @@ int cli_load_target(embz_target_t q, const cli_args_t *a, const char *cmd);
 /* The --prec option (unchanged when absent); usage error on a bad value, 0 on success. */
 int cli_load_prec(long *prec, const cli_args_t *a, const cli_spec_t *spec);
 
+/* ---- comparison of families (compare.c), shared by `report` and `demo` ---- */
+typedef struct {
+    fmpz_t from, to;             /* sweep range of the classification and of the plots */
+    slong points;                /* sizes per sweep */
+    slong prec;                  /* working precision (bits) */
+    const char *target_text;     /* target as the user wrote it; NULL: one ebit */
+    slong nsizes;                /* sizes at which the error is tabulated */
+    fmpz *sizes;
+    const char *const *size_text;
+    slong ngoals;                /* error goals for the size column */
+    const char *const *goal_text;
+    double envelope;             /* eps of the envelopes x^(-1 -+ eps) in the weights plot */
+    int threads;                 /* families computed at the same time (OpenMP), >= 1 */
+    int progress;                /* one line per finished family on stderr */
+    const char *cmd;             /* "report" or "demo", for messages */
+} cli_compare_opts_t;
+
+void cli_compare_opts_init(cli_compare_opts_t *o);
+void cli_compare_opts_clear(cli_compare_opts_t *o);
+
+/* Everything computed about one family; the texts are filled by cli_compare_run. */
+typedef struct {
+    embz_family_struct *fam;     /* borrowed */
+    char *label;                 /* name with its parameter values */
+    int status;                  /* EMBZ_OK, or the failure (message in message) */
+    char message[600];
+    embz_classify_t c;           /* one-ebit classification with its sweep and fits */
+    int limit_known;             /* the asymptotic route knows the one-ebit limit [derived] */
+    arb_t limit;
+    int summable;                /* 1 / 0 / -1: the weight sum converges / diverges / unknown */
+    int own_sweep;               /* tsweep/tfits are a separate sweep for the target */
+    embz_sweep_t tsweep;
+    embz_fitset_t tfits;
+    int tfit_ok;
+    arb_struct *err_at;          /* opts.nsizes enclosures */
+    int *err_status;
+    embz_size_result_struct *need;   /* opts.ngoals results (qubit resolution) */
+    int *need_status;
+    int *never;                  /* goal below the certified one-ebit limit */
+    double seconds;
+    /* texts */
+    char *verdict, *law, *exponent, *limit_text;
+    char **error_text, **need_n_text, **need_q_text;
+    char *why;                   /* one line, for the terminal table */
+    char *notes;                 /* paragraphs, for the document */
+} cli_compare_row_t;
+
+/* Load the FAMILY arguments; --set NAME=VALUE goes to every family that has the parameter
+ * (an inline expression takes all of them); a setting no family uses is a usage error.
+ * Message printed and exit code returned on failure, 0 on success. */
+int cli_compare_load(embz_family_struct *fam, long nfam, const char *const *specs,
+                     const cli_args_t *a, const cli_spec_t *spec);
+/* Compute every row (in parallel when built with OpenMP). Returns the worst exit code of the
+ * rows (0 when all succeeded); failed rows keep their message. */
+int cli_compare_run(cli_compare_row_t *rows, embz_family_struct *fam, long nfam,
+                    const cli_compare_opts_t *o);
+void cli_compare_rows_clear(cli_compare_row_t *rows, long nfam, const cli_compare_opts_t *o);
+/* Fill r (table, notes, subtitle, footer) and fig (the figures, added to r) from the rows.
+ * figs must hold 3 initialised figures; grid panels are added by the caller. */
+void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare_row_t *rows,
+                      long nfam, const cli_compare_opts_t *o);
+/* The plain-text summary for a terminal: family, verdict, qubits for goal 0, error at size
+ * 0, why. order: row indices in display order (NULL: as given). */
+void cli_compare_text(embz_buf_t *b, const cli_compare_row_t *rows, const long *order,
+                      long nfam, const cli_compare_opts_t *o);
+/* Format from --format or the extension of path (-1 when neither says). */
+int cli_compare_format(const char *format_opt, const char *path);
+
 /* ---- subcommands ---- */
 int cli_cmd_families(int argc, char **argv);
 int cli_cmd_convert(int argc, char **argv);

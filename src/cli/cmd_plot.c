@@ -416,5 +416,6 @@ done:
     fmpz_clear(A);
     fmpz_clear(B);
     cli_args_clear(&a);
+    embz_render_release_caches();
     return code;
 }

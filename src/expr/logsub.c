@@ -190,7 +190,21 @@ static void transform(part_t *res, embz_expr_t out, const embz_expr_struct *src,
             res->core = push(out, nd->op, core_node(out, a.core), core_node(out, b.core));
             fmpq_set(res->alpha, a.alpha);
         } else {
-            res->core = push(out, nd->op, materialize(out, &a), materialize(out, &b));
+            /* factor out the faster exponential: A e^(au) + B e^(bu) = (A + B e^((b-a)u)) e^(au)
+             * for a > b, so that a later log sees log(A + small) + a u, which keeps
+             * enclosures over wide ranges of u tight */
+            part_t *big = fmpq_cmp(a.alpha, b.alpha) > 0 ? &a : &b;
+            part_t *sml = big == &a ? &b : &a;
+            fmpq_t diff;
+            fmpq_init(diff);
+            fmpq_sub(diff, sml->alpha, big->alpha);
+            int e = exp_node(out, diff);
+            int smallterm = sml->core < 0 ? e : push(out, EMBZ_OP_MUL, sml->core, e);
+            int bigcore = core_node(out, big->core);
+            if (big == &a) res->core = push(out, nd->op, bigcore, smallterm);
+            else res->core = push(out, nd->op, smallterm, bigcore);
+            fmpq_set(res->alpha, big->alpha);
+            fmpq_clear(diff);
         }
         break;
     default:

@@ -526,9 +526,12 @@ static int vmodel_series(arb_ptr co, actx *c, ulong r, const arb_t v, const arb_
 /* Coarser bound for wide v-intervals: a Taylor model of G alone (from phi) plus plain
  * enclosures of the small parts, |S| + |em(x1)| + |em(x2)| + (r/d) |f(x3)|, over the interval.
  * Far out, where those parts are below the tolerance, this settles very long stretches. */
-static int model_bound_wide(arf_t U, actx *c, ulong r, const arb_t vc, const arb_t w,
-                            const arb_t vball, const arb_t delta, slong prec)
+static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc,
+                            const arb_t w, const arb_t vball, const arb_t delta, slong prec)
 {
+    arb_t drest, gd;
+    arb_init(drest); arb_init(gd);
+    *mono = 0;
     slong J = VMODEL_LEN;
     embz_tail_struct *t = c->t;
     slong L = 2 * t->p + 1, sp = FLINT_MIN(prec, 96);
@@ -581,14 +584,35 @@ static int model_bound_wide(arf_t U, actx *c, ulong r, const arb_t vc, const arb
             if (r == 0) break;
             arb_add_ui(x, x, 1, sp);
         }
-        st = embz_tail_weight_series(g, t, x, one, part == 2 ? 1 : L, sp);
+        st = embz_tail_weight_series(g, t, x, one, part == 2 ? 2 : L, sp);
         if (st != EMBZ_OK) break;
+        /* dx/dv: x1 for part 0, e^v for parts 1 and 2 */
+        if (part == 0) arb_set(y, x);
+        else arb_exp(y, vball, sp);
+        arb_abs(y, y);
         if (part == 2) {
             arb_abs(tmp, g);
             arb_mul_ui(tmp, tmp, r, sp);
             arb_div_ui(tmp, tmp, c->d, sp);
             arb_add(rest, rest, tmp, sp);
+            arb_abs(tmp, g + 1);
+            arb_mul(tmp, tmp, y, sp);
+            arb_mul_ui(tmp, tmp, r, sp);
+            arb_div_ui(tmp, tmp, c->d, sp);
+            arb_add(drest, drest, tmp, sp);
         } else {
+            /* |d/dv em(x)| <= |dx/dv| (|f'|/2 + sum |B_2j/(2j)!| |f^(2j)|) */
+            arb_abs(tmp, g + 1);
+            arb_mul_2exp_si(tmp, tmp, -1);
+            for (slong j = 1; j <= t->p; j++) {
+                arb_fac_ui(a1, 2 * j, sp);
+                arb_mul(a1, a1, g + 2 * j, sp);
+                arb_mul(a1, a1, t->bern + j - 1, sp);
+                arb_abs(a1, a1);
+                arb_add(tmp, tmp, a1, sp);
+            }
+            arb_mul(tmp, tmp, y, sp);
+            arb_add(drest, drest, tmp, sp);
             arb_abs(tmp, g);
             arb_mul_2exp_si(tmp, tmp, -1);
             arb_add(rest, rest, tmp, sp);
@@ -610,11 +634,30 @@ static int model_bound_wide(arf_t U, actx *c, ulong r, const arb_t vc, const arb
         arb_abs(lam, lam);
         arb_add(y, vball, lam, sp);
         arb_union(y, y, vball, sp);
-        st = embz_tail_phi_series(g, t, y, 1, sp);
+        st = embz_tail_phi_series(g, t, y, 2, sp);
         if (st == EMBZ_OK) {
             arb_abs(tmp, g);
             arb_mul(tmp, tmp, lam, sp);
             arb_add(rest, rest, tmp, sp);
+            /* |S'| <= |lambda| sup|phi'| + sup|phi| |lambda'|,
+             * |lambda'| <= |delta| e^-v / (1 - |delta| e^-v) */
+            arb_abs(tmp, g + 1);
+            arb_mul(tmp, tmp, lam, sp);
+            arb_add(drest, drest, tmp, sp);
+            arb_neg(a1, vball);
+            arb_exp(a1, a1, sp);
+            arb_abs(x, delta);
+            arb_mul(a1, a1, x, sp);
+            arb_sub_ui(x, a1, 1, sp);
+            arb_neg(x, x);
+            if (arb_is_positive(x)) {
+                arb_div(a1, a1, x, sp);
+                arb_abs(tmp, g);
+                arb_mul(tmp, tmp, a1, sp);
+                arb_add(drest, drest, tmp, sp);
+            } else {
+                arb_indeterminate(drest);
+            }
         }
     }
     if (st == EMBZ_OK) {
@@ -622,7 +665,46 @@ static int model_bound_wide(arf_t U, actx *c, ulong r, const arb_t vc, const arb
         arb_div(acc, acc, c->W, prec);
         arb_get_ubound_arf(U, acc, prec);
         if (!arb_is_finite(acc)) st = EMBZ_ERR_PREC;
+        /* monotone when G' = G_1 +- sum_{j>=2} j |G_j| w^(j-1) keeps its sign with room for
+         * the derivative of the small parts */
+        arb_zero(gd);
+        arb_one(wp);
+        for (slong j = 2; j <= J; j++) {
+            arb_mul(wp, wp, w, prec);
+            arb_abs(tmp, G + j);
+            arb_mul_ui(tmp, tmp, (ulong) j, prec);
+            arb_addmul(gd, tmp, wp, prec);
+        }
+        arb_add(gd, gd, drest, prec);
+        arb_sub(tmp, G + 1, gd, prec);
+        if (arb_is_finite(gd) && arb_is_positive(tmp)) *mono = 1;
+        arb_add(tmp, G + 1, gd, prec);
+        if (arb_is_finite(gd) && arb_is_negative(tmp)) {
+            /* decreasing: the maximum is at the left end, where the Taylor bound is
+             * G(vc) - G_1 w + sum_{j>=2} |G_j| w^j (plus the small parts) */
+            arb_t gl;
+            arb_init(gl);
+            arb_exp(y, vc, prec);
+            st = embz_tail_integral(gl, t, y, prec);
+            arb_mul_ui(y, y, c->d, prec);
+            if (st == EMBZ_OK) st = embz_tail_integral(a1, t, y, prec);
+            arb_sub(gl, a1, gl, prec);
+            arb_submul(gl, G + 1, w, prec);
+            arb_one(wp);
+            arb_mul(wp, wp, w, prec);
+            for (slong j = 2; j <= J; j++) {
+                arb_mul(wp, wp, w, prec);
+                arb_abs(tmp, G + j);
+                arb_addmul(gl, tmp, wp, prec);
+            }
+            arb_add(gl, gl, rest, prec);
+            arb_div(gl, gl, c->W, prec);
+            if (st == EMBZ_OK && arb_is_finite(gl)) arb_get_ubound_arf(U, gl, prec);
+            arb_clear(gl);
+            /* reported as a plain bound: the caller then discards or refines */
+        }
     }
+    arb_clear(drest); arb_clear(gd);
     _arb_vec_clear(p0, J + 1); _arb_vec_clear(p1, J + 1); _arb_vec_clear(G, J + 1);
     _arb_vec_clear(g, L);
     arb_clear(ld); arb_clear(v1); arb_clear(y); arb_clear(a1); arb_clear(acc); arb_clear(wp);
@@ -674,7 +756,7 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
         /* wide: enclosures of the small parts lose too much under a full model */
         int st = EMBZ_ERR_PREC;
         if (arf_cmpabs_2exp_si(arb_midref(w), 3) <= 0)
-            st = model_bound_wide(U, c, r, vc, w, vball, delta, prec);
+            st = model_bound_wide(U, mono, c, r, vc, w, vball, delta, prec);
         _arb_vec_clear(co, J + 1); _arb_vec_clear(ci, J + 1);
         arb_clear(delta); arb_clear(va); arb_clear(vb); arb_clear(vc); arb_clear(w);
         arb_clear(vball); arb_clear(tmp); arb_clear(acc); arb_clear(dacc); arb_clear(wp);
@@ -1163,6 +1245,13 @@ int embz_analytic_prepare(embz_analytic_t a, const fmpz_t nmax, embz_err_t *err)
     for (slong M = 64; M <= 4096; M *= 4) {
         embz_err_clear(err);
         st = embz_tail_init(a->tail, a->f->weight, nmax, M, nmax, wp, err);
+        if (st == EMBZ_OK && a->tail->dir < 0) {
+            /* increasing weights: positions are counted down from n, so sums near n must
+             * resolve differences far below n: carry the bits of n as well */
+            embz_tail_clear(a->tail);
+            st = embz_tail_init(a->tail, a->f->weight, nmax, M, nmax,
+                                wp + (slong) fmpz_bits(nmax), err);
+        }
         if (st == EMBZ_OK) {
             a->have_tail = 1;
             fmpz_set(a->nmax, nmax);
@@ -1222,6 +1311,8 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
                               "n is too small for the analytic engine (use explicit mode)");
             goto cleanup;
         }
+        wp = FLINT_MAX(wp, an->tail->prec);
+        c.prec = wp;
         st = setup(&c, an->tail->M, 1, wp, err);
     } else {
         slong M = 64;
@@ -1240,6 +1331,16 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
             }
             st = setup(&c, M, 0, wp, err);
             have_tail = 1;
+            if (st == EMBZ_OK && tail->dir < 0 && wp < prec + 32 + (slong) fmpz_bits(n)) {
+                /* increasing weights: redo with the bits of n (see embz_analytic_prepare) */
+                embz_tail_clear(tail);
+                free_layout(&c);
+                have_tail = 0;
+                wp = prec + 32 + (slong) fmpz_bits(n);
+                c.prec = wp;
+                st = setup(&c, M, 0, wp, err);
+                have_tail = 1;
+            }
             if (st == EMBZ_OK || st == EMBZ_ERR_DOMAIN) break;
         }
     }
