@@ -1,11 +1,359 @@
-/* PLACEHOLDER while the command is being written: replaced before release. */
-#include <stdio.h>
+/* embz report FAMILY...: one document comparing families (HTML, Markdown, LaTeX or PDF). */
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+#ifdef _OPENMP
+#include <omp.h>
+#endif
 #include "cli.h"
+
+static const cli_opt_t report_opts[] = {
+    { "output", 'o', CLI_VALUE, "FILE", "the document (default embz-report.html)" },
+    { "format", 'f', CLI_VALUE, "F", "html, md, tex or pdf (default: from the extension of FILE)" },
+    { "eps", 'e', CLI_VALUE, "E[,E2,...]", "error goals for the size columns (default 0.01,1e-3)" },
+    { "target", 't', CLI_VALUE, "T", "target state: ebit (default), ebits:J, uniform:D, ..." },
+    { "sizes", 'n', CLI_VALUE, "N[,N2,...]", "sizes of the error columns (default 10^6,10^30,10^100)" },
+    { "from", 0, CLI_VALUE, "A", "smallest size of the sweeps (default 100)" },
+    { "to", 0, CLI_VALUE, "B", "largest size of the sweeps (default 10^60)" },
+    { "points", 'k', CLI_VALUE, "K", "sizes per sweep (default 12)" },
+    { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter of the families that have it" },
+    { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 64)" },
+    { "envelope", 0, CLI_VALUE, "EPS", "exponent offset of the weight envelopes (default 0.1)" },
+    { "grid", 'g', CLI_LIST, "NAME=LO:HI:COUNT", "add a verdict map over a parameter grid (at most two)" },
+    { "threads", 'j', CLI_VALUE, "T", "families computed at once (default: the processors)" },
+    { "title", 0, CLI_VALUE, "TEXT", "title of the document" },
+    { "quiet", 'q', CLI_FLAG, NULL, "no progress lines on stderr" },
+    { NULL, 0, 0, NULL, NULL }
+};
+
+static const cli_spec_t report_spec = {
+    "report", "FAMILY... [-o FILE]",
+    "One document comparing families: a summary table (verdict, fitted law and exponent,\n"
+    "limit, certified errors at chosen sizes, size and qubits needed per error goal) and\n"
+    "figures (error against n and against ln n with the fitted laws, weights against the\n"
+    "envelopes x^(-1-eps) and x^(-1+eps), and verdict maps for --grid).",
+    "Formats: html (one self-contained file, figures as inline SVG), md (Markdown), tex (a\n"
+    "LaTeX table with booktabs rules) and pdf. Every error value is certified; laws,\n"
+    "exponents and fitted limits are estimates and say so. The size columns use the\n"
+    "qubit-resolution search (see 'embz size --qubits'). The file is written atomically:\n"
+    "an interrupted run leaves no partial file. --grid NAME=LO:HI:COUNT (once or twice)\n"
+    "classifies every family that has the parameter(s) over the grid, as 'embz scan' does.\n",
+    report_opts, 1, 64
+};
+
+/* Split "a,b,c" into malloc'ed pieces (in *buf); returns the count. */
+static long split_list(char ***items, char **buf, const char *text)
+{
+    *buf = malloc(strlen(text) + 1);
+    strcpy(*buf, text);
+    long n = 1;
+    for (const char *p = text; *p; p++) n += *p == ',';
+    *items = calloc((size_t) n, sizeof(char *));
+    long k = 0;
+    char *save = NULL;
+    for (char *t = strtok_r(*buf, ",", &save); t != NULL; t = strtok_r(NULL, ",", &save))
+        (*items)[k++] = t;
+    return k;
+}
+
+static int default_threads(void)
+{
+#ifdef _OPENMP
+    return omp_get_num_procs();
+#else
+    return 1;
+#endif
+}
+
+static char *value_label(const fmpq_t v)
+{
+    char buf[64];
+    snprintf(buf, sizeof(buf), "%.4g", fmpq_get_d(v));
+    char *s = malloc(strlen(buf) + 1);
+    strcpy(s, buf);
+    return s;
+}
+
+static int family_has(const embz_family_struct *f, const char *name)
+{
+    for (long k = 0; k < f->nparams; k++)
+        if (strcmp(f->param_names[k], name) == 0) return 1;
+    return 0;
+}
+
+/* Verdict maps for --grid: one panel per family that has every grid parameter. */
+static int grid_maps(embz_plot_t fig, slong *npanels, embz_family_struct *fam, long nfam,
+                     const embz_grid_axis_struct *axes, long naxes,
+                     const cli_compare_opts_t *o)
+{
+    embz_classify_opts_t co;
+    embz_classify_opts_init(co);
+    fmpz_set(co->from, o->from);
+    fmpz_set(co->to, o->to);
+    co->points = o->points;
+    co->prec = o->prec;
+    co->use_analytic = 1;
+    int code = CLI_EXIT_OK;
+    *npanels = 0;
+    for (long i = 0; i < nfam; i++) {
+        int ok = 1;
+        for (long k = 0; k < naxes; k++) ok &= family_has(fam + i, axes[k].name);
+        if (!ok) continue;
+        embz_scan_t sc;
+        embz_err_t err;
+        embz_err_clear(&err);
+        embz_scan_init(sc);
+        int st = embz_scan_run(sc, fam + i, axes, naxes, 0, 1, o->threads, co, &err);
+        if (st != EMBZ_OK) {
+            code = cli_report("report", st, &err);
+            embz_scan_clear(sc);
+            break;
+        }
+        const embz_grid_axis_struct *ax = naxes == 2 ? axes + 1 : axes;
+        const embz_grid_axis_struct *ay = naxes == 2 ? axes : NULL;
+        slong nx = ax->count, ny = ay ? ay->count : 1;
+        char **xt = calloc((size_t) nx, sizeof(char *)), **yt = calloc((size_t) ny, sizeof(char *));
+        fmpq_t v;
+        fmpq_init(v);
+        for (slong j = 0; j < nx; j++) {
+            embz_grid_axis_value(v, ax, j);
+            xt[j] = value_label(v);
+        }
+        for (slong j = 0; j < ny; j++) {
+            if (ay) {
+                embz_grid_axis_value(v, ay, j);
+                yt[j] = value_label(v);
+            } else {
+                yt[j] = malloc(1);
+                yt[j][0] = '\0';
+            }
+        }
+        fmpq_clear(v);
+        char title[200];
+        snprintf(title, sizeof(title), "Verdict of %s over the grid (one ebit)", fam[i].name);
+        slong p = embz_plot_add_map(fig, title, ax->name, ay ? ay->name : "",
+                                    nx, (const char *const *) xt, ny, (const char *const *) yt);
+        slong cat_e = embz_plot_add_category(fig, p, "embezzler", 0);
+        slong cat_n = embz_plot_add_category(fig, p, "not embezzler", 1);
+        slong cat_i = embz_plot_add_category(fig, p, "inconclusive", EMBZ_PLOT_LIGHT);
+        slong cat_f = embz_plot_add_category(fig, p, "failed", EMBZ_PLOT_DARK);
+        for (slong r = 0; r < sc->len; r++) {
+            const embz_scan_row_struct *row = sc->rows + r;
+            slong ix = naxes == 2 ? row->index % nx : row->index;
+            slong iy = naxes == 2 ? row->index / nx : 0;
+            int cat = row->status != EMBZ_OK ? (int) cat_f
+                    : row->c->verdict == EMBZ_VERDICT_EMBEZZLER ? (int) cat_e
+                    : row->c->verdict == EMBZ_VERDICT_NOT_EMBEZZLER ? (int) cat_n : (int) cat_i;
+            embz_plot_set_cell(fig, p, ix, iy, cat);
+        }
+        for (slong j = 0; j < nx; j++) free(xt[j]);
+        for (slong j = 0; j < ny; j++) free(yt[j]);
+        free(xt);
+        free(yt);
+        embz_scan_clear(sc);
+        (*npanels)++;
+    }
+    embz_classify_opts_clear(co);
+    return code;
+}
 
 int cli_cmd_report(int argc, char **argv)
 {
-    (void) argc;
-    (void) argv;
-    fprintf(stderr, "embz report: not available in this build\n");
-    return 1;
+    cli_args_t a;
+    int pr = cli_parse(&a, &report_spec, argc, argv);
+    if (pr != CLI_PARSE_OK) {
+        cli_args_clear(&a);
+        return pr == CLI_PARSE_HELP ? CLI_EXIT_OK : CLI_EXIT_USAGE;
+    }
+    int code = CLI_EXIT_OK, status;
+    embz_err_t err;
+    embz_err_clear(&err);
+    cli_compare_opts_t o;
+    cli_compare_opts_init(&o);
+    o.cmd = "report";
+    o.threads = default_threads();
+    long nfam = a.npos, ngrid = 0;
+    const char *const *grids = cli_list(&a, "grid", &ngrid);
+    embz_grid_axis_struct axes[2];
+    long naxes = 0;
+    embz_family_struct *fam = calloc((size_t) nfam, sizeof(embz_family_struct));
+    cli_compare_row_t *rows = calloc((size_t) nfam, sizeof(cli_compare_row_t));
+    int have_rows = 0;
+    char **goals = NULL, **sizes_text = NULL, *goals_buf = NULL, *sizes_buf = NULL;
+    long ngoals = 0, nsizes = 0;
+    fmpz *sizes = NULL;
+    embz_report_t rep;
+    embz_plot_struct figs[3];
+    int nfigs = 0;
+    const char *t;
+    for (long i = 0; i < nfam; i++) embz_family_init(fam + i);
+    embz_report_init(rep, cli_value(&a, "title") ? cli_value(&a, "title")
+                                                  : "Embezzling families compared");
+
+    /* output and format */
+    const char *fmt_opt = cli_value(&a, "format");
+    const char *out = cli_value(&a, "output");
+    int format = -1;
+    if (fmt_opt != NULL && (format = embz_report_format_from_name(fmt_opt)) < 0) {
+        code = cli_usage_error(&report_spec, "unknown format '%s' (html, md, tex or pdf)", fmt_opt);
+        goto done;
+    }
+    if (fmt_opt == NULL) {
+        format = out ? cli_compare_format(NULL, out) : EMBZ_REPORT_HTML;
+        if (format < 0) {
+            code = cli_usage_error(&report_spec, "cannot tell the format from '%s': give "
+                                   "--format html|md|tex|pdf or end the name in one of those",
+                                   out);
+            goto done;
+        }
+    }
+    static const char *const default_out[4] = { "embz-report.html", "embz-report.md",
+                                                "embz-report.tex", "embz-report.pdf" };
+    if (out == NULL) out = default_out[format];
+
+    /* numbers */
+    if ((code = cli_load_prec(&o.prec, &a, &report_spec)) != 0) goto done;
+    if ((t = cli_value(&a, "points")) != NULL && cli_parse_long(&o.points, t, 5, 1000)) {
+        code = cli_usage_error(&report_spec, "bad number of points '%s' (5 to 1000)", t);
+        goto done;
+    }
+    if ((t = cli_value(&a, "threads")) != NULL) {
+        long th;
+        if (cli_parse_long(&th, t, 1, 256)) {
+            code = cli_usage_error(&report_spec, "bad number of threads '%s' (1 to 256)", t);
+            goto done;
+        }
+        o.threads = (int) th;
+    }
+    if ((t = cli_value(&a, "envelope")) != NULL) {
+        char *end;
+        o.envelope = strtod(t, &end);
+        if (*end || !(o.envelope > 0 && o.envelope < 1)) {
+            code = cli_usage_error(&report_spec, "bad --envelope '%s' (between 0 and 1)", t);
+            goto done;
+        }
+    }
+    {
+        const char *names[2] = { "from", "to" };
+        fmpz *vals[2] = { o.from, o.to };
+        for (int k = 0; k < 2; k++) {
+            if ((t = cli_value(&a, names[k])) == NULL) continue;
+            embz_err_clear(&err);
+            if (embz_size_parse(vals[k], t, &err) != EMBZ_OK || fmpz_cmp_ui(vals[k], 1) < 0) {
+                code = cli_usage_error(&report_spec, "bad size for --%s: '%s'", names[k], t);
+                goto done;
+            }
+        }
+        if (fmpz_cmp(o.from, o.to) >= 0) {
+            code = cli_usage_error(&report_spec, "need --from < --to");
+            goto done;
+        }
+    }
+    ngoals = split_list(&goals, &goals_buf, cli_value(&a, "eps") ? cli_value(&a, "eps")
+                                                                  : "0.01,1e-3");
+    for (long j = 0; j < ngoals; j++) {
+        fmpq_t e;
+        fmpq_init(e);
+        int ok = embz_number_parse(e, goals[j]) == EMBZ_OK && fmpq_sgn(e) > 0
+                 && fmpq_cmp_ui(e, 1) < 0;
+        fmpq_clear(e);
+        if (!ok) {
+            code = cli_usage_error(&report_spec, "bad error goal '%s' (a number between 0 and 1)",
+                                   goals[j]);
+            goto done;
+        }
+    }
+    nsizes = split_list(&sizes_text, &sizes_buf, cli_value(&a, "sizes")
+                        ? cli_value(&a, "sizes") : "10^6,10^30,10^100");
+    sizes = _fmpz_vec_init(nsizes > 0 ? nsizes : 1);
+    for (long j = 0; j < nsizes; j++) {
+        embz_err_clear(&err);
+        if (embz_size_parse(sizes + j, sizes_text[j], &err) != EMBZ_OK
+            || fmpz_cmp_ui(sizes + j, 1) < 0) {
+            code = cli_usage_error(&report_spec, "bad size '%s' in --sizes", sizes_text[j]);
+            goto done;
+        }
+    }
+    o.ngoals = ngoals;
+    o.goal_text = (const char *const *) goals;
+    o.nsizes = nsizes;
+    o.sizes = sizes;
+    o.size_text = (const char *const *) sizes_text;
+    if ((t = cli_value(&a, "target")) != NULL) {
+        embz_target_t q;
+        embz_target_init(q);
+        code = cli_load_target(q, &a, "report");
+        embz_target_clear(q);
+        if (code != 0) goto done;
+        o.target_text = t;
+    }
+    if (ngrid > 2) {
+        code = cli_usage_error(&report_spec, "at most two --grid axes");
+        goto done;
+    }
+    for (long k = 0; k < ngrid; k++) {
+        embz_err_clear(&err);
+        if ((status = embz_grid_axis_parse(axes + k, grids[k], &err)) != EMBZ_OK) {
+            code = cli_report("report", status, &err);
+            goto done;
+        }
+        naxes++;
+    }
+
+    if ((code = cli_compare_load(fam, nfam, a.pos, &a, &report_spec)) != 0) goto done;
+    if (naxes > 0) {
+        int any = 0;
+        for (long i = 0; i < nfam; i++) {
+            int ok = 1;
+            for (long k = 0; k < naxes; k++) ok &= family_has(fam + i, axes[k].name);
+            any |= ok;
+        }
+        if (!any) {
+            code = cli_usage_error(&report_spec, "no family has the grid parameter%s",
+                                   naxes > 1 ? "s" : "");
+            goto done;
+        }
+    }
+
+    o.progress = !cli_flag(&a, "quiet") && isatty(fileno(stderr));
+    have_rows = 1;
+    code = cli_compare_run(rows, fam, nfam, &o);
+    if (code == CLI_EXIT_USAGE) goto done;
+    cli_compare_fill(rep, figs, rows, nfam, &o);
+    nfigs = 2;
+    if (naxes > 0) {
+        slong np = 0;
+        embz_plot_init(figs + 2, NULL);
+        nfigs = 3;
+        int c2 = grid_maps(figs + 2, &np, fam, nfam, axes, naxes, &o);
+        if (c2 != 0) {
+            code = c2;
+            goto done;
+        }
+        embz_report_add_figure(rep, "Verdict (one ebit) at every point of the parameter grid, "
+                               "from the same classification as the table.", figs + 2);
+    }
+    embz_err_clear(&err);
+    status = embz_report_write(rep, out, format, &err);
+    if (status != EMBZ_OK) {
+        code = cli_report("report", status, &err);
+        goto done;
+    }
+    printf("%s\n", out);
+
+done:
+    embz_report_clear(rep);
+    for (int k = 0; k < nfigs; k++) embz_plot_clear(figs + k);
+    if (have_rows) cli_compare_rows_clear(rows, nfam, &o);
+    free(rows);
+    for (long i = 0; i < nfam; i++) embz_family_clear(fam + i);
+    free(fam);
+    for (long k = 0; k < naxes; k++) embz_grid_axis_clear(axes + k);
+    if (sizes) _fmpz_vec_clear(sizes, nsizes > 0 ? nsizes : 1);
+    free(goals); free(goals_buf); free(sizes_text); free(sizes_buf);
+    cli_compare_opts_clear(&o);
+    cli_args_clear(&a);
+    embz_render_release_caches();
+    return code;
 }

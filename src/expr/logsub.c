@@ -10,10 +10,13 @@
 #pragma GCC diagnostic ignored "-Wstringop-overflow"
 #endif
 
-/* A transformed subtree: value = core * exp(alpha * u); core == -1 means the constant 1. */
+/* A transformed subtree: value = core * exp((alpha + anode) * u); core == -1 means the
+ * constant 1; anode is a node for a part of the rate that is not a rational number (an
+ * exponent such as -1 + 1/log(n+1)), or -1. */
 typedef struct {
     int core;
     fmpq_t alpha;
+    int anode;
 } part_t;
 
 static int push(embz_expr_t e, int op, int a, int b)
@@ -52,10 +55,46 @@ static int exp_node(embz_expr_t e, const fmpq_t alpha)
     return push(e, EMBZ_OP_EXP, m, -1);
 }
 
+/* the rate alpha + anode as one node */
+static int rate_node(embz_expr_t e, const part_t *p)
+{
+    if (p->anode < 0) return push_num(e, p->alpha);
+    if (fmpq_is_zero(p->alpha)) return p->anode;
+    return push(e, EMBZ_OP_ADD, push_num(e, p->alpha), p->anode);
+}
+
+static int rate_is_zero(const part_t *p)
+{
+    return fmpq_is_zero(p->alpha) && p->anode < 0;
+}
+
+/* combine the non-rational parts of two rates (op: ADD or SUB), -1 when both are absent */
+static int anode_combine(embz_expr_t e, int a, int b, int op)
+{
+    if (a < 0 && b < 0) return -1;
+    if (b < 0) return a;
+    if (a < 0) return op == EMBZ_OP_ADD ? b : push(e, EMBZ_OP_NEG, b, -1);
+    return push(e, op, a, b);
+}
+
+/* 1 if the subtree at k uses the variable i */
+static int uses_var(const embz_expr_struct *src, int k)
+{
+    if (k < 0) return 0;
+    const embz_node_t *nd = src->nodes + k;
+    if (nd->op == EMBZ_OP_I) return 1;
+    return uses_var(src, nd->a) || uses_var(src, nd->b);
+}
+
 static int materialize(embz_expr_t e, const part_t *p)
 {
-    if (fmpq_is_zero(p->alpha)) return core_node(e, p->core);
-    int x = exp_node(e, p->alpha);
+    if (rate_is_zero(p)) return core_node(e, p->core);
+    int x;
+    if (p->anode < 0) x = exp_node(e, p->alpha);
+    else {
+        int u = push(e, EMBZ_OP_I, -1, -1);
+        x = push(e, EMBZ_OP_EXP, push(e, EMBZ_OP_MUL, rate_node(e, p), u), -1);
+    }
     if (p->core < 0) return x;
     return push(e, EMBZ_OP_MUL, p->core, x);
 }
@@ -116,7 +155,9 @@ static void transform(part_t *res, embz_expr_t out, const embz_expr_struct *src,
     part_t a, b;
     fmpq_init(a.alpha);
     fmpq_init(b.alpha);
+    a.anode = b.anode = -1;
     fmpq_zero(res->alpha);
+    res->anode = -1;
     res->core = -1;
     switch (nd->op) {
     case EMBZ_OP_I:
@@ -136,16 +177,26 @@ static void transform(part_t *res, embz_expr_t out, const embz_expr_struct *src,
         res->core = mul_core(out, a.core, b.core, nd->op);
         if (nd->op == EMBZ_OP_MUL) fmpq_add(res->alpha, a.alpha, b.alpha);
         else fmpq_sub(res->alpha, a.alpha, b.alpha);
+        res->anode = anode_combine(out, a.anode, b.anode,
+                                   nd->op == EMBZ_OP_MUL ? EMBZ_OP_ADD : EMBZ_OP_SUB);
         break;
     case EMBZ_OP_NEG:
         transform(&a, out, src, nd->a);
         res->core = push(out, EMBZ_OP_NEG, core_node(out, a.core), -1);
         fmpq_set(res->alpha, a.alpha);
+        res->anode = a.anode;
         break;
     case EMBZ_OP_SQRT:
         transform(&a, out, src, nd->a);
         res->core = a.core < 0 ? -1 : push(out, EMBZ_OP_SQRT, a.core, -1);
         fmpq_div_2exp(res->alpha, a.alpha, 1);
+        if (a.anode >= 0) {
+            fmpq_t h;
+            fmpq_init(h);
+            fmpq_set_si(h, 1, 2);
+            res->anode = push(out, EMBZ_OP_MUL, push_num(out, h), a.anode);
+            fmpq_clear(h);
+        }
         break;
     case EMBZ_OP_POW: {
         fmpq_t v;
@@ -155,6 +206,14 @@ static void transform(part_t *res, embz_expr_t out, const embz_expr_struct *src,
             /* (core e^(alpha u))^v = core^v e^(alpha v u) for a positive base */
             if (a.core >= 0) res->core = push(out, EMBZ_OP_POW, a.core, push_num(out, v));
             fmpq_mul(res->alpha, a.alpha, v);
+            if (a.anode >= 0) res->anode = push(out, EMBZ_OP_MUL, push_num(out, v), a.anode);
+        } else if (!uses_var(src, nd->b)) {
+            /* an exponent free of i: (core e^(r u))^b = core^b e^(r b u) */
+            transform(&b, out, src, nd->b);
+            int bn = core_node(out, b.core);
+            if (a.core >= 0) res->core = push(out, EMBZ_OP_POW, a.core, bn);
+            if (!rate_is_zero(&a))
+                res->anode = push(out, EMBZ_OP_MUL, rate_node(out, &a), bn);
         } else {
             transform(&b, out, src, nd->b);
             res->core = push(out, EMBZ_OP_POW, materialize(out, &a), materialize(out, &b));
@@ -164,10 +223,10 @@ static void transform(part_t *res, embz_expr_t out, const embz_expr_struct *src,
     }
     case EMBZ_OP_LOG: case EMBZ_OP_LOG2: case EMBZ_OP_LOG10:
         transform(&a, out, src, nd->a);
-        if (!fmpq_is_zero(a.alpha)) {
+        if (!rate_is_zero(&a)) {
             /* log(core e^(alpha u)) = log(core) + alpha u */
             int u = push(out, EMBZ_OP_I, -1, -1);
-            int lin = push(out, EMBZ_OP_MUL, push_num(out, a.alpha), u);
+            int lin = push(out, EMBZ_OP_MUL, rate_node(out, &a), u);
             int sum = a.core < 0 ? lin
                                  : push(out, EMBZ_OP_ADD, push(out, EMBZ_OP_LOG, a.core, -1), lin);
             if (nd->op != EMBZ_OP_LOG) {
@@ -186,7 +245,10 @@ static void transform(part_t *res, embz_expr_t out, const embz_expr_struct *src,
     case EMBZ_OP_ADD: case EMBZ_OP_SUB:
         transform(&a, out, src, nd->a);
         transform(&b, out, src, nd->b);
-        if (fmpq_equal(a.alpha, b.alpha)) {
+        if (a.anode >= 0 || b.anode >= 0) {
+            /* rates that cannot be compared exactly: no factoring */
+            res->core = push(out, nd->op, materialize(out, &a), materialize(out, &b));
+        } else if (fmpq_equal(a.alpha, b.alpha)) {
             res->core = push(out, nd->op, core_node(out, a.core), core_node(out, b.core));
             fmpq_set(res->alpha, a.alpha);
         } else {
@@ -228,6 +290,7 @@ int embz_expr_log_substitute(embz_expr_t out, const embz_expr_t w)
     if (w->root < 0) return EMBZ_ERR_INPUT;
     part_t r;
     fmpq_init(r.alpha);
+    r.anode = -1;
     transform(&r, out, w, w->root);
     fmpq_add_ui(r.alpha, r.alpha, 1);      /* the Jacobian dx/du = e^u */
     out->root = materialize(out, &r);

@@ -1,0 +1,902 @@
+/* Comparing families: the computation behind `embz report` and `embz demo`. For each family:
+ * the one-ebit classification (verdict, law, limit), a sweep for the chosen target with fitted
+ * laws (for the plots), certified errors at chosen sizes, and the size needed for each error
+ * goal from the qubit-resolution solver. Then the report struct, the figures and a plain-text
+ * table are filled from those results. Numbers become text here, each either certified or
+ * labelled as an estimate. */
+#include <math.h>
+#include <stdarg.h>
+#include <stdlib.h>
+#include <string.h>
+#include <strings.h>
+#include <time.h>
+#ifdef _OPENMP
+#include <omp.h>
+#endif
+#include "cli.h"
+
+#define EXPLICIT_UP_TO 100000
+
+static char *sdup(const char *s)
+{
+    if (s == NULL) return NULL;
+    size_t l = strlen(s) + 1;
+    char *d = malloc(l);
+    memcpy(d, s, l);
+    return d;
+}
+
+static char *sfmt(const char *fmt, ...)
+#if defined(__GNUC__)
+    __attribute__((format(printf, 1, 2)))
+#endif
+    ;
+
+static char *sfmt(const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    int n = vsnprintf(NULL, 0, fmt, ap);
+    va_end(ap);
+    char *s = malloc((size_t) n + 1);
+    va_start(ap, fmt);
+    vsnprintf(s, (size_t) n + 1, fmt, ap);
+    va_end(ap);
+    return s;
+}
+
+static double now_s(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
+}
+
+void cli_compare_opts_init(cli_compare_opts_t *o)
+{
+    memset(o, 0, sizeof(*o));
+    fmpz_init_set_ui(o->from, 100);
+    fmpz_init(o->to);
+    fmpz_ui_pow_ui(o->to, 10, 60);
+    o->points = 12;
+    o->prec = 64;
+    o->envelope = 0.1;
+    o->threads = 1;
+    o->cmd = "report";
+}
+
+void cli_compare_opts_clear(cli_compare_opts_t *o)
+{
+    fmpz_clear(o->from);
+    fmpz_clear(o->to);
+}
+
+/* ------------------------------------------------------------------ loading */
+
+static int has_param(const embz_family_struct *f, const char *name)
+{
+    for (long k = 0; k < f->nparams; k++)
+        if (strcmp(f->param_names[k], name) == 0) return 1;
+    return 0;
+}
+
+int cli_compare_load(embz_family_struct *fam, long nfam, const char *const *specs,
+                     const cli_args_t *a, const cli_spec_t *spec)
+{
+    long nset = 0;
+    const char *const *sets = NULL;
+    for (const cli_opt_t *op = spec->opts; op->name != NULL; op++)
+        if (strcmp(op->name, "set") == 0) sets = cli_list(a, "set", &nset);
+    embz_setting_t *settings = calloc((size_t) nset + 1, sizeof(embz_setting_t));
+    embz_setting_t *mine = calloc((size_t) nset + 1, sizeof(embz_setting_t));
+    char **copies = calloc((size_t) nset + 1, sizeof(char *));
+    int *used = calloc((size_t) nset + 1, sizeof(int));
+    int code = CLI_EXIT_OK, status;
+    embz_err_t err;
+    embz_err_clear(&err);
+    for (long k = 0; k < nset; k++) {
+        copies[k] = sdup(sets[k]);
+        if ((status = embz_setting_split(&settings[k], copies[k], &err)) != EMBZ_OK) {
+            code = cli_report(spec->name, status, &err);
+            goto done;
+        }
+    }
+    for (long i = 0; i < nfam; i++) {
+        embz_err_clear(&err);
+        status = embz_family_resolve(fam + i, specs[i], NULL, 0, 0, &err);
+        if (status != EMBZ_OK) {
+            /* an inline expression declares its parameters through the settings */
+            embz_family_clear(fam + i);
+            embz_family_init(fam + i);
+            embz_err_clear(&err);
+            status = embz_family_resolve(fam + i, specs[i], settings, nset, 0, &err);
+            if (status != EMBZ_OK) {
+                code = cli_report(spec->name, status, &err);
+                goto done;
+            }
+            for (long k = 0; k < nset; k++) used[k] = 1;
+            continue;
+        }
+        long nmine = 0;
+        for (long k = 0; k < nset; k++)
+            if (has_param(fam + i, settings[k].name)) {
+                mine[nmine++] = settings[k];
+                used[k] = 1;
+            }
+        status = nmine ? embz_family_apply_settings(fam + i, mine, nmine, &err) : EMBZ_OK;
+        if (status != EMBZ_OK) {
+            code = cli_report(spec->name, status, &err);
+            goto done;
+        }
+    }
+    for (long k = 0; k < nset; k++)
+        if (!used[k]) {
+            code = cli_usage_error(spec, "no family has a parameter '%s'", settings[k].name);
+            goto done;
+        }
+done:
+    for (long k = 0; k < nset; k++) free(copies[k]);
+    free(copies);
+    free(settings);
+    free(mine);
+    free(used);
+    return code;
+}
+
+int cli_compare_format(const char *format_opt, const char *path)
+{
+    if (format_opt != NULL) return embz_report_format_from_name(format_opt);
+    if (path == NULL) return -1;
+    const char *dot = strrchr(path, '.');
+    const char *slash = strrchr(path, '/');
+    if (dot == NULL || (slash != NULL && dot < slash)) return -1;
+    return embz_report_format_from_name(dot + 1);
+}
+
+/* ------------------------------------------------------------------ computing */
+
+static char *family_label(const embz_family_struct *f)
+{
+    embz_buf_t b;
+    embz_buf_init(&b);
+    embz_buf_printf(&b, "%s", f->name);
+    for (long k = 0; k < f->nparams; k++) {
+        char *v = fmpq_get_str(NULL, 10, f->param_values + k);
+        embz_buf_printf(&b, "%s%s=%s", k ? ", " : " (", f->param_names[k], v);
+        flint_free(v);
+    }
+    if (f->nparams > 0) embz_buf_printf(&b, ")");
+    return b.s;
+}
+
+static void row_init(cli_compare_row_t *r, embz_family_struct *f, const cli_compare_opts_t *o)
+{
+    memset(r, 0, sizeof(*r));
+    r->fam = f;
+    r->label = family_label(f);
+    embz_classify_init(r->c);
+    arb_init(r->limit);
+    r->summable = -1;
+    embz_sweep_init(r->tsweep);
+    embz_fitset_init(r->tfits);
+    r->err_at = _arb_vec_init(o->nsizes > 0 ? o->nsizes : 1);
+    r->err_status = calloc((size_t) o->nsizes + 1, sizeof(int));
+    r->need = calloc((size_t) o->ngoals + 1, sizeof(embz_size_result_struct));
+    r->need_status = calloc((size_t) o->ngoals + 1, sizeof(int));
+    r->never = calloc((size_t) o->ngoals + 1, sizeof(int));
+    for (slong j = 0; j < o->ngoals; j++) {
+        embz_size_result_init(r->need + j);
+        r->need_status[j] = -1;
+    }
+    for (slong j = 0; j < o->nsizes; j++) r->err_status[j] = -1;
+    r->error_text = calloc((size_t) o->nsizes + 1, sizeof(char *));
+    r->need_n_text = calloc((size_t) o->ngoals + 1, sizeof(char *));
+    r->need_q_text = calloc((size_t) o->ngoals + 1, sizeof(char *));
+}
+
+static void free_strings(char **s, slong n)
+{
+    if (s == NULL) return;
+    for (slong k = 0; k < n; k++) free(s[k]);
+    free(s);
+}
+
+void cli_compare_rows_clear(cli_compare_row_t *rows, long nfam, const cli_compare_opts_t *o)
+{
+    for (long i = 0; i < nfam; i++) {
+        cli_compare_row_t *r = rows + i;
+        free(r->label);
+        embz_classify_clear(r->c);
+        arb_clear(r->limit);
+        embz_sweep_clear(r->tsweep);
+        embz_fitset_clear(r->tfits);
+        _arb_vec_clear(r->err_at, o->nsizes > 0 ? o->nsizes : 1);
+        free(r->err_status);
+        for (slong j = 0; j < o->ngoals; j++) embz_size_result_clear(r->need + j);
+        free(r->need);
+        free(r->need_status);
+        free(r->never);
+        free(r->verdict); free(r->law); free(r->exponent); free(r->limit_text);
+        free_strings(r->error_text, o->nsizes);
+        free_strings(r->need_n_text, o->ngoals);
+        free_strings(r->need_q_text, o->ngoals);
+        free(r->why);
+        free(r->notes);
+    }
+}
+
+static int is_one_ebit(const embz_target_t q)
+{
+    return q->kind == EMBZ_TARGET_UNIFORM && q->d == 2;
+}
+
+/* The goal text as a ball (exact decimals are exact rationals). */
+static int goal_arb(arb_t g, const char *text, slong prec)
+{
+    fmpq_t e;
+    fmpq_init(e);
+    int ok = embz_number_parse(e, text) == EMBZ_OK && fmpq_sgn(e) > 0 && fmpq_cmp_ui(e, 1) < 0;
+    if (ok) arb_set_fmpq(g, e, 4 * prec);
+    fmpq_clear(e);
+    return ok;
+}
+
+/* One family, start to end; only this row's objects are touched (safe in parallel). */
+static void compute_row(cli_compare_row_t *r, const cli_compare_opts_t *o)
+{
+    double t0 = now_s();
+    embz_err_t err;
+    embz_target_t q;
+    embz_classify_opts_t co;
+    embz_target_init(q);
+    embz_classify_opts_init(co);
+    embz_err_clear(&err);
+    int status = EMBZ_OK;
+
+    if (o->target_text != NULL
+        && (status = embz_target_parse(q, o->target_text, 0, &err)) != EMBZ_OK)
+        goto fail;
+
+    /* 1. one-ebit classification */
+    fmpz_set(co->from, o->from);
+    fmpz_set(co->to, o->to);
+    co->points = o->points;
+    co->prec = o->prec;
+    co->use_analytic = 1;
+    if ((status = embz_classify(r->c, r->fam, co, NULL, NULL, &err)) != EMBZ_OK) goto fail;
+
+    /* the asymptotic route's facts used for "never" and for the one-line reasons */
+    if (!(embz_expr_uses(r->fam->weight) & EMBZ_USES_N)) {
+        embz_asym_result_t ar;
+        embz_err_t e2;
+        embz_err_clear(&e2);
+        embz_asym_result_init(ar);
+        if (embz_asym_analyse(ar, r->fam->weight, 128, &e2) == EMBZ_OK) {
+            r->summable = ar->sum_diverges == 1 ? 0 : ar->sum_diverges == 0 ? 1 : -1;
+            if (ar->limit_known) {
+                r->limit_known = 1;
+                arb_set(r->limit, ar->limit);
+            }
+        }
+        embz_asym_result_clear(ar);
+    }
+
+    /* 2. the sweep for the target (the classification sweep when the target is one ebit) */
+    if (!is_one_ebit(q)) {
+        r->own_sweep = 1;
+        embz_err_clear(&err);
+        status = embz_sweep_run(r->tsweep, r->fam, o->from, o->to, o->points, q, o->prec,
+                                NULL, NULL, &err);
+        if (status != EMBZ_OK) goto fail;
+        embz_err_clear(&err);
+        r->tfit_ok = embz_fit_sweep(r->tfits, r->tsweep, &err) == EMBZ_OK;
+        embz_err_clear(&err);
+    }
+
+    /* 3. certified errors at the chosen sizes, one analytic engine for all of them */
+    {
+        embz_analytic_t eng;
+        embz_analytic_init(eng, r->fam, o->prec);
+        for (slong j = 0; j < o->nsizes; j++) {
+            embz_error_result_t res;
+            embz_error_result_init(res);
+            embz_err_clear(&err);
+            status = -1;
+            if (q->kind == EMBZ_TARGET_UNIFORM && fmpz_cmp_ui(o->sizes + j, EXPLICIT_UP_TO) > 0)
+                status = embz_analytic_error(res, eng, o->sizes + j, q, &err);
+            if (status != EMBZ_OK) {
+                embz_err_clear(&err);
+                status = embz_error(res, r->fam, o->sizes + j, q, EMBZ_METHOD_AUTO, o->prec,
+                                    &err);
+            }
+            r->err_status[j] = status;
+            if (status == EMBZ_OK) arb_set(r->err_at + j, res->error);
+            embz_error_result_clear(res);
+            if (status == EMBZ_ERR_DOMAIN) {
+                embz_analytic_clear(eng);
+                goto fail;
+            }
+        }
+        embz_analytic_clear(eng);
+        status = EMBZ_OK;
+    }
+
+    /* 4. sizes for the goals, resolved to the number of qubits */
+    for (slong j = 0; j < o->ngoals; j++) {
+        arb_t g;
+        arb_init(g);
+        goal_arb(g, o->goal_text[j], o->prec);
+        embz_err_clear(&err);
+        r->need_status[j] = embz_size_solve_qubits(r->need + j, r->fam, g, q, o->prec, &err);
+        /* the one-ebit limit bounds the error of any larger target from below (see docs) */
+        if (r->need_status[j] == EMBZ_OK && r->need[j].status == EMBZ_SIZE_NOT_REACHED
+            && r->limit_known && arb_gt(r->limit, g) && q->kind == EMBZ_TARGET_UNIFORM
+            && q->d % 2 == 0)
+            r->never[j] = 1;
+        arb_clear(g);
+        if (r->need_status[j] == EMBZ_ERR_DOMAIN) {
+            status = EMBZ_ERR_DOMAIN;
+            goto fail;
+        }
+    }
+    r->status = EMBZ_OK;
+    goto done;
+fail:
+    r->status = status == EMBZ_OK ? EMBZ_ERR_UNSUPPORTED : status;
+    embz_err_format(r->message, sizeof(r->message), &err);
+done:
+    r->seconds = now_s() - t0;
+    embz_classify_opts_clear(co);
+    embz_target_clear(q);
+}
+
+/* ------------------------------------------------------------------ texts */
+
+/* n as text: all digits up to 12 of them, else d.dddde+N rounded up (up = 1) or down. */
+static char *size_text(const fmpz_t n, int up)
+{
+    if (fmpz_sizeinbase(n, 10) <= 12) return fmpz_get_str(NULL, 10, n);
+    slong e = (slong) fmpz_sizeinbase(n, 10) - 1;   /* exact or one too large */
+    fmpz_t p, m;
+    fmpz_init(p);
+    fmpz_init(m);
+    for (;;) {
+        fmpz_ui_pow_ui(p, 10, (ulong) (e - 4));
+        if (up) fmpz_cdiv_q(m, n, p);
+        else fmpz_fdiv_q(m, n, p);
+        if (fmpz_cmp_ui(m, 10000) >= 0) break;
+        e--;
+    }
+    if (fmpz_cmp_ui(m, 100000) >= 0) {   /* 9.9999x rounded up to 10.0000 */
+        fmpz_cdiv_q_ui(m, m, 10);
+        e++;
+    }
+    ulong d = fmpz_get_ui(m);
+    char *s = sfmt("%lu.%04lue+%ld", d / 10000, d % 10000, (long) e);
+    fmpz_clear(p);
+    fmpz_clear(m);
+    return s;
+}
+
+/* 10^k <= 2^EMBZ_SIZE_MAX_LOG2, the end of the size search */
+static long search_decades(void)
+{
+    return (long) floor((double) EMBZ_SIZE_MAX_LOG2 * 0.30102999566398119521);
+}
+
+static const char *verdict_words(int v)
+{
+    return v == EMBZ_VERDICT_EMBEZZLER ? "embezzler"
+         : v == EMBZ_VERDICT_NOT_EMBEZZLER ? "not embezzler" : "inconclusive";
+}
+
+/* The fitted law's value at ln n = x (NaN where undefined). */
+static double law_value(int law, const embz_fit_struct *f, double x)
+{
+    switch (law) {
+    case EMBZ_LAW_POWER_LIMIT: return f->L + f->C * exp(-f->g * x);
+    case EMBZ_LAW_LOG: return f->C * pow(x, -f->g);
+    case EMBZ_LAW_LOGLOG: return x > 1 ? f->C * pow(log(x), -f->g) : NAN;
+    case EMBZ_LAW_LOG_LIMIT: return f->L + f->C * pow(x, -f->g);
+    default: return NAN;
+    }
+}
+
+/* The fit drawn over the target's points: the target sweep's best fit, or the
+ * classification's when the target is one ebit. */
+static const embz_fitset_struct *target_fits(const cli_compare_row_t *r)
+{
+    if (r->own_sweep) return r->tfit_ok ? r->tfits : NULL;
+    return r->c->law ? r->c->fits : NULL;
+}
+
+static const embz_sweep_struct *target_sweep(const cli_compare_row_t *r)
+{
+    return r->own_sweep ? r->tsweep : r->c->sweep;
+}
+
+static const char *rate_words(const cli_compare_row_t *r)
+{
+    if (r->c->analytic_rate[0]) return r->c->analytic_rate;
+    return r->c->law ? embz_law_formula(r->c->law) : "an unknown law";
+}
+
+static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
+{
+    const embz_classify_struct *c = r->c;
+    if (r->status != EMBZ_OK) {
+        r->verdict = sdup("failed");
+        r->why = sfmt("failed: %s", r->message);
+        r->notes = sfmt("The computation failed: %s", r->message);
+        return;
+    }
+    r->verdict = sdup(verdict_words(c->verdict));
+    if (c->disagree) {
+        free(r->verdict);
+        r->verdict = sdup("inconclusive (routes disagree)");
+    }
+    if (c->law && isfinite(c->exponent)) {
+        r->law = sfmt("%s", embz_law_formula(c->law));
+        r->exponent = sfmt("g \xe2\x89\x88 %.3g [%.3g, %.3g] (estimate)", c->exponent,
+                           c->exponent_lo, c->exponent_hi);
+    } else if (c->law) {
+        r->law = sdup("constant (settled)");
+    }
+    if (r->limit_known) {
+        char *l = embz_arb_certified_string(r->limit, 8);
+        r->limit_text = sfmt("%s (derived formula)", l);
+        free(l);
+    } else if (c->verdict == EMBZ_VERDICT_EMBEZZLER && c->analytic_available
+               && c->analytic_verdict == EMBZ_VERDICT_EMBEZZLER) {
+        r->limit_text = sdup("0 (criterion)");
+    } else if (isfinite(c->limit_value)) {
+        r->limit_text = sfmt("\xe2\x89\x88 %.4g (estimate)", c->limit_value);
+    }
+    for (slong j = 0; j < o->nsizes; j++)
+        r->error_text[j] = r->err_status[j] == EMBZ_OK
+                         ? embz_arb_certified_string(r->err_at + j, 10) : NULL;
+    for (slong j = 0; j < o->ngoals; j++) {
+        const embz_size_result_struct *s = r->need + j;
+        if (r->need_status[j] != EMBZ_OK) continue;
+        if (s->status == EMBZ_SIZE_FOUND) {
+            fmpz_t m;
+            fmpz_init(m);
+            fmpz_sub_ui(m, s->n, 1);
+            long qb = fmpz_sgn(m) > 0 ? (long) fmpz_bits(m) : 0;
+            fmpz_clear(m);
+            char *nt = size_text(s->n, 1);
+            if (s->exhaustive) r->need_n_text[j] = nt;
+            else {
+                r->need_n_text[j] = sfmt("\xe2\x89\xa4 %s", nt);
+                free(nt);
+            }
+            r->need_q_text[j] = sfmt("%ld", qb);
+        } else if (s->status == EMBZ_SIZE_NOT_REACHED) {
+            if (r->never[j]) {
+                r->need_n_text[j] = sdup("never");
+                r->need_q_text[j] = sdup("never");
+            } else {
+                r->need_n_text[j] = sfmt("not by 10^%ld", search_decades());
+            }
+        } else {
+            r->need_n_text[j] = sdup("undecided");
+        }
+    }
+
+    /* the one-line why, about the first goal */
+    embz_buf_t w;
+    embz_buf_init(&w);
+    const embz_size_result_struct *s0 = o->ngoals > 0 && r->need_status[0] == EMBZ_OK
+                                      ? r->need : NULL;
+    if (c->verdict == EMBZ_VERDICT_NOT_EMBEZZLER) {
+        if (r->limit_known) {
+            char *l = embz_arb_certified_string(r->limit, 6);
+            embz_buf_printf(&w, "positive limit: the one-ebit error tends to %s (derived)", l);
+            free(l);
+        } else if (r->summable == 1) {
+            embz_buf_printf(&w, "summable weights: the error tends to a positive limit"
+                                " (about %.3g, estimate)", c->limit_value);
+        } else {
+            embz_buf_printf(&w, "the error settles at a positive limit (about %.3g, estimate)",
+                            c->limit_value);
+        }
+    } else if (c->verdict == EMBZ_VERDICT_EMBEZZLER) {
+        if (s0 != NULL && s0->status == EMBZ_SIZE_FOUND) {
+            embz_buf_printf(&w, "error decays like %s: slow, but it gets there", rate_words(r));
+        } else if (s0 != NULL && s0->status == EMBZ_SIZE_NOT_REACHED) {
+            char *e = embz_arb_certified_string(s0->err_largest, 3);
+            embz_buf_printf(&w, "too slow (%s): E = %s at n = 2^%ld", rate_words(r), e,
+                            (long) fmpz_bits(s0->largest) - 1);
+            free(e);
+        } else {
+            embz_buf_printf(&w, "error decays like %s", rate_words(r));
+        }
+    } else {
+        embz_buf_printf(&w, "%s", c->nreasons > 0 ? c->reasons[c->nreasons - 1]
+                                                  : "no clear trend over the sweep");
+    }
+    r->why = w.s;
+
+    /* notes: the why, the sizes' evidence, the classification's reasons */
+    embz_buf_t nb;
+    embz_buf_init(&nb);
+    embz_buf_printf(&nb, "Weight %s%s. In short: %s.", r->fam->weight_text,
+                    r->fam->amplitude ? " (amplitude; the weight is its square)" : "", r->why);
+    for (slong j = 0; j < o->ngoals; j++) {
+        const embz_size_result_struct *s = r->need + j;
+        if (r->need_status[j] != EMBZ_OK) continue;
+        if (s->status == EMBZ_SIZE_FOUND) {
+            char *e = embz_arb_certified_string(s->err_n, 6);
+            char *el = embz_arb_certified_string(s->err_prev, 6);
+            char *nt = size_text(s->n, 1), *lt = size_text(s->n_low, 0);
+            if (s->exhaustive)
+                embz_buf_printf(&nb, "\n\nGoal %s: n = %s is the smallest size (every smaller "
+                                "size checked); E there is %s (certified).", o->goal_text[j],
+                                nt, e);
+            else
+                embz_buf_printf(&nb, "\n\nGoal %s: E = %s at a size n \xe2\x89\xa4 %s and E = "
+                                "%s at a size \xe2\x89\xa5 %s that does not reach the goal "
+                                "(certified); both need the same number of qubits.",
+                                o->goal_text[j], e, nt, el, lt);
+            free(e); free(el); free(nt); free(lt);
+        } else if (s->status == EMBZ_SIZE_NOT_REACHED) {
+            char *e = embz_arb_certified_string(s->err_largest, 6);
+            embz_buf_printf(&nb, "\n\nGoal %s: not reached by the search, which stops at n = "
+                            "2^%ld, where E = %s (certified).", o->goal_text[j],
+                            (long) fmpz_bits(s->largest) - 1, e);
+            if (r->never[j]) {
+                char *l = embz_arb_certified_string(r->limit, 8);
+                embz_buf_printf(&nb, " Never: the one-ebit error tends to %s [derived], above "
+                                "the goal, and a target of several ebits cannot do better.", l);
+                free(l);
+            }
+            free(e);
+        }
+    }
+    embz_buf_printf(&nb, "\n\nClassification (one ebit, sizes swept as set for this document):");
+    for (slong k = 0; k < c->nreasons; k++)
+        embz_buf_printf(&nb, "\n\n\xe2\x80\xa2 %s", c->reasons[k]);
+    r->notes = nb.s;
+}
+
+int cli_compare_run(cli_compare_row_t *rows, embz_family_struct *fam, long nfam,
+                    const cli_compare_opts_t *o)
+{
+    for (long i = 0; i < nfam; i++) row_init(rows + i, fam + i, o);
+    double t0 = now_s();
+#ifdef _OPENMP
+#pragma omp parallel for schedule(dynamic, 1) num_threads(o->threads > 0 ? o->threads : 1)
+#endif
+    for (long i = 0; i < nfam; i++) {
+        compute_row(rows + i, o);
+        if (o->progress) {
+#ifdef _OPENMP
+#pragma omp critical(cli_compare_progress)
+#endif
+            {
+                fprintf(stderr, "embz %s: %s done (%.1f s; %.1f s elapsed)\n", o->cmd,
+                        rows[i].label, rows[i].seconds, now_s() - t0);
+                fflush(stderr);
+            }
+        }
+    }
+    int code = CLI_EXIT_OK;
+    for (long i = 0; i < nfam; i++) {
+        make_texts(rows + i, o);
+        if (rows[i].status != EMBZ_OK) {
+            fprintf(stderr, "embz %s: %s: %s\n", o->cmd, rows[i].label, rows[i].message);
+            int c = cli_exit_code(rows[i].status);
+            if (c > code) code = c;
+        }
+    }
+    return code;
+}
+
+/* ------------------------------------------------------------------ report and figures */
+
+/* log10 of the ball's lower end, midpoint and upper end (doubles, for drawing). */
+static void arb_log10_d(double *lo, double *mid, double *hi, const arb_t x)
+{
+    arb_t t;
+    arf_t b;
+    arb_init(t);
+    arf_init(b);
+    double *out[3] = { lo, mid, hi };
+    for (int k = 0; k < 3; k++) {
+        if (k == 0) arb_get_lbound_arf(b, x, 64);
+        else if (k == 1) arf_set(b, arb_midref(x));
+        else arb_get_ubound_arf(b, x, 64);
+        if (arf_sgn(b) <= 0) {
+            *out[k] = k == 0 ? -INFINITY : NAN;
+            continue;
+        }
+        arb_set_arf(t, b);
+        arb_log_base_ui(t, t, 10, 64);
+        *out[k] = arf_get_d(arb_midref(t), ARF_RND_NEAR);
+    }
+    arf_clear(b);
+    arb_clear(t);
+}
+
+static double fmpz_log10_d(const fmpz_t n)
+{
+    arb_t x;
+    arb_init(x);
+    arb_set_fmpz(x, n);
+    arb_log_base_ui(x, x, 10, 64);
+    double d = arf_get_d(arb_midref(x), ARF_RND_NEAR);
+    arb_clear(x);
+    return d;
+}
+
+static void style_series(embz_plot_t fig, slong panel, slong s, long i)
+{
+    fig->panels[panel].series[s].marker = (int) ((i + i / EMBZ_PLOT_NCOLOURS) % 6);
+}
+
+/* Error against n (xmode 0) or against ln n (xmode 1), both on log axes, with the fits. */
+static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfam,
+                        const char *target_label, int xmode)
+{
+    char title[200];
+    snprintf(title, sizeof(title), "%s, target %s", xmode == 0 ? "Error against size"
+                                                               : "Error against ln n",
+             target_label);
+    slong p = embz_plot_add_panel(fig, title, xmode == 0 ? "size n" : "ln n",
+                                  "E\xe2\x82\x99 (certified points; dashed: fitted law)", 1, 1);
+    for (long i = 0; i < nfam; i++) {
+        const cli_compare_row_t *r = rows + i;
+        if (r->status != EMBZ_OK) continue;
+        const embz_sweep_struct *sw = target_sweep(r);
+        slong s = embz_plot_add_series(fig, p, r->label, EMBZ_PLOT_POINTS, i);
+        style_series(fig, p, s, i);
+        double xmin = INFINITY, xmax = -INFINITY;
+        for (slong j = 0; j < sw->len; j++) {
+            const embz_sweep_point_struct *pt = sw->pts + j;
+            if (pt->status != EMBZ_OK || !(pt->log_n > 0)) continue;
+            double lo, mid, hi;
+            arb_log10_d(&lo, &mid, &hi, pt->error);
+            if (!isfinite(mid)) continue;
+            double x = xmode == 0 ? pt->log_n / log(10.0) : log10(pt->log_n);
+            embz_plot_push(fig, p, s, x, mid, lo, hi);
+            xmin = x < xmin ? x : xmin;
+            xmax = x > xmax ? x : xmax;
+        }
+        const embz_fitset_struct *fs = target_fits(r);
+        if (fs == NULL || fs->best == EMBZ_LAW_NONE || !(xmax > xmin)) continue;
+        const embz_fit_struct *f = fs->fits + fs->best;
+        if (!f->ok || !isfinite(f->C) || !isfinite(f->g)) continue;
+        slong sf = embz_plot_add_series(fig, p, NULL, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED, i);
+        /* drawn over the range the fit used */
+        double ln_lo = fs->logn[fs->first], ln_hi = fs->logn[fs->first + fs->m - 1];
+        for (int k = 0; k <= 60; k++) {
+            double ln = exp(log(ln_lo) + (log(ln_hi) - log(ln_lo)) * k / 60.0);
+            double v = law_value(fs->best, f, ln);
+            double x = xmode == 0 ? ln / log(10.0) : log10(ln);
+            embz_plot_push(fig, p, sf, x, v > 0 ? log10(v) : NAN, NAN, NAN);
+        }
+    }
+}
+
+static void weights_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfam,
+                          const cli_compare_opts_t *o)
+{
+    char wt[160];
+    snprintf(wt, sizeof(wt), "Weights against x^(-1\xc2\xb1%g)", o->envelope);
+    slong pw = embz_plot_add_panel(fig, wt, "index x", "w(x) / w(1)", 1, 1);
+    slong nw = 40;
+    double LB = fmpz_log10_d(o->to), ymin = INFINITY, ymax = -INFINITY;
+    fmpz_t x, one;
+    arb_t w, w1;
+    fmpz_init(x);
+    fmpz_init_set_ui(one, 1);
+    arb_init(w);
+    arb_init(w1);
+    for (long i = 0; i < nfam; i++) {
+        const cli_compare_row_t *r = rows + i;
+        slong s = embz_plot_add_series(fig, pw, r->label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE, i);
+        style_series(fig, pw, s, i);
+        embz_err_t err;
+        embz_err_clear(&err);
+        if (embz_family_weight_arb(w1, r->fam, one, o->to, o->prec, &err) != EMBZ_OK
+            || !arb_is_positive(w1))
+            continue;
+        for (slong j = 0; j < nw; j++) {
+            /* x = 10^(LB j / (nw - 1)), rounded to an integer */
+            double t = LB * (double) j / (double) (nw - 1);
+            arb_set_d(w, t);
+            arb_t ten;
+            arb_init(ten);
+            arb_set_ui(ten, 10);
+            arb_pow(w, ten, w, (slong) (3.4 * t) + 64);
+            arb_clear(ten);
+            arf_get_fmpz(x, arb_midref(w), ARF_RND_NEAR);
+            if (fmpz_cmp_ui(x, 1) < 0) fmpz_one(x);
+            embz_err_clear(&err);
+            if (embz_family_weight_arb(w, r->fam, x, o->to, o->prec, &err) != EMBZ_OK) continue;
+            arb_div(w, w, w1, o->prec);
+            double lo, mid, hi;
+            arb_log10_d(&lo, &mid, &hi, w);
+            if (!isfinite(mid)) {
+                embz_plot_push(fig, pw, s, NAN, NAN, NAN, NAN);
+                continue;
+            }
+            embz_plot_push(fig, pw, s, fmpz_log10_d(x), mid, NAN, NAN);
+            ymin = mid < ymin ? mid : ymin;
+            ymax = mid > ymax ? mid : ymax;
+        }
+    }
+    char l1[64], l2[64];
+    snprintf(l1, sizeof(l1), "x^(-1-%g)", o->envelope);
+    snprintf(l2, sizeof(l2), "x^(-1+%g)", o->envelope);
+    slong e1 = embz_plot_add_series(fig, pw, l1, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED, EMBZ_PLOT_GREY);
+    slong e2 = embz_plot_add_series(fig, pw, l2, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED, EMBZ_PLOT_DARK);
+    embz_plot_push(fig, pw, e1, 0, 0, NAN, NAN);
+    embz_plot_push(fig, pw, e1, LB, (-1 - o->envelope) * LB, NAN, NAN);
+    embz_plot_push(fig, pw, e2, 0, 0, NAN, NAN);
+    embz_plot_push(fig, pw, e2, LB, (-1 + o->envelope) * LB, NAN, NAN);
+    /* weights that fall far below the envelopes are clipped, so the envelopes stay readable */
+    double lo_env = (-1 - o->envelope) * LB, floor_y = 3 * lo_env - 1;
+    double y0 = ymin < lo_env ? (ymin > floor_y ? ymin : floor_y) : lo_env;
+    double y1 = ymax > 0 ? ymax : 0;
+    double pad = 0.04 * (y1 - y0 + 1e-9);
+    embz_plot_set_yrange(fig, pw, y0 - pad, y1 + pad);
+    arb_clear(w);
+    arb_clear(w1);
+    fmpz_clear(x);
+    fmpz_clear(one);
+}
+
+void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare_row_t *rows,
+                      long nfam, const cli_compare_opts_t *o)
+{
+    embz_target_t q;
+    embz_err_t err;
+    embz_target_init(q);
+    embz_err_clear(&err);
+    if (o->target_text != NULL) embz_target_parse(q, o->target_text, 0, &err);
+
+    embz_report_set_sizes(r, o->nsizes, o->size_text);
+    embz_report_set_goals(r, o->ngoals, o->goal_text);
+    for (long i = 0; i < nfam; i++) {
+        const cli_compare_row_t *w = rows + i;
+        embz_report_family_struct *f = embz_report_add_family(r, w->label);
+        embz_report_set(&f->weight, w->fam->amplitude ? NULL : w->fam->weight_text);
+        if (w->fam->amplitude) {
+            char *t = sfmt("(%s)^2", w->fam->weight_text);
+            embz_report_set(&f->weight, t);
+            free(t);
+        }
+        embz_report_set(&f->verdict, w->verdict);
+        embz_report_set(&f->law, w->law);
+        embz_report_set(&f->exponent, w->exponent);
+        embz_report_set(&f->limit_lo, w->limit_text);
+        for (slong j = 0; j < o->nsizes; j++) embz_report_set(f->error_at + j, w->error_text[j]);
+        for (slong j = 0; j < o->ngoals; j++) {
+            embz_report_set(f->need_n + j, w->need_n_text[j]);
+            embz_report_set(f->need_qubits + j, w->need_q_text[j]);
+        }
+        embz_report_set(&f->notes, w->notes);
+    }
+
+    char *from = size_text(o->from, 0), *to = size_text(o->to, 0);
+    embz_buf_t b;
+    embz_buf_init(&b);
+    embz_buf_printf(&b, "target %s", q->label);
+    if (o->ngoals > 0) {
+        embz_buf_printf(&b, "; error goal%s ", o->ngoals > 1 ? "s" : "");
+        for (slong j = 0; j < o->ngoals; j++)
+            embz_buf_printf(&b, "%s%s", j ? ", " : "", o->goal_text[j]);
+    }
+    embz_buf_printf(&b, "; sweeps of %ld sizes from %s to %s at %ld bits", (long) o->points,
+                    from, to, (long) o->prec);
+    embz_report_set(&r->subtitle, b.s);
+    embz_buf_clear(&b);
+
+    embz_buf_init(&b);
+    if (r->intro != NULL) embz_buf_printf(&b, "%s\n\n", r->intro);
+    embz_buf_printf(&b, "How to read the table. Verdict, law, exponent and limit come from the "
+        "classification for one ebit (whether a family embezzles does not depend on the "
+        "target); the law and exponent are least-squares fits and are estimates, the limit "
+        "says how it is known. The error columns hold E at n for the target %s: only the "
+        "digits certified by ball arithmetic are shown.", q->label);
+    if (o->ngoals > 0)
+        embz_buf_printf(&b, "\n\nThe size columns come from the qubit-resolution solver: it "
+            "stops once the number of qubits per side, ceil(log2 n), is decided. \"\xe2\x89\xa4 N\" "
+            "means a size N that reaches the goal was found, together with a size needing the "
+            "same number of qubits that does not reach it (both certified); the exact smallest "
+            "n is not computed. A plain N is the exact smallest size (every smaller size "
+            "checked). \"not by 10^%ld\" means the search, which ends at n = 2^%d, found no "
+            "size reaching the goal (E above the goal certified where it looked, including the "
+            "last size); \"never\" means in addition that the one-ebit error tends to a limit "
+            "above the goal (derived formula), which no target of several ebits can beat.",
+            search_decades(), EMBZ_SIZE_MAX_LOG2);
+    embz_report_set(&r->intro, b.s);
+    embz_buf_clear(&b);
+
+    embz_buf_init(&b);
+    embz_buf_printf(&b, "Computed by embz %s with arb ball arithmetic. Every E value is a "
+        "certified enclosure, printed with the digits it certifies; the plotted points are the "
+        "midpoints of those enclosures. Fitted laws, exponents and limits marked as estimates "
+        "carry no guarantee.", EMBZ_VERSION);
+    embz_report_set(&r->footer, b.s);
+    embz_buf_clear(&b);
+    free(from);
+    free(to);
+
+    /* figure 1: error against n and against ln n */
+    embz_plot_init(figs + 0, NULL);
+    error_panel(figs + 0, rows, nfam, q->label, 0);
+    error_panel(figs + 0, rows, nfam, q->label, 1);
+    figs[0].columns = 1;
+    char cap[400];
+    snprintf(cap, sizeof(cap), "Certified error E_n for the target %s against n and against "
+             "ln n (log axes). Dashed: the best fitted law over the points it was fitted to "
+             "(an estimate). A law C (ln n)^-g is a straight line in the lower panel.", q->label);
+    embz_report_add_figure(r, cap, figs + 0);
+    /* figure 2: weights */
+    embz_plot_init(figs + 1, NULL);
+    weights_panel(figs + 1, rows, nfam, o);
+    snprintf(cap, sizeof(cap), "Normalised weights w(x)/w(1) on log axes against the envelopes "
+             "x^(-1-%g) and x^(-1+%g) (weights that depend on n taken at the largest swept n). "
+             "A universal family must eventually stay between x^(-1-eps) and x^(-1+eps) for "
+             "every eps, and its weights must not be summable.", o->envelope, o->envelope);
+    embz_report_add_figure(r, cap, figs + 1);
+    embz_target_clear(q);
+}
+
+/* ------------------------------------------------------------------ terminal table */
+
+/* display width of UTF-8 text (code points) */
+static long uwidth(const char *s)
+{
+    long w = 0;
+    for (; *s; s++)
+        if (((unsigned char) *s & 0xC0) != 0x80) w++;
+    return w;
+}
+
+static void pad(embz_buf_t *b, const char *s, long width)
+{
+    embz_buf_printf(b, "%s", s);
+    for (long k = uwidth(s); k < width; k++) embz_buf_printf(b, " ");
+}
+
+void cli_compare_text(embz_buf_t *b, const cli_compare_row_t *rows, const long *order,
+                      long nfam, const cli_compare_opts_t *o)
+{
+    char h2[80], h3[80];
+    snprintf(h2, sizeof(h2), "qubits/side E<=%s", o->ngoals > 0 ? o->goal_text[0] : "-");
+    snprintf(h3, sizeof(h3), "E at n=%s", o->nsizes > 0 ? o->size_text[0] : "-");
+    const char *head[5] = { "family", "verdict", h2, h3, "why" };
+    long width[5];
+    for (int k = 0; k < 5; k++) width[k] = uwidth(head[k]);
+    const char **cells = calloc((size_t) nfam * 5 + 1, sizeof(char *));
+    for (long ii = 0; ii < nfam; ii++) {
+        const cli_compare_row_t *r = rows + (order ? order[ii] : ii);
+        const char **c = cells + 5 * ii;
+        c[0] = r->label;
+        c[1] = r->verdict;
+        c[2] = o->ngoals > 0 && r->need_q_text[0] ? r->need_q_text[0]
+             : o->ngoals > 0 && r->need_n_text[0] ? r->need_n_text[0] : "-";
+        c[3] = o->nsizes > 0 && r->error_text[0] ? r->error_text[0] : "-";
+        c[4] = r->why ? r->why : "";
+        for (int k = 0; k < 4; k++)
+            if (uwidth(c[k]) > width[k]) width[k] = uwidth(c[k]);
+    }
+    for (int k = 0; k < 5; k++) {
+        if (k < 4) pad(b, head[k], width[k] + 2);
+        else embz_buf_printf(b, "%s\n", head[k]);
+    }
+    for (int k = 0; k < 4; k++) {
+        for (long m = 0; m < width[k]; m++) embz_buf_printf(b, "-");
+        embz_buf_printf(b, "  ");
+    }
+    embz_buf_printf(b, "---\n");
+    for (long ii = 0; ii < nfam; ii++) {
+        const char **c = cells + 5 * ii;
+        for (int k = 0; k < 4; k++) pad(b, c[k], width[k] + 2);
+        embz_buf_printf(b, "%s\n", c[4]);
+    }
+    free(cells);
+}
