@@ -355,7 +355,24 @@ done:
 /* n as text: all digits up to 12 of them, else d.dddde+N rounded up (up = 1) or down. */
 static char *size_text(const fmpz_t n, int up)
 {
-    if (fmpz_sizeinbase(n, 10) <= 12) return fmpz_get_str(NULL, 10, n);
+    if (fmpz_sizeinbase(n, 10) <= 12) {
+        char *f = fmpz_get_str(NULL, 10, n), *s = sdup(f);
+        flint_free(f);
+        return s;
+    }
+    {
+        /* an exact power of ten as 10^k */
+        fmpz_t t;
+        fmpz_init_set(t, n);
+        slong k = 0;
+        while (fmpz_divisible_si(t, 10)) {
+            fmpz_divexact_si(t, t, 10);
+            k++;
+        }
+        int pow10 = fmpz_is_one(t);
+        fmpz_clear(t);
+        if (pow10) return sfmt("10^%ld", (long) k);
+    }
     slong e = (slong) fmpz_sizeinbase(n, 10) - 1;   /* exact or one too large */
     fmpz_t p, m;
     fmpz_init(p);
@@ -375,6 +392,16 @@ static char *size_text(const fmpz_t n, int up)
     char *s = sfmt("%lu.%04lue+%ld", d / 10000, d % 10000, (long) e);
     fmpz_clear(p);
     fmpz_clear(m);
+    return s;
+}
+
+/* "[lo, hi]" with 8 digits, rounded outward */
+static char *ball_text(const arb_t x)
+{
+    char *lo = embz_arb_lo_string(x, 8), *hi = embz_arb_hi_string(x, 8);
+    char *s = sfmt("[%s, %s]", lo, hi);
+    free(lo);
+    free(hi);
     return s;
 }
 
@@ -437,24 +464,23 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
     }
     if (c->law && isfinite(c->exponent)) {
         r->law = sfmt("%s", embz_law_formula(c->law));
-        r->exponent = sfmt("g \xe2\x89\x88 %.3g [%.3g, %.3g] (estimate)", c->exponent,
-                           c->exponent_lo, c->exponent_hi);
+        r->exponent = sfmt("g \xe2\x89\x88 %.3g (est.)", c->exponent);
     } else if (c->law) {
         r->law = sdup("constant (settled)");
     }
     if (r->limit_known) {
-        char *l = embz_arb_certified_string(r->limit, 8);
-        r->limit_text = sfmt("%s (derived formula)", l);
+        char *l = embz_arb_certified_string(r->limit, 6);
+        r->limit_text = sfmt("%s (derived)", l);
         free(l);
     } else if (c->verdict == EMBZ_VERDICT_EMBEZZLER && c->analytic_available
                && c->analytic_verdict == EMBZ_VERDICT_EMBEZZLER) {
         r->limit_text = sdup("0 (criterion)");
     } else if (isfinite(c->limit_value)) {
-        r->limit_text = sfmt("\xe2\x89\x88 %.4g (estimate)", c->limit_value);
+        r->limit_text = sfmt("\xe2\x89\x88 %.4g (est.)", c->limit_value);
     }
     for (slong j = 0; j < o->nsizes; j++)
         r->error_text[j] = r->err_status[j] == EMBZ_OK
-                         ? embz_arb_certified_string(r->err_at + j, 10) : NULL;
+                         ? embz_arb_certified_string(r->err_at + j, 6) : NULL;
     for (slong j = 0; j < o->ngoals; j++) {
         const embz_size_result_struct *s = r->need + j;
         if (r->need_status[j] != EMBZ_OK) continue;
@@ -526,18 +552,18 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
         const embz_size_result_struct *s = r->need + j;
         if (r->need_status[j] != EMBZ_OK) continue;
         if (s->status == EMBZ_SIZE_FOUND) {
-            char *e = embz_arb_certified_string(s->err_n, 6);
-            char *el = embz_arb_certified_string(s->err_prev, 6);
+            char *e = ball_text(s->err_n), *el = ball_text(s->err_prev);
             char *nt = size_text(s->n, 1), *lt = size_text(s->n_low, 0);
             if (s->exhaustive)
                 embz_buf_printf(&nb, "\n\nGoal %s: n = %s is the smallest size (every smaller "
-                                "size checked); E there is %s (certified).", o->goal_text[j],
+                                "size checked); E there is in %s (certified).", o->goal_text[j],
                                 nt, e);
             else
-                embz_buf_printf(&nb, "\n\nGoal %s: E = %s at a size n \xe2\x89\xa4 %s and E = "
-                                "%s at a size \xe2\x89\xa5 %s that does not reach the goal "
-                                "(certified); both need the same number of qubits.",
-                                o->goal_text[j], e, nt, el, lt);
+                embz_buf_printf(&nb, "\n\nGoal %s: E in %s at a size n \xe2\x89\xa4 %s, and E "
+                                "in %s, above the goal, at a size \xe2\x89\xa5 %s (certified); "
+                                "both sizes need %ld qubits per side. The exact smallest size "
+                                "is not computed.", o->goal_text[j], e, nt, el, lt,
+                                r->need_q_text[j] ? atol(r->need_q_text[j]) : 0L);
             free(e); free(el); free(nt); free(lt);
         } else if (s->status == EMBZ_SIZE_NOT_REACHED) {
             char *e = embz_arb_certified_string(s->err_largest, 6);
@@ -663,15 +689,16 @@ static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfa
             xmax = x > xmax ? x : xmax;
         }
         const embz_fitset_struct *fs = target_fits(r);
-        if (fs == NULL || fs->best == EMBZ_LAW_NONE || !(xmax > xmin)) continue;
-        const embz_fit_struct *f = fs->fits + fs->best;
+        int law = fs == NULL ? EMBZ_LAW_NONE : r->own_sweep ? fs->best : r->c->law;
+        if (law == EMBZ_LAW_NONE || fs->m < 2 || !(xmax > xmin)) continue;
+        const embz_fit_struct *f = fs->fits + law;
         if (!f->ok || !isfinite(f->C) || !isfinite(f->g)) continue;
         slong sf = embz_plot_add_series(fig, p, NULL, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED, i);
         /* drawn over the range the fit used */
-        double ln_lo = fs->logn[fs->first], ln_hi = fs->logn[fs->first + fs->m - 1];
+        double ln_lo = fs->logn[0], ln_hi = fs->logn[fs->m - 1];
         for (int k = 0; k <= 60; k++) {
             double ln = exp(log(ln_lo) + (log(ln_hi) - log(ln_lo)) * k / 60.0);
-            double v = law_value(fs->best, f, ln);
+            double v = law_value(law, f, ln);
             double x = xmode == 0 ? ln / log(10.0) : log10(ln);
             embz_plot_push(fig, p, sf, x, v > 0 ? log10(v) : NAN, NAN, NAN);
         }
@@ -828,11 +855,11 @@ void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare
     embz_plot_init(figs + 0, NULL);
     error_panel(figs + 0, rows, nfam, q->label, 0);
     error_panel(figs + 0, rows, nfam, q->label, 1);
-    figs[0].columns = 1;
+    figs[0].columns = 2;
     char cap[400];
     snprintf(cap, sizeof(cap), "Certified error E_n for the target %s against n and against "
              "ln n (log axes). Dashed: the best fitted law over the points it was fitted to "
-             "(an estimate). A law C (ln n)^-g is a straight line in the lower panel.", q->label);
+             "(an estimate). A law C (ln n)^-g is a straight line in the right-hand panel.", q->label);
     embz_report_add_figure(r, cap, figs + 0);
     /* figure 2: weights */
     embz_plot_init(figs + 1, NULL);

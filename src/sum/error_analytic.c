@@ -115,11 +115,12 @@ static int tail_v_series(arb_ptr res, actx *c, const arb_t y, slong len, slong p
 
 /* ---------- sorted positions (integers) ---------- */
 
-/* numerator of P_K (sum of the K largest weights), K in [0, n] */
-static int pos_sum(arb_t res, actx *c, const fmpz_t K, slong prec)
+/* Sorted position K: the numerator of P_K (sum of the K largest weights, K in [0, n]) when
+ * want_sum, else the weight at position K (K in [1, n]). */
+static int pos_query(arb_t res, actx *c, const fmpz_t K, int want_sum, slong prec)
 {
     if (fmpz_cmp_si(K, c->E) <= 0) {
-        arb_set(res, c->S + fmpz_get_si(K));
+        arb_set(res, (want_sum ? c->S : c->vals) + fmpz_get_si(K));
         return EMBZ_OK;
     }
     fmpz_t j;
@@ -127,49 +128,37 @@ static int pos_sum(arb_t res, actx *c, const fmpz_t K, slong prec)
     fmpz_sub_si(j, K, c->a);
     int st = EMBZ_OK;
     if (fmpz_cmp(j, c->L) <= 0) {
+        /* inside the tail */
         arb_t y;
         arb_init(y);
         arb_set_fmpz(y, j);
-        st = tail_C(res, c, y, prec);
-        arb_add(res, res, c->SA, prec);
+        if (want_sum) {
+            st = tail_C(res, c, y, prec);
+            arb_add(res, res, c->SA, prec);
+        } else {
+            arb_ptr v = _arb_vec_init(1);
+            st = tail_v_series(v, c, y, 1, prec);
+            arb_set(res, v);
+            _arb_vec_clear(v, 1);
+        }
         arb_clear(y);
     } else {
+        /* inside B */
         fmpz_sub(j, j, c->L);
         slong m = fmpz_get_si(j);
-        arb_add(res, c->SA, c->Ttot, prec);
-        for (slong i = 0; i < m && i < c->b; i++) arb_add(res, res, c->B + i, prec);
+        if (want_sum) {
+            arb_add(res, c->SA, c->Ttot, prec);
+            for (slong i = 0; i < m && i < c->b; i++) arb_add(res, res, c->B + i, prec);
+        } else {
+            arb_set(res, c->B + m - 1);
+        }
     }
     fmpz_clear(j);
     return st;
 }
 
-/* weight at sorted position K in [1, n] */
-static int pos_val(arb_t res, actx *c, const fmpz_t K, slong prec)
-{
-    if (fmpz_cmp_si(K, c->E) <= 0) {
-        arb_set(res, c->vals + fmpz_get_si(K));
-        return EMBZ_OK;
-    }
-    fmpz_t j;
-    fmpz_init(j);
-    fmpz_sub_si(j, K, c->a);
-    int st = EMBZ_OK;
-    if (fmpz_cmp(j, c->L) <= 0) {
-        arb_t y;
-        arb_ptr v = _arb_vec_init(1);
-        arb_init(y);
-        arb_set_fmpz(y, j);
-        st = tail_v_series(v, c, y, 1, prec);
-        arb_set(res, v);
-        arb_clear(y);
-        _arb_vec_clear(v, 1);
-    } else {
-        fmpz_sub(j, j, c->L);
-        arb_set(res, c->B + fmpz_get_si(j) - 1);
-    }
-    fmpz_clear(j);
-    return st;
-}
+#define pos_sum(res, c, K, prec) pos_query(res, c, K, 1, prec)
+#define pos_val(res, c, K, prec) pos_query(res, c, K, 0, prec)
 
 /* h(k) = (P_k - P_s - (r/d) p_(s+1)) / W with P_k = W for k >= n */
 static int h_at(arb_t res, actx *c, const fmpz_t k, slong prec)
