@@ -724,6 +724,50 @@ START_TEST(test_uniform_half)
 }
 END_TEST
 
+
+/* General targets at analytic sizes: majorization gives E(u_d') <= E(q) <= E(u_m) with
+ * d' = floor(1/q_1) and m the number of entries of q (u_m is majorized by q, q by u_d';
+ * tensoring with p preserves majorization and K(p -> r) falls as r moves up the majorization
+ * order, by the Ky Fan form of K). The enclosure must contain the explicit value, for random
+ * vectors. */
+START_TEST(test_vector_target_bounds)
+{
+    flint_rand_t st;
+    flint_randinit(st);
+    const char *fams[2] = { "inverse", "power" };
+    for (int k = 0; k < (quick() ? 3 : 8); k++) {
+        embz_family_t f;
+        embz_target_t q;
+        embz_error_result_t ra, rx;
+        embz_err_t err;
+        fmpz_t n;
+        char spec[128];
+        embz_err_clear(&err);
+        fmpz_init(n);
+        fmpz_set_ui(n, 20000 + n_randint(st, 30000));
+        resolve(f, fams[k % 2], NULL, NULL);
+        ulong m = 2 + n_randint(st, 4), pos = 0;
+        for (ulong j = 0; j < m; j++)
+            pos += (ulong) snprintf(spec + pos, sizeof(spec) - pos, "%s%lu", j ? "," : "",
+                                    1 + n_randint(st, 9));
+        target(q, spec);
+        embz_error_result_init(ra);
+        embz_error_result_init(rx);
+        ck_assert_int_eq(embz_error_analytic(ra, f, n, q, 128, &err), EMBZ_OK);
+        ck_assert_int_eq(embz_error_explicit(rx, f, n, q, 128, &err), EMBZ_OK);
+        ck_assert_msg(arb_overlaps(ra->error, rx->error),
+                      "%s, target %s, n = %ld: bounds miss the explicit value", fams[k % 2],
+                      spec, fmpz_get_si(n));
+        embz_error_result_clear(ra);
+        embz_error_result_clear(rx);
+        embz_target_clear(q);
+        embz_family_clear(f);
+        fmpz_clear(n);
+    }
+    flint_randclear(st);
+}
+END_TEST
+
 static Suite *analytic_suite(void)
 {
     Suite *s = suite_create("analytic");
@@ -745,6 +789,7 @@ static Suite *analytic_suite(void)
     tcase_add_test(tc, test_power_limit_m3);
     tcase_add_test(tc, test_two_precisions);
     tcase_add_test(tc, test_uniform_half);
+    tcase_add_test(tc, test_vector_target_bounds);
     suite_add_tcase(s, tc);
     return s;
 }

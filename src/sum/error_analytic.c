@@ -14,6 +14,7 @@
  *     the smooth Euler–Maclaurin extension gives an upper bound; values at integers give lower
  *     bounds. Every interval is either discarded (its bound is below a proven value), resolved
  *     (bound within the tolerance of the best value), or split. */
+#include <math.h>
 #include <string.h>
 #include <stdlib.h>
 #include "embz/sum.h"
@@ -1262,14 +1263,67 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
     return st;
 }
 
+/* A general target q (m nonzero entries, largest q_1) is bracketed by uniform ones:
+ * u_m is majorized by q, and q by u_d' with d' = floor(1/q_1); tensoring with p keeps these
+ * relations and K(p -> r) can only fall as r moves up in the majorization order, so
+ *     E_n(u_d') <= E_n(q) <= E_n(u_m)     (E_n(u_1) = 0).
+ * The result is a certified enclosure, wider than for uniform targets. */
+static int vector_target_bounds(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
+                                const embz_target_t q, embz_err_t *err)
+{
+    embz_target_t tu;
+    embz_error_result_t rl;
+    fmpz_t dl;
+    arf_t lo, hi;
+    int st;
+    ulong m = (ulong) q->q->len;
+    embz_target_init(tu);
+    embz_error_result_init(rl);
+    fmpz_init(dl);
+    arf_init(lo); arf_init(hi);
+    fmpz_fdiv_q(dl, fmpq_denref(q->q->p), fmpq_numref(q->q->p));   /* floor(1/q_1) */
+    if (m < 2) {
+        st = embz_err_set(err, EMBZ_ERR_INPUT, "the target must have at least two entries");
+        goto out;
+    }
+    tu->kind = EMBZ_TARGET_UNIFORM;
+    tu->d = m;
+    st = embz_analytic_error(res, an, n, tu, err);
+    if (st != EMBZ_OK) goto out;
+    arb_get_ubound_arf(hi, res->error, an->prec);
+    arf_zero(lo);
+    if (fmpz_cmp_ui(dl, 2) >= 0) {
+        tu->d = fmpz_get_ui(dl);
+        st = embz_analytic_error(rl, an, n, tu, err);
+        if (st != EMBZ_OK) goto out;
+        arb_get_lbound_arf(lo, rl->error, an->prec);
+    }
+    arb_set_interval_arf(res->error, lo, hi, an->prec);
+    res->estimate = NAN;   /* no double estimate of E(q) itself */
+    res->have_bounds = 0;
+    {
+        char inner[sizeof(res->detail)];
+        snprintf(inner, sizeof(inner), "%s", res->detail);
+        snprintf(res->detail, sizeof(res->detail),
+                 "analytic bounds for a general target: E(uniform:%lu) <= E(q) <= "
+                 "E(uniform:%lu) by majorization; %.100s", fmpz_get_ui(dl) >= 2 ?
+                 fmpz_get_ui(dl) : 1UL, m, inner);
+    }
+out:
+    embz_target_clear(tu);
+    embz_error_result_clear(rl);
+    fmpz_clear(dl);
+    arf_clear(lo); arf_clear(hi);
+    return st;
+}
+
 int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
                         const embz_target_t q, embz_err_t *err)
 {
     const embz_family_struct *f = an->f;
     slong prec = an->prec;
     if (q->kind != EMBZ_TARGET_UNIFORM)
-        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                            "the analytic engine handles ebit, ebits:J and uniform:D targets");
+        return vector_target_bounds(res, an, n, q, err);
     slong wp = prec + 32;
     actx c;
     memset(&c, 0, sizeof(c));
