@@ -1,9 +1,10 @@
 #!/bin/bash
-# Command-line checks of `embz plot` (and of `embz report` once it writes documents):
+# Command-line checks of `embz plot`, `embz report` and `embz demo`:
 # outputs parse (XML via Python, PDF via pdftoppm, PNG signature), bad requests fail cleanly,
 # failed writes leave no partial or temporary file. $1 = the embz binary.
 set -u
 EMBZ=${1:?usage: test_report.sh path/to/embz}
+[ -e "$EMBZ" ] && EMBZ=$(realpath "$EMBZ")   # the demo runs in another directory
 T=$(mktemp -d /tmp/embz-report-test-XXXXXX)
 trap 'chmod -R u+w "$T"; rm -rf "$T"' EXIT
 fail=0
@@ -57,8 +58,140 @@ wait $pid 2>/dev/null
 check "interrupted run keeps the old file" test "$(cat "$T/keep.svg")" = "old"
 check "interrupted run leaves no temporary file" no_temp "$T"
 
-# `embz report`, once it writes documents: HTML, escaping, Chromium screenshot, PDF
-if "$EMBZ" report inverse -o "$T/r.html" --format html >/dev/null 2>&1; then
+# `embz report`: four formats for three families on short ranges
+REP="inverse power geometric --from 10 --to 10^12 --points 6 --sizes 1000,10^30 --eps 0.05 --prec 64"
+for fmt in html md tex pdf; do
+    check "report $fmt" "$EMBZ" report $REP -o "$T/cmp.$fmt" -q
+done
+check "report html has the table" grep -q "<table" "$T/cmp.html"
+check "report html inlines its figures" grep -q "<svg" "$T/cmp.html"
+check "report html loads nothing" bash -c "! grep -Eqi '<script|src=\"http|href=\"http' '$T/cmp.html'"
+check "report tex uses booktabs" bash -c "grep -q toprule '$T/cmp.tex' && grep -q bottomrule '$T/cmp.tex'"
+check "report pdf header" bash -c "head -c 5 '$T/cmp.pdf' | grep -q '%PDF-'"
+if command -v pdftoppm >/dev/null; then
+    check "report pdf renders" pdftoppm -r 30 -png -f 1 -l 1 "$T/cmp.pdf" "$T/cmp"
+    check "report pdf page image" png_ok "$T/cmp-1.png"
+fi
+# --format wins over the extension; the format also comes from the extension alone
+check "format option" "$EMBZ" report inverse --from 10 --to 10^6 --points 5 --sizes 1000 --eps 0.1 -q --format md -o "$T/fmt.txt"
+check "format option gives markdown" grep -q '^| family' "$T/fmt.txt"
+
+# The table holds the numbers of `embz error --json` and `embz size --qubits --json` (same
+# precision): errors agree to the digits shown, sizes and qubits are the same.
+for f in inverse power geometric; do
+    for n in 1000 10^30; do
+        "$EMBZ" error $f -n $n --prec 64 --json > "$T/err-$f-${n/^/_}.json"
+    done
+    "$EMBZ" size $f --eps 0.05 --qubits --prec 64 --json > "$T/size-$f.json"
+done
+check "table matches --json" /usr/bin/python3 - "$T" <<'PY'
+import json, re, sys
+from fractions import Fraction
+T = sys.argv[1]
+rows = {}
+head = None
+for line in open(T + "/cmp.md", encoding="utf-8"):
+    if not line.startswith("|") or line.startswith("|:"):
+        continue
+    cells = [c.strip().replace("\\", "") for c in re.split(r"(?<!\\)\|", line.strip())[1:-1]]
+    if head is None:
+        head = cells
+    else:
+        rows[cells[0].split(" ")[0]] = dict(zip(head, cells))
+assert set(rows) == {"inverse", "power", "geometric"}, rows.keys()
+bad = []
+for fam, row in rows.items():
+    for n, key in (("1000", "E at n = 1000"), ("10_30", "E at n = 10^30")):
+        j = json.load(open("%s/err-%s-%s.json" % (T, fam, n)))
+        shown = row[key]
+        digits = len(shown.split(".")[1]) if "." in shown else 0
+        mid = (Fraction(j["error_lo"]) + Fraction(j["error_hi"])) / 2
+        # the shown digits must enclose the certified value of the other command
+        if abs(mid - Fraction(shown)) > Fraction(1, 10 ** digits) or digits < 3:
+            bad.append((fam, n, shown, j["error_lo"]))
+    s = json.load(open("%s/size-%s.json" % (T, fam)))["goals"][0]
+    ncell, qcell = row["n for E ≤ 0.05"], row["qubits for E ≤ 0.05"]
+    if s["status"] == "found":
+        if qcell != str(s["qubits"]):
+            bad.append((fam, "qubits", qcell, s["qubits"]))
+        num = ncell.lstrip("≤ ").strip()
+        if "e+" in num:   # rounded up, 5 significant digits
+            ok = Fraction(int(s["n"])) <= Fraction(num) <= Fraction(int(s["n"])) * Fraction(10001, 10000)
+        else:
+            ok = num == s["n"]
+        if not ok:
+            bad.append((fam, "n", ncell, s["n"]))
+    else:
+        if s["status"] != "not_reached" or ncell not in ("never", "not by 10^924"):
+            bad.append((fam, "status", ncell, s["status"]))
+# [derived, math notes section 5]: the power family a = -1/2 never gets below 1 - 1/sqrt 2
+if rows["power"]["n for E ≤ 0.05"] != "never":
+    bad.append(("power", "never", rows["power"]["n for E ≤ 0.05"]))
+# the one-ebit limit 1 - 2^-(1/2) = 0.29289321881... [derived, math notes section 5]
+if not rows["power"]["limit of E"].startswith("0.292893"):
+    bad.append(("power", "limit", rows["power"]["limit of E"]))
+if bad:
+    print(bad)
+    sys.exit(1)
+PY
+
+# escaping: a family file whose name is markup
+printf 'name = <script>alert(1)</script>\ndescription = markup in a name\nweight = 1/i\n' > "$T/evil.fam"
+check "report with a markup name" "$EMBZ" report "$T/evil.fam" --from 10 --to 10^6 --points 5 --sizes 1000 --eps 0.1 -q -o "$T/evil.html"
+check "markup name escaped in html" grep -q '&lt;script&gt;alert(1)&lt;/script&gt;' "$T/evil.html"
+check "no script element in html" bash -c "! grep -qi '<script' '$T/evil.html'"
+check "markup name escaped in markdown" "$EMBZ" report "$T/evil.fam" --from 10 --to 10^6 --points 5 --sizes 1000 --eps 0.1 -q -o "$T/evil.md"
+check "markdown has no raw tag" bash -c "! grep -Pq '(?<!\\\\)<script' '$T/evil.md'"
+
+# a verdict map for a parameter grid
+check "report with --grid" "$EMBZ" report power --grid a=-1.4:-0.6:3 --from 10 --to 10^12 --points 6 --sizes 1000 --eps 0.1 -q -o "$T/grid.html"
+check "grid adds a third figure" test "$(grep -o '<figure>' "$T/grid.html" | wc -l)" -eq 3
+check "grid html has no script" bash -c "! grep -qi '<script' '$T/grid.html'"
+
+# usage errors: exit 2 and no file
+"$EMBZ" report inverse --format doc -o "$T/u1.html" 2>/dev/null; check "bad format exit 2" test $? -eq 2
+"$EMBZ" report inverse -o "$T/u2.xyz" 2>/dev/null; check "unknown extension exit 2" test $? -eq 2
+"$EMBZ" report inverse --eps 2 -o "$T/u3.html" 2>/dev/null; check "bad goal exit 2" test $? -eq 2
+"$EMBZ" report no_such_family_zz -o "$T/u4.html" 2>/dev/null; check "unknown family exit 2" test $? -eq 2
+"$EMBZ" report inverse --grid zz=0:1:2 -o "$T/u5.html" 2>/dev/null; check "grid without parameter exit 2" test $? -eq 2
+check "usage errors write nothing" bash -c "! ls '$T'/u[1-5].* 2>/dev/null | grep -q ."
+
+# an interrupted report keeps the old file and leaves no temporary file; with no old file
+# there is no file at all
+echo "old" > "$T/keep.html"
+"$EMBZ" report inverse iterlog logpower --to 10^300 --points 40 -q -o "$T/keep.html" 2>/dev/null &
+pid=$!
+sleep 1
+kill -TERM $pid 2>/dev/null
+wait $pid 2>/dev/null
+check "interrupted report keeps the old file" test "$(cat "$T/keep.html")" = "old"
+"$EMBZ" report inverse iterlog logpower --to 10^300 --points 40 -q -o "$T/none.pdf" 2>/dev/null &
+pid=$!
+sleep 1
+kill -TERM $pid 2>/dev/null
+wait $pid 2>/dev/null
+check "interrupted report writes no file" test ! -e "$T/none.pdf"
+check "interrupted report leaves no temporary file" no_temp "$T"
+
+# the demo: exit 0 within 5 minutes (also under sanitizers), the table on stdout, the report
+mkdir "$T/demo"
+start=$(date +%s)
+( cd "$T/demo" && timeout 300 "$EMBZ" demo -q > out.txt 2> err.txt )
+st=$?
+echo "demo took $(( $(date +%s) - start )) s"
+check "demo exit 0 within 5 minutes" test $st -eq 0
+check "demo prints the table" grep -q "^family .*verdict .*qubits/side" "$T/demo/out.txt"
+# [derived, math notes section 6]: E_n(u_4) for 1/i is about ln 4 / ln n, so the inverse
+# family needs n near 10^600 (about 2000 qubits) for 1e-3 and the power family never
+check "demo: inverse needs about 2000 qubits" bash -c "grep '^inverse ' '$T/demo/out.txt' | grep -Eq ' (199[0-9]|200[0-9]) '"
+check "demo: power never" bash -c "grep '^power ' '$T/demo/out.txt' | grep -q never"
+check "demo names the report" grep -q "embz-demo.html" "$T/demo/out.txt"
+check "demo wrote the html" grep -q "<table" "$T/demo/embz-demo.html"
+check "demo leaves no temporary file" no_temp "$T/demo"
+
+# `embz report` with the defaults: HTML, escaping, Chromium screenshot
+check "report with the defaults" "$EMBZ" report inverse -o "$T/r.html" --format html -q
+if [ -s "$T/r.html" ]; then
     check "report html" grep -q "<table" "$T/r.html"
     check "report html has no script" bash -c "! grep -qi '<script' '$T/r.html'"
     if [ -x /usr/bin/chromium ]; then

@@ -137,8 +137,15 @@ int embz_size_parse(fmpz_t n, const char *s, embz_err_t *err)
         if (P.s[P.pos] == '/') st = fail(&P, "n must be an integer (no fractions)");
         else st = fail(&P, "unexpected character");
     }
-    if (st == EMBZ_OK && fmpz_bits(v) > EMBZ_SIZE_MAX_BITS) st = fail(&P, "too large");
-    if (st == EMBZ_OK && fmpz_sgn(v) < 1) st = fail(&P, "n must be at least 1");
+    /* these two concern the whole value: no caret */
+    if (st == EMBZ_OK && fmpz_bits(v) > EMBZ_SIZE_MAX_BITS) {
+        st = fail(&P, "too large");
+        if (err != NULL) err->col = 0;
+    }
+    if (st == EMBZ_OK && fmpz_sgn(v) < 1) {
+        st = fail(&P, "n must be at least 1");
+        if (err != NULL) err->col = 0;
+    }
     if (st == EMBZ_OK) fmpz_set(n, v);
     fmpz_clear(v); fmpz_clear(t);
     return st;
