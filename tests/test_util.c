@@ -1,0 +1,187 @@
+/* Tests of src/util: messages with a caret, certified decimal printing, JSON escaping,
+ * atomic file writes. The decimal checks compare against MPFR's correctly rounded parsing
+ * (mpfr_set_str), an independent reference for the value of a printed string. */
+#include <check.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+#include <dirent.h>
+#include "embz.h"
+
+/* the exact value of a decimal string as a ball: [round down, round up] of mpfr parsing */
+static void parse_ball(arb_t x, const char *s, slong prec)
+{
+    mpfr_t lo, hi;
+    mpfr_init2(lo, prec);
+    mpfr_init2(hi, prec);
+    ck_assert_msg(mpfr_set_str(lo, s, 10, MPFR_RNDD) == 0, "not a number: %s", s);
+    mpfr_set_str(hi, s, 10, MPFR_RNDU);
+    arf_t a, b;
+    arf_init(a); arf_init(b);
+    arf_set_mpfr(a, lo);
+    arf_set_mpfr(b, hi);
+    arb_set_interval_arf(x, a, b, prec);
+    arf_clear(a); arf_clear(b);
+    mpfr_clear(lo);
+    mpfr_clear(hi);
+}
+
+START_TEST(test_bounds_enclose)
+{
+    /* lo and hi strings enclose the ball, over many random balls */
+    flint_rand_t st;
+    flint_randinit(st);
+    arb_t x, lo, hi;
+    arb_init(x); arb_init(lo); arb_init(hi);
+    for (int k = 0; k < 2000; k++) {
+        arb_randtest(x, st, 200, 20);
+        if (!arb_is_finite(x)) continue;
+        slong digits = 1 + n_randint(st, 40);
+        char *a = embz_arb_lo_string(x, digits), *b = embz_arb_hi_string(x, digits);
+        parse_ball(lo, a, 400);
+        parse_ball(hi, b, 400);
+        arf_t xl, xh, ll, hh;
+        arf_init(xl); arf_init(xh); arf_init(ll); arf_init(hh);
+        arb_get_lbound_arf(xl, x, 400);
+        arb_get_ubound_arf(xh, x, 400);
+        arb_get_ubound_arf(ll, lo, 400);   /* the printed lower end, at its largest */
+        arb_get_lbound_arf(hh, hi, 400);   /* the printed upper end, at its smallest */
+        ck_assert_msg(arf_cmp(ll, xl) <= 0, "lower string %s above the ball", a);
+        ck_assert_msg(arf_cmp(hh, xh) >= 0, "upper string %s below the ball", b);
+        arf_clear(xl); arf_clear(xh); arf_clear(ll); arf_clear(hh);
+        free(a); free(b);
+    }
+    arb_clear(x); arb_clear(lo); arb_clear(hi);
+    flint_randclear(st);
+}
+END_TEST
+
+START_TEST(test_certified_digits)
+{
+    /* every point of the ball rounds to the printed digits: both ends, rounded to that many
+     * significant digits, give the same string; and a ball around 1/3 of radius 1e-10
+     * prints about ten threes */
+    arb_t x;
+    arb_init(x);
+    arb_set_ui(x, 1);
+    arb_div_ui(x, x, 3, 128);
+    mag_set_d(arb_radref(x), 1e-10);
+    char *s = embz_arb_certified_string(x, 30);
+    ck_assert_msg(strncmp(s, "0.333333333", 11) == 0 && strlen(s) <= 13, "got %s", s);
+    free(s);
+    /* an exact ball prints exactly */
+    arb_set_d(x, 0.375);
+    s = embz_arb_certified_string(x, 30);
+    ck_assert_str_eq(s, "0.375");
+    free(s);
+    /* a ball too wide for one digit prints as an interval */
+    arb_set_d(x, 0.5);
+    mag_set_d(arb_radref(x), 0.45);
+    s = embz_arb_certified_string(x, 30);
+    ck_assert_msg(s[0] == '[', "got %s", s);
+    free(s);
+    arb_clear(x);
+}
+END_TEST
+
+START_TEST(test_fmpz_string)
+{
+    fmpz_t n;
+    fmpz_init(n);
+    fmpz_set_ui(n, 123456);
+    char *s = embz_fmpz_string(n, 10);
+    ck_assert_str_eq(s, "123456");
+    free(s);
+    fmpz_set_ui(n, 10);
+    fmpz_pow_ui(n, n, 100);
+    fmpz_add_ui(n, n, 7);
+    s = embz_fmpz_string(n, 20);
+    ck_assert_str_eq(s, "1.000000000e+100");
+    free(s);
+    fmpz_clear(n);
+}
+END_TEST
+
+START_TEST(test_json_escape)
+{
+    embz_buf_t b;
+    embz_buf_init(&b);
+    embz_buf_json_string(&b, "a\"b\\c\n<script>&\x01");
+    ck_assert_str_eq(b.s, "\"a\\\"b\\\\c\\n\\u003cscript\\u003e\\u0026\\u0001\"");
+    embz_buf_clear(&b);
+}
+END_TEST
+
+START_TEST(test_caret)
+{
+    embz_err_t e;
+    char buf[4096];
+    embz_err_clear(&e);
+    snprintf(e.source, sizeof(e.source), "1/(i*log(i-7)");
+    e.col = 3;
+    embz_err_set(&e, EMBZ_ERR_INPUT, "missing ')'");
+    embz_err_format(buf, sizeof(buf), &e);
+    ck_assert_msg(strstr(buf, "column 3: missing ')'\n  1/(i*log(i-7)\n    ^") != NULL, "%s", buf);
+    /* a column beyond the text does not read past it */
+    e.col = 500;
+    embz_err_format(buf, sizeof(buf), &e);
+    ck_assert(strlen(buf) < 600);
+    /* file:line prefix */
+    embz_err_clear(&e);
+    snprintf(e.file, sizeof(e.file), "x.fam");
+    e.line = 4;
+    embz_err_set(&e, EMBZ_ERR_INPUT, "unknown key 'wieght'");
+    embz_err_format(buf, sizeof(buf), &e);
+    ck_assert_str_eq(buf, "x.fam:4: unknown key 'wieght'");
+}
+END_TEST
+
+START_TEST(test_write_atomic)
+{
+    char dir[] = "/tmp/embz-util-XXXXXX";
+    ck_assert(mkdtemp(dir) != NULL);
+    char path[256];
+    snprintf(path, sizeof(path), "%s/out.txt", dir);
+    embz_err_t e;
+    embz_err_clear(&e);
+    ck_assert_int_eq(embz_write_atomic(path, "hello\n", 6, &e), EMBZ_OK);
+    FILE *f = fopen(path, "r");
+    char line[32] = { 0 };
+    ck_assert(f != NULL && fgets(line, sizeof(line), f) != NULL);
+    fclose(f);
+    ck_assert_str_eq(line, "hello\n");
+    /* a path in a missing directory fails cleanly */
+    char bad[300];
+    snprintf(bad, sizeof(bad), "%s/missing/out.txt", dir);
+    ck_assert_int_eq(embz_write_atomic(bad, "x", 1, &e), EMBZ_ERR_IO);
+    /* nothing but the file is left in the directory */
+    DIR *d = opendir(dir);
+    int count = 0;
+    struct dirent *de;
+    while ((de = readdir(d)) != NULL)
+        if (de->d_name[0] != '.') count++;
+    closedir(d);
+    ck_assert_int_eq(count, 1);
+    unlink(path);
+    rmdir(dir);
+}
+END_TEST
+
+int main(void)
+{
+    Suite *s = suite_create("util");
+    TCase *tc = tcase_create("core");
+    tcase_add_test(tc, test_bounds_enclose);
+    tcase_add_test(tc, test_certified_digits);
+    tcase_add_test(tc, test_fmpz_string);
+    tcase_add_test(tc, test_json_escape);
+    tcase_add_test(tc, test_caret);
+    tcase_add_test(tc, test_write_atomic);
+    suite_add_tcase(s, tc);
+    SRunner *sr = srunner_create(s);
+    srunner_run_all(sr, CK_NORMAL);
+    int failed = srunner_ntests_failed(sr);
+    srunner_free(sr);
+    flint_cleanup();
+    return failed == 0 ? 0 : 1;
+}
