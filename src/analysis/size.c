@@ -65,7 +65,11 @@ static int side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
     for (int step = 0; step < SIZE_PREC_STEPS; step++) {
         slong p = c->prec << step;
         st = EMBZ_ERR_UNSUPPORTED;
-        if (fmpz_cmp_si(n, SIZE_ANALYTIC_FROM) > 0) {
+        /* general targets get only bounds from the analytic engine: explicit sums, exact,
+         * wherever they reach */
+        int vec_explicit = c->q->kind != EMBZ_TARGET_UNIFORM
+                           && fmpz_cmp_si(n, EMBZ_EXPLICIT_MAX_N) <= 0;
+        if (fmpz_cmp_si(n, SIZE_ANALYTIC_FROM) > 0 && !vec_explicit) {
             st = embz_analytic_error(res, c->an[step], n, c->q, err);
             if (st == EMBZ_OK) c->used_analytic = 1;
         }
