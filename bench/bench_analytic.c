@@ -9,23 +9,8 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <time.h>
-#include <sys/resource.h>
 #include "embz.h"
-
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
-}
-
-static long peak_kb(void)
-{
-    struct rusage ru;
-    getrusage(RUSAGE_SELF, &ru);
-    return ru.ru_maxrss;
-}
+#include "benchutil.h"
 
 static int cmp_d(const void *a, const void *b)
 {
@@ -45,11 +30,11 @@ static double time_error(int *st, double *rad, int method, const embz_family_t f
         embz_err_t err;
         embz_err_clear(&err);
         embz_error_result_init(res);
-        double t0 = now();
+        double t0 = bench_now();
         if (method == EMBZ_METHOD_ANALYTIC) *st = embz_error_analytic(res, f, n, q, prec, &err);
         else if (method == EMBZ_METHOD_EXPLICIT) *st = embz_error_explicit(res, f, n, q, prec, &err);
         else *st = embz_error(res, f, n, q, EMBZ_METHOD_AUTO, prec, &err);
-        t[k] = 1e3 * (now() - t0);
+        t[k] = 1e3 * (bench_now() - t0);
         *rad = mag_get_d(arb_radref(res->error));
         if (*st != EMBZ_OK) snprintf(msg, msglen, "%s", err.text);
         else msg[0] = '\0';
@@ -130,13 +115,13 @@ int main(int argc, char **argv)
         if (embz_family_resolve(f, "inverse", NULL, 0, 0, &err) == EMBZ_OK) {
             int nan = 0, nauto = 0, nfail = 0;
             double worst = 0.0, rad;
-            double t0 = now();
+            double t0 = bench_now();
             for (int k = 0; k < 100; k++) {
                 /* 100 points log-spaced from 10 to 10^100: ratio 10, n = 10^(k+1) */
                 fmpz_set_ui(n, 10);
                 fmpz_pow_ui(n, n, (ulong) k + 1);
                 int st;
-                double t1 = now();
+                double t1 = bench_now();
                 time_error(&st, &rad, EMBZ_METHOD_ANALYTIC, f, n, q, prec, 1, msg, sizeof(msg));
                 if (st == EMBZ_OK) nan++;
                 else {
@@ -145,10 +130,10 @@ int main(int argc, char **argv)
                     if (st == EMBZ_OK) nauto++;
                     else nfail++;
                 }
-                double dt = now() - t1;
+                double dt = bench_now() - t1;
                 if (dt > worst) worst = dt;
             }
-            double tot = now() - t0;
+            double tot = bench_now() - t0;
             printf("inverse, 100 sizes log-spaced 10 .. 10^100 (step 10x): total %.3f s "
                    "(goal < 1 s)%s; slowest %.1f ms; %d analytic, %d by auto dispatch, %d failed\n",
                    tot, tot < 1.0 ? "" : " *", 1e3 * worst, nan, nauto, nfail);
@@ -156,7 +141,7 @@ int main(int argc, char **argv)
         }
         embz_family_clear(f);
     }
-    printf("peak RSS: %.1f MB\n", (double) peak_kb() / 1024.0);
+    printf("peak RSS: %.1f MB\n", (double) bench_peak_kb() / 1024.0);
     embz_target_clear(q);
     fmpz_clear(n);
     flint_cleanup();

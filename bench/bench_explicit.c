@@ -4,23 +4,8 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <time.h>
-#include <sys/resource.h>
 #include "embz.h"
-
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
-}
-
-static long peak_kb(void)
-{
-    struct rusage ru;
-    getrusage(RUSAGE_SELF, &ru);
-    return ru.ru_maxrss;
-}
+#include "benchutil.h"
 
 /* The plain loop: E_n(ebit) for w = 1/i written out by hand, one pass, two cursors. */
 static double plain_loop(long n, long *argk)
@@ -70,26 +55,26 @@ int main(int argc, char **argv)
     fmpz_init_set_ui(nz, (ulong) n);
 
     long pk;
-    double t0 = now();
+    double t0 = bench_now();
     double Ep = plain_loop(n, &pk);
-    double tp = now() - t0;
-    t0 = now();
+    double tp = bench_now() - t0;
+    t0 = bench_now();
     double Ee = evaluator_loop(f, n);
-    double te = now() - t0;
+    double te = bench_now() - t0;
 
     double Ef;
     slong ak;
     int order;
-    t0 = now();
+    t0 = bench_now();
     int st = embz_error_explicit_estimate(&Ef, &ak, &order, f, nz, t, &err);
-    double tf = now() - t0;
+    double tf = bench_now() - t0;
     if (st != EMBZ_OK) { fprintf(stderr, "estimate failed: %s\n", err.text); return 1; }
 
     embz_error_result_t res;
     embz_error_result_init(res);
-    t0 = now();
+    t0 = bench_now();
     st = embz_error_explicit(res, f, nz, t, prec, &err);
-    double tc = now() - t0;
+    double tc = bench_now() - t0;
     if (st != EMBZ_OK) { fprintf(stderr, "certified failed: %s\n", err.text); return 1; }
 
     printf("bench_explicit: family 1/i, target ebit, n = %ld, prec = %ld\n", n, (long) prec);
@@ -100,7 +85,7 @@ int main(int argc, char **argv)
     printf("  certified              %8.3f s   ratio %6.1f   E in ", tc, tc / tp);
     arb_printd(res->error, 25);
     printf("\n  detail: %s\n", res->detail);
-    printf("  peak memory (max RSS)  %ld kB\n", peak_kb());
+    printf("  peak memory (max RSS)  %ld kB\n", bench_peak_kb());
     embz_error_result_clear(res);
     fmpz_clear(nz);
     embz_target_clear(t);

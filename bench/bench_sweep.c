@@ -3,16 +3,8 @@
  * with a fresh engine each (embz_error, auto method). Usage: bench_sweep [POINTS] [EXP10]. */
 #include <stdio.h>
 #include <stdlib.h>
-#include <time.h>
 #include "embz.h"
-
-/* process CPU time: the comparison stays fair on a loaded machine */
-static double now_s(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
-    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
-}
+#include "benchutil.h"
 
 int main(int argc, char **argv)
 {
@@ -33,9 +25,9 @@ int main(int argc, char **argv)
     fmpz_ui_pow_ui(b, 10, (ulong) e10);
     if (embz_family_resolve(f, "1/i", NULL, 0, 0, &err) != EMBZ_OK) return 1;
 
-    double t0 = now_s();
+    double t0 = bench_cpu_now();
     int st = embz_sweep_run(s, f, a, b, points, q, prec, NULL, NULL, &err);
-    double t_reuse = now_s() - t0;
+    double t_reuse = bench_cpu_now() - t0;
     if (st != EMBZ_OK) {
         fprintf(stderr, "sweep failed: %s\n", err.text);
         return 1;
@@ -44,7 +36,7 @@ int main(int argc, char **argv)
     embz_error_result_t r;
     embz_error_result_init(r);
     int mismatch = 0;
-    t0 = now_s();
+    t0 = bench_cpu_now();
     for (slong j = 0; j < s->len; j++) {
         embz_err_clear(&err);
         if (embz_error(r, f, s->pts[j].n, q, EMBZ_METHOD_AUTO, prec, &err) != EMBZ_OK) {
@@ -53,7 +45,7 @@ int main(int argc, char **argv)
         }
         if (s->pts[j].status == EMBZ_OK && !arb_overlaps(r->error, s->pts[j].error)) mismatch++;
     }
-    double t_fresh = now_s() - t0;
+    double t_fresh = bench_cpu_now() - t0;
     printf("inverse family, %ld sizes 10 .. 10^%ld (%ld computed), prec %ld bits\n",
            (long) s->len, e10, (long) s->nok, (long) prec);
     printf("reused engine (embz_sweep_run): %8.2f s CPU  (%.3f s per size)\n", t_reuse,

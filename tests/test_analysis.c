@@ -12,6 +12,7 @@
 #include <math.h>
 #include <check.h>
 #include "embz.h"
+#include "testutil.h"
 
 #define LN2 0.6931471805599453
 #define ZETA_3_2 2.612375348685488   /* [memory] */
@@ -566,10 +567,5 @@ static Suite *analysis_suite(void)
 
 int main(void)
 {
-    SRunner *sr = srunner_create(analysis_suite());
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    flint_cleanup();
-    return failed != 0 ? 1 : 0;
+    return tu_run_suite(analysis_suite());
 }

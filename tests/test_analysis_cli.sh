@@ -2,28 +2,7 @@
 # Command-line tests of sweep, classify and scan. $1 = path to the embz binary;
 # EMBZ_FAMILY_PATH points at families/. Reference values: docs/math.md section 5 (leading-order
 # estimates, tested with stated tolerances) and [memory] constants.
-set -u
-EMBZ=${1:?usage: test_analysis_cli.sh path/to/embz}
-PY=/usr/bin/python3
-TMP=$(mktemp -d)
-trap 'rm -rf "$TMP"' EXIT
-fails=0
-checks=0
-
-ok()   { checks=$((checks + 1)); }
-fail() { checks=$((checks + 1)); fails=$((fails + 1)); echo "FAIL: $*"; }
-
-run() {
-    "$EMBZ" "$@" >"$TMP/out" 2>"$TMP/err"
-    rc=$?
-    out=$(cat "$TMP/out")
-    err=$(cat "$TMP/err")
-    if grep -q "Sanitizer" "$TMP/err"; then fail "sanitizer report for: $*"; fi
-}
-expect_rc() { if [ "$rc" -eq "$1" ]; then ok; else fail "$2: exit $rc, expected $1 (stderr: $err)"; fi; }
-expect_out() { if printf '%s' "$out" | grep -qF -- "$1"; then ok; else fail "$2: stdout lacks '$1'"; fi; }
-expect_err() { if printf '%s' "$err" | grep -qF -- "$1"; then ok; else fail "$2: stderr lacks '$1' (got: $err)"; fi; }
-pycheck() { if printf '%s' "$out" | $PY -c "$2"; then ok; else fail "$1"; fi; }
+source "$(dirname "$0")/common.sh"
 
 # ---- sweep
 run sweep inverse --to 10^30 --points 7 --csv

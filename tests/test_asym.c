@@ -15,6 +15,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include "embz.h"
+#include "testutil.h"
 
 /* ------------------------------------------------------------------ helpers */
 
@@ -719,10 +720,5 @@ static Suite *asym_suite(void)
 
 int main(void)
 {
-    SRunner *sr = srunner_create(asym_suite());
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    flint_cleanup();
-    return failed != 0;
+    return tu_run_suite(asym_suite());
 }

@@ -4,6 +4,7 @@
 #include <string.h>
 #include <unistd.h>
 #include "embz.h"
+#include "testutil.h"
 
 /* ---------------------------------------------------------------- helpers */
 
@@ -552,10 +553,5 @@ static Suite *family_suite(void)
 
 int main(void)
 {
-    SRunner *sr = srunner_create(family_suite());
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    flint_cleanup();
-    return failed != 0;
+    return tu_run_suite(family_suite());
 }

@@ -6,35 +6,14 @@
 #include <string.h>
 #include <math.h>
 #include "embz.h"
+#include "testutil.h"
 
 /* ------------------------------------------------------------------ helpers */
-
-static void qvec_set(embz_qvec_t v, const char *spec)
-{
-    embz_err_t err;
-    embz_err_clear(&err);
-    ck_assert_msg(embz_qvec_parse(v, spec, 0, &err) == EMBZ_OK, "%s: %s", spec, err.text);
-}
-
-/* v <- a (x) b */
-static void qvec_tensor(embz_qvec_t v, const embz_qvec_t a, const embz_qvec_t b)
-{
-    embz_qvec_clear(v);
-    embz_qvec_init(v);
-    v->len = a->len * b->len;
-    v->p = _fmpq_vec_init(v->len);
-    for (long i = 0; i < a->len; i++)
-        for (long j = 0; j < b->len; j++)
-            fmpq_mul(v->p + i * b->len + j, a->p + i, b->p + j);
-}
 
 /* Random probability vector of length len with entries k / sum, k in [lo, 30]. */
 static void random_qvec(embz_qvec_t v, flint_rand_t state, long len, int lo)
 {
-    embz_qvec_clear(v);
-    embz_qvec_init(v);
-    v->len = len;
-    v->p = _fmpq_vec_init(len);
+    tu_qvec_alloc(v, len);
     fmpz_t s;
     fmpz_init(s);
     for (long k = 0; k < len; k++) {
@@ -221,15 +200,15 @@ START_TEST(test_two_level)
     embz_qvec_init(p); embz_qvec_init(r);
     arb_t F, ref, t;
     arb_init(F); arb_init(ref); arb_init(t);
-    qvec_set(p, "0.8,0.2");
-    qvec_set(r, "0.6,0.4");
+    tu_qvec_set(p, "0.8,0.2");
+    tu_qvec_set(r, "0.6,0.4");
     embz_qvec_fidelity(F, NULL, NULL, p, r, 128);
     arb_set_ui(ref, 48); arb_div_ui(ref, ref, 100, 128); arb_sqrt(ref, ref, 128);
     arb_set_ui(t, 8); arb_div_ui(t, t, 100, 128); arb_sqrt(t, t, 128);
     arb_add(ref, ref, t, 128);
     arb_sqr(ref, ref, 128);
     ck_assert(arb_overlaps(F, ref));
-    qvec_set(p, "0.5,0.5");
+    tu_qvec_set(p, "0.5,0.5");
     embz_qvec_fidelity(F, NULL, NULL, p, r, 128);
     ck_assert(arb_is_one(F));
     arb_clear(F); arb_clear(ref); arb_clear(t);
@@ -247,15 +226,15 @@ START_TEST(test_catalysis)
     arb_t F, P, one;
     arb_init(F); arb_init(P); arb_init(one);
     arb_one(one);
-    qvec_set(p, "0.4,0.4,0.1,0.1");
-    qvec_set(r, "0.5,0.25,0.25,0");
-    qvec_set(c, "0.6,0.4");
+    tu_qvec_set(p, "0.4,0.4,0.1,0.1");
+    tu_qvec_set(r, "0.5,0.25,0.25,0");
+    tu_qvec_set(c, "0.6,0.4");
     embz_qvec_fidelity(F, NULL, NULL, p, r, 128);
     ck_assert(arb_lt(F, one));
     embz_qvec_purified(P, p, r, 128);
     ck_assert(arb_is_positive(P));
-    qvec_tensor(pc, p, c);
-    qvec_tensor(rc, r, c);
+    tu_qvec_tensor(pc, p, c);
+    tu_qvec_tensor(rc, r, c);
     slong nb = 0;
     embz_qvec_fidelity(F, s, &nb, pc, rc, 128);
     ck_assert(arb_is_one(F));
@@ -324,20 +303,10 @@ static void family_set(embz_family_t f, const char *spec)
                   err.text);
 }
 
-static void target_set(embz_target_t q, const char *spec)
-{
-    embz_err_t err;
-    embz_err_clear(&err);
-    ck_assert_msg(embz_target_parse(q, spec, 0, &err) == EMBZ_OK, "%s: %s", spec, err.text);
-}
-
 /* Exact rational Schmidt vector of the inverse-index family, p_i = (1/i) / H_n. */
 static void inverse_qvec(embz_qvec_t v, long n)
 {
-    embz_qvec_clear(v);
-    embz_qvec_init(v);
-    v->len = n;
-    v->p = _fmpq_vec_init(n);
+    tu_qvec_alloc(v, n);
     fmpq_t H;
     fmpq_init(H);
     for (long i = 1; i <= n; i++) {
@@ -370,13 +339,13 @@ START_TEST(test_family_values)
     const char *qvecs[] = { "1/2,1/2", "1/3,1/3,1/3", "0.5,0.3,0.2", "0.7,0.2,0.1" };
     long sizes[] = { 1, 2, 5, 17, 64, 200 };
     for (int ti = 0; ti < 4; ti++) {
-        target_set(q, targets[ti]);
-        qvec_set(qv, qvecs[ti]);
+        tu_target_set(q, targets[ti]);
+        tu_qvec_set(qv, qvecs[ti]);
         for (int si = 0; si < 6; si++) {
             long nn = sizes[si];
             fmpz_set_si(n, nn);
             inverse_qvec(p, nn);
-            qvec_tensor(r, p, qv);
+            tu_qvec_tensor(r, p, qv);
             embz_qvec_fidelity(F, NULL, NULL, p, r, 128);
             embz_qvec_overlap(O, p, r, 128);
             embz_err_clear(&err);
@@ -403,7 +372,7 @@ START_TEST(test_family_values)
     }
     /* small sizes against the numerical search: s majorizing p (length n, zero padded) lives
      * on the first n entries, so the search runs over n entries against the n largest of r */
-    target_set(q, "ebit");
+    tu_target_set(q, "ebit");
     for (long nn = 2; nn <= 8; nn++) {
         fmpz_set_si(n, nn);
         inverse_qvec(p, nn);
@@ -529,7 +498,7 @@ START_TEST(test_van_dam_hayden)
     long sizes[] = { 2, 3, 5, 8, 13, 20, 50, 100, 117, 300, 1000, 4096, 20000, 100000 };
     int squared_fails = 0;
     for (int di = 0; di < 5; di++) {
-        target_set(q, ds[di]);
+        tu_target_set(q, ds[di]);
         for (int si = 0; si < 14; si++) {
             if (sizes[si] < dv[di]) continue;
             fmpz_set_si(n, sizes[si]);
@@ -593,10 +562,5 @@ static Suite *fidelity_suite(void)
 
 int main(void)
 {
-    SRunner *sr = srunner_create(fidelity_suite());
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    flint_cleanup();
-    return failed != 0;
+    return tu_run_suite(fidelity_suite());
 }

@@ -5,26 +5,9 @@
 #include <string.h>
 #include <math.h>
 #include "embz.h"
+#include "testutil.h"
 
 /* ------------------------------------------------------------------ helpers */
-
-static void qvec_set(embz_qvec_t v, const char *spec)
-{
-    embz_err_t err;
-    embz_err_clear(&err);
-    ck_assert_msg(embz_qvec_parse(v, spec, 0, &err) == EMBZ_OK, "%s: %s", spec, err.text);
-}
-
-/* v <- a (x) b */
-static void qvec_tensor(embz_qvec_t v, const embz_qvec_t a, const embz_qvec_t b)
-{
-    embz_qvec_clear(v);
-    v->len = a->len * b->len;
-    v->p = _fmpq_vec_init(v->len);
-    for (long i = 0; i < a->len; i++)
-        for (long j = 0; j < b->len; j++)
-            fmpq_mul(v->p + i * b->len + j, a->p + i, b->p + j);
-}
 
 /* K by the plain Ky Fan definition, over the padded length. */
 static void kyfan_brute(fmpq_t K, const embz_qvec_t p, const embz_qvec_t r)
@@ -62,9 +45,7 @@ static void random_qvec(embz_qvec_t v, flint_rand_t state, long maxlen)
     long len = 1 + (long) n_randint(state, (ulong) maxlen);
     fmpq_t s;
     fmpq_init(s);
-    embz_qvec_clear(v);
-    v->len = len;
-    v->p = _fmpq_vec_init(len);
+    tu_qvec_alloc(v, len);
     do {
         fmpq_zero(s);
         for (long k = 0; k < len; k++) {
@@ -87,13 +68,6 @@ static void make_family(embz_family_t f, const char *text)
                   err.text);
     free(f->name);
     f->name = strdup(text);
-}
-
-static void target_set(embz_target_t t, const char *spec)
-{
-    embz_err_t err;
-    embz_err_clear(&err);
-    ck_assert_msg(embz_target_parse(t, spec, 0, &err) == EMBZ_OK, "%s: %s", spec, err.text);
 }
 
 static int explicit_error(embz_error_result_t res, const embz_family_t f, slong n,
@@ -134,9 +108,9 @@ START_TEST(test_catalysis_example)
     embz_qvec_t p, r, c, pc, rc;
     embz_qvec_init(p); embz_qvec_init(r); embz_qvec_init(c);
     embz_qvec_init(pc); embz_qvec_init(rc);
-    qvec_set(p, "0.4,0.4,0.1,0.1");
-    qvec_set(r, "0.5,0.25,0.25,0");
-    qvec_set(c, "0.6,0.4");
+    tu_qvec_set(p, "0.4,0.4,0.1,0.1");
+    tu_qvec_set(r, "0.5,0.25,0.25,0");
+    tu_qvec_set(c, "0.6,0.4");
     ck_assert(!embz_qvec_convertible(p, r));
     ck_assert(!majorized_brute(p, r));
     fmpq_t K, Kb, want;
@@ -148,8 +122,8 @@ START_TEST(test_catalysis_example)
     fmpq_set_si(want, 1, 20);
     ck_assert(fmpq_equal(K, want));
     ck_assert_int_eq(argk, 2);
-    qvec_tensor(pc, p, c);
-    qvec_tensor(rc, r, c);
+    tu_qvec_tensor(pc, p, c);
+    tu_qvec_tensor(rc, r, c);
     ck_assert(embz_qvec_convertible(pc, rc));
     ck_assert(majorized_brute(pc, rc));
     embz_qvec_distance(K, &argk, pc, rc);
@@ -172,8 +146,8 @@ START_TEST(test_incomparable_pair)
 {
     embz_qvec_t p, r;
     embz_qvec_init(p); embz_qvec_init(r);
-    qvec_set(p, "0.5,0.25,0.25");
-    qvec_set(r, "0.4,0.4,0.2");
+    tu_qvec_set(p, "0.5,0.25,0.25");
+    tu_qvec_set(r, "0.4,0.4,0.2");
     ck_assert(!embz_qvec_convertible(p, r));
     ck_assert(!embz_qvec_convertible(r, p));
     fmpq_t K, want;
@@ -190,7 +164,7 @@ START_TEST(test_incomparable_pair)
     /* every state converts to itself and to a product state (1): K(p -> (1)) = 0 */
     embz_qvec_t one;
     embz_qvec_init(one);
-    qvec_set(one, "1");
+    tu_qvec_set(one, "1");
     ck_assert(embz_qvec_convertible(p, one));
     ck_assert(embz_qvec_convertible(p, p));
     /* ... and a product state converts to nothing entangled: K((1) -> p) = 1 - p_1 */
@@ -244,8 +218,8 @@ START_TEST(test_distance_properties)
         /* tensoring both sides with the same state never increases K */
         if (iter % 3 == 0) {
             random_qvec(w, state, 4);
-            qvec_tensor(ps, p, w);
-            qvec_tensor(rs, r, w);
+            tu_qvec_tensor(ps, p, w);
+            tu_qvec_tensor(rs, r, w);
             embz_qvec_distance(K2, NULL, ps, rs);
             ck_assert(fmpq_cmp(K2, K1) <= 0);
         }
@@ -304,7 +278,7 @@ START_TEST(test_inverse_exact)
     const ulong ds[] = { 2, 3, 4, 5, 8, 1024 };
     const char *specs[] = { "ebit", "uniform:3", "ebits:2", "uniform:5", "ebits:3", "ebits:10" };
     for (int j = 0; j < 6; j++) {
-        target_set(t, specs[j]);
+        tu_target_set(t, specs[j]);
         ck_assert_int_eq(t->d, ds[j]);
         for (slong n = 1; n <= 2200; n += (n < 60 ? 1 : 37 + n / 7)) {
             explicit_error(res, f, n, t, 128);
@@ -316,7 +290,7 @@ START_TEST(test_inverse_exact)
         }
     }
     /* a larger size, one ebit */
-    target_set(t, "ebit");
+    tu_target_set(t, "ebit");
     explicit_error(res, f, 100001, t, 96);
     inverse_exact(E, 100001, 2);
     ck_assert(arb_contains_q(res->error, E));
@@ -362,7 +336,7 @@ START_TEST(test_error_vs_exact)
         embz_family_t f;
         make_family(f, fams[a].text);
         for (size_t b = 0; b < sizeof(targets) / sizeof(targets[0]); b++) {
-            target_set(t, targets[b]);
+            tu_target_set(t, targets[b]);
             /* exact q as a vector */
             embz_qvec_clear(q);
             if (t->kind == EMBZ_TARGET_UNIFORM) {
@@ -384,7 +358,7 @@ START_TEST(test_error_vs_exact)
                     fmpq_add(W, W, p->p + i - 1);
                 }
                 for (slong i = 0; i < n; i++) fmpq_div(p->p + i, p->p + i, W);
-                qvec_tensor(pq, p, q);
+                tu_qvec_tensor(pq, p, q);
                 long argk;
                 embz_qvec_distance(K, &argk, p, pq);
                 explicit_error(res, f, n, t, 100);
@@ -448,7 +422,7 @@ START_TEST(test_error_vs_ball_vectors)
         embz_family_t f;
         make_family(f, fams[a]);
         for (size_t b = 0; b < sizeof(targets) / sizeof(targets[0]); b++) {
-            target_set(t, targets[b]);
+            tu_target_set(t, targets[b]);
             for (slong n = 1; n <= 400; n = 3 * n + 1) {
                 fmpz_set_si(nz, n);
                 arb_zero(W);
@@ -676,10 +650,5 @@ static Suite *measure_suite(void)
 
 int main(void)
 {
-    SRunner *sr = srunner_create(measure_suite());
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    flint_cleanup();
-    return failed != 0;
+    return tu_run_suite(measure_suite());
 }

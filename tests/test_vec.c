@@ -4,6 +4,7 @@
 #include <string.h>
 #include <unistd.h>
 #include "embz.h"
+#include "testutil.h"
 
 static int qeq(const fmpq *x, long num, long den)
 {
@@ -217,10 +218,5 @@ static Suite *vec_suite(void)
 
 int main(void)
 {
-    SRunner *sr = srunner_create(vec_suite());
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    flint_cleanup();
-    return failed != 0;
+    return tu_run_suite(vec_suite());
 }

@@ -49,6 +49,8 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
                    const fmpz_t end, slong prec, embz_err_t *err);
 void embz_tail_clear(embz_tail_t t);
 
+/* integral of phi(u) = f(e^u) e^u over [ua, ub] (= integral of f over [e^ua, e^ub]). */
+int embz_tail_integral_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub, slong prec);
 /* integral_M^x f(y) dy for a (narrow) ball x in [M, end]. */
 int embz_tail_integral(arb_t res, embz_tail_t t, const arb_t x, slong prec);
 /* T~(x) with the remainder bound added to the radius: for integer x it encloses

@@ -92,6 +92,68 @@ int cli_load_target(embz_target_t q, const cli_args_t *a, const char *cmd);
 /* The --prec option (unchanged when absent); usage error on a bad value, 0 on success. */
 int cli_load_prec(long *prec, const cli_args_t *a, const cli_spec_t *spec);
 
+/* ==== shared command helpers (load.c, opts.c, progress.c) ==== begin ==== */
+/* Option-table rows that read the same in every command that has them. */
+#define CLI_OPT_SET { "set", 's', CLI_LIST, "NAME=VALUE", \
+                      "set a parameter (exact decimal, e.g. a=-0.7)" }
+#define CLI_OPT_AMPLITUDE { "amplitude", 0, CLI_FLAG, NULL, \
+                            "the expression gives amplitudes; weights are squares" }
+#define CLI_OPT_JSON { "json", 0, CLI_FLAG, NULL, "print one JSON object" }
+#define CLI_OPT_END { NULL, 0, 0, NULL, NULL }
+
+/* cli_parse for a command's main: 1 when the command goes on (*code = CLI_EXIT_OK), 0 when
+ * it returns *code at once (0 after --help, CLI_EXIT_USAGE after a usage error; a is then
+ * already cleared). */
+int cli_begin(cli_args_t *a, const cli_spec_t *spec, int argc, char **argv, int *code);
+
+/* The --set options split into settings; the texts are copies owned by s (load.c). */
+typedef struct {
+    embz_setting_t *v;
+    char **copies;
+    long len;
+} cli_settings_t;
+/* Fills s (always clear it afterwards); message + exit code on failure, 0 on success. */
+int cli_settings_load(cli_settings_t *s, const cli_args_t *a, const char *cmd);
+void cli_settings_clear(cli_settings_t *s);
+/* --prec in [16, max_bits] (unchanged when absent); usage error on a bad value, else 0. */
+int cli_load_prec_upto(long *prec, const cli_args_t *a, const cli_spec_t *spec,
+                       long max_bits);
+/* --points in [min_points, max_points] (skipped when points is NULL), then --from and --to
+ * (sizes >= 1, from <= to); values absent from the command line keep what the caller put
+ * in. Usage error on a bad value, else 0. */
+int cli_load_range(fmpz_t from, fmpz_t to, long *points, long min_points, long max_points,
+                   const cli_args_t *a, const cli_spec_t *spec);
+
+/* Timing and the progress bar on stderr (progress.c). */
+double cli_now(void);            /* monotonic clock, seconds */
+typedef struct {
+    double t0;
+    int shown;                   /* the bar has been drawn */
+    int clear_when_done;         /* erase the bar when done == total */
+} cli_progress_t;
+/* Starts the clock; returns cli_progress_cb when stderr is a terminal, else NULL. */
+embz_progress_fn cli_progress_start(cli_progress_t *p, int clear_when_done);
+void cli_progress_cb(void *ctx, slong done, slong total);
+void cli_progress_end(cli_progress_t *p);   /* erases the bar if it was drawn */
+
+/* Texts and JSON pieces (opts.c). */
+char *cli_strdup(const char *s);                     /* malloc'ed copy */
+char *cli_family_label(const embz_family_struct *f); /* "name (a=1, b=2)", malloc'ed */
+/* {"a": "-1/2", ...}: the parameter values as exact fractions */
+void cli_buf_json_params(embz_buf_t *b, const embz_family_struct *f);
+/* ", \"key\": " and a JSON string / number */
+void cli_buf_json_key_string(embz_buf_t *b, const char *key, const char *text);
+void cli_buf_json_key_double(embz_buf_t *b, const char *key, double x);
+/* "\"value\": v, \"lo\": lo, \"hi\": hi" (the inside of an estimate with its interval) */
+void cli_buf_json_vlohi(embz_buf_t *b, double v, double lo, double hi);
+/* text as a JSON string, or null when it is empty */
+void cli_buf_json_string_or_null(embz_buf_t *b, const char *text);
+/* "\"verdict\": .., \"numeric_verdict\": .., \"analytic_verdict\": .." of a classification */
+void cli_buf_json_verdicts(embz_buf_t *b, const embz_classify_struct *c);
+/* n CSV fields, each followed by a comma */
+void cli_buf_csv_fields(embz_buf_t *b, const char *const *fields, int n);
+/* ==== shared command helpers ==== end ==== */
+
 /* ---- comparison of families (compare.c), shared by `report` and `demo` ---- */
 typedef struct {
     fmpz_t from, to;             /* sweep range of the classification and of the plots */

@@ -2,8 +2,6 @@
 #include <stdlib.h>
 #include <string.h>
 #include <math.h>
-#include <time.h>
-#include <unistd.h>
 #include "cli.h"
 
 static const cli_opt_t classify_opts[] = {
@@ -11,11 +9,11 @@ static const cli_opt_t classify_opts[] = {
     { "to", 0, CLI_VALUE, "B", "largest size of the sweep (default 10^120)" },
     { "points", 'k', CLI_VALUE, "K", "number of log-spaced sizes (default 16)" },
     { "prec", 'p', CLI_VALUE, "BITS", "working precision of the ball arithmetic (default 64)" },
-    { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter (exact decimal, e.g. a=-0.7)" },
-    { "amplitude", 0, CLI_FLAG, NULL, "the expression gives amplitudes; weights are squares" },
+    CLI_OPT_SET,
+    CLI_OPT_AMPLITUDE,
     { "numeric-only", 0, CLI_FLAG, NULL, "skip the analytic (asymptotic expansion) route" },
-    { "json", 0, CLI_FLAG, NULL, "print one JSON object" },
-    { NULL, 0, 0, NULL, NULL }
+    CLI_OPT_JSON,
+    CLI_OPT_END
 };
 
 static const cli_spec_t classify_spec = {
@@ -31,114 +29,34 @@ static const cli_spec_t classify_spec = {
     classify_opts, 1, 1
 };
 
-static double now_s(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
-}
-
-typedef struct { double t0; int shown; } progress_t;
-
-static void progress_cb(void *ctx, slong done, slong total)
-{
-    progress_t *p = ctx;
-    double el = now_s() - p->t0;
-    if (el < 1.0 && !p->shown) return;
-    p->shown = 1;
-    int width = 30, fill = (int) (width * done / (total > 0 ? total : 1));
-    char bar[40];
-    for (int k = 0; k < width; k++) bar[k] = k < fill ? '#' : '.';
-    bar[width] = '\0';
-    fprintf(stderr, "\r[%s] %ld/%ld sizes, %.1f s", bar, (long) done, (long) total, el);
-    fflush(stderr);
-}
-
-static void json_range(embz_buf_t *b, const char *name, double v, double lo, double hi)
-{
-    embz_buf_printf(b, "\"%s\": {\"value\": ", name);
-    cli_buf_json_double(b, v);
-    embz_buf_printf(b, ", \"lo\": ");
-    cli_buf_json_double(b, lo);
-    embz_buf_printf(b, ", \"hi\": ");
-    cli_buf_json_double(b, hi);
-    embz_buf_printf(b, "}");
-}
-
 int cli_cmd_classify(int argc, char **argv)
 {
     cli_args_t a;
-    int pr = cli_parse(&a, &classify_spec, argc, argv);
-    if (pr != CLI_PARSE_OK) {
-        cli_args_clear(&a);
-        return pr == CLI_PARSE_HELP ? CLI_EXIT_OK : CLI_EXIT_USAGE;
-    }
-    int code = CLI_EXIT_OK, status;
+    int code, status;
+    if (!cli_begin(&a, &classify_spec, argc, argv, &code)) return code;
     embz_err_t err;
     embz_family_t fam;
     embz_classify_t c;
     embz_classify_opts_t o;
-    long nset = 0, prec = 64, points = 16;
-    const char *const *sets = cli_list(&a, "set", &nset);
-    embz_setting_t *settings = calloc((size_t) (nset > 0 ? nset : 1), sizeof(embz_setting_t));
-    char **setcopies = calloc((size_t) (nset > 0 ? nset : 1), sizeof(char *));
-    const char *t;
+    long prec = 64, points = 16;
 
     embz_family_init(fam);
     embz_classify_init(c);
     embz_classify_opts_init(o);
     embz_err_clear(&err);
 
-    if ((t = cli_value(&a, "prec")) != NULL && cli_parse_long(&prec, t, 16, 1L << 16)) {
-        code = cli_usage_error(&classify_spec, "bad precision '%s' (bits, 16 to 65536)", t);
+    if ((code = cli_load_prec_upto(&prec, &a, &classify_spec, 1L << 16)) != 0
+        || (code = cli_load_range(o->from, o->to, &points, 5, 100000, &a, &classify_spec)) != 0
+        || (code = cli_load_family(fam, &a, a.pos[0], "classify")) != 0)
         goto done;
-    }
-    if ((t = cli_value(&a, "points")) != NULL && cli_parse_long(&points, t, 5, 100000)) {
-        code = cli_usage_error(&classify_spec, "bad number of points '%s' (5 to 100000)", t);
-        goto done;
-    }
     o->prec = prec;
     o->points = points;
     o->use_analytic = !cli_flag(&a, "numeric-only");
-    const char *names[2] = { "from", "to" };
-    fmpz *vals[2] = { o->from, o->to };
-    for (int k = 0; k < 2; k++) {
-        if ((t = cli_value(&a, names[k])) == NULL) continue;
-        status = embz_size_parse(vals[k], t, &err);
-        if (status != EMBZ_OK || fmpz_cmp_ui(vals[k], 1) < 0) {
-            code = cli_usage_error(&classify_spec, "bad size for --%s: '%s'%s%s", names[k], t,
-                                   err.text[0] ? ": " : "", err.text);
-            goto done;
-        }
-    }
-    if (fmpz_cmp(o->from, o->to) > 0) {
-        code = cli_usage_error(&classify_spec, "--from must not exceed --to");
-        goto done;
-    }
-    for (long k = 0; k < nset; k++) {
-        size_t l = strlen(sets[k]) + 1;
-        setcopies[k] = malloc(l);
-        memcpy(setcopies[k], sets[k], l);
-        status = embz_setting_split(&settings[k], setcopies[k], &err);
-        if (status != EMBZ_OK) {
-            code = cli_report("classify", status, &err);
-            goto done;
-        }
-    }
-    status = embz_family_resolve(fam, a.pos[0], settings, nset, cli_flag(&a, "amplitude"),
-                                 &err);
-    if (status != EMBZ_OK) {
-        code = cli_report("classify", status, &err);
-        goto done;
-    }
 
-    progress_t prog = { now_s(), 0 };
-    embz_err_clear(&err);
-    status = embz_classify(c, fam, o, isatty(fileno(stderr)) ? progress_cb : NULL, &prog, &err);
-    if (prog.shown) {
-        fprintf(stderr, "\r%*s\r", 70, "");
-        fflush(stderr);
-    }
+    cli_progress_t prog;
+    embz_progress_fn show = cli_progress_start(&prog, 0);
+    status = embz_classify(c, fam, o, show, &prog, &err);
+    cli_progress_end(&prog);
     if (status != EMBZ_OK) {
         code = cli_report("classify", status, &err);
         goto done;
@@ -149,47 +67,26 @@ int cli_cmd_classify(int argc, char **argv)
     if (cli_flag(&a, "json")) {
         embz_buf_printf(&b, "{\"family\": ");
         embz_buf_json_string(&b, fam->name);
-        embz_buf_printf(&b, ", \"weight\": ");
-        embz_buf_json_string(&b, fam->weight_text);
-        embz_buf_printf(&b, ", \"params\": {");
-        for (long k = 0; k < fam->nparams; k++) {
-            char *v = fmpq_get_str(NULL, 10, fam->param_values + k);
-            embz_buf_printf(&b, "%s", k ? ", " : "");
-            embz_buf_json_string(&b, fam->param_names[k]);
-            embz_buf_printf(&b, ": ");
-            embz_buf_json_string(&b, v);
-            flint_free(v);
-        }
-        embz_buf_printf(&b, "}, \"target\": \"ebit\", \"verdict\": \"%s\", "
-                        "\"numeric_verdict\": \"%s\", \"analytic_verdict\": ",
-                        embz_verdict_id(c->verdict), embz_verdict_id(c->numeric_verdict));
-        if (c->analytic_available)
-            embz_buf_printf(&b, "\"%s\"", embz_verdict_id(c->analytic_verdict));
-        else
-            embz_buf_printf(&b, "null");
-        embz_buf_printf(&b, ", \"routes_disagree\": %s, \"limit\": {\"value\": ",
+        cli_buf_json_key_string(&b, "weight", fam->weight_text);
+        embz_buf_printf(&b, ", \"params\": ");
+        cli_buf_json_params(&b, fam);
+        embz_buf_printf(&b, ", \"target\": \"ebit\", ");
+        cli_buf_json_verdicts(&b, c);
+        embz_buf_printf(&b, ", \"routes_disagree\": %s, \"limit\": {",
                         c->disagree ? "true" : "false");
-        cli_buf_json_double(&b, c->limit_value);
-        embz_buf_printf(&b, ", \"lo\": ");
-        cli_buf_json_double(&b, c->limit_lo);
-        embz_buf_printf(&b, ", \"hi\": ");
-        cli_buf_json_double(&b, c->limit_hi);
-        embz_buf_printf(&b, ", \"certified\": %s}, \"law\": ", c->limit_certified ? "true"
-                                                                                  : "false");
-        embz_buf_json_string(&b, embz_law_id(c->law));
-        embz_buf_printf(&b, ", \"law_formula\": ");
-        embz_buf_json_string(&b, embz_law_formula(c->law));
-        embz_buf_printf(&b, ", ");
-        json_range(&b, "exponent", c->exponent, c->exponent_lo, c->exponent_hi);
-        embz_buf_printf(&b, ", \"coefficient\": ");
-        cli_buf_json_double(&b, c->coeff);
+        cli_buf_json_vlohi(&b, c->limit_value, c->limit_lo, c->limit_hi);
+        embz_buf_printf(&b, ", \"certified\": %s}", c->limit_certified ? "true" : "false");
+        cli_buf_json_key_string(&b, "law", embz_law_id(c->law));
+        cli_buf_json_key_string(&b, "law_formula", embz_law_formula(c->law));
+        embz_buf_printf(&b, ", \"exponent\": {");
+        cli_buf_json_vlohi(&b, c->exponent, c->exponent_lo, c->exponent_hi);
+        embz_buf_printf(&b, "}");
+        cli_buf_json_key_double(&b, "coefficient", c->coeff);
         embz_buf_printf(&b, ", \"estimates_not_certified\": [\"limit\", \"law\", \"exponent\", "
                         "\"coefficient\"], \"asymptotic_form\": ");
-        if (c->asymptotic_form[0]) embz_buf_json_string(&b, c->asymptotic_form);
-        else embz_buf_printf(&b, "null");
+        cli_buf_json_string_or_null(&b, c->asymptotic_form);
         embz_buf_printf(&b, ", \"analytic_rate\": ");
-        if (c->analytic_rate[0]) embz_buf_json_string(&b, c->analytic_rate);
-        else embz_buf_printf(&b, "null");
+        cli_buf_json_string_or_null(&b, c->analytic_rate);
         embz_buf_printf(&b, ", \"reasons\": [");
         for (slong k = 0; k < c->nreasons; k++) {
             embz_buf_printf(&b, "%s\n  ", k ? "," : "");
@@ -236,9 +133,6 @@ int cli_cmd_classify(int argc, char **argv)
     embz_buf_clear(&b);
 
 done:
-    for (long k = 0; k < nset; k++) free(setcopies[k]);
-    free(setcopies);
-    free(settings);
     embz_classify_opts_clear(o);
     embz_classify_clear(c);
     embz_family_clear(fam);

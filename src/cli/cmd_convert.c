@@ -7,8 +7,8 @@
 
 static const cli_opt_t convert_opts[] = {
     { "amplitude", 0, CLI_FLAG, NULL, "the numbers are Schmidt amplitudes (squared before use)" },
-    { "json", 0, CLI_FLAG, NULL, "print one JSON object" },
-    { NULL, 0, 0, NULL, NULL }
+    CLI_OPT_JSON,
+    CLI_OPT_END
 };
 
 static const cli_spec_t convert_spec = {
@@ -135,14 +135,9 @@ static void text_distance(embz_buf_t *out, const char *label, const fmpq_t K, lo
 int cli_cmd_convert(int argc, char **argv)
 {
     cli_args_t a;
-    int pr = cli_parse(&a, &convert_spec, argc, argv);
-    if (pr != CLI_PARSE_OK) {
-        cli_args_clear(&a);
-        return pr == CLI_PARSE_HELP ? CLI_EXIT_OK : CLI_EXIT_USAGE;
-    }
+    int code;
+    if (!cli_begin(&a, &convert_spec, argc, argv, &code)) return code;
     int json = cli_flag(&a, "json"), amplitude = cli_flag(&a, "amplitude");
-    const char *from_spec = a.pos[0], *to_spec = a.pos[1];
-    int code = CLI_EXIT_OK;
     embz_err_t err;
     embz_qvec_t p, r;
     fmpq_t K1, K2;
@@ -153,23 +148,19 @@ int cli_cmd_convert(int argc, char **argv)
     fmpq_init(K1);
     fmpq_init(K2);
 
-    embz_err_clear(&err);
-    int status = embz_qvec_parse(p, from_spec, amplitude, &err);
-    if (status != EMBZ_OK) {
-        char buf[3000];
-        embz_err_format(buf, sizeof(buf), &err);
-        fprintf(stderr, "embz convert: FROM: %s\n", buf);
-        code = cli_exit_code(status);
-        goto done;
-    }
-    embz_err_clear(&err);
-    status = embz_qvec_parse(r, to_spec, amplitude, &err);
-    if (status != EMBZ_OK) {
-        char buf[3000];
-        embz_err_format(buf, sizeof(buf), &err);
-        fprintf(stderr, "embz convert: TO: %s\n", buf);
-        code = cli_exit_code(status);
-        goto done;
+    /* FROM, then TO: the first bad one is reported */
+    embz_qvec_struct *vecs[2] = { p, r };
+    const char *names[2] = { "FROM", "TO" };
+    for (int k = 0; k < 2; k++) {
+        embz_err_clear(&err);
+        int status = embz_qvec_parse(vecs[k], a.pos[k], amplitude, &err);
+        if (status != EMBZ_OK) {
+            char buf[3000];
+            embz_err_format(buf, sizeof(buf), &err);
+            fprintf(stderr, "embz convert: %s: %s\n", names[k], buf);
+            code = cli_exit_code(status);
+            goto done;
+        }
     }
 
     int fwd = embz_qvec_convertible(p, r), bwd = embz_qvec_convertible(r, p);

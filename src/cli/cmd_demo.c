@@ -171,14 +171,16 @@ int cli_cmd_demo(int argc, char **argv)
         embz_buf_printf(&b, "\n");
         const cli_compare_row_t *best = rank[order[0]] == 0 ? rows + order[0] : NULL;
         if (best != NULL)
-            embz_buf_printf(&b, "Fewest qubits: %s, %s per side (n %s; certified).\n",
-                            best->label, best->need_q_text[0], best->need_n_text[0]);
+            embz_buf_printf(&b, "Fewest qubits: %s, %s per side (a size n %s reaches the goal, "
+                            "certified).\n", best->label, best->need_q_text[0],
+                            best->need_n_text[0]);
         else
             embz_buf_printf(&b, "No family reaches the goal within the search.\n");
-        embz_buf_printf(&b, "Verdicts, laws and limits: one-ebit classification (fits are "
-                        "estimates). Errors: certified digits only.\nqubits: the "
-                        "qubit-resolution size search; 'never': the error tends to a limit above "
-                        "1e-3; 'not by 10^924': the search\nup to n = 2^3072 found no size.\n");
+        embz_buf_printf(&b,
+            "Verdicts and limits: one-ebit classification; fitted values are estimates.\n"
+            "Errors: certified digits only. Qubits: size search at qubit resolution.\n"
+            "'never': the one-ebit error tends to a limit above 1e-3 (derived formula);\n"
+            "'not by 10^924': the search, which ends at n = 2^3072, found no size.\n");
         embz_buf_printf(&b, "\nReport: %s\n", out);
         fputs(b.s, stdout);
         embz_buf_clear(&b);

@@ -1,4 +1,5 @@
 /* embz error FAMILY -n N: the certified embezzlement error E_n(q) of a family. */
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 #include "cli.h"
@@ -11,11 +12,11 @@ static const cli_opt_t error_opts[] = {
     { "method", 'm', CLI_VALUE, "M", "auto (default), explicit or analytic" },
     { "measure", 0, CLI_VALUE, "M",
       "k (default: the distance K), fidelity, purified or overlap" },
-    { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter (exact decimal, e.g. a=-0.7)" },
-    { "amplitude", 0, CLI_FLAG, NULL, "the expression gives amplitudes; weights are squares" },
-    { "json", 0, CLI_FLAG, NULL, "print one JSON object" },
+    CLI_OPT_SET,
+    CLI_OPT_AMPLITUDE,
+    CLI_OPT_JSON,
     { "csv", 0, CLI_FLAG, NULL, "print a CSV header line and one row" },
-    { NULL, 0, 0, NULL, NULL }
+    CLI_OPT_END
 };
 
 static const cli_spec_t error_spec = {
@@ -61,49 +62,27 @@ static void row_clear(row_t *r)
     free(r->detail);
 }
 
-static char *dup(const char *s)
-{
-    size_t l = strlen(s) + 1;
-    char *d = malloc(l);
-    memcpy(d, s, l);
-    return d;
-}
-
 static void emit_json(embz_buf_t *b, const row_t *r)
 {
     embz_buf_printf(b, "{\"family\": ");
     embz_buf_json_string(b, r->family);
-    embz_buf_printf(b, ", \"params\": %s, \"weight\": ", r->params_json);
-    embz_buf_json_string(b, r->weight);
-    embz_buf_printf(b, ", \"n\": ");
-    embz_buf_json_string(b, r->n);
-    embz_buf_printf(b, ", \"target\": ");
-    embz_buf_json_string(b, r->target);
-    embz_buf_printf(b, ", \"method\": ");
-    embz_buf_json_string(b, r->method);
+    embz_buf_printf(b, ", \"params\": %s", r->params_json);
+    const char *head[4][2] = { { "weight", r->weight }, { "n", r->n }, { "target", r->target },
+                               { "method", r->method } };
+    for (int k = 0; k < 4; k++) cli_buf_json_key_string(b, head[k][0], head[k][1]);
     embz_buf_printf(b, ", \"measure\": \"k\", \"bounds_only\": false");
-    embz_buf_printf(b, ", \"error\": ");
-    cli_buf_json_double(b, r->mid);
-    embz_buf_printf(b, ", \"error_lo\": ");
-    embz_buf_json_string(b, r->lo);
-    embz_buf_printf(b, ", \"error_hi\": ");
-    embz_buf_json_string(b, r->hi);
-    embz_buf_printf(b, ", \"error_certified\": ");
-    embz_buf_json_string(b, r->cert);
-    embz_buf_printf(b, ", \"radius\": ");
-    cli_buf_json_double(b, r->radius);
-    embz_buf_printf(b, ", \"argmax\": ");
-    embz_buf_json_string(b, r->argk);
-    embz_buf_printf(b, ", \"estimate\": ");
-    cli_buf_json_double(b, r->estimate);
+    cli_buf_json_key_double(b, "error", r->mid);
+    cli_buf_json_key_string(b, "error_lo", r->lo);
+    cli_buf_json_key_string(b, "error_hi", r->hi);
+    cli_buf_json_key_string(b, "error_certified", r->cert);
+    cli_buf_json_key_double(b, "radius", r->radius);
+    cli_buf_json_key_string(b, "argmax", r->argk);
+    cli_buf_json_key_double(b, "estimate", r->estimate);
     if (r->have_bounds) {
-        embz_buf_printf(b, ", \"bound_lo\": ");
-        embz_buf_json_string(b, r->blo);
-        embz_buf_printf(b, ", \"bound_hi\": ");
-        embz_buf_json_string(b, r->bhi);
+        cli_buf_json_key_string(b, "bound_lo", r->blo);
+        cli_buf_json_key_string(b, "bound_hi", r->bhi);
     }
-    embz_buf_printf(b, ", \"detail\": ");
-    embz_buf_json_string(b, r->detail);
+    cli_buf_json_key_string(b, "detail", r->detail);
     embz_buf_printf(b, "}\n");
 }
 
@@ -113,15 +92,10 @@ static void emit_csv(embz_buf_t *b, const row_t *r)
                     "radius,argmax,estimate,bound_lo,bound_hi,detail\n");
     const char *fields1[] = { r->family, r->params_text, r->weight, r->n, r->target,
                               r->method };
-    for (int k = 0; k < 6; k++) {
-        cli_buf_csv_field(b, fields1[k]);
-        embz_buf_printf(b, ",");
-    }
+    cli_buf_csv_fields(b, fields1, 6);
     embz_buf_printf(b, "%.17g,", r->mid);
-    cli_buf_csv_field(b, r->lo);
-    embz_buf_printf(b, ",");
-    cli_buf_csv_field(b, r->hi);
-    embz_buf_printf(b, ",");
+    const char *fields2[] = { r->lo, r->hi };
+    cli_buf_csv_fields(b, fields2, 2);
     cli_buf_csv_field(b, r->cert);
     embz_buf_printf(b, ",%.6g,", r->radius);
     cli_buf_csv_field(b, r->argk);
@@ -185,20 +159,6 @@ static char *int_text(const fmpz_t x)
     return t;
 }
 
-static char *family_label(const embz_family_t f)
-{
-    embz_buf_t b;
-    embz_buf_init(&b);
-    embz_buf_printf(&b, "%s", f->name);
-    for (long k = 0; k < f->nparams; k++) {
-        char *v = fmpq_get_str(NULL, 10, f->param_values + k);
-        embz_buf_printf(&b, "%s%s=%s", k ? ", " : " (", f->param_names[k], v);
-        flint_free(v);
-    }
-    if (f->nparams > 0) embz_buf_printf(&b, ")");
-    return b.s;
-}
-
 /* ---------------------------------------------------------------- fidelity measures */
 
 static const char *measure_meaning(int m)
@@ -215,10 +175,11 @@ static const char *measure_meaning(int m)
 static void json_ends(embz_buf_t *b, const char *name, const arb_t x)
 {
     char *lo = embz_arb_lo_string(x, JSON_DIGITS), *hi = embz_arb_hi_string(x, JSON_DIGITS);
-    embz_buf_printf(b, ", \"%s_lo\": ", name);
-    embz_buf_json_string(b, lo);
-    embz_buf_printf(b, ", \"%s_hi\": ", name);
-    embz_buf_json_string(b, hi);
+    char key[64];
+    snprintf(key, sizeof(key), "%s_lo", name);
+    cli_buf_json_key_string(b, key, lo);
+    snprintf(key, sizeof(key), "%s_hi", name);
+    cli_buf_json_key_string(b, key, hi);
     free(lo); free(hi);
 }
 
@@ -226,20 +187,15 @@ static char *params_text(const embz_family_t fam, int json)
 {
     embz_buf_t pj;
     embz_buf_init(&pj);
-    if (json) embz_buf_printf(&pj, "{");
+    if (json) {
+        cli_buf_json_params(&pj, fam);
+        return pj.s;
+    }
     for (long k = 0; k < fam->nparams; k++) {
         char *v = fmpq_get_str(NULL, 10, fam->param_values + k);
-        if (json) {
-            embz_buf_printf(&pj, "%s", k ? ", " : "");
-            embz_buf_json_string(&pj, fam->param_names[k]);
-            embz_buf_printf(&pj, ": ");
-            embz_buf_json_string(&pj, v);
-        } else {
-            embz_buf_printf(&pj, "%s%s=%s", k ? ";" : "", fam->param_names[k], v);
-        }
+        embz_buf_printf(&pj, "%s%s=%s", k ? ";" : "", fam->param_names[k], v);
         flint_free(v);
     }
-    if (json) embz_buf_printf(&pj, "}");
     return pj.s;
 }
 
@@ -276,30 +232,19 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
         char *pj = params_text(fam, 1);
         embz_buf_printf(&b, "{\"family\": ");
         embz_buf_json_string(&b, fam->name);
-        embz_buf_printf(&b, ", \"params\": %s, \"weight\": ", pj);
-        embz_buf_json_string(&b, w);
-        embz_buf_printf(&b, ", \"n\": ");
-        embz_buf_json_string(&b, ns);
-        embz_buf_printf(&b, ", \"target\": ");
-        embz_buf_json_string(&b, q->label);
-        embz_buf_printf(&b, ", \"measure\": ");
-        embz_buf_json_string(&b, mname);
-        embz_buf_printf(&b, ", \"meaning\": ");
-        embz_buf_json_string(&b, measure_meaning(measure));
-        embz_buf_printf(&b, ", \"method\": ");
-        embz_buf_json_string(&b, how);
+        embz_buf_printf(&b, ", \"params\": %s", pj);
+        const char *head[6][2] = { { "weight", w }, { "n", ns }, { "target", q->label },
+                                   { "measure", mname }, { "meaning", measure_meaning(measure) },
+                                   { "method", how } };
+        for (int k = 0; k < 6; k++) cli_buf_json_key_string(&b, head[k][0], head[k][1]);
         embz_buf_printf(&b, ", \"bounds_only\": %s", res->bounds_only ? "true" : "false");
-        embz_buf_printf(&b, ", \"value\": ");
-        if (res->bounds_only) embz_buf_printf(&b, "null");
-        else cli_buf_json_double(&b, embz_arb_mid_d(res->value));
-        embz_buf_printf(&b, ", \"value_lo\": ");
-        embz_buf_json_string(&b, lo);
-        embz_buf_printf(&b, ", \"value_hi\": ");
-        embz_buf_json_string(&b, hi);
+        /* NaN is written as null */
+        cli_buf_json_key_double(&b, "value", res->bounds_only ? NAN : embz_arb_mid_d(res->value));
+        cli_buf_json_key_string(&b, "value_lo", lo);
+        cli_buf_json_key_string(&b, "value_hi", hi);
         if (!res->bounds_only) {
             char *c = embz_arb_certified_string(res->value, CERT_DIGITS);
-            embz_buf_printf(&b, ", \"value_certified\": ");
-            embz_buf_json_string(&b, c);
+            cli_buf_json_key_string(&b, "value_certified", c);
             free(c);
         }
         if (!res->bounds_only) {
@@ -308,8 +253,7 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
         }
         if (measure == EMBZ_MEASURE_OVERLAP) json_ends(&b, "overlap", res->overlap);
         if (res->bounds_only) json_ends(&b, "K", res->K);
-        embz_buf_printf(&b, ", \"detail\": ");
-        embz_buf_json_string(&b, res->detail);
+        cli_buf_json_key_string(&b, "detail", res->detail);
         embz_buf_printf(&b, "}\n");
         free(pj);
     } else if (csv) {
@@ -317,22 +261,17 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
         embz_buf_printf(&b, "family,params,weight,n,target,measure,bounds_only,value,value_lo,"
                         "value_hi,detail\n");
         const char *f1[] = { fam->name, pt, w, ns, q->label, mname };
-        for (int k = 0; k < 6; k++) {
-            cli_buf_csv_field(&b, f1[k]);
-            embz_buf_printf(&b, ",");
-        }
+        cli_buf_csv_fields(&b, f1, 6);
         embz_buf_printf(&b, "%s,", res->bounds_only ? "true" : "false");
         if (!res->bounds_only) embz_buf_printf(&b, "%.17g", embz_arb_mid_d(res->value));
         embz_buf_printf(&b, ",");
-        cli_buf_csv_field(&b, lo);
-        embz_buf_printf(&b, ",");
-        cli_buf_csv_field(&b, hi);
-        embz_buf_printf(&b, ",");
+        const char *f2[] = { lo, hi };
+        cli_buf_csv_fields(&b, f2, 2);
         cli_buf_csv_field(&b, res->detail);
         embz_buf_printf(&b, "\n");
         free(pt);
     } else {
-        char *label = family_label(fam);
+        char *label = cli_family_label(fam);
         char *nt = int_text(n);
         embz_buf_printf(&b, "%-10s %s\n", "family", label);
         if (strcmp(fam->name, w) != 0) embz_buf_printf(&b, "%-10s %s\n", "weight", w);
@@ -387,21 +326,13 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
 int cli_cmd_error(int argc, char **argv)
 {
     cli_args_t a;
-    int pr = cli_parse(&a, &error_spec, argc, argv);
-    if (pr != CLI_PARSE_OK) {
-        cli_args_clear(&a);
-        return pr == CLI_PARSE_HELP ? CLI_EXIT_OK : CLI_EXIT_USAGE;
-    }
-    int code = CLI_EXIT_OK, status;
+    int code, status;
+    if (!cli_begin(&a, &error_spec, argc, argv, &code)) return code;
     embz_err_t err;
     fmpz_t n;
     embz_family_t fam;
     embz_target_t q;
     embz_error_result_t res;
-    long nset = 0;
-    const char *const *sets = cli_list(&a, "set", &nset);
-    embz_setting_t *settings = calloc((size_t) (nset > 0 ? nset : 1), sizeof(embz_setting_t));
-    char **setcopies = calloc((size_t) (nset > 0 ? nset : 1), sizeof(char *));
     long prec = DEFAULT_PREC;
     int method = EMBZ_METHOD_AUTO;
 
@@ -413,8 +344,6 @@ int cli_cmd_error(int argc, char **argv)
 
     int json = cli_flag(&a, "json"), csv = cli_flag(&a, "csv");
     const char *size_text = cli_value(&a, "size");
-    const char *target_text = cli_value(&a, "target");
-    const char *prec_text = cli_value(&a, "prec");
     const char *method_text = cli_value(&a, "method");
     const char *measure_text = cli_value(&a, "measure");
     int measure = EMBZ_MEASURE_K;
@@ -427,11 +356,7 @@ int cli_cmd_error(int argc, char **argv)
         code = cli_usage_error(&error_spec, "the size is required: -n N");
         goto done;
     }
-    if (prec_text != NULL && cli_parse_long(&prec, prec_text, 16, 1L << 20)) {
-        code = cli_usage_error(&error_spec, "bad precision '%s' (bits, 16 to %ld)", prec_text,
-                               1L << 20);
-        goto done;
-    }
+    if ((code = cli_load_prec(&prec, &a, &error_spec)) != 0) goto done;
     if (method_text != NULL) {
         if (strcmp(method_text, "auto") == 0) method = EMBZ_METHOD_AUTO;
         else if (strcmp(method_text, "explicit") == 0) method = EMBZ_METHOD_EXPLICIT;
@@ -460,31 +385,9 @@ int cli_cmd_error(int argc, char **argv)
         code = CLI_EXIT_USAGE;
         goto done;
     }
-    for (long k = 0; k < nset; k++) {
-        setcopies[k] = dup(sets[k]);
-        status = embz_setting_split(&settings[k], setcopies[k], &err);
-        if (status != EMBZ_OK) {
-            code = cli_report("error", status, &err);
-            goto done;
-        }
-    }
-    status = embz_family_resolve(fam, a.pos[0], settings, nset, cli_flag(&a, "amplitude"),
-                                 &err);
-    if (status != EMBZ_OK) {
-        code = cli_report("error", status, &err);
+    if ((code = cli_load_family(fam, &a, a.pos[0], "error")) != 0
+        || (code = cli_load_target(q, &a, "error")) != 0)
         goto done;
-    }
-    if (target_text != NULL) {
-        embz_err_clear(&err);
-        status = embz_target_parse(q, target_text, 0, &err);
-        if (status != EMBZ_OK) {
-            char buf[3000];
-            embz_err_format(buf, sizeof(buf), &err);
-            fprintf(stderr, "embz error: bad target '%s': %s\n", target_text, buf);
-            code = cli_exit_code(status);
-            goto done;
-        }
-    }
 
     embz_err_clear(&err);
     if (measure != EMBZ_MEASURE_K) {
@@ -499,36 +402,14 @@ int cli_cmd_error(int argc, char **argv)
 
     row_t r;
     memset(&r, 0, sizeof(r));
-    r.label = family_label(fam);
-    r.family = dup(fam->name);
-    {
-        embz_buf_t pj, pt;
-        embz_buf_init(&pj);
-        embz_buf_init(&pt);
-        embz_buf_printf(&pj, "{");
-        for (long k = 0; k < fam->nparams; k++) {
-            char *v = fmpq_get_str(NULL, 10, fam->param_values + k);
-            embz_buf_printf(&pt, "%s%s=%s", k ? ";" : "", fam->param_names[k], v);
-            embz_buf_printf(&pj, "%s", k ? ", " : "");
-            embz_buf_json_string(&pj, fam->param_names[k]);
-            embz_buf_printf(&pj, ": ");
-            embz_buf_json_string(&pj, v);
-            flint_free(v);
-        }
-        embz_buf_printf(&pj, "}");
-        r.params_json = pj.s;
-        r.params_text = pt.s;
-    }
-    r.weight = dup(fam->weight_text);
-    if (fam->amplitude) {
-        free(r.weight);
-        size_t l = strlen(fam->weight_text) + 32;
-        r.weight = malloc(l);
-        snprintf(r.weight, l, "(%s)^2", fam->weight_text);
-    }
+    r.label = cli_family_label(fam);
+    r.family = cli_strdup(fam->name);
+    r.params_json = params_text(fam, 1);
+    r.params_text = params_text(fam, 0);
+    r.weight = weight_text(fam);
     r.n = fmpz_get_str(NULL, 10, n);
-    r.target = dup(q->label);
-    r.method = dup(method_name(res->method));
+    r.target = cli_strdup(q->label);
+    r.method = cli_strdup(method_name(res->method));
     r.cert = embz_arb_certified_string(res->error, CERT_DIGITS);
     r.lo = embz_arb_lo_string(res->error, JSON_DIGITS);
     r.hi = embz_arb_hi_string(res->error, JSON_DIGITS);
@@ -538,7 +419,7 @@ int cli_cmd_error(int argc, char **argv)
         r.blo = embz_arb_lo_string(res->lower, JSON_DIGITS);
         r.bhi = embz_arb_hi_string(res->upper, JSON_DIGITS);
     }
-    r.detail = dup(res->detail);
+    r.detail = cli_strdup(res->detail);
     r.mid = embz_arb_mid_d(res->error);
     r.radius = cli_arb_radius_d(res->error);
     r.estimate = res->estimate;
@@ -553,9 +434,6 @@ int cli_cmd_error(int argc, char **argv)
     row_clear(&r);
 
 done:
-    for (long k = 0; k < nset; k++) free(setcopies[k]);
-    free(setcopies);
-    free(settings);
     embz_error_result_clear(res);
     embz_target_clear(q);
     embz_family_clear(fam);

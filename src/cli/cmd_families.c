@@ -5,7 +5,7 @@
 
 static const cli_opt_t families_opts[] = {
     { "json", 0, CLI_FLAG, NULL, "print a JSON array instead of the table" },
-    { NULL, 0, 0, NULL, NULL }
+    CLI_OPT_END
 };
 
 static const cli_spec_t families_spec = {
@@ -32,11 +32,8 @@ static char *param_text(const embz_family_t f)
 int cli_cmd_families(int argc, char **argv)
 {
     cli_args_t a;
-    int pr = cli_parse(&a, &families_spec, argc, argv);
-    if (pr != CLI_PARSE_OK) {
-        cli_args_clear(&a);
-        return pr == CLI_PARSE_HELP ? CLI_EXIT_OK : CLI_EXIT_USAGE;
-    }
+    int pr;
+    if (!cli_begin(&a, &families_spec, argc, argv, &pr)) return pr;
     int json = cli_flag(&a, "json");
     cli_args_clear(&a);
 
@@ -73,20 +70,11 @@ int cli_cmd_families(int argc, char **argv)
             embz_buf_json_string(&out, f->name);
             embz_buf_printf(&out, ", \"%s\": ", f->amplitude ? "amplitude" : "weight");
             embz_buf_json_string(&out, f->weight_text);
-            embz_buf_printf(&out, ", \"depends_on_n\": %s, \"params\": {",
+            embz_buf_printf(&out, ", \"depends_on_n\": %s, \"params\": ",
                             embz_family_depends_on_n(fams[k]) ? "true" : "false");
-            for (long j = 0; j < f->nparams; j++) {
-                char *v = fmpq_get_str(NULL, 10, f->param_values + j);
-                embz_buf_printf(&out, "%s", j ? ", " : "");
-                embz_buf_json_string(&out, f->param_names[j]);
-                embz_buf_printf(&out, ": ");
-                embz_buf_json_string(&out, v);
-                flint_free(v);
-            }
-            embz_buf_printf(&out, "}, \"description\": ");
-            embz_buf_json_string(&out, f->description);
-            embz_buf_printf(&out, ", \"file\": ");
-            embz_buf_json_string(&out, f->origin);
+            cli_buf_json_params(&out, f);
+            cli_buf_json_key_string(&out, "description", f->description);
+            cli_buf_json_key_string(&out, "file", f->origin);
             embz_buf_printf(&out, "}");
         }
         embz_buf_printf(&out, "\n]\n");

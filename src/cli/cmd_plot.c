@@ -17,7 +17,7 @@ static const cli_opt_t plot_opts[] = {
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter of the families that have it" },
     { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 64)" },
     { "title", 0, CLI_VALUE, "TEXT", "title of the figure" },
-    { NULL, 0, 0, NULL, NULL }
+    CLI_OPT_END
 };
 
 static const cli_spec_t plot_spec = {
@@ -33,14 +33,6 @@ static const cli_spec_t plot_spec = {
 };
 
 #define EXPLICIT_UP_TO 100000
-
-static char *sdup(const char *s)
-{
-    size_t l = strlen(s) + 1;
-    char *d = malloc(l);
-    memcpy(d, s, l);
-    return d;
-}
 
 /* log10 of the ball's lower end, midpoint and upper end (doubles, for drawing). */
 static void arb_log10_d(double *lo, double *mid, double *hi, const arb_t x)
@@ -120,66 +112,26 @@ static slong log_sizes(fmpz *out, const fmpz_t a, const fmpz_t b, slong k)
     return len;
 }
 
-static char *family_label(const embz_family_t f)
-{
-    embz_buf_t b;
-    embz_buf_init(&b);
-    embz_buf_printf(&b, "%s", f->name);
-    for (long k = 0; k < f->nparams; k++) {
-        char *v = fmpq_get_str(NULL, 10, f->param_values + k);
-        embz_buf_printf(&b, "%s%s=%s", k ? ", " : " (", f->param_names[k], v);
-        flint_free(v);
-    }
-    if (f->nparams > 0)
-        embz_buf_printf(&b, ")");
-    return b.s;
-}
-
-static int has_param(const embz_family_t f, const char *name)
-{
-    for (long k = 0; k < f->nparams; k++)
-        if (strcmp(f->param_names[k], name) == 0)
-            return 1;
-    return 0;
-}
-
-static int bad_size(const char *what, const char *text, embz_err_t *err)
-{
-    char buf[3000];
-    embz_err_format(buf, sizeof(buf), err);
-    fprintf(stderr, "embz plot: bad %s '%s': %s\n", what, text, buf);
-    return CLI_EXIT_USAGE;
-}
-
 int cli_cmd_plot(int argc, char **argv)
 {
     cli_args_t a;
-    int pr = cli_parse(&a, &plot_spec, argc, argv);
-    if (pr != CLI_PARSE_OK) {
-        cli_args_clear(&a);
-        return pr == CLI_PARSE_HELP ? CLI_EXIT_OK : CLI_EXIT_USAGE;
-    }
-    int code = CLI_EXIT_OK, status;
+    int code, status;
+    if (!cli_begin(&a, &plot_spec, argc, argv, &code)) return code;
     embz_err_t err;
     embz_err_clear(&err);
     const char *out = cli_value(&a, "output");
-    const char *from_text = cli_value(&a, "from") ? cli_value(&a, "from") : "10";
-    const char *to_text = cli_value(&a, "to") ? cli_value(&a, "to") : "10^6";
     const char *eps_text = cli_value(&a, "eps") ? cli_value(&a, "eps") : "0.1";
     long points = 12, prec = 64;
     double eps = 0.1;
-    long nfam = a.npos, nset = 0;
-    const char *const *sets = cli_list(&a, "set", &nset);
-    embz_setting_t *settings = calloc(nset + 1, sizeof(embz_setting_t));
-    char **setcopies = calloc(nset + 1, sizeof(char *));
-    int *used = calloc(nset + 1, sizeof(int));
+    long nfam = a.npos;
     embz_family_struct *fam = calloc(nfam, sizeof(embz_family_struct));
     fmpz *sizes = _fmpz_vec_init(1024);
     fmpz_t A, B;
     embz_target_t q;
     embz_plot_t fig;
-    fmpz_init(A);
+    fmpz_init_set_ui(A, 10);
     fmpz_init(B);
+    fmpz_ui_pow_ui(B, 10, 6);
     embz_target_init(q);
     for (long i = 0; i < nfam; i++)
         embz_family_init(fam + i);
@@ -197,15 +149,9 @@ int cli_cmd_plot(int argc, char **argv)
             goto done;
         }
     }
-    if (cli_value(&a, "points") && cli_parse_long(&points, cli_value(&a, "points"), 2, 1000)) {
-        code = cli_usage_error(&plot_spec, "bad number of points '%s' (2 to 1000)",
-                               cli_value(&a, "points"));
+    if ((code = cli_load_range(A, B, &points, 2, 1000, &a, &plot_spec)) != 0
+        || (code = cli_load_prec_upto(&prec, &a, &plot_spec, 1L << 16)) != 0)
         goto done;
-    }
-    if (cli_value(&a, "prec") && cli_parse_long(&prec, cli_value(&a, "prec"), 16, 1L << 16)) {
-        code = cli_usage_error(&plot_spec, "bad precision '%s'", cli_value(&a, "prec"));
-        goto done;
-    }
     {
         char *end;
         eps = strtod(eps_text, &end);
@@ -215,70 +161,14 @@ int cli_cmd_plot(int argc, char **argv)
             goto done;
         }
     }
-    if ((status = embz_size_parse(A, from_text, &err)) != EMBZ_OK) {
-        code = bad_size("size", from_text, &err);
-        goto done;
-    }
-    if ((status = embz_size_parse(B, to_text, &err)) != EMBZ_OK) {
-        code = bad_size("size", to_text, &err);
-        goto done;
-    }
-    if (fmpz_cmp_ui(A, 1) < 0 || fmpz_cmp(A, B) >= 0) {
+    if (fmpz_equal(A, B)) {
         code = cli_usage_error(&plot_spec, "need 1 <= --from < --to");
         goto done;
     }
-    if (cli_value(&a, "target")) {
-        status = embz_target_parse(q, cli_value(&a, "target"), 0, &err);
-        if (status != EMBZ_OK) {
-            code = bad_size("target", cli_value(&a, "target"), &err);
-            goto done;
-        }
-    }
-    for (long k = 0; k < nset; k++) {
-        setcopies[k] = sdup(sets[k]);
-        if ((status = embz_setting_split(&settings[k], setcopies[k], &err)) != EMBZ_OK) {
-            code = cli_report("plot", status, &err);
-            goto done;
-        }
-    }
     /* families: each takes the settings naming one of its parameters */
-    for (long i = 0; i < nfam; i++) {
-        embz_err_clear(&err);
-        status = embz_family_resolve(fam + i, a.pos[i], NULL, 0, 0, &err);
-        if (status != EMBZ_OK) {
-            /* an inline expression declares its parameters through the settings */
-            embz_family_clear(fam + i);
-            embz_family_init(fam + i);
-            embz_err_clear(&err);
-            status = embz_family_resolve(fam + i, a.pos[i], settings, nset, 0, &err);
-            if (status != EMBZ_OK) {
-                code = cli_report("plot", status, &err);
-                goto done;
-            }
-            for (long k = 0; k < nset; k++)
-                used[k] = 1;
-            continue;
-        }
-        embz_setting_t *mine = calloc(nset + 1, sizeof(embz_setting_t));
-        long nmine = 0;
-        for (long k = 0; k < nset; k++)
-            if (has_param(fam + i, settings[k].name)) {
-                mine[nmine++] = settings[k];
-                used[k] = 1;
-            }
-        status = nmine ? embz_family_apply_settings(fam + i, mine, nmine, &err) : EMBZ_OK;
-        free(mine);
-        if (status != EMBZ_OK) {
-            code = cli_report("plot", status, &err);
-            goto done;
-        }
-    }
-    for (long k = 0; k < nset; k++)
-        if (!used[k]) {
-            code = cli_usage_error(&plot_spec, "no family has a parameter '%s'",
-                                   settings[k].name);
-            goto done;
-        }
+    if ((code = cli_load_target(q, &a, "plot")) != 0
+        || (code = cli_compare_load(fam, nfam, a.pos, &a, &plot_spec)) != 0)
+        goto done;
 
     slong ns = log_sizes(sizes, A, B, points);
     char title[160];
@@ -287,7 +177,7 @@ int cli_cmd_plot(int argc, char **argv)
                                    "E\xe2\x82\x99(q) (certified; bars where visible)", 1, 1);
     long skipped = 0;
     for (long i = 0; i < nfam; i++) {
-        char *label = family_label(fam + i);
+        char *label = cli_family_label(fam + i);
         slong s = embz_plot_add_series(fig, pe, label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE, -1000);
         embz_analytic_t eng;
         embz_analytic_init(eng, fam + i, prec);
@@ -341,7 +231,7 @@ int cli_cmd_plot(int argc, char **argv)
         arb_init(w);
         arb_init(w1);
         for (long i = 0; i < nfam; i++) {
-            char *label = family_label(fam + i);
+            char *label = cli_family_label(fam + i);
             slong s = embz_plot_add_series(fig, pw, label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE,
                                            i);
             embz_err_clear(&err);
@@ -406,11 +296,6 @@ done:
     for (long i = 0; i < nfam; i++)
         embz_family_clear(fam + i);
     free(fam);
-    for (long k = 0; k < nset; k++)
-        free(setcopies[k]);
-    free(setcopies);
-    free(settings);
-    free(used);
     _fmpz_vec_clear(sizes, 1024);
     embz_target_clear(q);
     fmpz_clear(A);

@@ -14,12 +14,12 @@ static const cli_opt_t scan_opts[] = {
     { "points", 'k', CLI_VALUE, "K", "sizes per sweep (default 12)" },
     { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 64)" },
     { "set", 's', CLI_LIST, "NAME=VALUE", "fix a parameter that is not scanned" },
-    { "amplitude", 0, CLI_FLAG, NULL, "the expression gives amplitudes; weights are squares" },
+    CLI_OPT_AMPLITUDE,
     { "numeric-only", 0, CLI_FLAG, NULL, "skip the analytic (asymptotic expansion) route" },
     { "no-header", 0, CLI_FLAG, NULL, "CSV without the header line (for concatenating shards)" },
     { "json", 0, CLI_FLAG, NULL, "print JSON lines, one object per grid point" },
     { "csv", 0, CLI_FLAG, NULL, "print CSV (the default)" },
-    { NULL, 0, 0, NULL, NULL }
+    CLI_OPT_END
 };
 
 static const cli_spec_t scan_spec = {
@@ -43,21 +43,15 @@ static void csv_num(embz_buf_t *b, double x)
 int cli_cmd_scan(int argc, char **argv)
 {
     cli_args_t a;
-    int pr = cli_parse(&a, &scan_spec, argc, argv);
-    if (pr != CLI_PARSE_OK) {
-        cli_args_clear(&a);
-        return pr == CLI_PARSE_HELP ? CLI_EXIT_OK : CLI_EXIT_USAGE;
-    }
-    int code = CLI_EXIT_OK, status;
+    int code, status = EMBZ_OK;
+    if (!cli_begin(&a, &scan_spec, argc, argv, &code)) return code;
     embz_err_t err;
     embz_family_t fam;
     embz_classify_opts_t o;
     embz_scan_t sc;
-    long nset = 0, ngrid = 0, prec = 64, points = 12, threads = 1, shard = 1, nshards = 1;
-    const char *const *sets = cli_list(&a, "set", &nset);
+    long ngrid = 0, prec = 64, points = 12, threads = 1, shard = 1, nshards = 1;
     const char *const *grids = cli_list(&a, "grid", &ngrid);
-    embz_setting_t *settings = calloc((size_t) (nset > 0 ? nset : 1), sizeof(embz_setting_t));
-    char **setcopies = calloc((size_t) (nset > 0 ? nset : 1), sizeof(char *));
+    cli_settings_t set = { NULL, NULL, 0 };
     embz_grid_axis_struct *axes = calloc((size_t) (ngrid > 0 ? ngrid : 1),
                                          sizeof(embz_grid_axis_struct));
     long naxes = 0;
@@ -78,14 +72,7 @@ int cli_cmd_scan(int argc, char **argv)
         code = cli_usage_error(&scan_spec, "at least one --grid NAME=LO:HI:COUNT is required");
         goto done;
     }
-    if ((t = cli_value(&a, "prec")) != NULL && cli_parse_long(&prec, t, 16, 1L << 16)) {
-        code = cli_usage_error(&scan_spec, "bad precision '%s' (bits, 16 to 65536)", t);
-        goto done;
-    }
-    if ((t = cli_value(&a, "points")) != NULL && cli_parse_long(&points, t, 5, 100000)) {
-        code = cli_usage_error(&scan_spec, "bad number of points '%s' (5 to 100000)", t);
-        goto done;
-    }
+    if ((code = cli_load_prec_upto(&prec, &a, &scan_spec, 1L << 16)) != 0) goto done;
     if ((t = cli_value(&a, "threads")) != NULL && cli_parse_long(&threads, t, 1, 1024)) {
         code = cli_usage_error(&scan_spec, "bad thread count '%s' (1 to 1024)", t);
         goto done;
@@ -106,24 +93,11 @@ int cli_cmd_scan(int argc, char **argv)
             goto done;
         }
     }
+    if ((code = cli_load_range(o->from, o->to, &points, 5, 100000, &a, &scan_spec)) != 0)
+        goto done;
     o->prec = prec;
     o->points = points;
     o->use_analytic = !cli_flag(&a, "numeric-only");
-    const char *names[2] = { "from", "to" };
-    fmpz *vals[2] = { o->from, o->to };
-    for (int k = 0; k < 2; k++) {
-        if ((t = cli_value(&a, names[k])) == NULL) continue;
-        status = embz_size_parse(vals[k], t, &err);
-        if (status != EMBZ_OK || fmpz_cmp_ui(vals[k], 1) < 0) {
-            code = cli_usage_error(&scan_spec, "bad size for --%s: '%s'%s%s", names[k], t,
-                                   err.text[0] ? ": " : "", err.text);
-            goto done;
-        }
-    }
-    if (fmpz_cmp(o->from, o->to) > 0) {
-        code = cli_usage_error(&scan_spec, "--from must not exceed --to");
-        goto done;
-    }
     for (long k = 0; k < ngrid; k++) {
         status = embz_grid_axis_parse(axes + k, grids[k], &err);
         naxes = k + 1;
@@ -132,27 +106,18 @@ int cli_cmd_scan(int argc, char **argv)
             goto done;
         }
     }
-    for (long k = 0; k < nset; k++) {
-        size_t l = strlen(sets[k]) + 1;
-        setcopies[k] = malloc(l);
-        memcpy(setcopies[k], sets[k], l);
-        status = embz_setting_split(&settings[k], setcopies[k], &err);
-        if (status != EMBZ_OK) {
-            code = cli_report("scan", status, &err);
-            goto done;
-        }
-    }
+    if ((code = cli_settings_load(&set, &a, "scan")) != 0) goto done;
     /* an inline expression declares its parameters through settings: the grid's names count
      * as settings (with the lower ends) when they are not set otherwise */
     {
-        long extra = 0;
+        long nset = set.len, extra = 0;
         embz_setting_t *all = calloc((size_t) (nset + naxes + 1), sizeof(embz_setting_t));
         char **lo_text = calloc((size_t) (naxes + 1), sizeof(char *));
-        for (long k = 0; k < nset; k++) all[k] = settings[k];
+        for (long k = 0; k < nset; k++) all[k] = set.v[k];
         for (long k = 0; k < naxes; k++) {
             int found = 0;
             for (long s = 0; s < nset; s++)
-                if (strcmp(settings[s].name, axes[k].name) == 0) found = 1;
+                if (strcmp(set.v[s].name, axes[k].name) == 0) found = 1;
             if (found) continue;
             lo_text[k] = fmpq_get_str(NULL, 10, axes[k].lo);
             all[nset + extra].name = axes[k].name;
@@ -202,29 +167,16 @@ int cli_cmd_scan(int argc, char **argv)
                 embz_buf_printf(&b, ": \"%s\"", v);
                 flint_free(v);
             }
-            embz_buf_printf(&b, "}, \"status\": ");
-            embz_buf_json_string(&b, row->status == EMBZ_OK ? "ok" : row->message);
-            embz_buf_printf(&b, ", \"verdict\": \"%s\", \"numeric_verdict\": \"%s\", "
-                            "\"analytic_verdict\": ", embz_verdict_id(c->verdict),
-                            embz_verdict_id(c->numeric_verdict));
-            if (av[0]) embz_buf_printf(&b, "\"%s\"", av);
-            else embz_buf_printf(&b, "null");
-            embz_buf_printf(&b, ", \"limit\": {\"value\": ");
-            cli_buf_json_double(&b, c->limit_value);
-            embz_buf_printf(&b, ", \"lo\": ");
-            cli_buf_json_double(&b, c->limit_lo);
-            embz_buf_printf(&b, ", \"hi\": ");
-            cli_buf_json_double(&b, c->limit_hi);
-            embz_buf_printf(&b, "}, \"law\": \"%s\", \"exponent\": {\"value\": ",
-                            embz_law_id(c->law));
-            cli_buf_json_double(&b, c->exponent);
-            embz_buf_printf(&b, ", \"lo\": ");
-            cli_buf_json_double(&b, c->exponent_lo);
-            embz_buf_printf(&b, ", \"hi\": ");
-            cli_buf_json_double(&b, c->exponent_hi);
+            embz_buf_printf(&b, "}");
+            cli_buf_json_key_string(&b, "status", row->status == EMBZ_OK ? "ok" : row->message);
+            embz_buf_printf(&b, ", ");
+            cli_buf_json_verdicts(&b, c);
+            embz_buf_printf(&b, ", \"limit\": {");
+            cli_buf_json_vlohi(&b, c->limit_value, c->limit_lo, c->limit_hi);
+            embz_buf_printf(&b, "}, \"law\": \"%s\", \"exponent\": {", embz_law_id(c->law));
+            cli_buf_json_vlohi(&b, c->exponent, c->exponent_lo, c->exponent_hi);
             embz_buf_printf(&b, "}, \"asymptotic_form\": ");
-            if (c->asymptotic_form[0]) embz_buf_json_string(&b, c->asymptotic_form);
-            else embz_buf_printf(&b, "null");
+            cli_buf_json_string_or_null(&b, c->asymptotic_form);
             embz_buf_printf(&b, "}\n");
         } else {
             embz_buf_printf(&b, "%ld", (long) row->index);
@@ -258,9 +210,7 @@ int cli_cmd_scan(int argc, char **argv)
 done:
     for (long k = 0; k < naxes; k++) embz_grid_axis_clear(axes + k);
     free(axes);
-    for (long k = 0; k < nset; k++) free(setcopies[k]);
-    free(setcopies);
-    free(settings);
+    cli_settings_clear(&set);
     embz_scan_clear(sc);
     embz_classify_opts_clear(o);
     embz_family_clear(fam);

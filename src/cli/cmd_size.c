@@ -11,9 +11,9 @@ static const cli_opt_t size_opts[] = {
     { "qubits", 0, CLI_FLAG, NULL, "stop once the qubits per side are decided (faster at huge n)" },
     { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 128; raised where undecided)" },
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter" },
-    { "amplitude", 0, CLI_FLAG, NULL, "the expression gives amplitudes; weights are squares" },
-    { "json", 0, CLI_FLAG, NULL, "print one JSON object" },
-    { NULL, 0, 0, NULL, NULL }
+    CLI_OPT_AMPLITUDE,
+    CLI_OPT_JSON,
+    CLI_OPT_END
 };
 
 static const cli_spec_t size_spec = {
@@ -192,12 +192,8 @@ static int never_reason(char *buf, size_t len, const embz_family_t fam, const em
 int cli_cmd_size(int argc, char **argv)
 {
     cli_args_t a;
-    int pr = cli_parse(&a, &size_spec, argc, argv);
-    if (pr != CLI_PARSE_OK) {
-        cli_args_clear(&a);
-        return pr == CLI_PARSE_HELP ? CLI_EXIT_OK : CLI_EXIT_USAGE;
-    }
-    int code = CLI_EXIT_OK;
+    int code;
+    if (!cli_begin(&a, &size_spec, argc, argv, &code)) return code;
     long prec = 128;
     embz_family_t fam;
     embz_target_t q;

@@ -2,8 +2,6 @@
 #include <stdlib.h>
 #include <string.h>
 #include <math.h>
-#include <time.h>
-#include <unistd.h>
 #include "cli.h"
 
 static const cli_opt_t sweep_opts[] = {
@@ -12,12 +10,12 @@ static const cli_opt_t sweep_opts[] = {
     { "points", 'k', CLI_VALUE, "K", "number of log-spaced sizes (default 24)" },
     { "target", 't', CLI_VALUE, "T", "target: ebit (default), ebits:J, uniform:D, or a vector" },
     { "prec", 'p', CLI_VALUE, "BITS", "working precision of the ball arithmetic (default 64)" },
-    { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter (exact decimal, e.g. a=-0.7)" },
-    { "amplitude", 0, CLI_FLAG, NULL, "the expression gives amplitudes; weights are squares" },
+    CLI_OPT_SET,
+    CLI_OPT_AMPLITUDE,
     { "no-fit", 0, CLI_FLAG, NULL, "do not fit decay laws" },
-    { "json", 0, CLI_FLAG, NULL, "print one JSON object" },
+    CLI_OPT_JSON,
     { "csv", 0, CLI_FLAG, NULL, "print CSV: a header line and one row per size" },
-    { NULL, 0, 0, NULL, NULL }
+    CLI_OPT_END
 };
 
 static const cli_spec_t sweep_spec = {
@@ -36,30 +34,6 @@ static const cli_spec_t sweep_spec = {
 #define DEFAULT_PREC 64
 #define DEFAULT_POINTS 24
 
-static double now_s(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
-}
-
-typedef struct { double t0; int shown; } progress_t;
-
-static void progress_cb(void *ctx, slong done, slong total)
-{
-    progress_t *p = ctx;
-    double el = now_s() - p->t0;
-    if (el < 1.0 && !p->shown) return;
-    p->shown = 1;
-    int width = 30, fill = (int) (width * done / (total > 0 ? total : 1));
-    char bar[40];
-    for (int k = 0; k < width; k++) bar[k] = k < fill ? '#' : '.';
-    bar[width] = '\0';
-    fprintf(stderr, "\r[%s] %ld/%ld sizes, %.1f s", bar, (long) done, (long) total, el);
-    if (done == total) fprintf(stderr, "\r%*s\r", width + 40, "");
-    fflush(stderr);
-}
-
 static const char *method_name(int m)
 {
     return m == EMBZ_METHOD_EXPLICIT ? "explicit" : m == EMBZ_METHOD_ANALYTIC ? "analytic"
@@ -69,6 +43,31 @@ static const char *method_name(int m)
 static double log10_of(const embz_sweep_point_struct *p)
 {
     return p->log_n / log(10.0);
+}
+
+/* The texts of one point for the CSV and JSON rows: the size in full, and for a computed
+ * point the enclosure's ends, its certified digits, the argmax and the block-mass bounds
+ * (NULL where they do not apply). */
+typedef struct { char *n, *lo, *hi, *ce, *ks, *bl, *bh; } point_text_t;
+
+static void point_text_init(point_text_t *t, const embz_sweep_point_struct *p)
+{
+    memset(t, 0, sizeof(*t));
+    t->n = fmpz_get_str(NULL, 10, p->n);
+    if (p->status != EMBZ_OK) return;
+    t->lo = embz_arb_lo_string(p->error, 30);
+    t->hi = embz_arb_hi_string(p->error, 30);
+    t->ce = embz_arb_certified_string(p->error, 30);
+    t->ks = fmpz_get_str(NULL, 10, p->argk);
+    if (!p->have_bounds) return;
+    t->bl = embz_arb_lo_string(p->lower, 20);
+    t->bh = embz_arb_hi_string(p->upper, 20);
+}
+
+static void point_text_clear(point_text_t *t)
+{
+    flint_free(t->n); flint_free(t->ks);
+    free(t->lo); free(t->hi); free(t->ce); free(t->bl); free(t->bh);
 }
 
 static void emit_fits_json(embz_buf_t *b, const embz_fitset_t fs)
@@ -89,18 +88,12 @@ static void emit_fits_json(embz_buf_t *b, const embz_fitset_t fs)
                            { F->g, F->g_lo, F->g_hi } };
         for (int k = 0; k < 3; k++) {
             if (k == 0 && (law == EMBZ_LAW_LOG || law == EMBZ_LAW_LOGLOG)) continue;
-            embz_buf_printf(b, ", \"%s\": {\"value\": ", names[k]);
-            cli_buf_json_double(b, v[k][0]);
-            embz_buf_printf(b, ", \"lo\": ");
-            cli_buf_json_double(b, v[k][1]);
-            embz_buf_printf(b, ", \"hi\": ");
-            cli_buf_json_double(b, v[k][2]);
+            embz_buf_printf(b, ", \"%s\": {", names[k]);
+            cli_buf_json_vlohi(b, v[k][0], v[k][1], v[k][2]);
             embz_buf_printf(b, "}");
         }
-        embz_buf_printf(b, ", \"bic\": ");
-        cli_buf_json_double(b, F->bic);
-        embz_buf_printf(b, ", \"max_rel_residual\": ");
-        cli_buf_json_double(b, F->max_rel);
+        cli_buf_json_key_double(b, "bic", F->bic);
+        cli_buf_json_key_double(b, "max_rel_residual", F->max_rel);
         embz_buf_printf(b, ", \"residuals\": [");
         for (slong j = 0; j < F->m && F->resid; j++) {
             embz_buf_printf(b, "%s", j ? ", " : "");
@@ -142,22 +135,15 @@ static void emit_fits_table(embz_buf_t *b, const embz_fitset_t fs)
 int cli_cmd_sweep(int argc, char **argv)
 {
     cli_args_t a;
-    int pr = cli_parse(&a, &sweep_spec, argc, argv);
-    if (pr != CLI_PARSE_OK) {
-        cli_args_clear(&a);
-        return pr == CLI_PARSE_HELP ? CLI_EXIT_OK : CLI_EXIT_USAGE;
-    }
-    int code = CLI_EXIT_OK, status;
+    int code, status;
+    if (!cli_begin(&a, &sweep_spec, argc, argv, &code)) return code;
     embz_err_t err;
     fmpz_t from, to;
     embz_family_t fam;
     embz_target_t q;
     embz_sweep_t sw;
     embz_fitset_t fs;
-    long nset = 0, prec = DEFAULT_PREC, points = DEFAULT_POINTS;
-    const char *const *sets = cli_list(&a, "set", &nset);
-    embz_setting_t *settings = calloc((size_t) (nset > 0 ? nset : 1), sizeof(embz_setting_t));
-    char **setcopies = calloc((size_t) (nset > 0 ? nset : 1), sizeof(char *));
+    long prec = DEFAULT_PREC, points = DEFAULT_POINTS;
     int have_fit = 0;
 
     fmpz_init(from);
@@ -169,72 +155,22 @@ int cli_cmd_sweep(int argc, char **argv)
     embz_err_clear(&err);
 
     int json = cli_flag(&a, "json"), csv = cli_flag(&a, "csv");
-    const char *t;
     if (json && csv) {
         code = cli_usage_error(&sweep_spec, "--json and --csv exclude each other");
         goto done;
     }
-    if ((t = cli_value(&a, "prec")) != NULL && cli_parse_long(&prec, t, 16, 1L << 16)) {
-        code = cli_usage_error(&sweep_spec, "bad precision '%s' (bits, 16 to 65536)", t);
-        goto done;
-    }
-    if ((t = cli_value(&a, "points")) != NULL && cli_parse_long(&points, t, 1, 100000)) {
-        code = cli_usage_error(&sweep_spec, "bad number of points '%s' (1 to 100000)", t);
-        goto done;
-    }
     fmpz_set_ui(from, 10);
     fmpz_ui_pow_ui(to, 10, 300);
-    const char *names[2] = { "from", "to" };
-    fmpz *vals[2] = { from, to };
-    for (int k = 0; k < 2; k++) {
-        if ((t = cli_value(&a, names[k])) == NULL) continue;
-        status = embz_size_parse(vals[k], t, &err);
-        if (status != EMBZ_OK || fmpz_cmp_ui(vals[k], 1) < 0) {
-            code = cli_usage_error(&sweep_spec, "bad size for --%s: '%s'%s%s", names[k], t,
-                                   err.text[0] ? ": " : "", err.text);
-            goto done;
-        }
-    }
-    if (fmpz_cmp(from, to) > 0) {
-        code = cli_usage_error(&sweep_spec, "--from must not exceed --to");
+    if ((code = cli_load_prec_upto(&prec, &a, &sweep_spec, 1L << 16)) != 0
+        || (code = cli_load_range(from, to, &points, 1, 100000, &a, &sweep_spec)) != 0
+        || (code = cli_load_family(fam, &a, a.pos[0], "sweep")) != 0
+        || (code = cli_load_target(q, &a, "sweep")) != 0)
         goto done;
-    }
-    for (long k = 0; k < nset; k++) {
-        size_t l = strlen(sets[k]) + 1;
-        setcopies[k] = malloc(l);
-        memcpy(setcopies[k], sets[k], l);
-        status = embz_setting_split(&settings[k], setcopies[k], &err);
-        if (status != EMBZ_OK) {
-            code = cli_report("sweep", status, &err);
-            goto done;
-        }
-    }
-    status = embz_family_resolve(fam, a.pos[0], settings, nset, cli_flag(&a, "amplitude"),
-                                 &err);
-    if (status != EMBZ_OK) {
-        code = cli_report("sweep", status, &err);
-        goto done;
-    }
-    if ((t = cli_value(&a, "target")) != NULL) {
-        embz_err_clear(&err);
-        status = embz_target_parse(q, t, 0, &err);
-        if (status != EMBZ_OK) {
-            char buf[3000];
-            embz_err_format(buf, sizeof(buf), &err);
-            fprintf(stderr, "embz sweep: bad target '%s': %s\n", t, buf);
-            code = cli_exit_code(status);
-            goto done;
-        }
-    }
 
-    progress_t prog = { now_s(), 0 };
-    embz_err_clear(&err);
-    status = embz_sweep_run(sw, fam, from, to, points, q, prec,
-                            isatty(fileno(stderr)) ? progress_cb : NULL, &prog, &err);
-    if (prog.shown) {
-        fprintf(stderr, "\r%*s\r", 70, "");
-        fflush(stderr);
-    }
+    cli_progress_t prog;
+    embz_progress_fn show = cli_progress_start(&prog, 1);
+    status = embz_sweep_run(sw, fam, from, to, points, q, prec, show, &prog, &err);
+    cli_progress_end(&prog);
     if (status != EMBZ_OK) {
         code = cli_report("sweep", status, &err);
         goto done;
@@ -252,79 +188,51 @@ int cli_cmd_sweep(int argc, char **argv)
                         "argmax,bound_lo,bound_hi,seconds,note\n");
         for (slong j = 0; j < sw->len; j++) {
             const embz_sweep_point_struct *p = sw->pts + j;
-            char *ns = fmpz_get_str(NULL, 10, p->n);
-            embz_buf_printf(&b, "%s,%.10g,%s,%s,", ns, log10_of(p),
+            point_text_t t;
+            point_text_init(&t, p);
+            embz_buf_printf(&b, "%s,%.10g,%s,%s,", t.n, log10_of(p),
                             p->status == EMBZ_OK ? "ok" : "skipped",
                             p->status == EMBZ_OK ? method_name(p->method) : "");
-            flint_free(ns);
             if (p->status == EMBZ_OK) {
-                char *lo = embz_arb_lo_string(p->error, 30), *hi = embz_arb_hi_string(p->error, 30);
-                char *ce = embz_arb_certified_string(p->error, 30);
-                char *ks = fmpz_get_str(NULL, 10, p->argk);
-                embz_buf_printf(&b, "%.17g,%s,%s,", embz_arb_mid_d(p->error), lo, hi);
-                cli_buf_csv_field(&b, ce);
-                embz_buf_printf(&b, ",%s,", ks);
-                free(lo); free(hi); free(ce); flint_free(ks);
-                if (p->have_bounds) {
-                    char *bl = embz_arb_lo_string(p->lower, 20);
-                    char *bh = embz_arb_hi_string(p->upper, 20);
-                    embz_buf_printf(&b, "%s,%s,", bl, bh);
-                    free(bl); free(bh);
-                } else {
-                    embz_buf_printf(&b, ",,");
-                }
+                embz_buf_printf(&b, "%.17g,%s,%s,", embz_arb_mid_d(p->error), t.lo, t.hi);
+                cli_buf_csv_field(&b, t.ce);
+                embz_buf_printf(&b, ",%s,%s,%s,", t.ks, t.bl ? t.bl : "", t.bh ? t.bh : "");
             } else {
                 embz_buf_printf(&b, ",,,,,,,");
             }
             embz_buf_printf(&b, "%.3f,", p->seconds);
             cli_buf_csv_field(&b, p->note);
             embz_buf_printf(&b, "\n");
+            point_text_clear(&t);
         }
     } else if (json) {
         embz_buf_printf(&b, "{\"family\": ");
         embz_buf_json_string(&b, fam->name);
-        embz_buf_printf(&b, ", \"weight\": ");
-        embz_buf_json_string(&b, fam->weight_text);
-        embz_buf_printf(&b, ", \"params\": {");
-        for (long k = 0; k < fam->nparams; k++) {
-            char *v = fmpq_get_str(NULL, 10, fam->param_values + k);
-            embz_buf_printf(&b, "%s", k ? ", " : "");
-            embz_buf_json_string(&b, fam->param_names[k]);
-            embz_buf_printf(&b, ": ");
-            embz_buf_json_string(&b, v);
-            flint_free(v);
-        }
-        embz_buf_printf(&b, "}, \"target\": ");
-        embz_buf_json_string(&b, q->label);
+        cli_buf_json_key_string(&b, "weight", fam->weight_text);
+        embz_buf_printf(&b, ", \"params\": ");
+        cli_buf_json_params(&b, fam);
+        cli_buf_json_key_string(&b, "target", q->label);
         embz_buf_printf(&b, ", \"prec\": %ld, \"points\": [", prec);
         for (slong j = 0; j < sw->len; j++) {
             const embz_sweep_point_struct *p = sw->pts + j;
-            char *ns = fmpz_get_str(NULL, 10, p->n);
+            point_text_t t;
+            point_text_init(&t, p);
             embz_buf_printf(&b, "%s\n  {\"n\": \"%s\", \"log10_n\": %.10g, \"status\": \"%s\"",
-                            j ? "," : "", ns, log10_of(p), p->status == EMBZ_OK ? "ok"
-                                                                                : "skipped");
-            flint_free(ns);
+                            j ? "," : "", t.n, log10_of(p), p->status == EMBZ_OK ? "ok"
+                                                                                 : "skipped");
             if (p->status == EMBZ_OK) {
-                char *lo = embz_arb_lo_string(p->error, 30), *hi = embz_arb_hi_string(p->error, 30);
-                char *ce = embz_arb_certified_string(p->error, 30);
-                char *ks = fmpz_get_str(NULL, 10, p->argk);
-                embz_buf_printf(&b, ", \"method\": \"%s\", \"error\": ", method_name(p->method));
-                cli_buf_json_double(&b, embz_arb_mid_d(p->error));
-                embz_buf_printf(&b, ", \"error_lo\": \"%s\", \"error_hi\": \"%s\", "
-                                "\"error_certified\": ", lo, hi);
-                embz_buf_json_string(&b, ce);
-                embz_buf_printf(&b, ", \"argmax\": \"%s\"", ks);
-                free(lo); free(hi); free(ce); flint_free(ks);
-                if (p->have_bounds) {
-                    char *bl = embz_arb_lo_string(p->lower, 20);
-                    char *bh = embz_arb_hi_string(p->upper, 20);
-                    embz_buf_printf(&b, ", \"bound_lo\": \"%s\", \"bound_hi\": \"%s\"", bl, bh);
-                    free(bl); free(bh);
-                }
+                embz_buf_printf(&b, ", \"method\": \"%s\"", method_name(p->method));
+                cli_buf_json_key_double(&b, "error", embz_arb_mid_d(p->error));
+                embz_buf_printf(&b, ", \"error_lo\": \"%s\", \"error_hi\": \"%s\"", t.lo, t.hi);
+                cli_buf_json_key_string(&b, "error_certified", t.ce);
+                embz_buf_printf(&b, ", \"argmax\": \"%s\"", t.ks);
+                if (t.bl != NULL)
+                    embz_buf_printf(&b, ", \"bound_lo\": \"%s\", \"bound_hi\": \"%s\"", t.bl, t.bh);
             }
-            embz_buf_printf(&b, ", \"seconds\": %.4f, \"note\": ", p->seconds);
-            embz_buf_json_string(&b, p->note);
+            embz_buf_printf(&b, ", \"seconds\": %.4f", p->seconds);
+            cli_buf_json_key_string(&b, "note", p->note);
             embz_buf_printf(&b, "}");
+            point_text_clear(&t);
         }
         embz_buf_printf(&b, "]");
         if (have_fit) {
@@ -365,9 +273,6 @@ int cli_cmd_sweep(int argc, char **argv)
     embz_buf_clear(&b);
 
 done:
-    for (long k = 0; k < nset; k++) free(setcopies[k]);
-    free(setcopies);
-    free(settings);
     embz_fitset_clear(fs);
     embz_sweep_clear(sw);
     embz_target_clear(q);

@@ -517,21 +517,20 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
     if (c->verdict == EMBZ_VERDICT_NOT_EMBEZZLER) {
         if (r->limit_known) {
             char *l = embz_arb_certified_string(r->limit, 6);
-            embz_buf_printf(&w, "positive limit: the one-ebit error tends to %s (derived)", l);
+            embz_buf_printf(&w, "positive limit: one-ebit error tends to %s (derived)", l);
             free(l);
         } else if (r->summable == 1) {
-            embz_buf_printf(&w, "summable weights: the error tends to a positive limit"
-                                " (about %.3g, estimate)", c->limit_value);
-        } else {
-            embz_buf_printf(&w, "the error settles at a positive limit (about %.3g, estimate)",
+            embz_buf_printf(&w, "summable weights: one-ebit error levels off near %.3g (est.)",
                             c->limit_value);
+        } else {
+            embz_buf_printf(&w, "one-ebit error levels off near %.3g (est.)", c->limit_value);
         }
     } else if (c->verdict == EMBZ_VERDICT_EMBEZZLER) {
         if (s0 != NULL && s0->status == EMBZ_SIZE_FOUND) {
-            embz_buf_printf(&w, "error decays like %s: slow, but it gets there", rate_words(r));
+            embz_buf_printf(&w, "decays like %s: slow, but gets there", rate_words(r));
         } else if (s0 != NULL && s0->status == EMBZ_SIZE_NOT_REACHED) {
             char *e = embz_arb_certified_string(s0->err_largest, 3);
-            embz_buf_printf(&w, "too slow (%s): E = %s at n = 2^%ld", rate_words(r), e,
+            embz_buf_printf(&w, "too slow (%s): E = %s at 2^%ld", rate_words(r), e,
                             (long) fmpz_bits(s0->largest) - 1);
             free(e);
         } else {

@@ -1,33 +1,51 @@
-/* Loading the common inputs of the commands: a family (with --set and --amplitude) and a
- * target (--target). Every command that takes a FAMILY uses these, so messages and exit codes
- * are the same everywhere. */
+/* Loading the common inputs of the commands: a family (with --set and --amplitude), a
+ * target (--target), the precision (--prec) and a sweep range (--points, --from, --to).
+ * Every command that takes these uses the functions here, so messages and exit codes are
+ * the same everywhere. */
 #include <stdlib.h>
 #include <string.h>
 #include "cli.h"
 
-int cli_load_family(embz_family_t fam, const cli_args_t *a, const char *spec_text,
-                    const char *cmd)
+int cli_settings_load(cli_settings_t *s, const cli_args_t *a, const char *cmd)
 {
     long nset = 0;
     const char *const *sets = cli_list(a, "set", &nset);
-    embz_setting_t *settings = calloc((size_t) (nset > 0 ? nset : 1), sizeof(embz_setting_t));
-    char **copies = calloc((size_t) (nset > 0 ? nset : 1), sizeof(char *));
+    s->v = calloc((size_t) (nset > 0 ? nset : 1), sizeof(embz_setting_t));
+    s->copies = calloc((size_t) (nset > 0 ? nset : 1), sizeof(char *));
+    s->len = nset;
     embz_err_t err;
-    int code = CLI_EXIT_OK, status = EMBZ_OK;
     embz_err_clear(&err);
-    for (long k = 0; k < nset && status == EMBZ_OK; k++) {
-        size_t l = strlen(sets[k]) + 1;
-        copies[k] = malloc(l);
-        memcpy(copies[k], sets[k], l);
-        status = embz_setting_split(&settings[k], copies[k], &err);
+    for (long k = 0; k < nset; k++) {
+        s->copies[k] = cli_strdup(sets[k]);
+        int status = embz_setting_split(&s->v[k], s->copies[k], &err);
+        if (status != EMBZ_OK) return cli_report(cmd, status, &err);
     }
-    if (status == EMBZ_OK)
-        status = embz_family_resolve(fam, spec_text, settings, nset,
-                                     cli_flag(a, "amplitude"), &err);
-    if (status != EMBZ_OK) code = cli_report(cmd, status, &err);
-    for (long k = 0; k < nset; k++) free(copies[k]);
-    free(copies);
-    free(settings);
+    return CLI_EXIT_OK;
+}
+
+void cli_settings_clear(cli_settings_t *s)
+{
+    for (long k = 0; k < s->len; k++) free(s->copies[k]);
+    free(s->copies);
+    free(s->v);
+    s->copies = NULL;
+    s->v = NULL;
+    s->len = 0;
+}
+
+int cli_load_family(embz_family_t fam, const cli_args_t *a, const char *spec_text,
+                    const char *cmd)
+{
+    cli_settings_t s;
+    int code = cli_settings_load(&s, a, cmd);
+    if (code == CLI_EXIT_OK) {
+        embz_err_t err;
+        embz_err_clear(&err);
+        int status = embz_family_resolve(fam, spec_text, s.v, s.len, cli_flag(a, "amplitude"),
+                                         &err);
+        if (status != EMBZ_OK) code = cli_report(cmd, status, &err);
+    }
+    cli_settings_clear(&s);
     return code;
 }
 
@@ -45,11 +63,40 @@ int cli_load_target(embz_target_t q, const cli_args_t *a, const char *cmd)
     return cli_exit_code(status);
 }
 
-int cli_load_prec(long *prec, const cli_args_t *a, const cli_spec_t *spec)
+int cli_load_prec_upto(long *prec, const cli_args_t *a, const cli_spec_t *spec,
+                       long max_bits)
 {
     const char *text = cli_value(a, "prec");
     if (text == NULL) return CLI_EXIT_OK;
-    if (cli_parse_long(prec, text, 16, 1L << 20))
-        return cli_usage_error(spec, "bad precision '%s' (bits, 16 to %ld)", text, 1L << 20);
+    if (cli_parse_long(prec, text, 16, max_bits))
+        return cli_usage_error(spec, "bad precision '%s' (bits, 16 to %ld)", text, max_bits);
+    return CLI_EXIT_OK;
+}
+
+int cli_load_prec(long *prec, const cli_args_t *a, const cli_spec_t *spec)
+{
+    return cli_load_prec_upto(prec, a, spec, 1L << 20);
+}
+
+int cli_load_range(fmpz_t from, fmpz_t to, long *points, long min_points, long max_points,
+                   const cli_args_t *a, const cli_spec_t *spec)
+{
+    const char *t;
+    if (points != NULL && (t = cli_value(a, "points")) != NULL
+        && cli_parse_long(points, t, min_points, max_points))
+        return cli_usage_error(spec, "bad number of points '%s' (%ld to %ld)", t, min_points,
+                               max_points);
+    const char *names[2] = { "from", "to" };
+    fmpz *vals[2] = { from, to };
+    embz_err_t err;
+    embz_err_clear(&err);
+    for (int k = 0; k < 2; k++) {
+        if ((t = cli_value(a, names[k])) == NULL) continue;
+        int status = embz_size_parse(vals[k], t, &err);
+        if (status != EMBZ_OK || fmpz_cmp_ui(vals[k], 1) < 0)
+            return cli_usage_error(spec, "bad size for --%s: '%s'%s%s", names[k], t,
+                                   err.text[0] ? ": " : "", err.text);
+    }
+    if (fmpz_cmp(from, to) > 0) return cli_usage_error(spec, "--from must not exceed --to");
     return CLI_EXIT_OK;
 }

@@ -255,3 +255,94 @@ int cli_parse_long(long *res, const char *s, long lo, long hi)
     *res = v;
     return 0;
 }
+
+/* ---- shared command helpers ---- */
+
+int cli_begin(cli_args_t *a, const cli_spec_t *spec, int argc, char **argv, int *code)
+{
+    int pr = cli_parse(a, spec, argc, argv);
+    *code = pr == CLI_PARSE_ERROR ? CLI_EXIT_USAGE : CLI_EXIT_OK;
+    if (pr == CLI_PARSE_OK) return 1;
+    cli_args_clear(a);
+    return 0;
+}
+
+char *cli_strdup(const char *s)
+{
+    size_t l = strlen(s) + 1;
+    char *d = malloc(l);
+    memcpy(d, s, l);
+    return d;
+}
+
+char *cli_family_label(const embz_family_struct *f)
+{
+    embz_buf_t b;
+    embz_buf_init(&b);
+    embz_buf_printf(&b, "%s", f->name);
+    for (long k = 0; k < f->nparams; k++) {
+        char *v = fmpq_get_str(NULL, 10, f->param_values + k);
+        embz_buf_printf(&b, "%s%s=%s", k ? ", " : " (", f->param_names[k], v);
+        flint_free(v);
+    }
+    if (f->nparams > 0) embz_buf_printf(&b, ")");
+    return b.s;
+}
+
+void cli_buf_json_params(embz_buf_t *b, const embz_family_struct *f)
+{
+    embz_buf_printf(b, "{");
+    for (long k = 0; k < f->nparams; k++) {
+        char *v = fmpq_get_str(NULL, 10, f->param_values + k);
+        embz_buf_printf(b, "%s", k ? ", " : "");
+        embz_buf_json_string(b, f->param_names[k]);
+        embz_buf_printf(b, ": ");
+        embz_buf_json_string(b, v);
+        flint_free(v);
+    }
+    embz_buf_printf(b, "}");
+}
+
+void cli_buf_json_key_string(embz_buf_t *b, const char *key, const char *text)
+{
+    embz_buf_printf(b, ", \"%s\": ", key);
+    embz_buf_json_string(b, text);
+}
+
+void cli_buf_json_key_double(embz_buf_t *b, const char *key, double x)
+{
+    embz_buf_printf(b, ", \"%s\": ", key);
+    cli_buf_json_double(b, x);
+}
+
+void cli_buf_json_vlohi(embz_buf_t *b, double v, double lo, double hi)
+{
+    embz_buf_printf(b, "\"value\": ");
+    cli_buf_json_double(b, v);
+    cli_buf_json_key_double(b, "lo", lo);
+    cli_buf_json_key_double(b, "hi", hi);
+}
+
+void cli_buf_json_string_or_null(embz_buf_t *b, const char *text)
+{
+    if (text[0]) embz_buf_json_string(b, text);
+    else embz_buf_printf(b, "null");
+}
+
+void cli_buf_json_verdicts(embz_buf_t *b, const embz_classify_struct *c)
+{
+    embz_buf_printf(b, "\"verdict\": \"%s\", \"numeric_verdict\": \"%s\", \"analytic_verdict\": ",
+                    embz_verdict_id(c->verdict), embz_verdict_id(c->numeric_verdict));
+    if (c->analytic_available)
+        embz_buf_printf(b, "\"%s\"", embz_verdict_id(c->analytic_verdict));
+    else
+        embz_buf_printf(b, "null");
+}
+
+void cli_buf_csv_fields(embz_buf_t *b, const char *const *fields, int n)
+{
+    for (int k = 0; k < n; k++) {
+        cli_buf_csv_field(b, fields[k]);
+        embz_buf_printf(b, ",");
+    }
+}

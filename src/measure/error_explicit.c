@@ -368,36 +368,40 @@ static void dstream_uniform(dres_t *R, dsrc_t *src, ulong d, int check)
     R->supB = supB;
 }
 
-/* Heap of cursors for the merge of the sequences a_j w_(1) >= a_j w_(2) >= ... */
+/* Heap of cursors for the merge of the sequences a_j w_(1) >= a_j w_(2) >= ...: a binary
+ * max-heap of NODE ordered by the field KEY, as PREFIX_push and PREFIX_pop. The double
+ * stream and the exact (128-bit) stream each instantiate one. */
+#define MAX_HEAP_DEFINE(PREFIX, NODE, KEY)                                                  \
+    static void PREFIX##_push(NODE *h, slong *len, NODE x)                                 \
+    {                                                                                      \
+        slong i = (*len)++;                                                                \
+        while (i > 0) {                                                                    \
+            slong p = (i - 1) / 2;                                                         \
+            if (h[p].KEY >= x.KEY) break;                                                  \
+            h[i] = h[p];                                                                   \
+            i = p;                                                                         \
+        }                                                                                  \
+        h[i] = x;                                                                          \
+    }                                                                                      \
+                                                                                           \
+    static NODE PREFIX##_pop(NODE *h, slong *len)                                          \
+    {                                                                                      \
+        NODE top = h[0], x = h[--(*len)];                                                  \
+        slong i = 0, L = *len;                                                             \
+        for (;;) {                                                                         \
+            slong c = 2 * i + 1;                                                           \
+            if (c >= L) break;                                                             \
+            if (c + 1 < L && h[c + 1].KEY > h[c].KEY) c++;                                 \
+            if (h[c].KEY <= x.KEY) break;                                                  \
+            h[i] = h[c];                                                                   \
+            i = c;                                                                         \
+        }                                                                                  \
+        if (L > 0) h[i] = x;                                                               \
+        return top;                                                                        \
+    }
+
 typedef struct { double v; slong c; slong j; } dnode_t;
-
-static void dheap_push(dnode_t *h, slong *len, dnode_t x)
-{
-    slong i = (*len)++;
-    while (i > 0) {
-        slong p = (i - 1) / 2;
-        if (h[p].v >= x.v) break;
-        h[i] = h[p];
-        i = p;
-    }
-    h[i] = x;
-}
-
-static dnode_t dheap_pop(dnode_t *h, slong *len)
-{
-    dnode_t top = h[0], x = h[--(*len)];
-    slong i = 0, L = *len;
-    for (;;) {
-        slong c = 2 * i + 1;
-        if (c >= L) break;
-        if (c + 1 < L && h[c + 1].v > h[c].v) c++;
-        if (h[c].v <= x.v) break;
-        h[i] = h[c];
-        i = c;
-    }
-    if (L > 0) h[i] = x;
-    return top;
-}
+MAX_HEAP_DEFINE(dheap, dnode_t, v)
 
 static void dstream_vector(dres_t *R, dsrc_t *src, const tdata_t *T, int check)
 {
@@ -783,35 +787,9 @@ static int xstream_uniform(xres_t *X, xsrc_t *src, ulong d, i128 cap)
     return EMBZ_OK;
 }
 
+/* the exact stream's heap is ordered by the upper ends */
 typedef struct { i128 vhi, vlo; slong c; slong j; } xnode_t;
-
-static void xheap_push(xnode_t *h, slong *len, xnode_t x)
-{
-    slong i = (*len)++;
-    while (i > 0) {
-        slong p = (i - 1) / 2;
-        if (h[p].vhi >= x.vhi) break;
-        h[i] = h[p];
-        i = p;
-    }
-    h[i] = x;
-}
-
-static xnode_t xheap_pop(xnode_t *h, slong *len)
-{
-    xnode_t top = h[0], x = h[--(*len)];
-    slong i = 0, L = *len;
-    for (;;) {
-        slong c = 2 * i + 1;
-        if (c >= L) break;
-        if (c + 1 < L && h[c + 1].vhi > h[c].vhi) c++;
-        if (h[c].vhi <= x.vhi) break;
-        h[i] = h[c];
-        i = c;
-    }
-    if (L > 0) h[i] = x;
-    return top;
-}
+MAX_HEAP_DEFINE(xheap, xnode_t, vhi)
 
 static int xstream_vector(xres_t *X, xsrc_t *src, const tdata_t *T, i128 cap)
 {
@@ -938,6 +916,25 @@ static int check_size(slong *nn, const fmpz_t n, embz_err_t *err)
     return EMBZ_OK;
 }
 
+/* The error for a weight at index bad that is not a finite double: the weight's own failure
+ * when ball arithmetic fails too (evaluated at prec bits), else EMBZ_ERR_UNSUPPORTED. */
+static int bad_weight_error(const embz_family_t f, slong bad, const fmpz_t n, slong prec,
+                            embz_err_t *err)
+{
+    fmpz_t iz;
+    arb_t w;
+    fmpz_init(iz); arb_init(w);
+    fmpz_set_si(iz, bad);
+    int st = embz_family_weight_arb(w, f, iz, n, prec, err);
+    if (st == EMBZ_OK)
+        st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                          "the weight at i = %ld is not a finite double (it is finite in "
+                          "ball arithmetic); explicit mode needs double-range weights",
+                          (long) bad);
+    fmpz_clear(iz); arb_clear(w);
+    return st;
+}
+
 int embz_error_explicit_estimate(double *E, slong *argk, int *order, const embz_family_t f,
                                  const fmpz_t n, const embz_target_t q, embz_err_t *err)
 {
@@ -952,20 +949,7 @@ int embz_error_explicit_estimate(double *E, slong *argk, int *order, const embz_
     st = estimate_pass(&R, order, &bad, f, nn, &T, err);
     tdata_clear(&T);
     if (st != EMBZ_OK) return st;
-    if (bad) {
-        fmpz_t iz;
-        arb_t w;
-        fmpz_init(iz); arb_init(w);
-        fmpz_set_si(iz, bad);
-        st = embz_family_weight_arb(w, f, iz, n, 64, err);
-        if (st == EMBZ_OK)
-            st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                              "the weight at i = %ld is not a finite double (it is finite in "
-                              "ball arithmetic); explicit mode needs double-range weights",
-                              (long) bad);
-        fmpz_clear(iz); arb_clear(w);
-        return st;
-    }
+    if (bad) return bad_weight_error(f, bad, n, 64, err);
     if (!(R.W > 0.0) || !(R.W <= DBL_MAX))
         return embz_err_set(err, R.W > 0.0 ? EMBZ_ERR_UNSUPPORTED : EMBZ_ERR_DOMAIN,
                             R.W > 0.0 ? "the sum of the weights overflows double range"
@@ -994,17 +978,7 @@ int embz_error_explicit(embz_error_result_t res, const embz_family_t f, const fm
     st = estimate_pass(&R, &order, &bad, f, nn, &T, err);
     if (st != EMBZ_OK) goto out;
     if (bad) {
-        fmpz_t iz;
-        arb_t w;
-        fmpz_init(iz); arb_init(w);
-        fmpz_set_si(iz, bad);
-        st = embz_family_weight_arb(w, f, iz, n, prec, err);
-        if (st == EMBZ_OK)
-            st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                              "the weight at i = %ld is not a finite double (it is finite in "
-                              "ball arithmetic); explicit mode needs double-range weights",
-                              (long) bad);
-        fmpz_clear(iz); arb_clear(w);
+        st = bad_weight_error(f, bad, n, prec, err);
         goto out;
     }
     if (!(R.W > 0.0) || !(R.W <= 1e300)) {

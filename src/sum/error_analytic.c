@@ -340,7 +340,7 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
  * but only as variable as phi (constant for f = 1/i: no cancellation left to the balls); the
  * other parts are O(1/y). This lets long stretches of s be settled at once. */
 
-#define VMODEL_FROM_BITS 32    /* v-models for s >= 2^20 */
+#define VMODEL_FROM_BITS 24    /* v-models for s >= 2^20 */
 #define VMODEL_LEN 16          /* their order */
 #define VMODEL_SHORT 12        /* terms kept of the short integral S */
 
@@ -470,15 +470,8 @@ static int vmodel_series(arb_ptr co, actx *c, ulong r, const arb_t v, const arb_
             arb_div_ui(G + j, G + j, (ulong) j, prec);
         }
         if (point) {
-            /* G(v) = I(d y) - I(y) from the integral cache */
-            arb_t a1;
-            arb_init(a1);
-            arb_exp(y, v, prec);
-            st = embz_tail_integral(G, c->t, y, prec);
-            arb_mul_ui(y, y, c->d, prec);
-            if (st == EMBZ_OK) st = embz_tail_integral(a1, c->t, y, prec);
-            arb_sub(G, a1, G, prec);
-            arb_clear(a1);
+            /* G(v) = integral of phi over [v, v + ln d] */
+            st = embz_tail_integral_u(G, c->t, v, v1, prec);
         }
     }
     /* the other parts are O(e^-v): they need fewer bits for the same absolute accuracy */
@@ -550,12 +543,13 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
             arb_div_ui(G + J, G + J, (ulong) J, sp);
         }
     }
+    arb_t G0;
+    arb_init(G0);
     if (st == EMBZ_OK) {
-        arb_exp(y, vc, prec);
-        st = embz_tail_integral(acc, t, y, prec);
-        arb_mul_ui(y, y, c->d, prec);
-        if (st == EMBZ_OK) st = embz_tail_integral(a1, t, y, prec);
-        arb_sub(acc, a1, acc, prec);
+        /* G(vc) = integral of phi over [vc, vc + ln d] */
+        arb_add(v1, vc, ld, prec);
+        st = embz_tail_integral_u(G0, t, vc, v1, prec);
+        arb_set(acc, G0);
         arb_one(wp);
         for (slong j = 1; j <= J; j++) {
             arb_mul(wp, wp, w, prec);
@@ -674,11 +668,7 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
              * G(vc) - G_1 w + sum_{j>=2} |G_j| w^j (plus the small parts) */
             arb_t gl;
             arb_init(gl);
-            arb_exp(y, vc, prec);
-            st = embz_tail_integral(gl, t, y, prec);
-            arb_mul_ui(y, y, c->d, prec);
-            if (st == EMBZ_OK) st = embz_tail_integral(a1, t, y, prec);
-            arb_sub(gl, a1, gl, prec);
+            arb_set(gl, G0);
             arb_submul(gl, G + 1, w, prec);
             arb_one(wp);
             arb_mul(wp, wp, w, prec);
@@ -695,6 +685,7 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
         }
     }
     arb_clear(drest); arb_clear(gd);
+    arb_clear(G0);
     _arb_vec_clear(p0, J + 1); _arb_vec_clear(p1, J + 1); _arb_vec_clear(G, J + 1);
     _arb_vec_clear(g, L);
     arb_clear(ld); arb_clear(v1); arb_clear(y); arb_clear(a1); arb_clear(acc); arb_clear(wp);
@@ -742,10 +733,11 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
         arf_clear(w1); arf_clear(w2);
         arb_union(vball, va, vb, prec);
     }
-    if (arf_cmpabs_2exp_si(arb_midref(w), -2) > 0) {
+    if (arf_cmpabs_2exp_si(arb_midref(w), -1) > 0) {
         /* wide: enclosures of the small parts lose too much under a full model */
         int st = EMBZ_ERR_PREC;
-        if (arf_cmpabs_2exp_si(arb_midref(w), 3) <= 0)
+        /* x-ranges wider than a factor e^20 would put 0 inside the enclosures of x */
+        if (arf_cmp_si(arb_midref(w), 10) <= 0)
             st = model_bound_wide(U, mono, c, r, vc, w, vball, delta, prec);
         _arb_vec_clear(co, J + 1); _arb_vec_clear(ci, J + 1);
         arb_clear(delta); arb_clear(va); arb_clear(vb); arb_clear(vc); arb_clear(w);
@@ -1065,7 +1057,10 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
         }
         if (fmpz_cmp(m, it.lo) < 0) fmpz_set(m, it.lo);
         if (fmpz_cmp(m, it.hi) >= 0) fmpz_sub_ui(m, it.hi, 1);
-        st = h_at_s(h, c, it.r, m, prec);
+        /* a value at the split point sharpens the best proven value; in the v-model range the
+         * ends of the residue ranges (evaluated first) usually hold it already, and an exact
+         * value there costs more than the models, so it is skipped */
+        if (!use_vmodel(c, it.lo)) st = h_at_s(h, c, it.r, m, prec);
         if (st == EMBZ_OK) st = bb_consider(&hp, c, it.r, it.lo, m, prec);
         fmpz_add_ui(m, m, 1);
         if (st == EMBZ_OK) st = bb_consider(&hp, c, it.r, m, it.hi, prec);

@@ -100,6 +100,11 @@ static int integrate_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub,
     return st;
 }
 
+int embz_tail_integral_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub, slong prec)
+{
+    return integrate_u(res, t, ua, ub, prec);
+}
+
 static void node_u(arb_t u, const embz_tail_struct *t, slong k, slong prec)
 {
     arb_t lm;

@@ -1,0 +1,54 @@
+/* Helpers shared by the Check suites (header only: every function is static inline, so a
+ * suite that does not use one pays nothing and gets no warning). */
+#ifndef EMBZ_TESTUTIL_H
+#define EMBZ_TESTUTIL_H
+
+#include <check.h>
+#include "embz.h"
+
+/* v <- the vector written in spec (as the command line reads it); fails the test otherwise */
+static inline void tu_qvec_set(embz_qvec_t v, const char *spec)
+{
+    embz_err_t err;
+    embz_err_clear(&err);
+    ck_assert_msg(embz_qvec_parse(v, spec, 0, &err) == EMBZ_OK, "%s: %s", spec, err.text);
+}
+
+/* v <- len zero entries (v is emptied first) */
+static inline void tu_qvec_alloc(embz_qvec_t v, long len)
+{
+    embz_qvec_clear(v);
+    embz_qvec_init(v);
+    v->len = len;
+    v->p = _fmpq_vec_init(len);
+}
+
+/* v <- a (x) b */
+static inline void tu_qvec_tensor(embz_qvec_t v, const embz_qvec_t a, const embz_qvec_t b)
+{
+    tu_qvec_alloc(v, a->len * b->len);
+    for (long i = 0; i < a->len; i++)
+        for (long j = 0; j < b->len; j++)
+            fmpq_mul(v->p + i * b->len + j, a->p + i, b->p + j);
+}
+
+/* q <- the target written in spec; fails the test otherwise */
+static inline void tu_target_set(embz_target_t q, const char *spec)
+{
+    embz_err_t err;
+    embz_err_clear(&err);
+    ck_assert_msg(embz_target_parse(q, spec, 0, &err) == EMBZ_OK, "%s: %s", spec, err.text);
+}
+
+/* The body of every suite's main: run s with CK_NORMAL output; 1 when a test failed. */
+static inline int tu_run_suite(Suite *s)
+{
+    SRunner *sr = srunner_create(s);
+    srunner_run_all(sr, CK_NORMAL);
+    int failed = srunner_ntests_failed(sr);
+    srunner_free(sr);
+    flint_cleanup();
+    return failed != 0;
+}
+
+#endif
