@@ -15,6 +15,7 @@
 #include <string.h>
 #include <math.h>
 #include "embz.h"
+#include "testutil.h"
 
 /* Reduced sizes when EMBZ_QUICK is set, and in sanitizer builds (which run 3-5x slower), so
  * that the suite stays within about a minute there; EMBZ_FULL=1 forces the full set. */
@@ -797,10 +798,5 @@ static Suite *analytic_suite(void)
 int main(void)
 {
     Suite *s = analytic_suite();
-    SRunner *sr = srunner_create(s);
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    flint_cleanup();
-    return failed != 0;
+    return tu_run_suite(s);
 }

@@ -12,6 +12,7 @@
 #include <check.h>
 #include <stdlib.h>
 #include "embz.h"
+#include "testutil.h"
 
 static void family(embz_family_t f, const char *spec)
 {
@@ -299,10 +300,5 @@ int main(void)
     tcase_add_test(tc, test_power_never);
     tcase_add_test(tc, test_bad_goal);
     suite_add_tcase(s, tc);
-    SRunner *sr = srunner_create(s);
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    flint_cleanup();
-    return failed == 0 ? 0 : 1;
+    return tu_run_suite(s);
 }

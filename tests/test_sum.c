@@ -9,6 +9,7 @@
 #include <string.h>
 #include <math.h>
 #include "embz.h"
+#include "testutil.h"
 
 static int quick(void)
 {
@@ -533,10 +534,5 @@ static Suite *sum_suite(void)
 int main(void)
 {
     Suite *s = sum_suite();
-    SRunner *sr = srunner_create(s);
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    flint_cleanup();
-    return failed != 0;
+    return tu_run_suite(s);
 }

@@ -7,6 +7,7 @@
 #include <unistd.h>
 #include <dirent.h>
 #include "embz.h"
+#include "testutil.h"
 
 /* the exact value of a decimal string as a ball: [round down, round up] of mpfr parsing */
 static void parse_ball(arb_t x, const char *s, slong prec)
@@ -178,10 +179,5 @@ int main(void)
     tcase_add_test(tc, test_caret);
     tcase_add_test(tc, test_write_atomic);
     suite_add_tcase(s, tc);
-    SRunner *sr = srunner_create(s);
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    flint_cleanup();
-    return failed == 0 ? 0 : 1;
+    return tu_run_suite(s);
 }

@@ -155,25 +155,11 @@ int cli_compare_format(const char *format_opt, const char *path)
 
 /* ------------------------------------------------------------------ computing */
 
-static char *family_label(const embz_family_struct *f)
-{
-    embz_buf_t b;
-    embz_buf_init(&b);
-    embz_buf_printf(&b, "%s", f->name);
-    for (long k = 0; k < f->nparams; k++) {
-        char *v = fmpq_get_str(NULL, 10, f->param_values + k);
-        embz_buf_printf(&b, "%s%s=%s", k ? ", " : " (", f->param_names[k], v);
-        flint_free(v);
-    }
-    if (f->nparams > 0) embz_buf_printf(&b, ")");
-    return b.s;
-}
-
 static void row_init(cli_compare_row_t *r, embz_family_struct *f, const cli_compare_opts_t *o)
 {
     memset(r, 0, sizeof(*r));
     r->fam = f;
-    r->label = family_label(f);
+    r->label = cli_family_label(f);
     embz_classify_init(r->c);
     arb_init(r->limit);
     r->summable = -1;

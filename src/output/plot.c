@@ -33,7 +33,7 @@ embz_rgb_t embz_plot_colour(long k)
     return c;
 }
 
-static char *sdup(const char *s)
+char *_embz_render_strdup(const char *s)
 {
     if (s == NULL)
         return NULL;
@@ -42,6 +42,8 @@ static char *sdup(const char *s)
     memcpy(d, s, l);
     return d;
 }
+
+#define sdup _embz_render_strdup
 
 void embz_plot_init(embz_plot_t fig, const char *title)
 {

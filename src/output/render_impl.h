@@ -32,4 +32,7 @@ typedef struct {
 void embz_report_table_build(embz_report_table_t *t, const embz_report_struct *r);
 void embz_report_table_clear(embz_report_table_t *t);
 
+/* malloc'ed copy of s (NULL stays NULL) */
+char *_embz_render_strdup(const char *s);
+
 #endif

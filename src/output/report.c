@@ -7,15 +7,8 @@
 #include "embz/output.h"
 #include "render_impl.h"
 
-static char *sdup(const char *s)
-{
-    if (s == NULL)
-        return NULL;
-    size_t l = strlen(s) + 1;
-    char *d = malloc(l);
-    memcpy(d, s, l);
-    return d;
-}
+#define sdup _embz_render_strdup
+
 
 /* ------------------------------------------------------------------ the struct */
 
