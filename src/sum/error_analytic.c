@@ -340,8 +340,8 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
  * but only as variable as phi (constant for f = 1/i: no cancellation left to the balls); the
  * other parts are O(1/y). This lets long stretches of s be settled at once. */
 
-#define VMODEL_FROM_BITS 24    /* v-models for s >= 2^20 */
-#define VMODEL_LEN 16          /* their order */
+#define VMODEL_FROM_BITS 16    /* v-models for s >= 2^16 */
+#define VMODEL_LEN 10          /* their order */
 #define VMODEL_SHORT 12        /* terms kept of the short integral S */
 
 /* em(x(tau)) with x(tau) = scale e^(v + tau) + shift, as a series in tau */
