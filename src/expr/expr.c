@@ -82,15 +82,54 @@ void embz_expr_bind(embz_expr_t e, const fmpq *values)
     }
 }
 
+/* The square of the subtree at k as a new node, pushing the square inside products, quotients,
+ * square roots and rational powers, so that amplitudes such as 1/sqrt(i) give the weight 1/i
+ * (cheaper to evaluate, and the same value wherever the amplitude is defined). */
+static int square_node(embz_expr_t e, int k)
+{
+    embz_node_t nd = e->nodes[k];     /* copy: pushing may move the array */
+    int a, b;
+    switch (nd.op) {
+    case EMBZ_OP_SQRT:
+        return nd.a;
+    case EMBZ_OP_MUL: case EMBZ_OP_DIV:
+        a = square_node(e, nd.a);
+        b = square_node(e, nd.b);
+        a = _embz_expr_push(e, nd.op, a, b, nd.col);
+        if (a < 0) abort();
+        return a;
+    case EMBZ_OP_NEG:
+        return square_node(e, nd.a);
+    case EMBZ_OP_NUM:
+        a = _embz_expr_push(e, EMBZ_OP_NUM, -1, -1, nd.col);
+        if (a < 0) abort();
+        fmpq_mul(e->nodes[a].num, e->nodes[k].num, e->nodes[k].num);
+        return a;
+    case EMBZ_OP_POW:
+        if (e->nodes[nd.b].op == EMBZ_OP_NUM) {
+            b = _embz_expr_push(e, EMBZ_OP_NUM, -1, -1, e->nodes[nd.b].col);
+            if (b < 0) abort();
+            fmpq_mul_2exp(e->nodes[b].num, e->nodes[nd.b].num, 1);
+            a = _embz_expr_push(e, EMBZ_OP_POW, nd.a, b, nd.col);
+            if (a < 0) abort();
+            return a;
+        }
+        break;
+    default:
+        break;
+    }
+    b = _embz_expr_push(e, EMBZ_OP_NUM, -1, -1, 0);
+    if (b < 0) abort();
+    fmpq_set_si(e->nodes[b].num, 2, 1);
+    a = _embz_expr_push(e, EMBZ_OP_POW, k, b, 0);
+    if (a < 0) abort();
+    return a;
+}
+
 void embz_expr_square(embz_expr_t e)
 {
     if (e->root < 0) return;
-    int two = _embz_expr_push(e, EMBZ_OP_NUM, -1, -1, 0);
-    if (two < 0) abort();
-    fmpq_set_si(e->nodes[two].num, 2, 1);
-    int p = _embz_expr_push(e, EMBZ_OP_POW, e->root, two, 0);
-    if (p < 0) abort();
-    e->root = p;
+    e->root = square_node(e, e->root);
 }
 
 int _embz_op_arity(int op)
