@@ -222,6 +222,20 @@ static void offer(actx *c, const arb_t h, const fmpz_t k)
 
 /* ---------- branch and bound over s ---------- */
 
+/* co <- (co - (r/d) v) / W: the last steps shared by every model coefficient of h_r */
+static void finish_coeff(arb_t co, const arb_t v, ulong r, const actx *c, slong prec)
+{
+    if (r != 0) {
+        arb_t t;
+        arb_init(t);
+        arb_mul_ui(t, v, r, prec);
+        arb_div_ui(t, t, c->d, prec);
+        arb_sub(co, co, t, prec);
+        arb_clear(t);
+    }
+    arb_div(co, co, c->W, prec);
+}
+
 /* Upper bound of h_r over the integers s in [lo, hi] from a Taylor model of order J at the
  * centre (Lagrange remainder: the J-th coefficient enclosed over the whole interval).
  * *mono is set to +1 (-1) when the model proves h_r increasing (decreasing) on the interval;
@@ -288,12 +302,7 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
         if (st != EMBZ_OK) break;
         for (slong j = (pass == 0 ? 0 : J); j < len; j++) {
             arb_sub(co + j, A1 + j, A2 + j, prec);
-            if (r != 0) {
-                arb_mul_ui(tmp, A3 + j, r, prec);
-                arb_div_ui(tmp, tmp, c->d, prec);
-                arb_sub(co + j, co + j, tmp, prec);
-            }
-            arb_div(co + j, co + j, c->W, prec);
+            finish_coeff(co + j, A3 + j, r, c, prec);
         }
     }
     if (st == EMBZ_OK) {
@@ -491,12 +500,7 @@ static int vmodel_series(arb_ptr co, actx *c, ulong r, const arb_t v, const arb_
             arb_sub(co + j, G + j, S + j, prec);
             arb_add(co + j, co + j, E1 + j, prec);
             arb_sub(co + j, co + j, E2 + j, prec);
-            if (r != 0) {
-                arb_mul_ui(y, F3 + j, r, prec);
-                arb_div_ui(y, y, c->d, prec);
-                arb_sub(co + j, co + j, y, prec);
-            }
-            arb_div(co + j, co + j, c->W, prec);
+            finish_coeff(co + j, F3 + j, r, c, prec);
         }
     }
     _arb_vec_clear(G, len); _arb_vec_clear(S, len); _arb_vec_clear(E1, len);

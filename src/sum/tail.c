@@ -243,6 +243,13 @@ static void chunk_ball(arb_t x, arb_t xa, arb_t xb, const embz_tail_struct *t,
     arb_clear(e);
 }
 
+/* the exact midpoint of [ua, ub] */
+static void midpoint(arf_t mid, const arf_t ua, const arf_t ub)
+{
+    arf_add(mid, ua, ub, ARF_PREC_EXACT, ARF_RND_DOWN);
+    arf_mul_2exp_si(mid, mid, -1);
+}
+
 /* sign of a derivative ball: +1 / -1 decided (0 allowed as either), 2 undecided */
 static int sign_of(const arb_t d)
 {
@@ -276,8 +283,7 @@ static int certify_sign(embz_tail_t t, const arf_t ua, const arf_t ub, int *dir,
     } else if (depth < EMBZ_TAIL_MAX_SPLIT) {
         arf_t mid;
         arf_init(mid);
-        arf_add(mid, ua, ub, ARF_PREC_EXACT, ARF_RND_DOWN);
-        arf_mul_2exp_si(mid, mid, -1);
+        midpoint(mid, ua, ub);
         st = certify_sign(t, ua, mid, dir, depth + 1, prec);
         if (st == EMBZ_OK) st = certify_sign(t, mid, ub, dir, depth + 1, prec);
         arf_clear(mid);
@@ -319,8 +325,7 @@ static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_t in
         /* enclosures too wide to be finite: halve the chunk */
         arf_t mid;
         arf_init(mid);
-        arf_add(mid, ua, ub, ARF_PREC_EXACT, ARF_RND_DOWN);
-        arf_mul_2exp_si(mid, mid, -1);
+        midpoint(mid, ua, ub);
         st = certify_chunk(t, ua, mid, integral, dir, depth + 1, prec);
         if (st == EMBZ_OK) st = certify_chunk(t, mid, ub, integral, dir, depth + 1, prec);
         arf_clear(mid);
@@ -359,8 +364,7 @@ static int negligible_mass(mag_t mass, embz_tail_t t, const arf_t ua, const arf_
     } else if (depth < EMBZ_TAIL_MAX_SPLIT) {
         arf_t mid;
         arf_init(mid);
-        arf_add(mid, ua, ub, ARF_PREC_EXACT, ARF_RND_DOWN);
-        arf_mul_2exp_si(mid, mid, -1);
+        midpoint(mid, ua, ub);
         st = negligible_mass(mass, t, ua, mid, allow, depth + 1, prec);
         if (st == EMBZ_OK) st = negligible_mass(mass, t, mid, ub, allow, depth + 1, prec);
         arf_clear(mid);
