@@ -1091,6 +1091,27 @@ static void free_layout(actx *c)
     c->A = c->B = c->vals = c->S = NULL;
 }
 
+/* After sorting by midpoints, runs of neighbours whose order the balls do not certify (equal
+ * weights, or weights closer than the radii) are replaced by the union of the run: whatever
+ * the true order inside the run, every position then encloses its true sorted value, and the
+ * prefix sums enclose the true Ky Fan sums. */
+static void merge_unordered(arb_ptr v, slong len, slong prec)
+{
+    slong i = 0;
+    while (i + 1 < len) {
+        if (arb_ge(v + i, v + i + 1)) { i++; continue; }
+        slong j = i + 1;
+        while (j + 1 < len && !arb_ge(v + j, v + j + 1)) j++;
+        arb_t u;
+        arb_init(u);
+        arb_set(u, v + i);
+        for (slong k = i + 1; k <= j; k++) arb_union(u, u, v + k, prec);
+        for (slong k = i; k <= j; k++) arb_set(v + k, u);
+        arb_clear(u);
+        i = j + 1;
+    }
+}
+
 static int cmp_desc(const void *x, const void *y)
 {
     const arb_struct *a = x, *b = y;
@@ -1149,16 +1170,8 @@ static int setup(actx *c, slong M, int shared, slong prec, embz_err_t *err)
     }
     qsort(c->A, c->a, sizeof(arb_struct), cmp_desc);
     qsort(c->B, c->b, sizeof(arb_struct), cmp_desc);
-    for (slong i = 0; i + 1 < c->a; i++)
-        if (!arb_ge(c->A + i, c->A + i + 1)) {
-            st = embz_err_set(err, EMBZ_ERR_PREC, "cannot order the head weights at this precision");
-            goto out;
-        }
-    for (slong i = 0; i + 1 < c->b; i++)
-        if (!arb_ge(c->B + i, c->B + i + 1)) {
-            st = embz_err_set(err, EMBZ_ERR_PREC, "cannot order the head weights at this precision");
-            goto out;
-        }
+    merge_unordered(c->A, c->a, prec);
+    merge_unordered(c->B, c->b, prec);
     arb_zero(c->SA);
     for (slong i = 0; i < c->a; i++) arb_add(c->SA, c->SA, c->A + i, prec);
     arb_zero(c->SB);
