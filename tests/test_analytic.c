@@ -798,6 +798,52 @@ START_TEST(test_head_ties)
 }
 END_TEST
 
+
+/* Head weights inside the range of the tail (this weight rises, then falls: w(1) is smaller
+ * than many tail weights) are inserted at their place among the tail weights; the engine must
+ * agree with explicit sums, and also at a huge size with itself at two precisions. */
+START_TEST(test_head_insertions)
+{
+    const char *fam[2] = { "i^0.3*log(log(i+3))*i^(-0.5)", "exp(-i/5000)*log(i+1)/log(i+2)" };
+    for (int k = 0; k < 2; k++) {
+        for (ulong d = 2; d <= 3; d++) {
+            char spec[32];
+            embz_family_t f;
+            embz_target_t q;
+            embz_error_result_t ra, rx;
+            embz_err_t err;
+            fmpz_t n;
+            embz_err_clear(&err);
+            fmpz_init(n);
+            fmpz_set_ui(n, 20000);
+            resolve(f, fam[k], NULL, NULL);
+            snprintf(spec, sizeof(spec), "uniform:%lu", d);
+            target(q, spec);
+            embz_error_result_init(ra);
+            embz_error_result_init(rx);
+            ck_assert_int_eq(embz_error_analytic(ra, f, n, q, 128, &err), EMBZ_OK);
+            ck_assert_int_eq(embz_error_explicit(rx, f, n, q, 128, &err), EMBZ_OK);
+            ck_assert_msg(arb_overlaps(ra->error, rx->error), "%s, d = %lu", fam[k], d);
+            if (k == 0 && d == 2) {
+                /* 10^40: 64 and 192 bits agree */
+                embz_error_result_t r2;
+                embz_error_result_init(r2);
+                ten_pow(n, 40);
+                ck_assert_int_eq(embz_error_analytic(ra, f, n, q, 64, &err), EMBZ_OK);
+                ck_assert_int_eq(embz_error_analytic(r2, f, n, q, 192, &err), EMBZ_OK);
+                ck_assert(arb_overlaps(ra->error, r2->error));
+                embz_error_result_clear(r2);
+            }
+            embz_error_result_clear(ra);
+            embz_error_result_clear(rx);
+            embz_target_clear(q);
+            embz_family_clear(f);
+            fmpz_clear(n);
+        }
+    }
+}
+END_TEST
+
 static Suite *analytic_suite(void)
 {
     Suite *s = suite_create("analytic");
@@ -821,6 +867,7 @@ static Suite *analytic_suite(void)
     tcase_add_test(tc, test_uniform_half);
     tcase_add_test(tc, test_vector_target_bounds);
     tcase_add_test(tc, test_head_ties);
+    tcase_add_test(tc, test_head_insertions);
     suite_add_tcase(s, tc);
     return s;
 }

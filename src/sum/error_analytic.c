@@ -41,6 +41,13 @@ typedef struct {
     slong E;             /* explicit positions 1..E */
     fmpz_t kmax;         /* last k whose position lies in the tail */
     arb_ptr vals, S;     /* vals[K] value at position K (1-based), S[K] prefix sums, S[0] = 0 */
+    slong nins;          /* head weights that fall inside the range of the tail ... */
+    arb_ptr ins_val;     /* ... their values, in sorted order, */
+    fmpz *ins_pos;       /* ... their positions P_i in the merged sorted order, increasing, */
+    arb_ptr ins_cum;     /* ... and ins_cum[i] = sum of the first i of them */
+    slong off_k, off_s;  /* for the interval being modelled: a + (insertions before k) and
+                            a + (insertions before s) */
+    arb_t dH;            /* ins_cum[off_k - a] - ins_cum[off_s - a] */
     arb_t best;          /* best proven value (lower end used) */
     fmpz_t argk;
     arf_t upper;         /* running maximum of the upper bounds (points and intervals) */
@@ -116,19 +123,48 @@ static int tail_v_series(arb_ptr res, actx *c, const arb_t y, slong len, slong p
 
 /* ---------- sorted positions (integers) ---------- */
 
+/* number of inserted head weights at positions < K, and the index i (0-based) of the one at
+ * position K, or -1 */
+static slong ins_before(const actx *c, const fmpz_t K, slong *at)
+{
+    slong cnt = 0;
+    *at = -1;
+    for (slong i = 0; i < c->nins; i++) {
+        int cmp = fmpz_cmp(c->ins_pos + i, K);
+        if (cmp < 0) cnt++;
+        else if (cmp == 0) *at = i;
+    }
+    return cnt;
+}
+
 /* Sorted position K: the numerator of P_K (sum of the K largest weights, K in [0, n]) when
- * want_sum, else the weight at position K (K in [1, n]). */
+ * want_sum, else the weight at position K (K in [1, n]). The order is A | tail with the
+ * inserted head weights | B. */
 static int pos_query(arb_t res, actx *c, const fmpz_t K, int want_sum, slong prec)
 {
     if (fmpz_cmp_si(K, c->E) <= 0) {
         arb_set(res, (want_sum ? c->S : c->vals) + fmpz_get_si(K));
         return EMBZ_OK;
     }
+    slong at, cb = ins_before(c, K, &at);
     fmpz_t j;
     fmpz_init(j);
-    fmpz_sub_si(j, K, c->a);
+    /* tail positions up to K */
+    fmpz_sub_si(j, K, c->a + cb + (at >= 0 ? 1 : 0));
     int st = EMBZ_OK;
-    if (fmpz_cmp(j, c->L) <= 0) {
+    if (at >= 0) {
+        if (want_sum) {
+            arb_t y;
+            arb_init(y);
+            arb_set_fmpz(y, j);
+            st = tail_C(res, c, y, prec);
+            arb_add(res, res, c->SA, prec);
+            arb_add(res, res, c->ins_cum + at + 1, prec);
+            arb_clear(y);
+        } else {
+            arb_set(res, c->ins_val + at);
+        }
+    } else if (fmpz_cmp(j, c->L) <= 0) {
         /* inside the tail */
         arb_t y;
         arb_init(y);
@@ -136,6 +172,7 @@ static int pos_query(arb_t res, actx *c, const fmpz_t K, int want_sum, slong pre
         if (want_sum) {
             st = tail_C(res, c, y, prec);
             arb_add(res, res, c->SA, prec);
+            arb_add(res, res, c->ins_cum + cb, prec);
         } else {
             arb_ptr v = _arb_vec_init(1);
             st = tail_v_series(v, c, y, 1, prec);
@@ -149,6 +186,7 @@ static int pos_query(arb_t res, actx *c, const fmpz_t K, int want_sum, slong pre
         slong m = fmpz_get_si(j);
         if (want_sum) {
             arb_add(res, c->SA, c->Ttot, prec);
+            arb_add(res, res, c->ins_cum + c->nins, prec);
             for (slong i = 0; i < m && i < c->b; i++) arb_add(res, res, c->B + i, prec);
         } else {
             arb_set(res, c->B + m - 1);
@@ -286,8 +324,8 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
         /* y1 = d s + r - a (position of k), y2 = s - a (of s), y3 = s + 1 - a (of s + 1) */
         arb_mul_ui(y1, s, c->d, prec);
         arb_add_ui(y1, y1, r, prec);
-        arb_sub_si(y1, y1, c->a, prec);
-        arb_sub_si(y2, s, c->a, prec);
+        arb_sub_si(y1, y1, c->off_k, prec);
+        arb_sub_si(y2, s, c->off_s, prec);
         arb_add_ui(y3, y2, 1, prec);
         /* the remainder coefficient is only needed to a few bits */
         slong sp = (pass == 0) ? prec : FLINT_MIN(prec, 64 + (slong) fmpz_bits(hi));
@@ -302,6 +340,7 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
         if (st != EMBZ_OK) break;
         for (slong j = (pass == 0 ? 0 : J); j < len; j++) {
             arb_sub(co + j, A1 + j, A2 + j, prec);
+            if (j == 0) arb_add(co, co, c->dH, prec);
             finish_coeff(co + j, A3 + j, r, c, prec);
         }
     }
@@ -650,6 +689,7 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
     }
     if (st == EMBZ_OK) {
         arb_add(acc, acc, rest, prec);
+        arb_add(acc, acc, c->dH, prec);
         arb_div(acc, acc, c->W, prec);
         arb_get_ubound_arf(U, acc, prec);
         if (!arb_is_finite(acc)) st = EMBZ_ERR_PREC;
@@ -682,6 +722,7 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
                 arb_addmul(gl, tmp, wp, prec);
             }
             arb_add(gl, gl, rest, prec);
+            arb_add(gl, gl, c->dH, prec);
             arb_div(gl, gl, c->W, prec);
             if (st == EMBZ_OK && arb_is_finite(gl)) arb_get_ubound_arf(U, gl, prec);
             arb_clear(gl);
@@ -709,12 +750,12 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
     arb_init(tmp); arb_init(acc); arb_init(dacc); arb_init(wp); arb_init(lam);
     *mono = 0;
     mag_zero(slack);
-    /* delta = (P (d - 1) - r)/d, y = s + (r + P)/d */
-    slong P = c->M - c->a;
-    arb_set_si(delta, P * (slong) (c->d - 1) - (slong) r);
-    arb_div_ui(delta, delta, c->d, prec);
-    arb_set_si(tmp, (slong) r + P);
+    /* y = s + (r + P1)/d, delta = (M - off_s) - (r + P1)/d with P1 = M - off_k */
+    slong P1 = c->M - c->off_k, P2 = c->M - c->off_s;
+    arb_set_si(tmp, (slong) r + P1);
     arb_div_ui(tmp, tmp, c->d, prec);
+    arb_set_si(delta, P2);
+    arb_sub(delta, delta, tmp, prec);
     arb_set_fmpz(va, lo);
     arb_add(va, va, tmp, prec);
     arb_log(va, va, prec);
@@ -751,6 +792,10 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
         return st;
     }
     int st = vmodel_series(co, c, r, vc, delta, J, 1, prec);
+    if (st == EMBZ_OK && !arb_is_zero(c->dH)) {
+        arb_div(tmp, c->dH, c->W, prec);
+        arb_add(co, co, tmp, prec);
+    }
     slong sp = FLINT_MIN(prec, 96);
     if (st == EMBZ_OK) st = vmodel_series(ci, c, r, vball, delta, J + 1, 0, sp);
     if (st == EMBZ_OK && !arb_is_zero(delta)) {
@@ -868,6 +913,53 @@ static void item_clear(bb_item *it) { fmpz_clear(it->lo); fmpz_clear(it->hi); ar
 
 /* Bound [lo, hi] for residue r: enumerate small intervals, settle monotone ones at their
  * maximising end, push the others (unless already below a proven value). */
+/* The first s in [lo, hi] at which an inserted head weight changes the layout for residue
+ * r: s, s + 1 or k = d s + r at an inserted position, or the last s before k passes one. */
+static int special_in(fmpz_t res, const actx *c, ulong r, const fmpz_t lo, const fmpz_t hi)
+{
+    fmpz_t cand, best;
+    fmpz_init(cand);
+    fmpz_init(best);
+    int found = 0;
+    for (slong i = 0; i < c->nins; i++) {
+        for (int t = 0; t < 5; t++) {
+            if (t < 3) {
+                fmpz_add_si(cand, c->ins_pos + i, t - 1);          /* P - 1, P, P + 1 */
+            } else {
+                fmpz_sub_ui(cand, c->ins_pos + i, r + 1);          /* floor((P - r - 1)/d) */
+                fmpz_fdiv_q_ui(cand, cand, c->d);
+                fmpz_add_ui(cand, cand, (ulong) (t - 3));         /* and the next one */
+            }
+            if (fmpz_cmp(cand, lo) >= 0 && fmpz_cmp(cand, hi) <= 0
+                && (!found || fmpz_cmp(cand, best) < 0)) {
+                fmpz_set(best, cand);
+                found = 1;
+            }
+        }
+    }
+    if (found) fmpz_set(res, best);
+    fmpz_clear(cand);
+    fmpz_clear(best);
+    return found;
+}
+
+/* offsets of the tail positions of k = d lo + r and of s = lo (constant over an interval
+ * without special sizes) */
+static void set_offsets(actx *c, ulong r, const fmpz_t lo)
+{
+    fmpz_t k;
+    slong at, ck, cs;
+    fmpz_init(k);
+    fmpz_mul_ui(k, lo, c->d);
+    fmpz_add_ui(k, k, r);
+    ck = ins_before(c, k, &at);
+    cs = ins_before(c, lo, &at);
+    c->off_k = c->a + ck;
+    c->off_s = c->a + cs;
+    arb_sub(c->dH, c->ins_cum + ck, c->ins_cum + cs, c->prec);
+    fmpz_clear(k);
+}
+
 static int bb_consider(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmpz_t hi,
                        slong prec)
 {
@@ -877,12 +969,27 @@ static int bb_consider(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmp
     arb_init(h);
     fmpz_init(m);
     fmpz_sub(m, hi, lo);
-    if (fmpz_cmp_ui(m, BB_SMALL) < 0) {
+    if (c->nins > 0 && fmpz_cmp_ui(m, BB_SMALL) >= 0 && special_in(m, c, r, lo, hi)) {
+        /* a size where an inserted head weight changes the layout: exactly, then the rest */
+        fmpz_t e;
+        fmpz_init(e);
+        st = h_at_s(h, c, r, m, prec);
+        if (st == EMBZ_OK && fmpz_cmp(m, lo) > 0) {
+            fmpz_sub_ui(e, m, 1);
+            st = bb_consider(hp, c, r, lo, e, prec);
+        }
+        if (st == EMBZ_OK && fmpz_cmp(m, hi) < 0) {
+            fmpz_add_ui(e, m, 1);
+            st = bb_consider(hp, c, r, e, hi, prec);
+        }
+        fmpz_clear(e);
+    } else if (fmpz_cmp_ui(m, BB_SMALL) < 0) {
         for (fmpz_set(m, lo); st == EMBZ_OK && fmpz_cmp(m, hi) <= 0; fmpz_add_ui(m, m, 1))
             st = h_at_s(h, c, r, m, prec);
     } else {
         bb_item it;
         int mono;
+        set_offsets(c, r, lo);
         fmpz_init_set(it.lo, lo);
         fmpz_init_set(it.hi, hi);
         arf_init(it.U);
@@ -980,13 +1087,9 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
             fmpz_mul_ui(kk, b, c->d);
             fmpz_add_ui(kk, kk, c->d - 1);
             if (fmpz_cmp(kk, c->kmax) > 0) fmpz_set(kk, c->kmax);
-            fmpz_sub_si(kk, kk, c->a);
-            arb_set_fmpz(y, kk);
-            st = tail_C(cb, c, y, prec);
+            st = pos_sum(cb, c, kk, prec);
             if (st != EMBZ_OK) break;
-            fmpz_sub_si(kk, a, c->a);
-            arb_set_fmpz(y, kk);
-            st = tail_C(ca, c, y, prec);
+            st = pos_sum(ca, c, a, prec);
             if (st != EMBZ_OK) break;
             arb_sub(ub, cb, ca, prec);
             arb_div(ub, ub, c->W, prec);
@@ -1088,7 +1191,12 @@ static void free_layout(actx *c)
     if (c->B) _arb_vec_clear(c->B, c->M);
     if (c->vals) _arb_vec_clear(c->vals, c->E + 1);
     if (c->S) _arb_vec_clear(c->S, c->E + 1);
-    c->A = c->B = c->vals = c->S = NULL;
+    if (c->ins_val) _arb_vec_clear(c->ins_val, c->M);
+    if (c->ins_cum) _arb_vec_clear(c->ins_cum, c->M + 1);
+    if (c->ins_pos) _fmpz_vec_clear(c->ins_pos, c->M);
+    c->A = c->B = c->vals = c->S = c->ins_val = c->ins_cum = NULL;
+    c->ins_pos = NULL;
+    c->nins = 0;
 }
 
 /* After sorting by midpoints, runs of neighbours whose order the balls do not certify (equal
@@ -1157,48 +1265,121 @@ static int setup(actx *c, slong M, int shared, slong prec, embz_err_t *err)
         goto out;
     }
     c->a = c->b = 0;
+    c->nins = 0;
     c->A = _arb_vec_init(M);
     c->B = _arb_vec_init(M);
-    for (slong i = 0; i < M; i++) {
-        if (arb_ge(head + i, tmax)) arb_set(c->A + c->a++, head + i);
-        else if (arb_le(head + i, tmin)) arb_set(c->B + c->b++, head + i);
-        else {
-            st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                              "the weight at i = %ld falls inside the range of the tail", i + 1);
-            goto out;
+    c->ins_val = _arb_vec_init(M);
+    c->ins_cum = _arb_vec_init(M + 1);
+    c->ins_pos = _fmpz_vec_init(M);
+    {
+        /* head weights inside the range of the tail are inserted where they belong: after
+         * the tail positions whose weight is certainly larger (bisection on the index) */
+        fmpz *cnt = _fmpz_vec_init(M);
+        fmpz_t lo, hi, mid;
+        fmpz_init(lo); fmpz_init(hi); fmpz_init(mid);
+        for (slong i = 0; i < M && st == EMBZ_OK; i++) {
+            if (arb_ge(head + i, tmax)) { arb_set(c->A + c->a++, head + i); continue; }
+            if (arb_le(head + i, tmin)) { arb_set(c->B + c->b++, head + i); continue; }
+            fmpz_zero(lo);
+            fmpz_add_ui(hi, c->L, 1);
+            while (st == EMBZ_OK && fmpz_cmp_ui(hi, 1) > 0 && fmpz_cmp(lo, hi) < 0) {
+                fmpz_sub(mid, hi, lo);
+                if (fmpz_cmp_ui(mid, 1) <= 0) break;
+                fmpz_add(mid, lo, hi);
+                fmpz_fdiv_q_2exp(mid, mid, 1);
+                arb_set_fmpz(v, mid);
+                tail_x(x, c, v, prec);
+                if (embz_expr_eval_arb(v, w, x, nn, prec) != EMBZ_OK) {
+                    st = embz_err_set(err, EMBZ_ERR_DOMAIN, "weight undefined in the tail");
+                } else if (arb_gt(v, head + i)) {
+                    fmpz_set(lo, mid);
+                } else if (arb_lt(v, head + i)) {
+                    fmpz_set(hi, mid);
+                } else {
+                    st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                                      "the weight at i = %ld cannot be placed among the tail "
+                                      "weights at this precision", i + 1);
+                }
+            }
+            if (st != EMBZ_OK) break;
+            arb_set(c->ins_val + c->nins, head + i);
+            fmpz_set(cnt + c->nins, lo);
+            c->nins++;
         }
+        if (st == EMBZ_OK) {
+            /* order the insertions by place, then by value (insertion sort: few) */
+            for (slong i = 1; i < c->nins; i++)
+                for (slong j = i; j > 0; j--) {
+                    int cmp = fmpz_cmp(cnt + j - 1, cnt + j);
+                    if (cmp < 0 || (cmp == 0 && arf_cmp(arb_midref(c->ins_val + j - 1),
+                                                        arb_midref(c->ins_val + j)) >= 0))
+                        break;
+                    fmpz_swap(cnt + j - 1, cnt + j);
+                    arb_swap(c->ins_val + j - 1, c->ins_val + j);
+                }
+            arb_zero(c->ins_cum);
+            for (slong i = 0; i < c->nins; i++) {
+                /* P_i = a + (tail positions before) + (insertions before, this one included) */
+                fmpz_add_ui(c->ins_pos + i, cnt + i, (ulong) (i + 1));
+                arb_add(c->ins_cum + i + 1, c->ins_cum + i, c->ins_val + i, prec);
+            }
+        }
+        _fmpz_vec_clear(cnt, M);
+        fmpz_clear(lo); fmpz_clear(hi); fmpz_clear(mid);
+        if (st != EMBZ_OK) goto out;
     }
     qsort(c->A, c->a, sizeof(arb_struct), cmp_desc);
     qsort(c->B, c->b, sizeof(arb_struct), cmp_desc);
     merge_unordered(c->A, c->a, prec);
     merge_unordered(c->B, c->b, prec);
+    merge_unordered(c->ins_val, c->nins, prec);   /* equal places: unions, see above */
+    for (slong i = 0; i < c->nins; i++) fmpz_add_ui(c->ins_pos + i, c->ins_pos + i, (ulong) c->a);
     arb_zero(c->SA);
     for (slong i = 0; i < c->a; i++) arb_add(c->SA, c->SA, c->A + i, prec);
     arb_zero(c->SB);
     for (slong i = 0; i < c->b; i++) arb_add(c->SB, c->SB, c->B + i, prec);
+    c->off_k = c->off_s = c->a;
+    arb_zero(c->dH);
     /* total tail */
     arb_set_fmpz(x, c->n);
     st = embz_tail_sum(c->Ttot, c->t, x, prec);
     if (st != EMBZ_OK) { embz_err_set(err, st, "cannot bound the tail sum"); goto out; }
     arb_add(c->W, c->SA, c->Ttot, prec);
     arb_add(c->W, c->W, c->SB, prec);
+    arb_add(c->W, c->W, c->ins_cum + c->nins, prec);
     if (!arb_is_positive(c->W)) { st = embz_err_set(err, EMBZ_ERR_DOMAIN, "total weight is 0"); goto out; }
 
-    /* explicit positions 1..E */
-    c->E = (slong) c->d * (c->a + 2) + (slong) c->d;
+    /* explicit positions 1..E (past the insertions, so that the smooth region starts inside
+     * the tail) */
+    c->E = (slong) c->d * (c->a + c->nins + 2) + (slong) c->d;
+    if (c->nins > 0) {
+        slong last = fmpz_get_si(c->ins_pos + c->nins - 1);
+        if (fmpz_bits(c->ins_pos + c->nins - 1) < 40 && last + 2 > c->E) c->E = last + 2;
+    }
     c->vals = _arb_vec_init(c->E + 1);
     c->S = _arb_vec_init(c->E + 1);
-    for (slong K = 1; K <= c->E; K++) {
-        if (K <= c->a) arb_set(c->vals + K, c->A + K - 1);
-        else {
-            arb_set_si(v, K - c->a);
-            tail_x(x, c, v, prec);
-            if (embz_expr_eval_arb(c->vals + K, w, x, nn, prec) != EMBZ_OK) {
-                st = embz_err_set(err, EMBZ_ERR_DOMAIN, "weight undefined in the tail");
-                goto out;
+    {
+        fmpz_t K;
+        fmpz_init(K);
+        for (slong k = 1; k <= c->E; k++) {
+            if (k <= c->a) arb_set(c->vals + k, c->A + k - 1);
+            else {
+                slong at, cb;
+                fmpz_set_si(K, k);
+                cb = ins_before(c, K, &at);
+                if (at >= 0) arb_set(c->vals + k, c->ins_val + at);
+                else {
+                    arb_set_si(v, k - c->a - cb);
+                    tail_x(x, c, v, prec);
+                    if (embz_expr_eval_arb(c->vals + k, w, x, nn, prec) != EMBZ_OK) {
+                        st = embz_err_set(err, EMBZ_ERR_DOMAIN, "weight undefined in the tail");
+                        break;
+                    }
+                }
             }
+            arb_add(c->S + k, c->S + k - 1, c->vals + k, prec);
         }
-        arb_add(c->S + K, c->S + K - 1, c->vals + K, prec);
+        fmpz_clear(K);
     }
 out:
     _arb_vec_clear(head, M);
@@ -1352,6 +1533,7 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
     fmpz_init(c.kmax);
     arb_init(c.SA); arb_init(c.SB); arb_init(c.Ttot); arb_init(c.W);
     arb_init(c.best); arf_init(c.upper);
+    arb_init(c.dH);
     arb_indeterminate(c.best);
     int st = EMBZ_ERR_UNSUPPORTED;
     int have_tail = 0;      /* a tail of our own to clear */
@@ -1424,14 +1606,14 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
         }
         /* k inside B: a + L < k < n */
         if (st == EMBZ_OK) {
-            fmpz_add_si(k, c.L, c.a + 1);
+            fmpz_add_si(k, c.L, c.a + c.nins + 1);
             for (; st == EMBZ_OK && fmpz_cmp(k, c.n) < 0; fmpz_add_ui(k, k, 1)) {
                 st = h_at(h, &c, k, wp);
                 if (st == EMBZ_OK) offer(&c, h, k);
             }
         }
         /* the smooth region, residue by residue */
-        fmpz_add_si(kmax, c.L, c.a);
+        fmpz_add_si(kmax, c.L, c.a + c.nins);
         fmpz_sub_ui(tmp, c.n, 1);
         if (fmpz_cmp(tmp, kmax) < 0) fmpz_set(kmax, tmp);
         fmpz_set(c.kmax, kmax);
@@ -1504,5 +1686,6 @@ cleanup:
     fmpz_clear(c.n); fmpz_clear(c.ntrue); fmpz_clear(c.L); fmpz_clear(c.argk); fmpz_clear(c.kmax);
     arb_clear(c.SA); arb_clear(c.SB); arb_clear(c.Ttot); arb_clear(c.W);
     arb_clear(c.best); arf_clear(c.upper);
+    arb_clear(c.dH);
     return st;
 }
