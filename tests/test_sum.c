@@ -502,6 +502,63 @@ END_TEST
 START_TEST(test_refuse_floor) { refuse_case("1/floor(sqrt(i))", 10000); }
 END_TEST
 
+
+/* Counts N(v) = #{ M < i <= upto : w(i) > v } on a monotone tail, against closed forms:
+ * 1/i > v iff i < 1/v, and sqrt(i) > v iff i > v^2 (exact integer arithmetic in the test). */
+START_TEST(test_tail_count)
+{
+    flint_rand_t st;
+    flint_randinit(st);
+    slong prec = 128, M = 64;
+    const char *texts[2] = { "1/i", "sqrt(i)" };
+    for (int k = 0; k < 2; k++) {
+        embz_expr_t w;
+        embz_tail_t t;
+        fmpz_t n, upto, got, want, q;
+        arb_t v;
+        parse_or_die(w, texts[k]);
+        fmpz_init(n); fmpz_init(upto); fmpz_init(got); fmpz_init(want); fmpz_init(q);
+        arb_init(v);
+        fmpz_set_ui(n, 10);
+        fmpz_pow_ui(n, n, 40);
+        init_tail(t, w, n, M, n, prec);
+        for (int j = 0; j < 200; j++) {
+            /* a threshold strictly between integers' weights: v = 1/(m + 1/2) or sqrt(m + 1/2) */
+            fmpz_set_ui(q, 1 + n_randint(st, 1000000));
+            if (j % 3 == 0) fmpz_mul_2exp(q, q, 100);            /* beyond 10^30 as well */
+            fmpz_add_ui(q, q, (ulong) M);
+            fmpz_set_ui(upto, 10);
+            fmpz_pow_ui(upto, upto, 35);
+            arb_set_fmpz(v, q);
+            {
+                arb_t h;
+                arb_init(h);
+                arb_set_d(h, 0.5);
+                arb_add(v, v, h, prec);
+                arb_clear(h);
+            }
+            if (k == 0) arb_inv(v, v, prec); else arb_sqrt(v, v, prec);
+            ck_assert_int_eq(embz_tail_count(got, t, v, upto, prec), EMBZ_OK);
+            if (k == 0) {
+                /* 1/i > 1/(q + 1/2) iff i <= q: indices M+1 .. min(q, upto) */
+                if (fmpz_cmp(q, upto) > 0) fmpz_sub_si(want, upto, M);
+                else fmpz_sub_si(want, q, M);
+            } else {
+                /* sqrt(i) > sqrt(q + 1/2) iff i >= q + 1: indices q+1 .. upto */
+                if (fmpz_cmp(q, upto) >= 0) fmpz_zero(want);
+                else fmpz_sub(want, upto, q);
+            }
+            ck_assert_msg(fmpz_equal(got, want), "%s: count mismatch", texts[k]);
+        }
+        embz_tail_clear(t);
+        embz_expr_clear(w);
+        fmpz_clear(n); fmpz_clear(upto); fmpz_clear(got); fmpz_clear(want); fmpz_clear(q);
+        arb_clear(v);
+    }
+    flint_randclear(st);
+}
+END_TEST
+
 static Suite *sum_suite(void)
 {
     Suite *s = suite_create("sum");
@@ -527,6 +584,7 @@ static Suite *sum_suite(void)
     tcase_add_test(tc, test_refuse_sin_over_i);
     tcase_add_test(tc, test_refuse_valley);
     tcase_add_test(tc, test_refuse_floor);
+    tcase_add_test(tc, test_tail_count);
     suite_add_tcase(s, tc);
     return s;
 }

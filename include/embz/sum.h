@@ -49,6 +49,10 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
                    const fmpz_t end, slong prec, embz_err_t *err);
 void embz_tail_clear(embz_tail_t t);
 
+/* The count N = #{ i : M < i <= upto, w(i, n) > v } (upto <= end), by bisection on the
+ * monotone tail with certified comparisons. EMBZ_ERR_PREC when a weight cannot be told apart
+ * from v at this precision (for instance an exact tie). */
+int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto, slong prec);
 /* integral of phi(u) = f(e^u) e^u over [ua, ub] (= integral of f over [e^ua, e^ub]). */
 int embz_tail_integral_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub, slong prec);
 /* integral_M^x f(y) dy for a (narrow) ball x in [M, end]. */

@@ -1280,27 +1280,12 @@ static int setup(actx *c, slong M, int shared, slong prec, embz_err_t *err)
         for (slong i = 0; i < M && st == EMBZ_OK; i++) {
             if (arb_ge(head + i, tmax)) { arb_set(c->A + c->a++, head + i); continue; }
             if (arb_le(head + i, tmin)) { arb_set(c->B + c->b++, head + i); continue; }
-            fmpz_zero(lo);
-            fmpz_add_ui(hi, c->L, 1);
-            while (st == EMBZ_OK && fmpz_cmp_ui(hi, 1) > 0 && fmpz_cmp(lo, hi) < 0) {
-                fmpz_sub(mid, hi, lo);
-                if (fmpz_cmp_ui(mid, 1) <= 0) break;
-                fmpz_add(mid, lo, hi);
-                fmpz_fdiv_q_2exp(mid, mid, 1);
-                arb_set_fmpz(v, mid);
-                tail_x(x, c, v, prec);
-                if (embz_expr_eval_arb(v, w, x, nn, prec) != EMBZ_OK) {
-                    st = embz_err_set(err, EMBZ_ERR_DOMAIN, "weight undefined in the tail");
-                } else if (arb_gt(v, head + i)) {
-                    fmpz_set(lo, mid);
-                } else if (arb_lt(v, head + i)) {
-                    fmpz_set(hi, mid);
-                } else {
-                    st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                                      "the weight at i = %ld cannot be placed among the tail "
-                                      "weights at this precision", i + 1);
-                }
-            }
+            /* its place: the number of tail weights above it */
+            fmpz_add_ui(mid, c->L, (ulong) M);
+            if (embz_tail_count(lo, c->t, head + i, mid, prec) != EMBZ_OK)
+                st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                                  "the weight at i = %ld cannot be placed among the tail "
+                                  "weights at this precision", i + 1);
             if (st != EMBZ_OK) break;
             arb_set(c->ins_val + c->nins, head + i);
             fmpz_set(cnt + c->nins, lo);

@@ -100,6 +100,39 @@ static int integrate_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub,
     return st;
 }
 
+int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto, slong prec)
+{
+    /* the indices with w > v form a prefix (non-increasing) or a suffix (non-decreasing) of
+     * (M, upto]: bisection on the index, every comparison certified by the balls */
+    fmpz_t lo, hi, mid;
+    arb_t x, w;
+    int st = EMBZ_OK;
+    fmpz_init(lo); fmpz_init(hi); fmpz_init(mid);
+    arb_init(x); arb_init(w);
+    /* invariant (non-increasing): indices <= lo are above v, indices >= hi are below */
+    fmpz_set_si(lo, t->M);
+    fmpz_add_ui(hi, upto, 1);
+    for (;;) {
+        fmpz_sub(mid, hi, lo);
+        if (fmpz_cmp_ui(mid, 1) <= 0) break;
+        fmpz_add(mid, lo, hi);
+        fmpz_fdiv_q_2exp(mid, mid, 1);
+        arb_set_fmpz(x, mid);
+        if (embz_expr_eval_arb(w, t->w, x, t->n, prec) != EMBZ_OK) { st = EMBZ_ERR_DOMAIN; break; }
+        int above = arb_gt(w, v), below = arb_lt(w, v);
+        if (!above && !below) { st = EMBZ_ERR_PREC; break; }
+        if ((t->dir > 0) == (above != 0)) fmpz_set(lo, mid);
+        else fmpz_set(hi, mid);
+    }
+    if (st == EMBZ_OK) {
+        if (t->dir > 0) fmpz_sub_si(res, lo, t->M);      /* indices M+1 .. lo */
+        else fmpz_sub(res, upto, lo);                    /* indices hi .. upto, hi = lo + 1 */
+    }
+    fmpz_clear(lo); fmpz_clear(hi); fmpz_clear(mid);
+    arb_clear(x); arb_clear(w);
+    return st;
+}
+
 int embz_tail_integral_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub, slong prec)
 {
     return integrate_u(res, t, ua, ub, prec);
