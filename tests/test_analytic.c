@@ -726,6 +726,36 @@ START_TEST(test_uniform_half)
 END_TEST
 
 
+
+/* Analytic and explicit results for the family `spec` (inline or library) at size n and
+ * target `tgt` must overlap; returns the analytic enclosure's relative accuracy in bits. */
+static slong agree_with_explicit(const char *spec, const char *tgt, ulong nval)
+{
+    embz_family_t f;
+    embz_target_t q;
+    embz_error_result_t ra, rx;
+    embz_err_t err;
+    fmpz_t n;
+    embz_err_clear(&err);
+    fmpz_init(n);
+    fmpz_set_ui(n, nval);
+    resolve(f, spec, NULL, NULL);
+    target(q, tgt);
+    embz_error_result_init(ra);
+    embz_error_result_init(rx);
+    ck_assert_msg(embz_error_analytic(ra, f, n, q, 128, &err) == EMBZ_OK, "%s: %s", spec, err.text);
+    ck_assert_msg(embz_error_explicit(rx, f, n, q, 128, &err) == EMBZ_OK, "%s: %s", spec, err.text);
+    ck_assert_msg(arb_overlaps(ra->error, rx->error), "%s, target %s, n = %lu: analytic vs "
+                  "explicit", spec, tgt, nval);
+    slong bits = arb_rel_accuracy_bits(ra->error);
+    embz_error_result_clear(ra);
+    embz_error_result_clear(rx);
+    embz_target_clear(q);
+    embz_family_clear(f);
+    fmpz_clear(n);
+    return bits;
+}
+
 /* General targets at analytic sizes: majorization gives E(u_d') <= E(q) <= E(u_m) with
  * d' = floor(1/q_1) and m the number of entries of q (u_m is majorized by q, q by u_d';
  * tensoring with p preserves majorization and K(p -> r) falls as r moves up the majorization
@@ -737,33 +767,12 @@ START_TEST(test_vector_target_bounds)
     flint_randinit(st);
     const char *fams[2] = { "inverse", "power" };
     for (int k = 0; k < (quick() ? 3 : 8); k++) {
-        embz_family_t f;
-        embz_target_t q;
-        embz_error_result_t ra, rx;
-        embz_err_t err;
-        fmpz_t n;
         char spec[128];
-        embz_err_clear(&err);
-        fmpz_init(n);
-        fmpz_set_ui(n, 20000 + n_randint(st, 30000));
-        resolve(f, fams[k % 2], NULL, NULL);
         ulong m = 2 + n_randint(st, 4), pos = 0;
         for (ulong j = 0; j < m; j++)
             pos += (ulong) snprintf(spec + pos, sizeof(spec) - pos, "%s%lu", j ? "," : "",
                                     1 + n_randint(st, 9));
-        target(q, spec);
-        embz_error_result_init(ra);
-        embz_error_result_init(rx);
-        ck_assert_int_eq(embz_error_analytic(ra, f, n, q, 128, &err), EMBZ_OK);
-        ck_assert_int_eq(embz_error_explicit(rx, f, n, q, 128, &err), EMBZ_OK);
-        ck_assert_msg(arb_overlaps(ra->error, rx->error),
-                      "%s, target %s, n = %ld: bounds miss the explicit value", fams[k % 2],
-                      spec, fmpz_get_si(n));
-        embz_error_result_clear(ra);
-        embz_error_result_clear(rx);
-        embz_target_clear(q);
-        embz_family_clear(f);
-        fmpz_clear(n);
+        agree_with_explicit(fams[k % 2], spec, 20000 + n_randint(st, 30000));
     }
     flint_randclear(st);
 }
@@ -774,27 +783,7 @@ END_TEST
  * by ball comparisons; the engine merges them and must still agree with explicit sums. */
 START_TEST(test_head_ties)
 {
-    embz_family_t f;
-    embz_target_t q;
-    embz_error_result_t ra, rx;
-    embz_err_t err;
-    fmpz_t n;
-    embz_err_clear(&err);
-    fmpz_init(n);
-    fmpz_set_ui(n, 20000);
-    resolve(f, "log(2)/max(i,2)", NULL, NULL);
-    target(q, "ebits:2");
-    embz_error_result_init(ra);
-    embz_error_result_init(rx);
-    ck_assert_int_eq(embz_error_analytic(ra, f, n, q, 128, &err), EMBZ_OK);
-    ck_assert_int_eq(embz_error_explicit(rx, f, n, q, 128, &err), EMBZ_OK);
-    ck_assert(arb_overlaps(ra->error, rx->error));
-    ck_assert(arb_rel_accuracy_bits(ra->error) > 90);
-    embz_error_result_clear(ra);
-    embz_error_result_clear(rx);
-    embz_target_clear(q);
-    embz_family_clear(f);
-    fmpz_clear(n);
+    ck_assert(agree_with_explicit("log(2)/max(i,2)", "ebits:2", 20000) > 90);
 }
 END_TEST
 
@@ -806,41 +795,30 @@ START_TEST(test_head_insertions)
 {
     const char *fam[2] = { "i^0.3*log(log(i+3))*i^(-0.5)", "exp(-i/5000)*log(i+1)/log(i+2)" };
     for (int k = 0; k < 2; k++) {
-        for (ulong d = 2; d <= 3; d++) {
-            char spec[32];
-            embz_family_t f;
-            embz_target_t q;
-            embz_error_result_t ra, rx;
-            embz_err_t err;
-            fmpz_t n;
-            embz_err_clear(&err);
-            fmpz_init(n);
-            fmpz_set_ui(n, 20000);
-            resolve(f, fam[k], NULL, NULL);
-            snprintf(spec, sizeof(spec), "uniform:%lu", d);
-            target(q, spec);
-            embz_error_result_init(ra);
-            embz_error_result_init(rx);
-            ck_assert_int_eq(embz_error_analytic(ra, f, n, q, 128, &err), EMBZ_OK);
-            ck_assert_int_eq(embz_error_explicit(rx, f, n, q, 128, &err), EMBZ_OK);
-            ck_assert_msg(arb_overlaps(ra->error, rx->error), "%s, d = %lu", fam[k], d);
-            if (k == 0 && d == 2) {
-                /* 10^40: 64 and 192 bits agree */
-                embz_error_result_t r2;
-                embz_error_result_init(r2);
-                ten_pow(n, 40);
-                ck_assert_int_eq(embz_error_analytic(ra, f, n, q, 64, &err), EMBZ_OK);
-                ck_assert_int_eq(embz_error_analytic(r2, f, n, q, 192, &err), EMBZ_OK);
-                ck_assert(arb_overlaps(ra->error, r2->error));
-                embz_error_result_clear(r2);
-            }
-            embz_error_result_clear(ra);
-            embz_error_result_clear(rx);
-            embz_target_clear(q);
-            embz_family_clear(f);
-            fmpz_clear(n);
-        }
+        agree_with_explicit(fam[k], "ebit", 20000);
+        agree_with_explicit(fam[k], "uniform:3", 20000);
     }
+    /* at 10^40 the engine agrees with itself at 64 and 192 bits */
+    embz_family_t f;
+    embz_target_t q;
+    embz_error_result_t r1, r2;
+    embz_err_t err;
+    fmpz_t n;
+    embz_err_clear(&err);
+    fmpz_init(n);
+    ten_pow(n, 40);
+    resolve(f, fam[0], NULL, NULL);
+    target(q, "ebit");
+    embz_error_result_init(r1);
+    embz_error_result_init(r2);
+    ck_assert_int_eq(embz_error_analytic(r1, f, n, q, 64, &err), EMBZ_OK);
+    ck_assert_int_eq(embz_error_analytic(r2, f, n, q, 192, &err), EMBZ_OK);
+    ck_assert(arb_overlaps(r1->error, r2->error));
+    embz_error_result_clear(r1);
+    embz_error_result_clear(r2);
+    embz_target_clear(q);
+    embz_family_clear(f);
+    fmpz_clear(n);
 }
 END_TEST
 
