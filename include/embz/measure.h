@@ -31,6 +31,9 @@ typedef struct {
     int method;         /* EMBZ_METHOD_EXPLICIT or EMBZ_METHOD_ANALYTIC */
     int order;          /* +1 weights non-increasing in i, -1 non-decreasing, 0 neither (sorted) */
     char detail[256];   /* how it was computed, e.g. "explicit, streaming, arb 128 bits" */
+    int decided;        /* decision mode of the analytic engine: +1 when it stopped because E is
+                           proven above the threshold (the enclosure's upper end is then only
+                           the trivial 1), -1 below, 0 otherwise */
 } embz_error_result_struct;
 typedef embz_error_result_struct embz_error_result_t[1];
 

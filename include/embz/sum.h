@@ -79,7 +79,8 @@ typedef struct {
     fmpz_t nmax;
     embz_tail_t tail;
     int have_decide;
-    arf_t decide;                  /* decision threshold (see embz_analytic_set_decision) */
+    arf_t decide, decide_lo;       /* decision threshold: the upper and lower ends of its ball
+                                      (see embz_analytic_set_decision) */
 } embz_analytic_struct;
 typedef embz_analytic_struct embz_analytic_t[1];
 

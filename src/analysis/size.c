@@ -65,6 +65,7 @@ static int side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
     for (int step = 0; step < SIZE_PREC_STEPS; step++) {
         slong p = c->prec << step;
         st = EMBZ_ERR_UNSUPPORTED;
+        res->decided = 0;
         /* general targets get only bounds from the analytic engine: explicit sums, exact,
          * wherever they reach */
         int vec_explicit = c->q->kind != EMBZ_TARGET_UNIFORM
@@ -83,6 +84,10 @@ static int side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
         arb_set(E, res->error);
         if (arb_le(E, c->eps)) { *sd = -1; break; }
         if (arb_gt(E, c->eps)) { *sd = 1; break; }
+        /* decision mode: a proven value above the goal's whole ball settled it, and the
+         * enclosure's upper end was left at the trivial 1 */
+        if (res->decided > 0) { *sd = 1; break; }
+        if (res->decided < 0) { *sd = -1; break; }
     }
     embz_error_result_clear(res);
     return st;
@@ -231,6 +236,26 @@ static int small_sizes_excluded(sctx *c, slong N)
 static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
                       const embz_target_t q, slong prec, int qubits_only, embz_err_t *err);
 
+/* Full enclosures (no decision mode) at the sizes the result reports. */
+static int final_enclosures(embz_size_result_t res, sctx *c, embz_err_t *err)
+{
+    int st = EMBZ_OK, sd;
+    fmpz_t m;
+    fmpz_init(m);
+    for (int s = 0; s < SIZE_PREC_STEPS; s++) embz_analytic_clear_decision(c->an[s]);
+    if (res->status == EMBZ_SIZE_FOUND) {
+        st = side(&sd, res->err_n, c, res->n, err);
+        if (fmpz_is_zero(res->n_low)) fmpz_sub_ui(res->n_low, res->n, 1);
+        if (st == EMBZ_OK && fmpz_sgn(res->n_low) > 0)
+            st = side(&sd, res->err_prev, c, res->n_low, err);
+    } else {
+        st = side(&sd, res->err_largest, c, res->largest, err);
+    }
+    for (int s = 0; s < SIZE_PREC_STEPS; s++) embz_analytic_set_decision(c->an[s], c->eps);
+    fmpz_clear(m);
+    return st;
+}
+
 int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
                     const embz_target_t q, slong prec, embz_err_t *err)
 {
@@ -323,6 +348,7 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
         }
         if (!found) {
             res->status = EMBZ_SIZE_NOT_REACHED;
+            st = final_enclosures(res, &c, err);
             goto done;
         }
         /* 3. refine to adjacent integers; then look below for a smaller crossing */
@@ -414,6 +440,10 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
             }
         }
     }
+    /* 5. the enclosures reported: evaluated in full (decision mode may have stopped early and
+     * left only the trivial upper end) */
+    if (st == EMBZ_OK && (res->status == EMBZ_SIZE_FOUND || res->status == EMBZ_SIZE_NOT_REACHED))
+        st = final_enclosures(res, &c, err);
 done:
     res->evaluations = c.evals;
     snprintf(res->method, sizeof(res->method), "%s%s%s",

@@ -17,6 +17,7 @@ void embz_error_result_init(embz_error_result_t r)
     arb_init(r->upper);
     r->method = EMBZ_METHOD_AUTO;
     r->order = 0;
+    r->decided = 0;
     r->detail[0] = '\0';
 }
 

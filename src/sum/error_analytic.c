@@ -28,7 +28,10 @@
 typedef struct {
     embz_tail_struct *t;
     const embz_family_struct *f;
-    const arf_struct *decide;   /* stop as soon as E is known to be above or below this */
+    const arf_struct *decide;   /* stop as soon as E is known to be above this ... */
+    const arf_struct *decide_lo;/* ... or below this (the ends of the threshold's ball) */
+    int cut_short;              /* decision mode skipped part of the search: the result's
+                                   upper end is not known */
     fmpz_t n;            /* effective dimension: the true n, or less when the weights beyond
                             it were found negligible (their mass is t->neglected) */
     fmpz_t ntrue;        /* the size n of the family (weights may depend on it) */
@@ -1078,7 +1081,7 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
             if (c->decide != NULL && arb_is_finite(c->best)) {
                 /* decision mode: a proven value above the threshold settles it */
                 arb_get_lbound_arf(blo, c->best, prec);
-                if (arf_cmp(blo, c->decide) > 0) break;
+                if (arf_cmp(blo, c->decide) > 0) { c->cut_short = 1; break; }
             }
             top--;
             fmpz_set(a, stk + 2 * top);
@@ -1147,9 +1150,14 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
             arf_init(blo2);
             arb_get_lbound_arf(blo2, c->best, prec);
             int above = arb_is_finite(c->best) && arf_cmp(blo2, c->decide) > 0;
-            int below = arf_cmp(hp.v[0].U, c->decide) < 0 && arf_cmp(c->upper, c->decide) < 0;
+            int below = arf_cmp(hp.v[0].U, c->decide_lo) < 0
+                        && arf_cmp(c->upper, c->decide_lo) < 0;
             arf_clear(blo2);
-            if (above || below) break;
+            if (above || below) {
+                /* the remaining heap bounds the rest (added below); an early stop above the
+                 * threshold leaves the upper end to those bounds as well */
+                break;
+            }
         }
         bb_item it;
         heap_pop(&hp, &it);
@@ -1385,19 +1393,21 @@ void embz_analytic_clear(embz_analytic_t a)
 {
     if (a->have_tail) embz_tail_clear(a->tail);
     fmpz_clear(a->nmax);
-    if (a->have_decide) arf_clear(a->decide);
+    if (a->have_decide) { arf_clear(a->decide); arf_clear(a->decide_lo); }
 }
 
 void embz_analytic_set_decision(embz_analytic_t a, const arb_t threshold)
 {
-    if (!a->have_decide) arf_init(a->decide);
+    if (!a->have_decide) { arf_init(a->decide); arf_init(a->decide_lo); }
     a->have_decide = 1;
-    arf_set(a->decide, arb_midref(threshold));
+    /* above: beyond every point of the threshold's ball; below: under every point */
+    arb_get_ubound_arf(a->decide, threshold, 4 * a->prec);
+    arb_get_lbound_arf(a->decide_lo, threshold, 4 * a->prec);
 }
 
 void embz_analytic_clear_decision(embz_analytic_t a)
 {
-    if (a->have_decide) arf_clear(a->decide);
+    if (a->have_decide) { arf_clear(a->decide); arf_clear(a->decide_lo); }
     a->have_decide = 0;
 }
 
@@ -1511,6 +1521,7 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
     c.d = q->d;
     c.prec = wp;
     c.decide = an->have_decide ? an->decide : NULL;
+    c.decide_lo = an->have_decide ? an->decide_lo : NULL;
     fmpz_init_set(c.n, n);
     fmpz_init_set(c.ntrue, n);
     fmpz_init(c.L);
@@ -1623,6 +1634,7 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
                 arf_clear(b0);
             }
             if (st == EMBZ_OK && !decided) st = branch_and_bound(&c, vlo, vhi, tol, wp);
+            if (decided) c.cut_short = 1;
             _fmpz_vec_clear(vlo, c.d);
             _fmpz_vec_clear(vhi, c.d);
         }
@@ -1632,6 +1644,14 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
             arf_init(lo); arf_init(hi);
             arb_get_lbound_arf(lo, c.best, wp);
             arf_set(hi, c.upper);
+            /* decision mode stopped before the smooth region was bounded: only the trivial
+             * upper end E <= 1 is known (K is a difference of Ky Fan norms, each <= 1) */
+            if (c.cut_short && arf_cmp_si(hi, 1) < 0) arf_one(hi);
+            res->decided = 0;
+            if (c.decide != NULL) {
+                if (arf_cmp(lo, c.decide) > 0) res->decided = 1;
+                else if (arf_cmp(hi, c.decide_lo) < 0) res->decided = -1;
+            }
             if (arf_cmp(hi, lo) < 0) arf_set(hi, lo);
             arb_set_interval_arf(res->error, lo, hi, wp);
             if (fmpz_cmp(c.n, c.ntrue) < 0 && !mag_is_zero(c.t->neglected)) {
