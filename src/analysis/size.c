@@ -240,8 +240,6 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
 static int final_enclosures(embz_size_result_t res, sctx *c, embz_err_t *err)
 {
     int st = EMBZ_OK, sd;
-    fmpz_t m;
-    fmpz_init(m);
     for (int s = 0; s < SIZE_PREC_STEPS; s++) embz_analytic_clear_decision(c->an[s]);
     if (res->status == EMBZ_SIZE_FOUND) {
         st = side(&sd, res->err_n, c, res->n, err);
@@ -252,7 +250,6 @@ static int final_enclosures(embz_size_result_t res, sctx *c, embz_err_t *err)
         st = side(&sd, res->err_largest, c, res->largest, err);
     }
     for (int s = 0; s < SIZE_PREC_STEPS; s++) embz_analytic_set_decision(c->an[s], c->eps);
-    fmpz_clear(m);
     return st;
 }
 

@@ -32,6 +32,12 @@ typedef struct {
 void embz_report_table_build(embz_report_table_t *t, const embz_report_struct *r);
 void embz_report_table_clear(embz_report_table_t *t);
 
+/* Calls fn(ctx, paragraph) for each paragraph of text (split at blank lines; runs of line
+ * breaks between paragraphs are dropped); with skip_blank, paragraphs of white space only are
+ * left out. text may be NULL. */
+void _embz_render_paragraphs(const char *text, int skip_blank,
+                             void (*fn)(void *ctx, const char *para), void *ctx);
+
 /* malloc'ed copy of s (NULL stays NULL) */
 char *_embz_render_strdup(const char *s);
 

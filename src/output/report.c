@@ -274,8 +274,8 @@ void embz_report_table_clear(table_t *t)
     free(t->cell);
 }
 
-/* Paragraphs of free text: split at blank lines. Calls emit for each non-empty paragraph. */
-static void paragraphs(embz_buf_t *b, const char *text, void (*emit)(embz_buf_t *, const char *))
+void _embz_render_paragraphs(const char *text, int skip_blank,
+                             void (*fn)(void *ctx, const char *para), void *ctx)
 {
     if (text == NULL)
         return;
@@ -290,13 +290,28 @@ static void paragraphs(embz_buf_t *b, const char *text, void (*emit)(embz_buf_t 
         for (size_t i = 0; i < l; i++)
             if (para[i] != ' ' && para[i] != '\n' && para[i] != '\t')
                 blank = 0;
-        if (!blank)
-            emit(b, para);
+        if (!(skip_blank && blank))
+            fn(ctx, para);
         free(para);
         p += l;
         while (*p == '\n')
             p++;
     }
+}
+
+/* Paragraphs of free text: emit for each non-empty paragraph. */
+typedef struct { embz_buf_t *b; void (*emit)(embz_buf_t *, const char *); } para_ctx;
+
+static void para_emit(void *ctx, const char *para)
+{
+    para_ctx *pc = ctx;
+    pc->emit(pc->b, para);
+}
+
+static void paragraphs(embz_buf_t *b, const char *text, void (*emit)(embz_buf_t *, const char *))
+{
+    para_ctx pc = { b, emit };
+    _embz_render_paragraphs(text, 1, para_emit, &pc);
 }
 
 /* ------------------------------------------------------------------ HTML */

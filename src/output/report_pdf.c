@@ -115,24 +115,19 @@ static void wrap(doc_t *d, const char *text, double x, double w, double lh)
     free(line);
 }
 
+typedef struct { doc_t *d; double x, w; } para_ctx;
+
+static void para_draw(void *ctx, const char *para)
+{
+    para_ctx *pc = ctx;
+    wrap(pc->d, para, pc->x, pc->w, BODY * 1.45);
+    pc->d->y += BODY * 0.6;
+}
+
 static void paragraphs(doc_t *d, const char *text, double x, double w)
 {
-    if (text == NULL)
-        return;
-    const char *p = text;
-    while (*p) {
-        const char *e = strstr(p, "\n\n");
-        size_t l = e ? (size_t) (e - p) : strlen(p);
-        char *para = malloc(l + 1);
-        memcpy(para, p, l);
-        para[l] = 0;
-        wrap(d, para, x, w, BODY * 1.45);
-        d->y += BODY * 0.6;
-        free(para);
-        p += l;
-        while (*p == '\n')
-            p++;
-    }
+    para_ctx pc = { d, x, w };
+    _embz_render_paragraphs(text, 0, para_draw, &pc);
 }
 
 static void heading(doc_t *d, const char *text, double keep)

@@ -205,10 +205,10 @@ static int pos_query(arb_t res, actx *c, const fmpz_t K, int want_sum, slong pre
 /* h(k) = (P_k - P_s - (r/d) p_(s+1)) / W with P_k = W for k >= n */
 static int h_at(arb_t res, actx *c, const fmpz_t k, slong prec)
 {
-    fmpz_t s, s1, kk;
+    fmpz_t s, s1;
     ulong r;
     arb_t Pk, Ps, v;
-    fmpz_init(s); fmpz_init(s1); fmpz_init(kk);
+    fmpz_init(s); fmpz_init(s1);
     arb_init(Pk); arb_init(Ps); arb_init(v);
     r = fmpz_fdiv_ui(k, c->d);
     fmpz_fdiv_q_ui(s, k, c->d);
@@ -229,7 +229,7 @@ static int h_at(arb_t res, actx *c, const fmpz_t k, slong prec)
         arb_sub(res, res, v, prec);
     }
     arb_div(res, res, c->W, prec);
-    fmpz_clear(s); fmpz_clear(s1); fmpz_clear(kk);
+    fmpz_clear(s); fmpz_clear(s1);
     arb_clear(Pk); arb_clear(Ps); arb_clear(v);
     c->evals++;
     return st;
@@ -277,6 +277,44 @@ static void finish_coeff(arb_t co, const arb_t v, ulong r, const actx *c, slong 
     arb_div(co, co, c->W, prec);
 }
 
+/* The Taylor model sum_{j <= J} co[j] sigma^j for |sigma| <= w (co[J] already an enclosure
+ * over the whole interval), off by at most slack (may be NULL): sets U to an upper bound,
+ * c0 + sum_j |c_j| w^j + slack, and *mono to +1 / -1 when the derivative,
+ * c1 +- (sum_{j >= 2} j |c_j| w^(j-1) + |dslack|), keeps its sign (dslack, may be NULL, bounds
+ * the derivative of a part left out of the model). Returns EMBZ_ERR_PREC when the bound is not
+ * finite. */
+static int taylor_bound(arf_t U, int *mono, arb_srcptr co, slong J, const arb_t w,
+                        const mag_struct *slack, const arb_struct *dslack, slong prec)
+{
+    arb_t acc, dacc, wp, t, u;
+    arb_init(acc); arb_init(dacc); arb_init(wp); arb_init(t); arb_init(u);
+    arb_set(acc, co);
+    arb_one(wp);                           /* w^(j-1) */
+    for (slong j = 1; j <= J; j++) {
+        arb_abs(t, co + j);
+        if (j >= 2) {
+            arb_mul_ui(u, t, (ulong) j, prec);
+            arb_addmul(dacc, u, wp, prec);
+        }
+        arb_mul(wp, wp, w, prec);          /* w^j */
+        arb_addmul(acc, t, wp, prec);
+    }
+    if (slack != NULL) arb_add_error_mag(acc, slack);
+    arb_get_ubound_arf(U, acc, prec);
+    int st = arb_is_finite(acc) ? EMBZ_OK : EMBZ_ERR_PREC;
+    *mono = 0;
+    if (dslack != NULL) {
+        arb_abs(u, dslack);
+        arb_add(dacc, dacc, u, prec);
+    }
+    arb_sub(t, co + 1, dacc, prec);
+    if (arb_is_positive(t)) *mono = 1;
+    arb_add(t, co + 1, dacc, prec);
+    if (arb_is_negative(t)) *mono = -1;
+    arb_clear(acc); arb_clear(dacc); arb_clear(wp); arb_clear(t); arb_clear(u);
+    return st;
+}
+
 /* Upper bound of h_r over the integers s in [lo, hi] from a Taylor model of order J at the
  * centre (Lagrange remainder: the J-th coefficient enclosed over the whole interval).
  * *mono is set to +1 (-1) when the model proves h_r increasing (decreasing) on the interval;
@@ -299,11 +337,11 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
             J = FLINT_MIN(FLINT_MAX(J, Jn), TAYLOR_MAX);
         } else J = TAYLOR_MAX;
     }
-    arb_t sc, w, y1, y2, y3, dd, one, tmp, acc, dacc, wp;
+    arb_t sc, w, y1, y2, y3, dd, one;
     arb_ptr A1 = _arb_vec_init(J + 1), A2 = _arb_vec_init(J + 1), A3 = _arb_vec_init(J + 1);
     arb_ptr co = _arb_vec_init(J + 1);
     arb_init(sc); arb_init(w); arb_init(y1); arb_init(y2); arb_init(y3);
-    arb_init(dd); arb_init(one); arb_init(tmp); arb_init(acc); arb_init(dacc); arb_init(wp);
+    arb_init(dd); arb_init(one);
     arb_one(one);
     arb_set_ui(dd, c->d);
     int st = EMBZ_OK;
@@ -347,35 +385,11 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
             finish_coeff(co + j, A3 + j, r, c, prec);
         }
     }
-    if (st == EMBZ_OK) {
-        /* U = c0 + |c1| w + sum_{j >= 2} |c_j| w^j;
-         * h' in c1 +- sum_{j >= 2} j |c_j| w^(j-1) */
-        arb_set(acc, co);
-        arb_zero(dacc);
-        arb_one(wp);                       /* w^(j-1) */
-        for (slong j = 1; j <= J; j++) {
-            arb_abs(tmp, co + j);
-            if (j >= 2) {
-                arb_mul_ui(y1, tmp, j, prec);
-                arb_mul(y1, y1, wp, prec);
-                arb_add(dacc, dacc, y1, prec);
-            }
-            arb_mul(wp, wp, w, prec);      /* w^j */
-            arb_mul(tmp, tmp, wp, prec);
-            arb_add(acc, acc, tmp, prec);
-        }
-        arb_get_ubound_arf(U, acc, prec);
-        if (!arb_is_finite(acc)) st = EMBZ_ERR_PREC;
-        /* monotone? */
-        arb_sub(tmp, co + 1, dacc, prec);
-        if (arb_is_positive(tmp)) *mono = 1;
-        arb_add(tmp, co + 1, dacc, prec);
-        if (arb_is_negative(tmp)) *mono = -1;
-    }
+    if (st == EMBZ_OK) st = taylor_bound(U, mono, co, J, w, NULL, NULL, prec);
     _arb_vec_clear(A1, J + 1); _arb_vec_clear(A2, J + 1); _arb_vec_clear(A3, J + 1);
     _arb_vec_clear(co, J + 1);
     arb_clear(sc); arb_clear(w); arb_clear(y1); arb_clear(y2); arb_clear(y3);
-    arb_clear(dd); arb_clear(one); arb_clear(tmp); arb_clear(acc); arb_clear(dacc); arb_clear(wp);
+    arb_clear(dd); arb_clear(one);
     c->evals++;
     return st;
 }
@@ -558,16 +572,16 @@ static int vmodel_series(arb_ptr co, actx *c, ulong r, const arb_t v, const arb_
 static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc,
                             const arb_t w, const arb_t vball, const arb_t delta, slong prec)
 {
-    arb_t drest, gd;
-    arb_init(drest); arb_init(gd);
+    arb_t drest;
+    arb_init(drest);
     *mono = 0;
     slong J = VMODEL_LEN;
     embz_tail_struct *t = c->t;
     slong L = 2 * t->p + 1, sp = FLINT_MIN(prec, 96);
     arb_ptr p0 = _arb_vec_init(J + 1), p1 = _arb_vec_init(J + 1), G = _arb_vec_init(J + 1);
     arb_ptr g = _arb_vec_init(L);
-    arb_t ld, v1, y, a1, acc, wp, tmp, x, one, rest, lam;
-    arb_init(ld); arb_init(v1); arb_init(y); arb_init(a1); arb_init(acc); arb_init(wp);
+    arb_t ld, v1, y, a1, acc, tmp, x, one, rest, lam;
+    arb_init(ld); arb_init(v1); arb_init(y); arb_init(a1); arb_init(acc);
     arb_init(tmp); arb_init(x); arb_init(one); arb_init(rest); arb_init(lam);
     arb_one(one);
     arb_log_ui(ld, c->d, prec);
@@ -589,19 +603,10 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
             arb_div_ui(G + J, G + J, (ulong) J, sp);
         }
     }
-    arb_t G0;
-    arb_init(G0);
     if (st == EMBZ_OK) {
         /* G(vc) = integral of phi over [vc, vc + ln d] */
         arb_add(v1, vc, ld, prec);
-        st = embz_tail_integral_u(G0, t, vc, v1, prec);
-        arb_set(acc, G0);
-        arb_one(wp);
-        for (slong j = 1; j <= J; j++) {
-            arb_mul(wp, wp, w, prec);
-            arb_abs(tmp, G + j);
-            arb_addmul(acc, tmp, wp, prec);
-        }
+        st = embz_tail_integral_u(G, t, vc, v1, prec);
     }
     /* the small parts, enclosed over the interval */
     arb_zero(rest);
@@ -691,52 +696,25 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
         }
     }
     if (st == EMBZ_OK) {
+        /* the model of G, the small parts as a uniform bound and, for monotonicity, their
+         * derivative; when G decreases the bound is already its value at the left end */
+        arf_t UG;
+        int m;
+        arf_init(UG);
+        st = taylor_bound(UG, &m, G, J, w, NULL, drest, prec);
+        arb_set_arf(acc, UG);
         arb_add(acc, acc, rest, prec);
         arb_add(acc, acc, c->dH, prec);
         arb_div(acc, acc, c->W, prec);
         arb_get_ubound_arf(U, acc, prec);
         if (!arb_is_finite(acc)) st = EMBZ_ERR_PREC;
-        /* monotone when G' = G_1 +- sum_{j>=2} j |G_j| w^(j-1) keeps its sign with room for
-         * the derivative of the small parts */
-        arb_zero(gd);
-        arb_one(wp);
-        for (slong j = 2; j <= J; j++) {
-            arb_mul(wp, wp, w, prec);
-            arb_abs(tmp, G + j);
-            arb_mul_ui(tmp, tmp, (ulong) j, prec);
-            arb_addmul(gd, tmp, wp, prec);
-        }
-        arb_add(gd, gd, drest, prec);
-        arb_sub(tmp, G + 1, gd, prec);
-        if (arb_is_finite(gd) && arb_is_positive(tmp)) *mono = 1;
-        arb_add(tmp, G + 1, gd, prec);
-        if (arb_is_finite(gd) && arb_is_negative(tmp)) {
-            /* decreasing: the maximum is at the left end, where the Taylor bound is
-             * G(vc) - G_1 w + sum_{j>=2} |G_j| w^j (plus the small parts) */
-            arb_t gl;
-            arb_init(gl);
-            arb_set(gl, G0);
-            arb_submul(gl, G + 1, w, prec);
-            arb_one(wp);
-            arb_mul(wp, wp, w, prec);
-            for (slong j = 2; j <= J; j++) {
-                arb_mul(wp, wp, w, prec);
-                arb_abs(tmp, G + j);
-                arb_addmul(gl, tmp, wp, prec);
-            }
-            arb_add(gl, gl, rest, prec);
-            arb_add(gl, gl, c->dH, prec);
-            arb_div(gl, gl, c->W, prec);
-            if (st == EMBZ_OK && arb_is_finite(gl)) arb_get_ubound_arf(U, gl, prec);
-            arb_clear(gl);
-            /* reported as a plain bound: the caller then discards or refines */
-        }
+        if (m > 0 && arb_is_finite(drest)) *mono = 1;
+        arf_clear(UG);
     }
-    arb_clear(drest); arb_clear(gd);
-    arb_clear(G0);
+    arb_clear(drest);
     _arb_vec_clear(p0, J + 1); _arb_vec_clear(p1, J + 1); _arb_vec_clear(G, J + 1);
     _arb_vec_clear(g, L);
-    arb_clear(ld); arb_clear(v1); arb_clear(y); arb_clear(a1); arb_clear(acc); arb_clear(wp);
+    arb_clear(ld); arb_clear(v1); arb_clear(y); arb_clear(a1); arb_clear(acc);
     arb_clear(tmp); arb_clear(x); arb_clear(one); arb_clear(rest); arb_clear(lam);
     return st;
 }
@@ -748,9 +726,9 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
 {
     slong J = VMODEL_LEN;
     arb_ptr co = _arb_vec_init(J + 1), ci = _arb_vec_init(J + 1);
-    arb_t delta, va, vb, vc, w, vball, tmp, acc, dacc, wp, lam;
+    arb_t delta, va, vb, vc, w, vball, tmp, acc, lam;
     arb_init(delta); arb_init(va); arb_init(vb); arb_init(vc); arb_init(w); arb_init(vball);
-    arb_init(tmp); arb_init(acc); arb_init(dacc); arb_init(wp); arb_init(lam);
+    arb_init(tmp); arb_init(acc); arb_init(lam);
     *mono = 0;
     mag_zero(slack);
     /* y = s + (r + P1)/d, delta = (M - off_s) - (r + P1)/d with P1 = M - off_k */
@@ -789,7 +767,7 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
             st = model_bound_wide(U, mono, c, r, vc, w, vball, delta, prec);
         _arb_vec_clear(co, J + 1); _arb_vec_clear(ci, J + 1);
         arb_clear(delta); arb_clear(va); arb_clear(vb); arb_clear(vc); arb_clear(w);
-        arb_clear(vball); arb_clear(tmp); arb_clear(acc); arb_clear(dacc); arb_clear(wp);
+        arb_clear(vball); arb_clear(tmp); arb_clear(acc);
         arb_clear(lam);
         c->evals++;
         return st;
@@ -829,31 +807,11 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
     }
     if (st == EMBZ_OK) {
         arb_set(co + J, ci + J);
-        arb_set(acc, co);
-        arb_zero(dacc);
-        arb_one(wp);
-        for (slong j = 1; j <= J; j++) {
-            arb_abs(tmp, co + j);
-            if (j >= 2) {
-                arb_mul_ui(lam, tmp, (ulong) j, prec);
-                arb_mul(lam, lam, wp, prec);
-                arb_add(dacc, dacc, lam, prec);
-            }
-            arb_mul(wp, wp, w, prec);
-            arb_mul(tmp, tmp, wp, prec);
-            arb_add(acc, acc, tmp, prec);
-        }
-        arb_add_error_mag(acc, slack);
-        arb_get_ubound_arf(U, acc, prec);
-        if (!arb_is_finite(acc)) st = EMBZ_ERR_PREC;
-        arb_sub(tmp, co + 1, dacc, prec);
-        if (arb_is_positive(tmp)) *mono = 1;
-        arb_add(tmp, co + 1, dacc, prec);
-        if (arb_is_negative(tmp)) *mono = -1;
+        st = taylor_bound(U, mono, co, J, w, slack, NULL, prec);
     }
     _arb_vec_clear(co, J + 1); _arb_vec_clear(ci, J + 1);
     arb_clear(delta); arb_clear(va); arb_clear(vb); arb_clear(vc); arb_clear(w); arb_clear(vball);
-    arb_clear(tmp); arb_clear(acc); arb_clear(dacc); arb_clear(wp); arb_clear(lam);
+    arb_clear(tmp); arb_clear(acc); arb_clear(lam);
     c->evals++;
     return st;
 }
@@ -1581,11 +1539,10 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
 
     {
         arb_t h;
-        fmpz_t k, s, kmax, slo, shi, tmp;
+        fmpz_t k, kmax, tmp;
         arf_t tol;
         arb_init(h);
-        fmpz_init(k); fmpz_init(s); fmpz_init(kmax); fmpz_init(slo); fmpz_init(shi);
-        fmpz_init(tmp);
+        fmpz_init(k); fmpz_init(kmax); fmpz_init(tmp);
         arf_init(tol);
         arf_zero(c.upper);
         /* explicit positions */
@@ -1681,7 +1638,7 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
             embz_err_set(err, st, "the analytic engine could not certify the maximum");
         }
         arb_clear(h);
-        fmpz_clear(k); fmpz_clear(s); fmpz_clear(kmax); fmpz_clear(slo); fmpz_clear(shi);
+        fmpz_clear(k); fmpz_clear(kmax);
         fmpz_clear(tmp);
         arf_clear(tol);
     }

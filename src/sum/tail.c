@@ -190,7 +190,7 @@ int embz_tail_integral(arb_t res, embz_tail_t t, const arb_t x, slong prec)
     int st = extend_cache(t, k, prec);
     if (st == EMBZ_OK) {
         node_u(uk, t, k, prec);
-        if (arb_overlaps(uk, u) && arb_rel_accuracy_bits(u) > prec - 8 && arb_equal(uk, u)) {
+        if (arb_equal(uk, u)) {
             arb_set(res, t->icum + k);
         } else {
             st = integrate_u(res, t, uk, u, prec);
