@@ -280,5 +280,10 @@ row = dict(zip(rows[0], rows[1]))
 assert row["measure"] == "fidelity" and row["bounds_only"] == "false"
 '
 
+# ---- output files in a directory that does not exist: refused before any computation
+run report inverse -o /nonexistent-embz-dir/r.html; expect_rc 1 "report to a missing directory"
+expect_err "cannot write /nonexistent-embz-dir/r.html" "report names the file"
+run plot inverse -o /nonexistent-embz-dir/p.svg; expect_rc 1 "plot to a missing directory"
+
 echo "$((checks - fails)) passed, $fails failed"
 [ "$fails" -eq 0 ]

@@ -114,6 +114,7 @@ int cli_cmd_demo(int argc, char **argv)
     static const char *const default_out[4] = { "embz-demo.html", "embz-demo.md",
                                                 "embz-demo.tex", "embz-demo.pdf" };
     if (out == NULL) out = default_out[format];
+    if ((code = cli_check_output(out, "demo")) != 0) goto done;
     if ((t = cli_value(&a, "threads")) != NULL) {
         long th;
         if (cli_parse_long(&th, t, 1, 256)) {

@@ -150,7 +150,8 @@ int cli_cmd_plot(int argc, char **argv)
         }
     }
     if ((code = cli_load_range(A, B, &points, 2, 1000, &a, &plot_spec)) != 0
-        || (code = cli_load_prec_upto(&prec, &a, &plot_spec, 1L << 16)) != 0)
+        || (code = cli_load_prec_upto(&prec, &a, &plot_spec, 1L << 16)) != 0
+        || (code = cli_check_output(out, "plot")) != 0)
         goto done;
     {
         char *end;

@@ -211,6 +211,7 @@ int cli_cmd_report(int argc, char **argv)
     static const char *const default_out[4] = { "embz-report.html", "embz-report.md",
                                                 "embz-report.tex", "embz-report.pdf" };
     if (out == NULL) out = default_out[format];
+    if ((code = cli_check_output(out, "report")) != 0) goto done;
 
     /* numbers */
     if ((code = cli_load_prec(&o.prec, &a, &report_spec)) != 0) goto done;

@@ -4,6 +4,8 @@
  * the same everywhere. */
 #include <stdlib.h>
 #include <string.h>
+#include <errno.h>
+#include <unistd.h>
 #include "cli.h"
 
 int cli_settings_load(cli_settings_t *s, const cli_args_t *a, const char *cmd)
@@ -99,4 +101,21 @@ int cli_load_range(fmpz_t from, fmpz_t to, long *points, long min_points, long m
     }
     if (fmpz_cmp(from, to) > 0) return cli_usage_error(spec, "--from must not exceed --to");
     return CLI_EXIT_OK;
+}
+
+int cli_check_output(const char *path, const char *cmd)
+{
+    /* the directory the file goes to must exist and be writable: said before any work */
+    size_t l = strlen(path);
+    char *dir = malloc(l + 2);
+    memcpy(dir, path, l + 1);
+    char *slash = strrchr(dir, '/');
+    if (slash == NULL) strcpy(dir, ".");
+    else if (slash == dir) dir[1] = '\0';
+    else *slash = '\0';
+    int ok = access(dir, W_OK | X_OK) == 0;
+    if (!ok) fprintf(stderr, "embz %s: cannot write %s: %s: %s\n", cmd, path, dir,
+                     strerror(errno));
+    free(dir);
+    return ok ? CLI_EXIT_OK : CLI_EXIT_RUNTIME;
 }
