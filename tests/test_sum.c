@@ -134,6 +134,54 @@ static void digamma_case(ulong e, slong prec)
     arb_clear(x); arb_clear(T); arb_clear(ref); arb_clear(g); arb_clear(h);
 }
 
+/* Far levels (lower Euler-Maclaurin orders from X_j = 2^b_j on): at points beyond several
+ * thresholds every valid level must enclose H_x - H_M, taken from arb_digamma. */
+START_TEST(test_harmonic_levels)
+{
+    const slong M = 64, prec = 128;
+    embz_expr_t w;
+    embz_tail_t t;
+    fmpz_t n, X;
+    fmpq_t HM;
+    arb_t x, T, ref, g, h;
+    fmpz_init(n); fmpz_init(X);
+    fmpq_init(HM);
+    arb_init(x); arb_init(T); arb_init(ref); arb_init(g); arb_init(h);
+    parse_or_die(w, "1/i");
+    ten_pow(n, 80);
+    init_tail(t, w, n, M, n, prec);
+    ck_assert_msg(t->nlev >= 2, "expected far levels for 1/i up to 10^80, got %ld", t->nlev);
+    arith_harmonic_number(HM, M);
+    arb_set_fmpq(h, HM, prec);
+    arb_const_euler(g, prec);
+    static const slong bits[] = { 20, 33, 47, 65, 100, 200, 265 };
+    for (int i = 0; i < 7; i++) {
+        fmpz_one(X);
+        fmpz_mul_2exp(X, X, (ulong) bits[i]);
+        fmpz_add_ui(X, X, 12345);
+        if (fmpz_cmp(X, n) > 0) continue;
+        arb_set_fmpz(x, X);
+        arb_add_ui(ref, x, 1, 2 * prec + bits[i]);
+        arb_digamma(ref, ref, prec);
+        arb_add(ref, ref, g, prec);
+        arb_sub(ref, ref, h, prec);                  /* H_X - H_M */
+        slong top = embz_tail_level(t, x);
+        for (slong j = 0; j <= top; j++) {
+            ck_assert_int_eq(embz_tail_sum_level(T, t, x, j, prec), EMBZ_OK);
+            ck_assert_msg(arb_overlaps(T, ref), "level %ld at 2^%ld: no overlap", (long) j,
+                          (long) bits[i]);
+            ck_assert_msg(rad_below(T, 1e-30), "level %ld at 2^%ld: radius %g", (long) j,
+                          (long) bits[i], mag_get_d(arb_radref(T)));
+        }
+    }
+    embz_tail_clear(t);
+    embz_expr_clear(w);
+    fmpz_clear(n); fmpz_clear(X);
+    fmpq_clear(HM);
+    arb_clear(x); arb_clear(T); arb_clear(ref); arb_clear(g); arb_clear(h);
+}
+END_TEST
+
 START_TEST(test_harmonic_digamma_1e30) { digamma_case(30, 128); }
 END_TEST
 START_TEST(test_harmonic_digamma_1e1000) { digamma_case(1000, 128); }
@@ -566,6 +614,7 @@ static Suite *sum_suite(void)
     tcase_set_timeout(tc, 600);
     tcase_add_test(tc, test_harmonic_exact);
     tcase_add_test(tc, test_harmonic_digamma_1e30);
+    tcase_add_test(tc, test_harmonic_levels);
     tcase_add_test(tc, test_harmonic_digamma_1e1000);
     tcase_add_test(tc, test_zeta_half);
     tcase_add_test(tc, test_zeta_two);

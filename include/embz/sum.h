@@ -15,6 +15,8 @@
 #include "embz/vec.h"
 #include "embz/measure.h"
 
+#define EMBZ_TAIL_MAX_LEVELS 24
+
 typedef struct {
     const embz_expr_struct *w; /* borrowed weight expression in (i, n) */
     arb_t n;                   /* the size as a ball (for weights that use n) */
@@ -27,7 +29,17 @@ typedef struct {
     slong p;                   /* Euler–Maclaurin order */
     arb_ptr bern;              /* bern[j-1] = B_2j / (2j)!, j = 1..p */
     arb_t base;                /* -f(M)/2 - sum_j bern_j f^(2j-1)(M) */
-    mag_t rem;                 /* bound on |R|, valid for every upper limit in [M, end] */
+    mag_t rem;                 /* bound on |R|, valid for every upper limit in [M, end] and
+                                  every level below */
+    /* Far levels: far out, where derivatives are small, a lower order suffices. Level j
+     * (1 <= j < nlev) restarts the formula at X_j = 2^lev_bits[j] with order lev_p[j]:
+     *   T~_j(x) = I(M, x) + em_(lev_p[j])(x) + lev_base[j],
+     *   lev_base[j] = base + em_p(X_j) - em_(lev_p[j])(X_j),
+     * valid for x >= X_j. Level 0 is the formula above (lev_bits[0] = 0, lev_p[0] = p). */
+    slong nlev;
+    slong lev_bits[EMBZ_TAIL_MAX_LEVELS];
+    slong lev_p[EMBZ_TAIL_MAX_LEVELS];
+    arb_struct lev_base[EMBZ_TAIL_MAX_LEVELS];
     arb_t logM;                /* ln M */
     double du;                 /* spacing of the integral cache nodes in u = ln x */
     slong nnodes, nalloc;
@@ -57,14 +69,21 @@ int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto,
 int embz_tail_integral_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub, slong prec);
 /* integral_M^x f(y) dy for a (narrow) ball x in [M, end]. */
 int embz_tail_integral(arb_t res, embz_tail_t t, const arb_t x, slong prec);
+/* The highest level valid on the whole ball x (x >= X_j for every point of x). */
+slong embz_tail_level(const embz_tail_t t, const arb_t x);
 /* T~(x) with the remainder bound added to the radius: for integer x it encloses
- * sum_{M < i <= x} f(i). */
+ * sum_{M < i <= x} f(i). The _level form uses the given level (valid for x), the plain form
+ * the highest valid one. */
 int embz_tail_sum(arb_t res, embz_tail_t t, const arb_t x, slong prec);
+int embz_tail_sum_level(arb_t res, embz_tail_t t, const arb_t x, slong lev, slong prec);
 /* Taylor coefficients 1..len-1 of sigma -> T~(x + scale sigma) (res[0] is set to 0).
  * x may be a wide ball: the coefficients then enclose the values over the whole ball,
- * which is what Lagrange remainder bounds need. */
+ * which is what Lagrange remainder bounds need. A Taylor model must take all its
+ * coefficients from one level: use the _level form with the level of the whole interval. */
 int embz_tail_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
                      slong len, slong prec);
+int embz_tail_series_level(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
+                           slong len, slong lev, slong prec);
 /* Taylor coefficients 0..len-1 of sigma -> f(x + scale sigma). */
 int embz_tail_weight_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
                             slong len, slong prec);

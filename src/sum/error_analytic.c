@@ -51,6 +51,9 @@ typedef struct {
     slong off_k, off_s;  /* for the interval being modelled: a + (insertions before k) and
                             a + (insertions before s) */
     arb_t dH;            /* ins_cum[off_k - a] - ins_cum[off_s - a] */
+    mag_t rslack;        /* |h - h~| <= rslack at integer s: the Euler-Maclaurin remainders
+                            of the two tail sums in h (2 rem / W), which the smooth models
+                            of h~ leave out */
     arb_t best;          /* best proven value (lower end used) */
     fmpz_t argk;
     arf_t upper;         /* running maximum of the upper bounds (points and intervals) */
@@ -72,40 +75,55 @@ static void tail_x(arb_t x, const actx *c, const arb_t y, slong prec)
     }
 }
 
-/* C(y) = sum of the first y sorted tail values (smooth extension for real y) */
-static int tail_C(arb_t res, actx *c, const arb_t y, slong prec)
+/* the x argument of the tail sum behind C(y): dec: M + y, inc: n - y */
+static void sum_x(arb_t x, const actx *c, const arb_t y, slong prec)
 {
-    arb_t x;
-    arb_init(x);
-    int st;
     if (c->t->dir > 0) {
         arb_add_si(x, y, c->M, prec);
-        st = embz_tail_sum(res, c->t, x, prec);
     } else {
         arb_set_fmpz(x, c->n);
         arb_sub(x, x, y, prec);
-        st = embz_tail_sum(res, c->t, x, prec);
-        arb_sub(res, c->Ttot, res, prec);
     }
+}
+
+/* the Euler-Maclaurin level valid for C over the whole ball y */
+static slong tail_level(const actx *c, const arb_t y, slong prec)
+{
+    arb_t x;
+    arb_init(x);
+    sum_x(x, c, y, prec);
+    slong lev = embz_tail_level(c->t, x);
+    arb_clear(x);
+    return lev;
+}
+
+/* C(y) = sum of the first y sorted tail values (smooth extension for real y, from the
+ * given level; lev < 0: the highest valid one) */
+static int tail_C(arb_t res, actx *c, const arb_t y, slong lev, slong prec)
+{
+    arb_t x;
+    arb_init(x);
+    sum_x(x, c, y, prec);
+    if (lev < 0) lev = embz_tail_level(c->t, x);
+    int st = embz_tail_sum_level(res, c->t, x, lev, prec);
+    if (c->t->dir < 0) arb_sub(res, c->Ttot, res, prec);
     arb_clear(x);
     return st;
 }
 
-/* Taylor coefficients 1..len-1 of sigma -> C(y + scale sigma) */
+/* Taylor coefficients 1..len-1 of sigma -> C(y + scale sigma), from level lev */
 static int tail_C_series(arb_ptr res, actx *c, const arb_t y, const arb_t scale, slong len,
-                         slong prec)
+                         slong lev, slong prec)
 {
     arb_t x, sc;
     arb_init(x); arb_init(sc);
+    sum_x(x, c, y, prec);
     int st;
     if (c->t->dir > 0) {
-        arb_add_si(x, y, c->M, prec);
-        st = embz_tail_series(res, c->t, x, scale, len, prec);
+        st = embz_tail_series_level(res, c->t, x, scale, len, lev, prec);
     } else {
-        arb_set_fmpz(x, c->n);
-        arb_sub(x, x, y, prec);
         arb_neg(sc, scale);
-        st = embz_tail_series(res, c->t, x, sc, len, prec);
+        st = embz_tail_series_level(res, c->t, x, sc, len, lev, prec);
         _arb_vec_neg(res, res, len);
     }
     arb_clear(x); arb_clear(sc);
@@ -160,7 +178,7 @@ static int pos_query(arb_t res, actx *c, const fmpz_t K, int want_sum, slong pre
             arb_t y;
             arb_init(y);
             arb_set_fmpz(y, j);
-            st = tail_C(res, c, y, prec);
+            st = tail_C(res, c, y, -1, prec);
             arb_add(res, res, c->SA, prec);
             arb_add(res, res, c->ins_cum + at + 1, prec);
             arb_clear(y);
@@ -173,7 +191,7 @@ static int pos_query(arb_t res, actx *c, const fmpz_t K, int want_sum, slong pre
         arb_init(y);
         arb_set_fmpz(y, j);
         if (want_sum) {
-            st = tail_C(res, c, y, prec);
+            st = tail_C(res, c, y, -1, prec);
             arb_add(res, res, c->SA, prec);
             arb_add(res, res, c->ins_cum + cb, prec);
         } else {
@@ -281,10 +299,13 @@ static void finish_coeff(arb_t co, const arb_t v, ulong r, const actx *c, slong 
  * over the whole interval), off by at most slack (may be NULL): sets U to an upper bound,
  * c0 + sum_j |c_j| w^j + slack, and *mono to +1 / -1 when the derivative,
  * c1 +- (sum_{j >= 2} j |c_j| w^(j-1) + |dslack|), keeps its sign (dslack, may be NULL, bounds
- * the derivative of a part left out of the model). Returns EMBZ_ERR_PREC when the bound is not
- * finite. */
+ * the derivative of a part left out of the model). When the model is monotone and ends (may
+ * be NULL) gives the offsets sigma of the two ends of the interval, U is lowered to the
+ * model's value at the maximising end plus slack. Returns EMBZ_ERR_PREC when the bound is
+ * not finite. */
 static int taylor_bound(arf_t U, int *mono, arb_srcptr co, slong J, const arb_t w,
-                        const mag_struct *slack, const arb_struct *dslack, slong prec)
+                        const mag_struct *slack, const arb_struct *dslack,
+                        arb_srcptr ends, slong prec)
 {
     arb_t acc, dacc, wp, t, u;
     arb_init(acc); arb_init(dacc); arb_init(wp); arb_init(t); arb_init(u);
@@ -311,6 +332,21 @@ static int taylor_bound(arf_t U, int *mono, arb_srcptr co, slong J, const arb_t 
     if (arb_is_positive(t)) *mono = 1;
     arb_add(t, co + 1, dacc, prec);
     if (arb_is_negative(t)) *mono = -1;
+    if (*mono != 0 && ends != NULL && st == EMBZ_OK) {
+        /* the model at the maximising end (Horner; co[J] covers the Lagrange remainder) */
+        arb_srcptr e = ends + (*mono > 0 ? 1 : 0);
+        arb_set(acc, co + J);
+        for (slong j = J - 1; j >= 0; j--) {
+            arb_mul(acc, acc, e, prec);
+            arb_add(acc, acc, co + j, prec);
+        }
+        if (slack != NULL) arb_add_error_mag(acc, slack);
+        arf_t Ue;
+        arf_init(Ue);
+        arb_get_ubound_arf(Ue, acc, prec);
+        if (arb_is_finite(acc) && arf_cmp(Ue, U) < 0) arf_set(U, Ue);
+        arf_clear(Ue);
+    }
     arb_clear(acc); arb_clear(dacc); arb_clear(wp); arb_clear(t); arb_clear(u);
     return st;
 }
@@ -326,16 +362,12 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
      * decide the maximum on nearly flat stretches; at least TAYLOR_LEN */
     slong J = TAYLOR_LEN;
     {
-        double ls = fmpz_bits(hi), lw;
-        fmpz_t wd;
-        fmpz_init(wd);
-        fmpz_sub(wd, hi, lo);
-        lw = fmpz_bits(wd) + 1;
-        fmpz_clear(wd);
-        if (ls - lw >= 1) {
-            slong Jn = (slong) ((ls + 4) / (ls - lw)) + 1;
-            J = FLINT_MIN(FLINT_MAX(J, Jn), TAYLOR_MAX);
-        } else J = TAYLOR_MAX;
+        /* rho = half width / centre: the terms of the model fall roughly like rho^j */
+        double ls = fmpz_bits(hi), dlo = fmpz_get_d(lo), dhi = fmpz_get_d(hi);
+        double rho = (dhi - dlo) / (dhi + dlo);
+        if (rho > 0.9) J = TAYLOR_MAX;
+        else if (rho > 0) J = FLINT_MIN(FLINT_MAX(J, (slong) ceil((ls + 4) / -log2(rho)) + 1),
+                                        TAYLOR_MAX);
     }
     arb_t sc, w, y1, y2, y3, dd, one;
     arb_ptr A1 = _arb_vec_init(J + 1), A2 = _arb_vec_init(J + 1), A3 = _arb_vec_init(J + 1);
@@ -355,8 +387,10 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
     arb_sub_fmpz(w, w, lo, prec);
     arb_mul_2exp_si(w, w, -1);
 
-    for (int pass = 0; pass < 2 && st == EMBZ_OK; pass++) {
-        /* pass 0: coefficients at the centre; pass 1: enclosures over the interval */
+    /* one Euler-Maclaurin level per sum for the whole model: the one valid on the interval */
+    slong lev1 = 0, lev2 = 0;
+    for (int pass = 1; pass >= 0 && st == EMBZ_OK; pass--) {
+        /* pass 1: enclosures over the interval; pass 0: coefficients at the centre */
         arb_t s;
         arb_init(s);
         arb_set(s, sc);
@@ -370,12 +404,16 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
         arb_add_ui(y3, y2, 1, prec);
         /* the remainder coefficient is only needed to a few bits */
         slong sp = (pass == 0) ? prec : FLINT_MIN(prec, 64 + (slong) fmpz_bits(hi));
-        st = tail_C_series(A1, c, y1, dd, len, sp);
-        if (st == EMBZ_OK) st = tail_C_series(A2, c, y2, one, len, sp);
+        if (pass == 1) {
+            lev1 = tail_level(c, y1, prec);
+            lev2 = tail_level(c, y2, prec);
+        }
+        st = tail_C_series(A1, c, y1, dd, len, lev1, sp);
+        if (st == EMBZ_OK) st = tail_C_series(A2, c, y2, one, len, lev2, sp);
         if (st == EMBZ_OK && r != 0) st = tail_v_series(A3, c, y3, len, sp);
         if (st == EMBZ_OK && pass == 0) {
-            st = tail_C(A1, c, y1, prec);
-            if (st == EMBZ_OK) st = tail_C(A2, c, y2, prec);
+            st = tail_C(A1, c, y1, lev1, prec);
+            if (st == EMBZ_OK) st = tail_C(A2, c, y2, lev2, prec);
         }
         arb_clear(s);
         if (st != EMBZ_OK) break;
@@ -385,7 +423,13 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
             finish_coeff(co + j, A3 + j, r, c, prec);
         }
     }
-    if (st == EMBZ_OK) st = taylor_bound(U, mono, co, J, w, NULL, NULL, prec);
+    if (st == EMBZ_OK) {
+        arb_ptr ends = _arb_vec_init(2);
+        arb_neg(ends, w);
+        arb_set(ends + 1, w);
+        st = taylor_bound(U, mono, co, J, w, NULL, NULL, ends, prec);
+        _arb_vec_clear(ends, 2);
+    }
     _arb_vec_clear(A1, J + 1); _arb_vec_clear(A2, J + 1); _arb_vec_clear(A3, J + 1);
     _arb_vec_clear(co, J + 1);
     arb_clear(sc); arb_clear(w); arb_clear(y1); arb_clear(y2); arb_clear(y3);
@@ -409,12 +453,14 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
 #define VMODEL_LEN 10          /* their order */
 #define VMODEL_SHORT 12        /* terms kept of the short integral S */
 
-/* em(x(tau)) with x(tau) = scale e^(v + tau) + shift, as a series in tau */
+/* em(x(tau)) with x(tau) = scale e^(v + tau) + shift, as a series in tau, with the order of
+ * Euler-Maclaurin level lev */
 static int em_composed(arb_ptr res, actx *c, const arb_t v, const arb_t scale,
-                       const arb_t shift, slong len, slong prec)
+                       const arb_t shift, slong len, slong lev, slong prec)
 {
     embz_tail_struct *t = c->t;
-    slong L = len + 2 * t->p;
+    slong q = t->lev_p[lev];
+    slong L = len + 2 * q;
     arb_ptr g = _arb_vec_init(L), em = _arb_vec_init(len), ts = _arb_vec_init(len);
     arb_t xc, ev, one, u;
     fmpz_t rf;
@@ -428,7 +474,7 @@ static int em_composed(arb_ptr res, actx *c, const arb_t v, const arb_t scale,
     if (st == EMBZ_OK) {
         for (slong l = 0; l < len; l++) {
             arb_mul_2exp_si(em + l, g + l, -1);
-            for (slong j = 1; j <= t->p; j++) {
+            for (slong j = 1; j <= q; j++) {
                 fmpz_rfac_uiui(rf, l + 1, 2 * j - 1);
                 arb_mul_fmpz(u, g + l + 2 * j - 1, rf, prec);
                 arb_addmul(em + l, u, t->bern + j - 1, prec);
@@ -517,7 +563,7 @@ static int short_integral(arb_ptr res, actx *c, const arb_t v, const arb_t delta
 
 /* The series of W h_r in tau at v (len coefficients; coefficient 0 only when point != 0). */
 static int vmodel_series(arb_ptr co, actx *c, ulong r, const arb_t v, const arb_t delta,
-                         slong len, int point, slong prec)
+                         slong len, int point, const slong *lev, slong prec)
 {
     arb_ptr G = _arb_vec_init(len), S = _arb_vec_init(len), E1 = _arb_vec_init(len);
     arb_ptr E2 = _arb_vec_init(len), F3 = _arb_vec_init(len);
@@ -546,9 +592,9 @@ static int vmodel_series(arb_ptr co, actx *c, ulong r, const arb_t v, const arb_
         if (vm > 0) lp = FLINT_MAX(64, prec - (slong) (vm / 0.6931471805599453) + 8);
     }
     if (st == EMBZ_OK && !arb_is_zero(delta)) st = short_integral(S, c, v, delta, len, lp);
-    if (st == EMBZ_OK) st = em_composed(E1, c, v, dd, zero, len, lp);
+    if (st == EMBZ_OK) st = em_composed(E1, c, v, dd, zero, len, lev[0], lp);
     arb_one(y);
-    if (st == EMBZ_OK) st = em_composed(E2, c, v, y, delta, len, lp);
+    if (st == EMBZ_OK) st = em_composed(E2, c, v, y, delta, len, lev[1], lp);
     arb_add_ui(sh, delta, 1, prec);
     if (st == EMBZ_OK && r != 0) st = f_composed(F3, c, v, sh, len, lp);
     if (st == EMBZ_OK) {
@@ -570,14 +616,15 @@ static int vmodel_series(arb_ptr co, actx *c, ulong r, const arb_t v, const arb_
  * enclosures of the small parts, |S| + |em(x1)| + |em(x2)| + (r/d) |f(x3)|, over the interval.
  * Far out, where those parts are below the tolerance, this settles very long stretches. */
 static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc,
-                            const arb_t w, const arb_t vball, const arb_t delta, slong prec)
+                            const arb_t w, const arb_t vball, const arb_t delta,
+                            const slong *lev, arb_srcptr ends, slong prec)
 {
     arb_t drest;
     arb_init(drest);
     *mono = 0;
     slong J = VMODEL_LEN;
     embz_tail_struct *t = c->t;
-    slong L = 2 * t->p + 1, sp = FLINT_MIN(prec, 96);
+    slong L = 2 * FLINT_MAX(t->lev_p[lev[0]], t->lev_p[lev[1]]) + 1, sp = FLINT_MIN(prec, 96);
     arb_ptr p0 = _arb_vec_init(J + 1), p1 = _arb_vec_init(J + 1), G = _arb_vec_init(J + 1);
     arb_ptr g = _arb_vec_init(L);
     arb_t ld, v1, y, a1, acc, tmp, x, one, rest, lam;
@@ -619,7 +666,8 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
             if (r == 0) break;
             arb_add_ui(x, x, 1, sp);
         }
-        st = embz_tail_weight_series(g, t, x, one, part == 2 ? 2 : L, sp);
+        slong q = (part == 2) ? 0 : t->lev_p[lev[part]];
+        st = embz_tail_weight_series(g, t, x, one, part == 2 ? 2 : 2 * q + 1, sp);
         if (st != EMBZ_OK) break;
         /* dx/dv: x1 for part 0, e^v for parts 1 and 2 */
         if (part == 0) arb_set(y, x);
@@ -639,7 +687,7 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
             /* |d/dv em(x)| <= |dx/dv| (|f'|/2 + sum |B_2j/(2j)!| |f^(2j)|) */
             arb_abs(tmp, g + 1);
             arb_mul_2exp_si(tmp, tmp, -1);
-            for (slong j = 1; j <= t->p; j++) {
+            for (slong j = 1; j <= q; j++) {
                 arb_fac_ui(a1, 2 * j, sp);
                 arb_mul(a1, a1, g + 2 * j, sp);
                 arb_mul(a1, a1, t->bern + j - 1, sp);
@@ -651,7 +699,7 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
             arb_abs(tmp, g);
             arb_mul_2exp_si(tmp, tmp, -1);
             arb_add(rest, rest, tmp, sp);
-            for (slong j = 1; j <= t->p; j++) {
+            for (slong j = 1; j <= q; j++) {
                 arb_fac_ui(a1, 2 * j - 1, sp);
                 arb_mul(a1, a1, g + 2 * j - 1, sp);
                 arb_mul(a1, a1, t->bern + j - 1, sp);
@@ -701,7 +749,7 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
         arf_t UG;
         int m;
         arf_init(UG);
-        st = taylor_bound(UG, &m, G, J, w, NULL, drest, prec);
+        st = taylor_bound(UG, &m, G, J, w, NULL, drest, ends, prec);
         arb_set_arf(acc, UG);
         arb_add(acc, acc, rest, prec);
         arb_add(acc, acc, c->dH, prec);
@@ -759,26 +807,36 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
         arf_clear(w1); arf_clear(w2);
         arb_union(vball, va, vb, prec);
     }
+    arb_ptr ends = _arb_vec_init(2);
+    arb_sub(ends, va, vc, prec);
+    arb_sub(ends + 1, vb, vc, prec);
+    /* Euler-Maclaurin levels valid over the interval for x1 = d e^v and x2 = e^v + delta */
+    slong lev[2];
+    arb_exp(tmp, vball, prec);
+    arb_mul_ui(acc, tmp, c->d, prec);
+    lev[0] = embz_tail_level(c->t, acc);
+    arb_add(acc, tmp, delta, prec);
+    lev[1] = embz_tail_level(c->t, acc);
     if (arf_cmpabs_2exp_si(arb_midref(w), -1) > 0) {
         /* wide: enclosures of the small parts lose too much under a full model */
         int st = EMBZ_ERR_PREC;
         /* x-ranges wider than a factor e^20 would put 0 inside the enclosures of x */
         if (arf_cmp_si(arb_midref(w), 10) <= 0)
-            st = model_bound_wide(U, mono, c, r, vc, w, vball, delta, prec);
-        _arb_vec_clear(co, J + 1); _arb_vec_clear(ci, J + 1);
+            st = model_bound_wide(U, mono, c, r, vc, w, vball, delta, lev, ends, prec);
+        _arb_vec_clear(co, J + 1); _arb_vec_clear(ci, J + 1); _arb_vec_clear(ends, 2);
         arb_clear(delta); arb_clear(va); arb_clear(vb); arb_clear(vc); arb_clear(w);
         arb_clear(vball); arb_clear(tmp); arb_clear(acc);
         arb_clear(lam);
         c->evals++;
         return st;
     }
-    int st = vmodel_series(co, c, r, vc, delta, J, 1, prec);
+    int st = vmodel_series(co, c, r, vc, delta, J, 1, lev, prec);
     if (st == EMBZ_OK && !arb_is_zero(c->dH)) {
         arb_div(tmp, c->dH, c->W, prec);
         arb_add(co, co, tmp, prec);
     }
     slong sp = FLINT_MIN(prec, 96);
-    if (st == EMBZ_OK) st = vmodel_series(ci, c, r, vball, delta, J + 1, 0, sp);
+    if (st == EMBZ_OK) st = vmodel_series(ci, c, r, vball, delta, J + 1, 0, lev, sp);
     if (st == EMBZ_OK && !arb_is_zero(delta)) {
         /* tail of S: |R| <= sup |phi^(K)| |lambda|^(K+1) / (K+1)!, over [va, vb + |lambda|] */
         slong K = VMODEL_SHORT;
@@ -807,9 +865,9 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
     }
     if (st == EMBZ_OK) {
         arb_set(co + J, ci + J);
-        st = taylor_bound(U, mono, co, J, w, slack, NULL, prec);
+        st = taylor_bound(U, mono, co, J, w, slack, NULL, ends, prec);
     }
-    _arb_vec_clear(co, J + 1); _arb_vec_clear(ci, J + 1);
+    _arb_vec_clear(co, J + 1); _arb_vec_clear(ci, J + 1); _arb_vec_clear(ends, 2);
     arb_clear(delta); arb_clear(va); arb_clear(vb); arb_clear(vc); arb_clear(w); arb_clear(vball);
     arb_clear(tmp); arb_clear(acc); arb_clear(lam);
     c->evals++;
@@ -964,11 +1022,24 @@ static int bb_consider(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmp
             st = EMBZ_OK;
             mono = 0;
             arf_pos_inf(it.U);
+        } else {
+            /* the models describe the smooth extension h~; at integers h differs from it by
+             * the Euler-Maclaurin remainders, at most rslack */
+            arb_t u;
+            arb_init(u);
+            arb_set_arf(u, it.U);
+            arb_add_error_mag(u, c->rslack);
+            arb_get_ubound_arf(it.U, u, prec);
+            arb_clear(u);
+            mag_add(slack, slack, c->rslack);
         }
         arf_t blo;
         arf_init(blo);
         arb_get_lbound_arf(blo, c->best, prec);
-        if (mono != 0) {
+        if (mono != 0 && arb_is_finite(c->best) && arf_cmp(it.U, blo) < 0) {
+            /* monotone and even its maximising end (U) is below a proven value */
+            item_clear(&it);
+        } else if (mono != 0) {
             /* the model is monotone; h itself may exceed it by the slack at most, so the
              * maximum over the interval is at most h(end) + 2 slack */
             st = h_at_s(h, c, r, mono > 0 ? hi : lo, prec);
@@ -1299,6 +1370,14 @@ static int setup(actx *c, slong M, int shared, slong prec, embz_err_t *err)
     arb_add(c->W, c->W, c->SB, prec);
     arb_add(c->W, c->W, c->ins_cum + c->nins, prec);
     if (!arb_is_positive(c->W)) { st = embz_err_set(err, EMBZ_ERR_DOMAIN, "total weight is 0"); goto out; }
+    {
+        mag_t wl;
+        mag_init(wl);
+        arb_get_mag_lower(wl, c->W);
+        mag_div(c->rslack, c->t->rem, wl);
+        mag_mul_2exp_si(c->rslack, c->rslack, 1);
+        mag_clear(wl);
+    }
 
     /* explicit positions 1..E (past the insertions, so that the smooth region starts inside
      * the tail) */
@@ -1488,6 +1567,7 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
     arb_init(c.SA); arb_init(c.SB); arb_init(c.Ttot); arb_init(c.W);
     arb_init(c.best); arf_init(c.upper);
     arb_init(c.dH);
+    mag_init(c.rslack);
     arb_indeterminate(c.best);
     int st = EMBZ_ERR_UNSUPPORTED;
     int have_tail = 0;      /* a tail of our own to clear */
@@ -1649,5 +1729,6 @@ cleanup:
     arb_clear(c.SA); arb_clear(c.SB); arb_clear(c.Ttot); arb_clear(c.W);
     arb_clear(c.best); arf_clear(c.upper);
     arb_clear(c.dH);
+    mag_clear(c.rslack);
     return st;
 }

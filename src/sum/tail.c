@@ -38,13 +38,13 @@ static int weight_taylor(arb_ptr g, embz_tail_t t, const arb_t x, slong len, slo
     return st;
 }
 
-/* Euler–Maclaurin boundary terms at x: f(x)/2 + sum_j bern_j (2j-1)! g_(2j-1). */
-static void em_terms(arb_t res, const embz_tail_struct *t, arb_srcptr g, slong prec)
+/* Euler–Maclaurin boundary terms of order q at x: f(x)/2 + sum_(j<=q) bern_j (2j-1)! g_(2j-1). */
+static void em_terms(arb_t res, const embz_tail_struct *t, arb_srcptr g, slong q, slong prec)
 {
     arb_t u;
     arb_init(u);
     arb_mul_2exp_si(res, g, -1);
-    for (slong j = 1; j <= t->p; j++) {
+    for (slong j = 1; j <= q; j++) {
         arb_fac_ui(u, 2 * j - 1, prec);
         arb_mul(u, u, g + 2 * j - 1, prec);
         arb_addmul(res, u, t->bern + j - 1, prec);
@@ -138,15 +138,35 @@ int embz_tail_integral_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t u
     return integrate_u(res, t, ua, ub, prec);
 }
 
-static void node_u(arb_t u, const embz_tail_struct *t, slong k, slong prec)
+/* The cache nodes sit at u = ln M + off(k): evenly spaced (du) for the first NODES_LINEAR,
+ * then in geometric progression (ratio 2^(1/4)), so that a size n needs O(log log n) nodes.
+ * off(k) is a double computed the same way every time, hence an exact, reproducible node. */
+#define NODES_LINEAR 64
+static double node_off(const embz_tail_struct *t, slong k)
 {
-    arb_t lm;
-    arb_init(lm);
-    arb_log_ui(lm, (ulong) t->M, prec);
-    arb_set_d(u, t->du);
-    arb_mul_si(u, u, k, prec);
-    arb_add(u, u, lm, prec);
-    arb_clear(lm);
+    if (k <= NODES_LINEAR) return t->du * (double) k;
+    return t->du * NODES_LINEAR * pow(2.0, (double) (k - NODES_LINEAR) / 4.0);
+}
+
+/* the last node at or below the offset rel (>= 0) */
+static slong node_below(const embz_tail_struct *t, double rel)
+{
+    slong k;
+    if (rel <= 0) return 0;
+    if (rel < t->du * NODES_LINEAR) k = (slong) floor(rel / t->du);
+    else k = NODES_LINEAR + (slong) floor(4.0 * log2(rel / (t->du * NODES_LINEAR)));
+    while (k > 0 && node_off(t, k) > rel) k--;
+    while (node_off(t, k + 1) <= rel) k++;
+    return k;
+}
+
+static void node_u(arb_t u, embz_tail_struct *t, slong k, slong prec)
+{
+    arb_t off;
+    arb_init(off);
+    arb_set_d(off, node_off(t, k));
+    arb_add(u, t->logM, off, prec);
+    arb_clear(off);
 }
 
 /* make sure icum[0..k] exist */
@@ -186,7 +206,7 @@ int embz_tail_integral(arb_t res, embz_tail_t t, const arb_t x, slong prec)
     arb_init(u); arb_init(uk);
     arb_log(u, x, prec);
     double rel = arf_get_d(arb_midref(u), ARF_RND_DOWN) - arf_get_d(arb_midref(t->logM), ARF_RND_DOWN);
-    slong k = (rel <= 0) ? 0 : (slong) floor(rel / t->du);
+    slong k = node_below(t, rel);
     int st = extend_cache(t, k, prec);
     if (st == EMBZ_OK) {
         node_u(uk, t, k, prec);
@@ -201,18 +221,34 @@ int embz_tail_integral(arb_t res, embz_tail_t t, const arb_t x, slong prec)
     return st;
 }
 
+slong embz_tail_level(const embz_tail_t t, const arb_t x)
+{
+    arf_t lo;
+    arf_init(lo);
+    arb_get_lbound_arf(lo, x, MAG_BITS);
+    slong j = t->nlev - 1;
+    while (j > 0 && (!arb_is_finite(x) || arf_cmp_2exp_si(lo, t->lev_bits[j]) < 0)) j--;
+    arf_clear(lo);
+    return j;
+}
+
 int embz_tail_sum(arb_t res, embz_tail_t t, const arb_t x, slong prec)
 {
-    slong len = 2 * t->p + 1;
+    return embz_tail_sum_level(res, t, x, embz_tail_level(t, x), prec);
+}
+
+int embz_tail_sum_level(arb_t res, embz_tail_t t, const arb_t x, slong lev, slong prec)
+{
+    slong q = t->lev_p[lev], len = 2 * q + 1;
     arb_ptr g = _arb_vec_init(len);
     arb_t I, e;
     arb_init(I); arb_init(e);
     int st = weight_taylor(g, t, x, len, prec);
     if (st == EMBZ_OK) st = embz_tail_integral(I, t, x, prec);
     if (st == EMBZ_OK) {
-        em_terms(e, t, g, prec);
+        em_terms(e, t, g, q, prec);
         arb_add(res, I, e, prec);
-        arb_add(res, res, t->base, prec);
+        arb_add(res, res, t->lev_base + lev, prec);
         arb_add_error_mag(res, t->rem);
     }
     _arb_vec_clear(g, len);
@@ -223,7 +259,14 @@ int embz_tail_sum(arb_t res, embz_tail_t t, const arb_t x, slong prec)
 int embz_tail_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
                      slong len, slong prec)
 {
-    slong L = len + 2 * t->p + 1;
+    return embz_tail_series_level(res, t, x, scale, len, embz_tail_level(t, x), prec);
+}
+
+int embz_tail_series_level(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
+                           slong len, slong lev, slong prec)
+{
+    slong q = t->lev_p[lev];
+    slong L = len + 2 * q + 1;
     arb_ptr g = _arb_vec_init(L);
     arb_t d, c, sp;
     fmpz_t rf;
@@ -239,7 +282,7 @@ int embz_tail_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scal
             arb_mul_ui(c, g + l + 1, l + 1, prec);
             arb_mul_2exp_si(c, c, -1);
             arb_add(d, d, c, prec);
-            for (slong j = 1; j <= t->p; j++) {
+            for (slong j = 1; j <= q; j++) {
                 fmpz_rfac_uiui(rf, l + 1, 2 * j);
                 arb_mul_fmpz(c, g + l + 2 * j, rf, prec);
                 arb_addmul(d, c, t->bern + j - 1, prec);
@@ -330,7 +373,7 @@ static int certify_sign(embz_tail_t t, const arf_t ua, const arf_t ub, int *dir,
 
 /* On the u-chunk [ua, ub]: certify smoothness (finite enclosures of f^(j), j <= 2p) and the
  * monotone direction, adding sup |f^(2p)| * (xb - xa) to the remainder integral bound. */
-static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_t integral,
+static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_ptr integral,
                          int *dir, int depth, slong prec)
 {
     slong len = 2 * t->p + 1;
@@ -341,16 +384,29 @@ static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_t in
     chunk_ball(x, xa, xb, t, ua, ub, prec);
     int st = embz_tail_weight_series(g, t, x, one, len, prec);
     if (st == EMBZ_OK) {
-        mag_t m, tmp;
-        mag_init(m); mag_init(tmp);
-        arb_get_mag(m, g + 2 * t->p);
-        mag_fac_ui(tmp, 2 * t->p);
-        mag_mul(m, m, tmp);
+        /* integral[j] += sup |f^(2q)| * (xb - xa), q the order of level j, for the levels
+         * whose range [X_j, end] meets the chunk */
+        mag_t m, tmp, wd;
+        mag_init(m); mag_init(tmp); mag_init(wd);
         arb_sub(w, xb, xa, prec);
-        arb_get_mag(tmp, w);
-        mag_mul(m, m, tmp);
-        mag_add(integral, integral, m);
-        mag_clear(m); mag_clear(tmp);
+        arb_get_mag(wd, w);
+        for (slong j = 0; j < t->nlev; j++) {
+            slong q = t->lev_p[j];
+            if (j > 0 && arb_is_finite(xb)) {
+                arf_t hi;
+                arf_init(hi);
+                arb_get_ubound_arf(hi, xb, MAG_BITS);
+                int meets = arf_cmp_2exp_si(hi, t->lev_bits[j]) > 0;
+                arf_clear(hi);
+                if (!meets) continue;
+            }
+            arb_get_mag(m, g + 2 * q);
+            mag_fac_ui(tmp, 2 * q);
+            mag_mul(m, m, tmp);
+            mag_mul(m, m, wd);
+            mag_add(integral + j, integral + j, m);
+        }
+        mag_clear(m); mag_clear(tmp); mag_clear(wd);
         int d = sign_of(g + 1);
         if (d != 2) st = merge_dir(dir, d);
         else st = certify_sign(t, ua, ub, dir, 0, prec);
@@ -409,6 +465,80 @@ static int negligible_mass(mag_t mass, embz_tail_t t, const arf_t ua, const arf_
     return st;
 }
 
+/* Far levels at X = 2^16, 2^32, 2^64, ... below end: the order q at X is the first whose
+ * remainder estimate |B_2q|/(2q)! |f^(2q-1)(X)| is below goal 2^-(prec+8) (the criterion of
+ * level 0); a level is kept when it lowers the order. g holds f's Taylor coefficients at M
+ * (len = 2p + 1 of them) and goal = M f(M). */
+static void set_levels(embz_tail_t t, const arb_t goal, slong prec)
+{
+    slong len = 2 * t->p + 1;
+    arb_ptr g = _arb_vec_init(len);
+    arb_t X, term, u, e0, e1;
+    mag_t gm, cur;
+    arb_init(X); arb_init(term); arb_init(u); arb_init(e0); arb_init(e1);
+    mag_init(gm); mag_init(cur);
+    t->nlev = 1;
+    t->lev_bits[0] = 0;
+    t->lev_p[0] = t->p;
+    arb_set(t->lev_base, t->base);
+    arb_get_mag_lower(gm, goal);
+    mag_mul_2exp_si(gm, gm, -prec - 8);
+    for (slong b = 16; t->nlev < EMBZ_TAIL_MAX_LEVELS; b *= 2) {
+        if (b <= (slong) FLINT_BIT_COUNT((ulong) t->M) + 1) continue;
+        if ((slong) fmpz_bits(t->end) <= b) break;
+        arb_one(X);
+        arb_mul_2exp_si(X, X, b);
+        if (weight_taylor(g, t, X, len, prec) != EMBZ_OK) break;
+        slong q;
+        for (q = 1; q < t->lev_p[t->nlev - 1]; q++) {
+            arb_fac_ui(u, 2 * q - 1, prec);
+            arb_mul(term, u, g + 2 * q - 1, prec);
+            arb_mul(term, term, t->bern + q - 1, prec);
+            arb_get_mag(cur, term);
+            if (mag_cmp(cur, gm) < 0) break;
+        }
+        if (q >= t->lev_p[t->nlev - 1]) continue;
+        /* lev_base = base + em_p(X) - em_q(X) */
+        em_terms(e0, t, g, t->p, prec);
+        em_terms(e1, t, g, q, prec);
+        arb_sub(e0, e0, e1, prec);
+        arb_add(t->lev_base + t->nlev, t->base, e0, prec);
+        t->lev_bits[t->nlev] = b;
+        t->lev_p[t->nlev] = q;
+        t->nlev++;
+    }
+    _arb_vec_clear(g, len);
+    arb_clear(X); arb_clear(term); arb_clear(u); arb_clear(e0); arb_clear(e1);
+    mag_clear(gm); mag_clear(cur);
+}
+
+/* With the remainder integrals known: t->rem (level 0) becomes the bound for every level,
+ * rem_0 + max_j rem_j. A level whose remainder exceeds 2^8 max(rem_0, 2^-(prec+8) M f(M))
+ * (derivative bounds far out too coarse to pay off) is dropped. */
+static void finish_levels(embz_tail_t t, mag_srcptr integral, const arb_t goal, slong prec)
+{
+    mag_t c, r, worst, cap;
+    mag_init(c); mag_init(r); mag_init(worst); mag_init(cap);
+    arb_get_mag_lower(cap, goal);
+    mag_mul_2exp_si(cap, cap, -prec - 8);
+    if (mag_cmp(cap, t->rem) < 0) mag_set(cap, t->rem);
+    mag_mul_2exp_si(cap, cap, 8);
+    slong k = 1;
+    for (slong j = 1; j < t->nlev; j++) {
+        arb_get_mag(c, t->bern + t->lev_p[j] - 1);
+        mag_mul(r, c, integral + j);
+        if (!mag_is_finite(r) || mag_cmp(r, cap) > 0) continue;
+        if (mag_cmp(r, worst) > 0) mag_set(worst, r);
+        t->lev_bits[k] = t->lev_bits[j];
+        t->lev_p[k] = t->lev_p[j];
+        arb_set(t->lev_base + k, t->lev_base + j);
+        k++;
+    }
+    t->nlev = k;
+    mag_add(t->rem, t->rem, worst);
+    mag_clear(c); mag_clear(r); mag_clear(worst); mag_clear(cap);
+}
+
 int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
                    const fmpz_t end, slong prec, embz_err_t *err)
 {
@@ -420,6 +550,8 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
     fmpz_init_set(t->end, end);
     arb_init(t->base);
     mag_init(t->rem);
+    for (slong j = 0; j < EMBZ_TAIL_MAX_LEVELS; j++) arb_init(t->lev_base + j);
+    t->nlev = 1;
     mag_init(t->neglected);
     arb_init(t->logM);
     arb_log_ui(t->logM, (ulong) M, prec);
@@ -473,16 +605,18 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
         mag_clear(prev); mag_clear(cur); mag_clear(gm);
     }
     /* base = -(f(M)/2 + sum_j bern_j f^(2j-1)(M)) */
-    em_terms(t->base, t, g, prec);
+    em_terms(t->base, t, g, t->p, prec);
     arb_neg(t->base, t->base);
+    set_levels(t, goal, prec);
 
-    /* certify smoothness + monotonicity on [M, end], bounding the remainder integral */
+    /* certify smoothness + monotonicity on [M, end], bounding the remainder integrals */
     {
-        mag_t integral, c;
+        mag_ptr integral = _mag_vec_init(t->nlev);
+        mag_t c;
         arf_t ua, ub, uend;
         arb_t le;
         int dir = 0;
-        mag_init(integral); mag_init(c);
+        mag_init(c);
         arf_init(ua); arf_init(ub); arf_init(uend);
         arb_init(le);
         arb_set_fmpz(le, end);
@@ -541,11 +675,14 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
             st = err ? err->code : EMBZ_ERR_UNSUPPORTED;
         } else {
             t->dir = (dir == 0) ? 1 : dir;
-            /* |R| <= |B_2p|/(2p)! * integral */
+            /* |R| <= |B_2p|/(2p)! * integral; a far level adds its own remainder to the
+             * level-0 one (its base holds the exact sum up to X_j only within that) */
             arb_get_mag(c, t->bern + t->p - 1);
             mag_mul(t->rem, c, integral);
+            finish_levels(t, integral, goal, prec);
         }
-        mag_clear(integral); mag_clear(c);
+        _mag_vec_clear(integral, t->nlev);
+        mag_clear(c);
         arf_clear(ua); arf_clear(ub); arf_clear(uend);
         arb_clear(le);
     }
@@ -575,6 +712,7 @@ void embz_tail_clear(embz_tail_t t)
     _arb_vec_clear(t->bern, EMBZ_TAIL_MAX_ORDER);
     arb_clear(t->base);
     mag_clear(t->rem);
+    for (slong j = 0; j < EMBZ_TAIL_MAX_LEVELS; j++) arb_clear(t->lev_base + j);
     mag_clear(t->neglected);
     arb_clear(t->logM);
     _arb_vec_clear(t->icum, t->nalloc);
