@@ -15,7 +15,8 @@
 #include "embz/vec.h"
 #include "embz/measure.h"
 
-#define EMBZ_TAIL_MAX_LEVELS 24
+#define EMBZ_TAIL_MAX_LEVELS 48
+#define EMBZ_TAIL_LEVEL_AUTO (-2)   /* level argument: the highest valid one */
 
 typedef struct {
     const embz_expr_struct *w; /* borrowed weight expression in (i, n) */
@@ -35,9 +36,13 @@ typedef struct {
      * (1 <= j < nlev) restarts the formula at X_j = 2^lev_bits[j] with order lev_p[j]:
      *   T~_j(x) = I(M, x) + em_(lev_p[j])(x) + lev_base[j],
      *   lev_base[j] = base + em_p(X_j) - em_(lev_p[j])(X_j),
-     * valid for x >= X_j. Level 0 is the formula above (lev_bits[0] = 0, lev_p[0] = p). */
+     * certified for X_j <= x <= Z_j = 2^lev_top[j] (lev_top[j] < 0: up to end), where
+     * Z_j = 2^32 X_(j+1) so that any ball starting below X_(j+1) and narrower than a factor
+     * 2^32 has a level. Level 0 is the formula above (lev_bits[0] = 0, lev_p[0] = p).
+     * Far out only the last levels apply, so certification there needs few derivatives. */
     slong nlev;
     slong lev_bits[EMBZ_TAIL_MAX_LEVELS];
+    slong lev_top[EMBZ_TAIL_MAX_LEVELS];
     slong lev_p[EMBZ_TAIL_MAX_LEVELS];
     arb_struct lev_base[EMBZ_TAIL_MAX_LEVELS];
     arb_t logM;                /* ln M */
@@ -69,11 +74,11 @@ int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto,
 int embz_tail_integral_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub, slong prec);
 /* integral_M^x f(y) dy for a (narrow) ball x in [M, end]. */
 int embz_tail_integral(arb_t res, embz_tail_t t, const arb_t x, slong prec);
-/* The highest level valid on the whole ball x (x >= X_j for every point of x). */
+/* The highest level certified on the whole ball x, or -1 when none covers it. */
 slong embz_tail_level(const embz_tail_t t, const arb_t x);
 /* T~(x) with the remainder bound added to the radius: for integer x it encloses
- * sum_{M < i <= x} f(i). The _level form uses the given level (valid for x), the plain form
- * the highest valid one. */
+ * sum_{M < i <= x} f(i). The _level form uses the given level (valid for x, or
+ * EMBZ_TAIL_LEVEL_AUTO), the plain form the highest valid one; EMBZ_ERR_PREC without one. */
 int embz_tail_sum(arb_t res, embz_tail_t t, const arb_t x, slong prec);
 int embz_tail_sum_level(arb_t res, embz_tail_t t, const arb_t x, slong lev, slong prec);
 /* Taylor coefficients 1..len-1 of sigma -> T~(x + scale sigma) (res[0] is set to 0).

@@ -98,13 +98,12 @@ static slong tail_level(const actx *c, const arb_t y, slong prec)
 }
 
 /* C(y) = sum of the first y sorted tail values (smooth extension for real y, from the
- * given level; lev < 0: the highest valid one) */
+ * given level or EMBZ_TAIL_LEVEL_AUTO) */
 static int tail_C(arb_t res, actx *c, const arb_t y, slong lev, slong prec)
 {
     arb_t x;
     arb_init(x);
     sum_x(x, c, y, prec);
-    if (lev < 0) lev = embz_tail_level(c->t, x);
     int st = embz_tail_sum_level(res, c->t, x, lev, prec);
     if (c->t->dir < 0) arb_sub(res, c->Ttot, res, prec);
     arb_clear(x);
@@ -178,7 +177,7 @@ static int pos_query(arb_t res, actx *c, const fmpz_t K, int want_sum, slong pre
             arb_t y;
             arb_init(y);
             arb_set_fmpz(y, j);
-            st = tail_C(res, c, y, -1, prec);
+            st = tail_C(res, c, y, EMBZ_TAIL_LEVEL_AUTO, prec);
             arb_add(res, res, c->SA, prec);
             arb_add(res, res, c->ins_cum + at + 1, prec);
             arb_clear(y);
@@ -191,7 +190,7 @@ static int pos_query(arb_t res, actx *c, const fmpz_t K, int want_sum, slong pre
         arb_init(y);
         arb_set_fmpz(y, j);
         if (want_sum) {
-            st = tail_C(res, c, y, -1, prec);
+            st = tail_C(res, c, y, EMBZ_TAIL_LEVEL_AUTO, prec);
             arb_add(res, res, c->SA, prec);
             arb_add(res, res, c->ins_cum + cb, prec);
         } else {
@@ -449,7 +448,7 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
  * but only as variable as phi (constant for f = 1/i: no cancellation left to the balls); the
  * other parts are O(1/y). This lets long stretches of s be settled at once. */
 
-#define VMODEL_FROM_BITS 16    /* v-models for s >= 2^16 */
+#define VMODEL_FROM_BITS 10    /* v-models for s >= 2^10 */
 #define VMODEL_LEN 10          /* their order */
 #define VMODEL_SHORT 12        /* terms kept of the short integral S */
 
@@ -459,6 +458,7 @@ static int em_composed(arb_ptr res, actx *c, const arb_t v, const arb_t scale,
                        const arb_t shift, slong len, slong lev, slong prec)
 {
     embz_tail_struct *t = c->t;
+    if (lev < 0) return EMBZ_ERR_PREC;
     slong q = t->lev_p[lev];
     slong L = len + 2 * q;
     arb_ptr g = _arb_vec_init(L), em = _arb_vec_init(len), ts = _arb_vec_init(len);
@@ -619,9 +619,10 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
                             const arb_t w, const arb_t vball, const arb_t delta,
                             const slong *lev, arb_srcptr ends, slong prec)
 {
+    *mono = 0;
+    if (lev[0] < 0 || lev[1] < 0) return EMBZ_ERR_PREC;
     arb_t drest;
     arb_init(drest);
-    *mono = 0;
     slong J = VMODEL_LEN;
     embz_tail_struct *t = c->t;
     slong L = 2 * FLINT_MAX(t->lev_p[lev[0]], t->lev_p[lev[1]]) + 1, sp = FLINT_MIN(prec, 96);
@@ -979,6 +980,73 @@ static void set_offsets(actx *c, ulong r, const fmpz_t lo)
     fmpz_clear(k);
 }
 
+/* A cheap bound for long stretches of s far out (non-increasing tails): the tail values at
+ * positions s+1 .. k lie between x2 = M + s - off_s and x1 = M + k - off_k, and as f does
+ * not increase,
+ *     W h_r(s) <= sum_(x2 < x <= x1) f(x) + dH <= integral_(x2)^(x1) f + dH
+ *              =  integral_(ln x2)^(ln x1) phi  + dH  <=  Lambda sup phi + dH,
+ * with Lambda the largest ln(x1/x2) over the stretch (at one of its ends: x1/x2 is a
+ * Moebius function of s) and sup phi over [ln x2(lo), ln x1(hi)], taken piecewise on
+ * sub-balls of width 2. Returns 1 when this bound is below the best proven value: the whole
+ * stretch can then be dropped without a model. */
+static int phi_discard(actx *c, ulong r, const fmpz_t lo, const fmpz_t hi, slong prec)
+{
+    embz_tail_struct *t = c->t;
+    if (t->dir <= 0 || !arb_is_finite(c->best)) return 0;
+    slong sp = 64;
+    arb_t x1, x2, lam, l2, ua, ub, u, v, acc;
+    arf_t a, b, blo;
+    arb_init(x1); arb_init(x2); arb_init(lam); arb_init(l2); arb_init(ua); arb_init(ub);
+    arb_init(u); arb_init(v); arb_init(acc);
+    arf_init(a); arf_init(b); arf_init(blo);
+    int ok = 1;
+    arb_zero(lam);
+    for (int e = 0; e < 2; e++) {
+        const fmpz *s = e ? hi : lo;
+        arb_set_fmpz(x1, s);
+        arb_mul_ui(x1, x1, c->d, sp);
+        arb_add_si(x1, x1, c->M + (slong) r - c->off_k, sp);
+        arb_set_fmpz(x2, s);
+        arb_add_si(x2, x2, c->M - c->off_s, sp);
+        if (e == 0) arb_log(ua, x2, sp);
+        else arb_log(ub, x1, sp);
+        arb_div(l2, x1, x2, sp);
+        arb_log(l2, l2, sp);
+        arb_max(lam, lam, l2, sp);
+    }
+    /* sup phi over [ua, ub], piecewise */
+    arb_get_lbound_arf(a, ua, sp);
+    arb_get_ubound_arf(b, ub, sp);
+    arb_zero(acc);
+    long pieces = 0;
+    while (ok && arf_cmp(a, b) < 0) {
+        arf_t e;
+        arf_init(e);
+        arf_add_ui(e, a, 2, sp, ARF_RND_UP);
+        if (arf_cmp(e, b) > 0) arf_set(e, b);
+        arb_set_interval_arf(u, a, e, sp);
+        if (embz_expr_eval_arb(v, t->phi, u, t->n, sp) != EMBZ_OK || !arb_is_finite(v)) ok = 0;
+        else arb_max(acc, acc, v, sp);
+        arf_set(a, e);
+        arf_clear(e);
+        if (++pieces > 4096) ok = 0;
+    }
+    int drop = 0;
+    if (ok) {
+        arb_mul(acc, acc, lam, sp);
+        arb_add(acc, acc, c->dH, sp);
+        arb_div(acc, acc, c->W, sp);
+        arb_get_ubound_arf(a, acc, sp);
+        arb_get_lbound_arf(blo, c->best, prec);
+        drop = arb_is_finite(acc) && arf_cmp(a, blo) < 0;
+    }
+    c->evals++;
+    arb_clear(x1); arb_clear(x2); arb_clear(lam); arb_clear(l2); arb_clear(ua); arb_clear(ub);
+    arb_clear(u); arb_clear(v); arb_clear(acc);
+    arf_clear(a); arf_clear(b); arf_clear(blo);
+    return drop;
+}
+
 static int bb_consider(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmpz_t hi,
                        slong prec)
 {
@@ -1005,10 +1073,11 @@ static int bb_consider(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmp
     } else if (fmpz_cmp_ui(m, BB_SMALL) < 0) {
         for (fmpz_set(m, lo); st == EMBZ_OK && fmpz_cmp(m, hi) <= 0; fmpz_add_ui(m, m, 1))
             st = h_at_s(h, c, r, m, prec);
+    } else if (set_offsets(c, r, lo), use_vmodel(c, lo) && phi_discard(c, r, lo, hi, prec)) {
+        /* the whole stretch is below a proven value */
     } else {
         bb_item it;
         int mono;
-        set_offsets(c, r, lo);
         fmpz_init_set(it.lo, lo);
         fmpz_init_set(it.hi, hi);
         arf_init(it.U);
@@ -1063,6 +1132,46 @@ static int bb_consider(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmp
     }
     arb_clear(h);
     fmpz_clear(m);
+    return st;
+}
+
+/* bb_consider on k pieces of [lo, hi] of (nearly) equal ratio: cuts at floor(lo (hi/lo)^(j/k)) */
+static int consider_pieces(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmpz_t hi,
+                           slong k, slong prec)
+{
+    slong wp = (slong) fmpz_bits(hi) + 32;
+    fmpz_t a, b;
+    arb_t la, lr, x;
+    arf_t mid;
+    fmpz_init_set(a, lo);
+    fmpz_init(b);
+    arb_init(la); arb_init(lr); arb_init(x);
+    arf_init(mid);
+    arb_set_fmpz(la, lo);
+    arb_log(la, la, wp);
+    arb_set_fmpz(lr, hi);
+    arb_log(lr, lr, wp);
+    arb_sub(lr, lr, la, wp);
+    arb_div_si(lr, lr, k, wp);                    /* ln(hi/lo) / k */
+    int st = EMBZ_OK;
+    for (slong j = 1; j <= k && st == EMBZ_OK; j++) {
+        if (j == k) {
+            fmpz_set(b, hi);
+        } else {
+            arb_mul_si(x, lr, j, wp);
+            arb_add(x, x, la, wp);
+            arb_exp(x, x, wp);
+            arf_get_fmpz(b, arb_midref(x), ARF_RND_FLOOR);
+            if (fmpz_cmp(b, hi) >= 0) fmpz_sub_ui(b, hi, 1);
+        }
+        if (fmpz_cmp(b, a) < 0) continue;          /* empty piece */
+        st = bb_consider(hp, c, r, a, b, prec);
+        fmpz_add_ui(a, b, 1);
+        if (fmpz_cmp(a, hi) > 0) break;
+    }
+    fmpz_clear(a); fmpz_clear(b);
+    arb_clear(la); arb_clear(lr); arb_clear(x);
+    arf_clear(mid);
     return st;
 }
 
@@ -1204,10 +1313,20 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
         /* a value at the split point sharpens the best proven value; in the v-model range the
          * ends of the residue ranges (evaluated first) usually hold it already, and an exact
          * value there costs more than the models, so it is skipped */
-        if (!use_vmodel(c, it.lo)) st = h_at_s(h, c, it.r, m, prec);
-        if (st == EMBZ_OK) st = bb_consider(&hp, c, it.r, it.lo, m, prec);
-        fmpz_add_ui(m, m, 1);
-        if (st == EMBZ_OK) st = bb_consider(&hp, c, it.r, m, it.hi, prec);
+        if (!use_vmodel(c, it.lo)) {
+            st = h_at_s(h, c, it.r, m, prec);
+            if (st == EMBZ_OK) st = bb_consider(&hp, c, it.r, it.lo, m, prec);
+            fmpz_add_ui(m, m, 1);
+            if (st == EMBZ_OK) st = bb_consider(&hp, c, it.r, m, it.hi, prec);
+        } else {
+            /* v-models: a stretch whose model did not settle it is cut at once into pieces
+             * of equal ratio: of length 8 in v = ln s while it is longer than that (the
+             * reach of the wide models), else of length below 0.7 (where the full models
+             * prove monotonicity), so that few models are spent on intermediate lengths */
+            double vw = fmpz_dlog(it.hi) - fmpz_dlog(it.lo);
+            slong k = vw > 8.0 ? (slong) ceil(vw / 8.0) : (vw > 0.7 ? (slong) ceil(vw / 0.7) : 2);
+            st = consider_pieces(&hp, c, it.r, it.lo, it.hi, FLINT_MIN(k, 4096), prec);
+        }
         item_clear(&it);
     }
     /* whatever is left bounds the maximum from above */

@@ -6,6 +6,7 @@
 
 #define EMBZ_TAIL_MAX_ORDER 60   /* largest Euler–Maclaurin order tried */
 #define EMBZ_TAIL_MAX_SPLIT 12   /* bisection depth when certifying a chunk */
+#define LEVEL_OVERLAP 32         /* level j is certified up to 2^LEVEL_OVERLAP X_(j+1) */
 
 /* xs = x + scale*t as a series of length len. */
 static void lin_series(arb_ptr xs, const arb_t x, const arb_t scale, slong len)
@@ -221,24 +222,35 @@ int embz_tail_integral(arb_t res, embz_tail_t t, const arb_t x, slong prec)
     return st;
 }
 
+/* does level j cover the ball [lo, hi]? */
+static int level_covers(const embz_tail_struct *t, slong j, const arf_t lo, const arf_t hi)
+{
+    if (j > 0 && arf_cmp_2exp_si(lo, t->lev_bits[j]) < 0) return 0;
+    return t->lev_top[j] < 0 || arf_cmp_2exp_si(hi, t->lev_top[j]) <= 0;
+}
+
 slong embz_tail_level(const embz_tail_t t, const arb_t x)
 {
-    arf_t lo;
-    arf_init(lo);
+    if (!arb_is_finite(x)) return -1;
+    arf_t lo, hi;
+    arf_init(lo); arf_init(hi);
     arb_get_lbound_arf(lo, x, MAG_BITS);
+    arb_get_ubound_arf(hi, x, MAG_BITS);
     slong j = t->nlev - 1;
-    while (j > 0 && (!arb_is_finite(x) || arf_cmp_2exp_si(lo, t->lev_bits[j]) < 0)) j--;
-    arf_clear(lo);
+    while (j >= 0 && !level_covers(t, j, lo, hi)) j--;
+    arf_clear(lo); arf_clear(hi);
     return j;
 }
 
 int embz_tail_sum(arb_t res, embz_tail_t t, const arb_t x, slong prec)
 {
-    return embz_tail_sum_level(res, t, x, embz_tail_level(t, x), prec);
+    return embz_tail_sum_level(res, t, x, EMBZ_TAIL_LEVEL_AUTO, prec);
 }
 
 int embz_tail_sum_level(arb_t res, embz_tail_t t, const arb_t x, slong lev, slong prec)
 {
+    if (lev == EMBZ_TAIL_LEVEL_AUTO) lev = embz_tail_level(t, x);
+    if (lev < 0 || lev >= t->nlev) return EMBZ_ERR_PREC;
     slong q = t->lev_p[lev], len = 2 * q + 1;
     arb_ptr g = _arb_vec_init(len);
     arb_t I, e;
@@ -259,12 +271,14 @@ int embz_tail_sum_level(arb_t res, embz_tail_t t, const arb_t x, slong lev, slon
 int embz_tail_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
                      slong len, slong prec)
 {
-    return embz_tail_series_level(res, t, x, scale, len, embz_tail_level(t, x), prec);
+    return embz_tail_series_level(res, t, x, scale, len, EMBZ_TAIL_LEVEL_AUTO, prec);
 }
 
 int embz_tail_series_level(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
                            slong len, slong lev, slong prec)
 {
+    if (lev == EMBZ_TAIL_LEVEL_AUTO) lev = embz_tail_level(t, x);
+    if (lev < 0 || lev >= t->nlev) return EMBZ_ERR_PREC;
     slong q = t->lev_p[lev];
     slong L = len + 2 * q + 1;
     arb_ptr g = _arb_vec_init(L);
@@ -373,33 +387,45 @@ static int certify_sign(embz_tail_t t, const arf_t ua, const arf_t ub, int *dir,
 
 /* On the u-chunk [ua, ub]: certify smoothness (finite enclosures of f^(j), j <= 2p) and the
  * monotone direction, adding sup |f^(2p)| * (xb - xa) to the remainder integral bound. */
+/* does the range [X_j, Z_j] of level j meet the x-range of a chunk? */
+static int level_meets(const embz_tail_struct *t, slong j, const arb_t xa, const arb_t xb)
+{
+    arf_t lo, hi;
+    arf_init(lo); arf_init(hi);
+    arb_get_lbound_arf(lo, xa, MAG_BITS);
+    arb_get_ubound_arf(hi, xb, MAG_BITS);
+    int meets = arb_is_finite(xa) && arb_is_finite(xb)
+                && (j == 0 || arf_cmp_2exp_si(hi, t->lev_bits[j]) > 0)
+                && (t->lev_top[j] < 0 || arf_cmp_2exp_si(lo, t->lev_top[j]) < 0);
+    if (!arb_is_finite(xa) || !arb_is_finite(xb)) meets = 1;
+    arf_clear(lo); arf_clear(hi);
+    return meets;
+}
+
 static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_ptr integral,
                          int *dir, int depth, slong prec)
 {
-    slong len = 2 * t->p + 1;
     arb_t xa, xb, x, one, w;
-    arb_ptr g = _arb_vec_init(len);
     arb_init(xa); arb_init(xb); arb_init(x); arb_init(one); arb_init(w);
     arb_one(one);
     chunk_ball(x, xa, xb, t, ua, ub, prec);
+    /* only the levels whose range meets the chunk need their derivative here */
+    slong qmax = 0;
+    for (slong j = 0; j < t->nlev; j++)
+        if (level_meets(t, j, xa, xb)) qmax = FLINT_MAX(qmax, t->lev_p[j]);
+    slong len = FLINT_MAX(2 * qmax + 1, 2);
+    arb_ptr g = _arb_vec_init(len);
     int st = embz_tail_weight_series(g, t, x, one, len, prec);
     if (st == EMBZ_OK) {
         /* integral[j] += sup |f^(2q)| * (xb - xa), q the order of level j, for the levels
-         * whose range [X_j, end] meets the chunk */
+         * whose range meets the chunk */
         mag_t m, tmp, wd;
         mag_init(m); mag_init(tmp); mag_init(wd);
         arb_sub(w, xb, xa, prec);
         arb_get_mag(wd, w);
         for (slong j = 0; j < t->nlev; j++) {
             slong q = t->lev_p[j];
-            if (j > 0 && arb_is_finite(xb)) {
-                arf_t hi;
-                arf_init(hi);
-                arb_get_ubound_arf(hi, xb, MAG_BITS);
-                int meets = arf_cmp_2exp_si(hi, t->lev_bits[j]) > 0;
-                arf_clear(hi);
-                if (!meets) continue;
-            }
+            if (!level_meets(t, j, xa, xb)) continue;
             arb_get_mag(m, g + 2 * q);
             mag_fac_ui(tmp, 2 * q);
             mag_mul(m, m, tmp);
@@ -483,7 +509,7 @@ static void set_levels(embz_tail_t t, const arb_t goal, slong prec)
     arb_set(t->lev_base, t->base);
     arb_get_mag_lower(gm, goal);
     mag_mul_2exp_si(gm, gm, -prec - 8);
-    for (slong b = 16; t->nlev < EMBZ_TAIL_MAX_LEVELS; b *= 2) {
+    for (slong b = 16; t->nlev < EMBZ_TAIL_MAX_LEVELS; b += b / 2) {
         if (b <= (slong) FLINT_BIT_COUNT((ulong) t->M) + 1) continue;
         if ((slong) fmpz_bits(t->end) <= b) break;
         arb_one(X);
@@ -507,36 +533,26 @@ static void set_levels(embz_tail_t t, const arb_t goal, slong prec)
         t->lev_p[t->nlev] = q;
         t->nlev++;
     }
+    for (slong j = 0; j < t->nlev; j++)
+        t->lev_top[j] = (j + 1 < t->nlev) ? t->lev_bits[j + 1] + LEVEL_OVERLAP : -1;
     _arb_vec_clear(g, len);
     arb_clear(X); arb_clear(term); arb_clear(u); arb_clear(e0); arb_clear(e1);
     mag_clear(gm); mag_clear(cur);
 }
 
-/* With the remainder integrals known: t->rem (level 0) becomes the bound for every level,
- * rem_0 + max_j rem_j. A level whose remainder exceeds 2^8 max(rem_0, 2^-(prec+8) M f(M))
- * (derivative bounds far out too coarse to pay off) is dropped. */
-static void finish_levels(embz_tail_t t, mag_srcptr integral, const arb_t goal, slong prec)
+/* With the remainder integrals known, t->rem (level 0) becomes the bound for every level:
+ * rem_0 + max_j rem_j. */
+static void finish_levels(embz_tail_t t, mag_srcptr integral)
 {
-    mag_t c, r, worst, cap;
-    mag_init(c); mag_init(r); mag_init(worst); mag_init(cap);
-    arb_get_mag_lower(cap, goal);
-    mag_mul_2exp_si(cap, cap, -prec - 8);
-    if (mag_cmp(cap, t->rem) < 0) mag_set(cap, t->rem);
-    mag_mul_2exp_si(cap, cap, 8);
-    slong k = 1;
+    mag_t c, r, worst;
+    mag_init(c); mag_init(r); mag_init(worst);
     for (slong j = 1; j < t->nlev; j++) {
         arb_get_mag(c, t->bern + t->lev_p[j] - 1);
         mag_mul(r, c, integral + j);
-        if (!mag_is_finite(r) || mag_cmp(r, cap) > 0) continue;
         if (mag_cmp(r, worst) > 0) mag_set(worst, r);
-        t->lev_bits[k] = t->lev_bits[j];
-        t->lev_p[k] = t->lev_p[j];
-        arb_set(t->lev_base + k, t->lev_base + j);
-        k++;
     }
-    t->nlev = k;
     mag_add(t->rem, t->rem, worst);
-    mag_clear(c); mag_clear(r); mag_clear(worst); mag_clear(cap);
+    mag_clear(c); mag_clear(r); mag_clear(worst);
 }
 
 int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
@@ -624,18 +640,37 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
         arb_get_ubound_arf(uend, le, prec);
         arb_get_lbound_arf(ua, t->logM, prec);
         double width = 0.125;
+        slong nextlev = 1;
+        arf_t uj;
+        arf_init(uj);
         st = EMBZ_OK;
         while (arf_cmp(ua, uend) < 0) {
             arf_set_d(ub, width);
             arf_add(ub, ub, ua, prec, ARF_RND_UP);
             if (arf_cmp(ub, uend) > 0) arf_set(ub, uend);
+            /* a chunk ends where a far level starts (ln X_j, rounded down), and the chunks
+             * after it start narrow again: the remainder bound of level j is a sum of
+             * sup |f^(2q)| * width over chunks, which wide chunks near X_j overstate */
+            int restart = 0;
+            while (nextlev < t->nlev) {
+                arb_const_log2(le, prec);
+                arb_mul_si(le, le, t->lev_bits[nextlev], prec);
+                arb_get_lbound_arf(uj, le, prec);
+                if (arf_cmp(uj, ua) > 0) break;
+                nextlev++;
+            }
+            if (nextlev < t->nlev && arf_cmp(uj, ub) < 0) {
+                arf_set(ub, uj);
+                restart = 1;
+            }
             st = certify_chunk(t, ua, ub, integral, &dir, 0, prec);
             if (st != EMBZ_OK) break;
             arf_set(ua, ub);
             /* wider chunks are cheaper, but enclosures over x-ranges wider than a factor
-             * e^8 lose all meaning */
-            width = FLINT_MIN(2 * width, 8.0);
+             * e^16 (2^23, near the 30-bit radius of a ball) lose all meaning */
+            width = restart ? 0.25 : FLINT_MIN(2 * width, 16.0);
         }
+        arf_clear(uj);
         if (st != EMBZ_OK && st != EMBZ_ERR_DOMAIN) {
             /* Perhaps the weights from here on are too small to matter (a geometric
              * family far out): if their total is certainly below 2^-(prec+20) of the
@@ -679,7 +714,7 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
              * level-0 one (its base holds the exact sum up to X_j only within that) */
             arb_get_mag(c, t->bern + t->p - 1);
             mag_mul(t->rem, c, integral);
-            finish_levels(t, integral, goal, prec);
+            finish_levels(t, integral);
         }
         _mag_vec_clear(integral, t->nlev);
         mag_clear(c);
