@@ -835,6 +835,74 @@ static void lin_series(arb_ptr x, slong len, const arb_t c)
     if (len > 1) arb_one(x + 1);
 }
 
+/* The closed forms used for linear arguments (log, exp, sqrt, powers, division) against
+ * arb's general series routines on the same input, for random centres and slopes. */
+START_TEST(test_series_linear_forms)
+{
+    const slong len = 12, prec = 160;
+    embz_expr_t e;
+    arb_ptr x = _arb_vec_init(len), s = _arb_vec_init(len), ref = _arb_vec_init(len);
+    arb_ptr p = _arb_vec_init(len);
+    arb_t n, one;
+    flint_rand_t st;
+    flint_randinit(st);
+    embz_expr_init(e);
+    arb_init(n); arb_init(one);
+    arb_one(one);
+    arb_set_si(n, 10);
+    for (int it = 0; it < 40; it++) {
+        _arb_vec_zero(x, len);
+        arb_set_ui(x, 1 + n_randint(st, 1000000));
+        arb_mul_2exp_si(x, x, (slong) n_randint(st, 40) - 10);   /* centre 2^-10 .. 2^50 */
+        arb_set_si(x + 1, (slong) n_randint(st, 7) - 3);            /* slope -3 .. 3 */
+        static const char *const forms[] = { "log(i)", "exp(i/2^40)", "sqrt(i)", "i^0.3",
+                                             "i^-1.5", "i^-2", "3/i", "i/(i+1)" };
+        for (int f = 0; f < 8; f++) {
+            parse_ok(e, forms[f]);
+            ck_assert_int_eq(embz_expr_eval_series(s, e, x, n, len, prec), EMBZ_OK);
+            switch (f) {
+            case 0: _arb_poly_log_series(ref, x, len, len, prec); break;
+            case 1:
+                _arb_vec_scalar_mul_2exp_si(p, x, len, -40);
+                _arb_poly_exp_series(ref, p, len, len, prec);
+                break;
+            case 2: _arb_poly_sqrt_series(ref, x, len, len, prec); break;
+            case 3: case 4: {
+                arb_t a;
+                arb_init(a);
+                arb_set_si(a, f == 3 ? 3 : -15);
+                arb_div_ui(a, a, 10, prec);             /* the exact decimals 0.3, -1.5 */
+                _arb_poly_pow_arb_series(ref, x, len, a, len, prec);
+                arb_clear(a);
+                break;
+            }
+            case 5:
+                _arb_poly_inv_series(p, x, len, len, prec);
+                _arb_poly_mullow(ref, p, len, p, len, len, prec);
+                break;
+            case 6:
+                _arb_poly_inv_series(ref, x, len, len, prec);
+                for (slong k = 0; k < len; k++) arb_mul_ui(ref + k, ref + k, 3, prec);
+                break;
+            default:
+                _arb_vec_set(p, x, len);
+                arb_add_ui(p, p, 1, prec);
+                _arb_poly_div_series(ref, x, len, p, len, len, prec);
+                break;
+            }
+            for (slong k = 0; k < len; k++)
+                ck_assert_msg(arb_overlaps(s + k, ref + k), "%s: coefficient %ld", forms[f],
+                              (long) k);
+        }
+    }
+    embz_expr_clear(e);
+    _arb_vec_clear(x, len); _arb_vec_clear(s, len); _arb_vec_clear(ref, len);
+    _arb_vec_clear(p, len);
+    arb_clear(n); arb_clear(one);
+    flint_randclear(st);
+}
+END_TEST
+
 START_TEST(test_series_known)
 {
     const slong len = 8;
@@ -1137,6 +1205,7 @@ static Suite *expr_suite(void)
     tcase_add_test(tc, test_exact_rational_random);
     tcase_add_test(tc, test_double_vs_arb);
     tcase_add_test(tc, test_series_known);
+    tcase_add_test(tc, test_series_linear_forms);
     tcase_add_test(tc, test_series_random);
     tcase_add_test(tc, test_acb);
     suite_add_tcase(s, tc);

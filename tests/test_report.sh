@@ -156,16 +156,17 @@ check "grid html has no script" bash -c "! grep -qi '<script' '$T/grid.html'"
 "$EMBZ" report inverse --grid zz=0:1:2 -o "$T/u5.html" 2>/dev/null; check "grid without parameter exit 2" test $? -eq 2
 check "usage errors write nothing" bash -c "! ls '$T'/u[1-5].* 2>/dev/null | grep -q ."
 
-# an interrupted report keeps the old file and leaves no temporary file; with no old file
+# an interrupted report (a job far longer than the 1 s before the signal) keeps the old file
+# and leaves no temporary file; with no old file
 # there is no file at all
 echo "old" > "$T/keep.html"
-"$EMBZ" report inverse iterlog logpower --to 10^300 --points 40 -q -o "$T/keep.html" 2>/dev/null &
+"$EMBZ" report inverse iterlog logpower --to 10^1000 --points 400 -q -o "$T/keep.html" 2>/dev/null &
 pid=$!
 sleep 1
 kill -TERM $pid 2>/dev/null
 wait $pid 2>/dev/null
 check "interrupted report keeps the old file" test "$(cat "$T/keep.html")" = "old"
-"$EMBZ" report inverse iterlog logpower --to 10^300 --points 40 -q -o "$T/none.pdf" 2>/dev/null &
+"$EMBZ" report inverse iterlog logpower --to 10^1000 --points 400 -q -o "$T/none.pdf" 2>/dev/null &
 pid=$!
 sleep 1
 kill -TERM $pid 2>/dev/null

@@ -19,8 +19,69 @@ static int vec_finite(arb_srcptr a, slong len)
     return 1;
 }
 
+/* Are coefficients 2..len-1 exactly zero (a + b t), with a narrow constant term? The input
+ * x(t) usually is. (On wide balls the recurrences below lose more than arb's series
+ * algorithms, so those keep wide arguments.) */
+static int is_linear_series(arb_srcptr a, slong len)
+{
+    if (arb_rel_accuracy_bits(a) < 24) return 0;
+    for (slong k = 2; k < len; k++)
+        if (!arb_is_zero(a + k)) return 0;
+    return 1;
+}
+
+/* Closed forms for a linear argument a0 + a1 t (a0 > 0 where needed), O(len) instead of
+ * Newton iterations: with q = a1 / a0,
+ *   (a0 + a1 t)^p = a0^p sum_k binom(p, k) q^k t^k,   c_k = c_(k-1) q (p - k + 1) / k,
+ *   log(a0 + a1 t) = log a0 + sum_(k >= 1) (-1)^(k+1) q^k t^k / k,
+ *   exp(a0 + a1 t) = e^a0 sum_k a1^k t^k / k!. */
+static void linear_pow(arb_ptr r, arb_srcptr a, const arb_t p, slong len, slong prec)
+{
+    arb_t q, f;
+    arb_init(q); arb_init(f);
+    arb_div(q, a + 1, a, prec);
+    arb_pow(r, a, p, prec);
+    for (slong k = 1; k < len; k++) {
+        arb_sub_ui(f, p, (ulong) k - 1, prec);
+        arb_mul(f, f, q, prec);
+        arb_div_ui(f, f, (ulong) k, prec);
+        arb_mul(r + k, r + k - 1, f, prec);
+    }
+    arb_clear(q); arb_clear(f);
+}
+
+static void linear_log(arb_ptr r, arb_srcptr a, slong len, slong prec)
+{
+    arb_t q, qk;
+    arb_init(q); arb_init(qk);
+    arb_div(q, a + 1, a, prec);
+    arb_log(r, a, prec);
+    arb_one(qk);
+    for (slong k = 1; k < len; k++) {
+        arb_mul(qk, qk, q, prec);
+        arb_div_ui(r + k, qk, (ulong) k, prec);
+        if (k % 2 == 0) arb_neg(r + k, r + k);
+    }
+    arb_clear(q); arb_clear(qk);
+}
+
+static void linear_exp(arb_ptr r, arb_srcptr a, slong len, slong prec)
+{
+    arb_exp(r, a, prec);
+    for (slong k = 1; k < len; k++) {
+        arb_mul(r + k, r + k - 1, a + 1, prec);
+        arb_div_ui(r + k, r + k, (ulong) k, prec);
+    }
+}
+
 static int series_pow(arb_ptr r, arb_srcptr a, arb_srcptr b, slong len, slong prec)
 {
+    /* (non-negative integer powers stay exact with the general rule below) */
+    if (is_const_series(b, len) && is_linear_series(a, len) && arb_is_positive(a)
+        && !(arb_is_int(b) && arb_is_nonnegative(b))) {
+        linear_pow(r, a, b, len, prec);
+        return EMBZ_OK;
+    }
     if (is_const_series(b, len)) {
         if (arb_is_int(b) && arf_cmpabs_2exp_si(arb_midref(b), 62) < 0) {
             slong k = arf_get_si(arb_midref(b), ARF_RND_DOWN);
@@ -51,15 +112,37 @@ static int series_op(arb_ptr r, int op, arb_srcptr a, arb_srcptr b, slong len, s
     case EMBZ_OP_NEG: _arb_vec_neg(r, a, len); return EMBZ_OK;
     case EMBZ_OP_ADD: _arb_vec_add(r, a, b, len, prec); return EMBZ_OK;
     case EMBZ_OP_SUB: _arb_vec_sub(r, a, b, len, prec); return EMBZ_OK;
-    case EMBZ_OP_MUL: _arb_poly_mullow(r, a, len, b, len, len, prec); return EMBZ_OK;
+    case EMBZ_OP_MUL:
+        if (is_const_series(a, len)) _arb_vec_scalar_mul(r, b, len, a, prec);
+        else if (is_const_series(b, len)) _arb_vec_scalar_mul(r, a, len, b, prec);
+        else _arb_poly_mullow(r, a, len, b, len, len, prec);
+        return EMBZ_OK;
     case EMBZ_OP_DIV:
         if (arb_contains_zero(b)) return EMBZ_ERR_DOMAIN;
-        _arb_poly_div_series(r, a, len, b, len, len, prec);
+        if (is_const_series(b, len)) {
+            _arb_vec_scalar_div(r, a, len, b, prec);
+        } else if (is_linear_series(b, len)) {
+            /* 1/(b0 + b1 t) = (1/b0) sum_k (-b1/b0)^k t^k, then times a */
+            arb_ptr inv = _arb_vec_init(len);
+            arb_t q;
+            arb_init(q);
+            arb_div(q, b + 1, b, prec);
+            arb_neg(q, q);
+            arb_inv(inv, b, prec);
+            for (slong k = 1; k < len; k++) arb_mul(inv + k, inv + k - 1, q, prec);
+            if (is_const_series(a, len)) _arb_vec_scalar_mul(r, inv, len, a, prec);
+            else _arb_poly_mullow(r, a, len, inv, len, len, prec);
+            arb_clear(q);
+            _arb_vec_clear(inv, len);
+        } else {
+            _arb_poly_div_series(r, a, len, b, len, len, prec);
+        }
         return EMBZ_OK;
     case EMBZ_OP_POW: return series_pow(r, a, b, len, prec);
     case EMBZ_OP_LOG: case EMBZ_OP_LOG2: case EMBZ_OP_LOG10:
         if (!arb_is_positive(a)) return EMBZ_ERR_DOMAIN;
-        _arb_poly_log_series(r, a, len, len, prec);
+        if (is_linear_series(a, len)) linear_log(r, a, len, prec);
+        else _arb_poly_log_series(r, a, len, len, prec);
         if (op != EMBZ_OP_LOG) {
             arb_t c;
             arb_init(c);
@@ -68,10 +151,21 @@ static int series_op(arb_ptr r, int op, arb_srcptr a, arb_srcptr b, slong len, s
             arb_clear(c);
         }
         return EMBZ_OK;
-    case EMBZ_OP_EXP: _arb_poly_exp_series(r, a, len, len, prec); return EMBZ_OK;
+    case EMBZ_OP_EXP:
+        if (is_linear_series(a, len)) linear_exp(r, a, len, prec);
+        else _arb_poly_exp_series(r, a, len, len, prec);
+        return EMBZ_OK;
     case EMBZ_OP_SQRT:
         if (!arb_is_positive(a)) return EMBZ_ERR_DOMAIN;
-        _arb_poly_sqrt_series(r, a, len, len, prec);
+        if (is_linear_series(a, len)) {
+            arb_t h;
+            arb_init(h);
+            arb_set_d(h, 0.5);
+            linear_pow(r, a, h, len, prec);
+            arb_clear(h);
+        } else {
+            _arb_poly_sqrt_series(r, a, len, len, prec);
+        }
         return EMBZ_OK;
     case EMBZ_OP_LGAMMA:
         if (!arb_is_positive(a)) return EMBZ_ERR_DOMAIN;

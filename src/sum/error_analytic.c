@@ -450,7 +450,34 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
 
 #define VMODEL_FROM_BITS 10    /* v-models for s >= 2^10 */
 #define VMODEL_LEN 10          /* their order */
-#define VMODEL_SHORT 12        /* terms kept of the short integral S */
+#define VMODEL_SHORT 12        /* most terms kept of the short integral S */
+
+/* res(tau) = P(A (e^tau - 1)) for P = sum_l p_l y^l (len terms; p is overwritten), using
+ * (e^tau - 1)^l = l! sum_m S(m, l) tau^m / m!   (S: Stirling numbers of the second kind):
+ *     res_m = (1/m!) sum_(l <= m) S(m, l) l! A^l p_l */
+static void compose_exp(arb_ptr res, arb_ptr p, slong len, const arb_t A, slong prec)
+{
+    fmpz *row = _fmpz_vec_init(len);
+    arb_t u;
+    arb_init(u);
+    arb_one(u);
+    for (slong l = 0; l < len; l++) {
+        arb_mul(p + l, p + l, u, prec);                  /* l! A^l p_l */
+        arb_mul(u, u, A, prec);
+        arb_mul_ui(u, u, (ulong) l + 1, prec);
+    }
+    arb_one(u);
+    for (slong m = 0; m < len; m++) {
+        arith_stirling_number_2_vec(row, (ulong) m, m + 1);
+        arb_zero(res + m);
+        for (slong l = 0; l <= m; l++)
+            if (!fmpz_is_zero(row + l)) arb_addmul_fmpz(res + m, p + l, row + l, prec);
+        if (m > 0) arb_div_ui(u, u, (ulong) m, prec);    /* 1/m! */
+        arb_mul(res + m, res + m, u, prec);
+    }
+    _fmpz_vec_clear(row, len);
+    arb_clear(u);
+}
 
 /* em(x(tau)) with x(tau) = scale e^(v + tau) + shift, as a series in tau, with the order of
  * Euler-Maclaurin level lev */
@@ -480,14 +507,8 @@ static int em_composed(arb_ptr res, actx *c, const arb_t v, const arb_t scale,
                 arb_addmul(em + l, u, t->bern + j - 1, prec);
             }
         }
-        /* x(tau) - x(0) = scale e^v (e^tau - 1) */
-        arb_zero(ts);
-        arb_set(u, ev);
-        for (slong k = 1; k < len; k++) {
-            arb_div_ui(u, u, (ulong) k, prec);
-            arb_set(ts + k, u);
-        }
-        _arb_poly_compose_series(res, em, len, ts, len, len, prec);
+        /* compose with x(tau) - x(0) = A (e^tau - 1), A = scale e^v */
+        compose_exp(res, em, len, ev, prec);
     }
     _arb_vec_clear(g, L); _arb_vec_clear(em, len); _arb_vec_clear(ts, len);
     arb_clear(xc); arb_clear(ev); arb_clear(one); arb_clear(u);
@@ -518,9 +539,8 @@ static int f_composed(arb_ptr res, actx *c, const arb_t v, const arb_t shift, sl
 
 /* S(v + tau) = sum_{m=1}^{K} phi^(m-1)(v + tau) lambda(v + tau)^m / m!  (series in tau) */
 static int short_integral(arb_ptr res, actx *c, const arb_t v, const arb_t delta, slong len,
-                          slong prec)
+                          slong K, slong prec)
 {
-    slong K = VMODEL_SHORT;
     arb_ptr ph = _arb_vec_init(len + K), lam = _arb_vec_init(len), e = _arb_vec_init(len);
     arb_ptr lp = _arb_vec_init(len), dm = _arb_vec_init(len), tmp = _arb_vec_init(len);
     arb_t u;
@@ -563,7 +583,7 @@ static int short_integral(arb_ptr res, actx *c, const arb_t v, const arb_t delta
 
 /* The series of W h_r in tau at v (len coefficients; coefficient 0 only when point != 0). */
 static int vmodel_series(arb_ptr co, actx *c, ulong r, const arb_t v, const arb_t delta,
-                         slong len, int point, const slong *lev, slong prec)
+                         slong len, int point, const slong *lev, slong K, slong prec)
 {
     arb_ptr G = _arb_vec_init(len), S = _arb_vec_init(len), E1 = _arb_vec_init(len);
     arb_ptr E2 = _arb_vec_init(len), F3 = _arb_vec_init(len);
@@ -591,7 +611,7 @@ static int vmodel_series(arb_ptr co, actx *c, ulong r, const arb_t v, const arb_
         double vm = arf_get_d(arb_midref(v), ARF_RND_DOWN);
         if (vm > 0) lp = FLINT_MAX(64, prec - (slong) (vm / 0.6931471805599453) + 8);
     }
-    if (st == EMBZ_OK && !arb_is_zero(delta)) st = short_integral(S, c, v, delta, len, lp);
+    if (st == EMBZ_OK && !arb_is_zero(delta)) st = short_integral(S, c, v, delta, len, K, lp);
     if (st == EMBZ_OK) st = em_composed(E1, c, v, dd, zero, len, lev[0], lp);
     arb_one(y);
     if (st == EMBZ_OK) st = em_composed(E2, c, v, y, delta, len, lev[1], lp);
@@ -831,16 +851,22 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
         c->evals++;
         return st;
     }
-    int st = vmodel_series(co, c, r, vc, delta, J, 1, lev, prec);
+    /* terms of S: |lambda| <= |delta| e^-va, and K terms leave about |lambda|^(K+1) */
+    slong K = VMODEL_SHORT;
+    {
+        double l2 = log2(fabs(arf_get_d(arb_midref(delta), ARF_RND_UP)) + 1.0)
+                    - arf_get_d(arb_midref(va), ARF_RND_DOWN) / 0.6931471805599453 + 1.0;
+        if (l2 < -1.0) K = FLINT_MAX(2, FLINT_MIN(K, (slong) ceil((prec + 16) / -l2)));
+    }
+    int st = vmodel_series(co, c, r, vc, delta, J, 1, lev, K, prec);
     if (st == EMBZ_OK && !arb_is_zero(c->dH)) {
         arb_div(tmp, c->dH, c->W, prec);
         arb_add(co, co, tmp, prec);
     }
     slong sp = FLINT_MIN(prec, 96);
-    if (st == EMBZ_OK) st = vmodel_series(ci, c, r, vball, delta, J + 1, 0, lev, sp);
+    if (st == EMBZ_OK) st = vmodel_series(ci, c, r, vball, delta, J + 1, 0, lev, K, sp);
     if (st == EMBZ_OK && !arb_is_zero(delta)) {
         /* tail of S: |R| <= sup |phi^(K)| |lambda|^(K+1) / (K+1)!, over [va, vb + |lambda|] */
-        slong K = VMODEL_SHORT;
         arb_ptr ph = _arb_vec_init(K + 1);
         arb_neg(lam, va);
         arb_exp(lam, lam, sp);
