@@ -7,8 +7,6 @@
 #define EMBZ_TAIL_MAX_ORDER 60   /* largest Euler–Maclaurin order tried */
 #define EMBZ_TAIL_MAX_SPLIT 12   /* bisection depth when certifying a chunk */
 #define LEVEL_OVERLAP 32         /* level j is certified up to 2^LEVEL_OVERLAP X_(j+1) */
-#define CERTIFY_PREC 64          /* precision of the enclosures that certify chunks: signs and
-                                    magnitude bounds need no more */
 
 /* xs = x + scale*t as a series of length len. */
 static void lin_series(arb_ptr xs, const arb_t x, const arb_t scale, slong len)
@@ -665,7 +663,7 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
                 arf_set(ub, uj);
                 restart = 1;
             }
-            st = certify_chunk(t, ua, ub, integral, &dir, 0, FLINT_MIN(prec, CERTIFY_PREC));
+            st = certify_chunk(t, ua, ub, integral, &dir, 0, prec);
             if (st != EMBZ_OK) break;
             arf_set(ua, ub);
             /* wider chunks are cheaper, but enclosures over x-ranges wider than a factor
