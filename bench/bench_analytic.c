@@ -3,8 +3,9 @@
  * For each shipped smooth family: E_n at n = 10^30, 10^100, 10^1000 (median wall time of a few
  * runs; a single run when the first one takes over 2 s), the same family by the explicit engine
  * at n = 10^6 measured in the same process, and their ratio. Then 100 sizes log-spaced from 10
- * to 10^100 for the inverse family in one process (sizes the analytic engine declines are done
- * by the dispatcher embz_error in auto mode). Peak RSS from getrusage.
+ * to 10^100 for the inverse family in one process with embz_sweep_run (engines reused across
+ * sizes, sizes shared among OpenMP threads; OMP_NUM_THREADS=1 for one thread). Peak RSS from
+ * getrusage.
  * Usage: bench_analytic [prec] [runs] [family ...]   (EMBZ_FAMILY_PATH must name families/) */
 #include <stdio.h>
 #include <stdlib.h>
@@ -108,38 +109,42 @@ int main(int argc, char **argv)
     }
     printf("(* = above the 20 ms goal)\n");
 
-    /* 100 sizes log-spaced from 10 to 10^100, inverse family, one process */
+    /* 100 sizes log-spaced from 10 to 10^100, inverse family, one process: the sweep with
+     * reused engines (embz_sweep_run, OpenMP threads), wall and CPU time */
     {
         embz_family_t f;
+        embz_sweep_t sw;
+        fmpz_t a, b;
         embz_family_init(f);
+        embz_sweep_init(sw);
+        fmpz_init_set_ui(a, 10);
+        fmpz_init(b);
+        fmpz_ui_pow_ui(b, 10, 100);
         if (embz_family_resolve(f, "inverse", NULL, 0, 0, &err) == EMBZ_OK) {
-            int nan = 0, nauto = 0, nfail = 0;
-            double worst = 0.0, rad;
-            double t0 = bench_now();
-            for (int k = 0; k < 100; k++) {
-                /* 100 points log-spaced from 10 to 10^100: ratio 10, n = 10^(k+1) */
-                fmpz_set_ui(n, 10);
-                fmpz_pow_ui(n, n, (ulong) k + 1);
-                int st;
-                double t1 = bench_now();
-                time_error(&st, &rad, EMBZ_METHOD_ANALYTIC, f, n, q, prec, 1, msg, sizeof(msg));
-                if (st == EMBZ_OK) nan++;
-                else {
-                    /* declined (small n): the dispatcher picks the explicit engine */
-                    time_error(&st, &rad, EMBZ_METHOD_AUTO, f, n, q, prec, 1, msg, sizeof(msg));
-                    if (st == EMBZ_OK) nauto++;
-                    else nfail++;
-                }
-                double dt = bench_now() - t1;
-                if (dt > worst) worst = dt;
+            double w0 = bench_now(), c0 = bench_cpu_now();
+            int st = embz_sweep_run(sw, f, a, b, 100, q, prec, NULL, NULL, &err);
+            double wall = bench_now() - w0, cpu = bench_cpu_now() - c0;
+            double worst = 0.0;
+            int nan = 0, nex = 0;
+            for (slong j = 0; j < sw->len; j++) {
+                if (sw->pts[j].seconds > worst) worst = sw->pts[j].seconds;
+                if (sw->pts[j].status != EMBZ_OK) continue;
+                if (sw->pts[j].method == EMBZ_METHOD_ANALYTIC) nan++;
+                else nex++;
             }
-            double tot = bench_now() - t0;
-            printf("inverse, 100 sizes log-spaced 10 .. 10^100 (step 10x): total %.3f s "
-                   "(goal < 1 s)%s; slowest %.1f ms; %d analytic, %d by auto dispatch, %d failed\n",
-                   tot, tot < 1.0 ? "" : " *", 1e3 * worst, nan, nauto, nfail);
-            fails += nfail;
+            printf("inverse, 100 sizes log-spaced 10 .. 10^100, reused engines: wall %.3f s "
+                   "(goal < 1 s)%s, CPU %.3f s, %d threads; slowest size %.1f ms; %d analytic, "
+                   "%d explicit, %ld failed\n",
+                   wall, wall < 1.0 ? "" : " *", cpu, bench_threads(), 1e3 * worst, nan, nex,
+                   (long) (sw->len - sw->nok));
+            if (st != EMBZ_OK) {
+                fprintf(stderr, "sweep: %s\n", err.text);
+                fails++;
+            }
         }
+        embz_sweep_clear(sw);
         embz_family_clear(f);
+        fmpz_clear(a); fmpz_clear(b);
     }
     printf("peak RSS: %.1f MB\n", (double) bench_peak_kb() / 1024.0);
     embz_target_clear(q);

@@ -4,6 +4,9 @@
 
 #include <time.h>
 #include <sys/resource.h>
+#ifdef _OPENMP
+#include <omp.h>
+#endif
 
 static inline double bench_clock_seconds(clockid_t id)
 {
@@ -22,6 +25,16 @@ static inline double bench_now(void)
 static inline double bench_cpu_now(void)
 {
     return bench_clock_seconds(CLOCK_PROCESS_CPUTIME_ID);
+}
+
+/* threads an OpenMP parallel region would use (1 without OpenMP) */
+static inline int bench_threads(void)
+{
+#ifdef _OPENMP
+    return omp_get_max_threads();
+#else
+    return 1;
+#endif
 }
 
 /* peak resident memory of the process so far, in kB (getrusage) */

@@ -7,6 +7,9 @@
 #include "embz/analysis.h"
 #include "embz/sum.h"
 #include "embz/output.h"
+#ifdef _OPENMP
+#include <omp.h>
+#endif
 
 static double now_seconds(void)
 {
@@ -124,6 +127,55 @@ static void take_result(embz_sweep_point_struct *p, const embz_error_result_t r)
     snprintf(p->note, sizeof(p->note), "%s", r->detail);
 }
 
+/* One size of a sweep: the analytic engine (retrying at higher precision when its enclosure
+ * carries no certified bit), else explicit mode within its limits. Fills p (status, result or
+ * note) and, on failure, why. */
+static int sweep_point(embz_sweep_point_struct *p, embz_error_result_t r, embz_analytic_t an,
+                       const embz_family_t f, const embz_target_t q, slong prec,
+                       int analytic_ok, const char *prep_reason, char *why)
+{
+    embz_err_t e2;
+    int ps = EMBZ_ERR_UNSUPPORTED;
+    if (analytic_ok) {
+        embz_err_clear(&e2);
+        ps = embz_analytic_error(r, an, p->n, q, &e2);
+        /* an enclosure without any certified bit: retry at higher precision with an
+         * engine of its own (rare: e.g. increasing weights at huge n) */
+        for (slong wp = 2 * prec; ps == EMBZ_OK && !usable(r->error) && wp <= 8 * prec;
+             wp *= 2) {
+            embz_analytic_t hi;
+            embz_analytic_init(hi, f, wp);
+            embz_err_clear(&e2);
+            ps = embz_analytic_error(r, hi, p->n, q, &e2);
+            embz_analytic_clear(hi);
+        }
+        if (ps == EMBZ_OK && !usable(r->error)) {
+            ps = EMBZ_ERR_PREC;
+            snprintf(e2.text, sizeof(e2.text), "no certified digit up to %ld bits",
+                     (long) (8 * prec));
+        }
+        if (ps == EMBZ_OK) r->method = EMBZ_METHOD_ANALYTIC;
+        else snprintf(why, 200, "%.190s", e2.text);
+    } else if (prep_reason[0]) {
+        snprintf(why, 200, "%.190s", prep_reason);
+    }
+    if (ps != EMBZ_OK && ps != EMBZ_ERR_DOMAIN && fmpz_cmp_si(p->n, EMBZ_EXPLICIT_MAX_N) <= 0) {
+        embz_err_clear(&e2);
+        ps = embz_error_explicit(r, f, p->n, q, prec, &e2);
+        if (ps == EMBZ_OK && !usable(r->error)) {
+            ps = EMBZ_ERR_PREC;
+            snprintf(e2.text, sizeof(e2.text), "no certified digit at %ld bits", (long) prec);
+        }
+        if (ps == EMBZ_OK) r->method = EMBZ_METHOD_EXPLICIT;
+        else snprintf(why, 200, "%.190s", e2.text);
+    }
+    p->status = ps;
+    if (ps == EMBZ_OK) take_result(p, r);
+    else snprintf(p->note, sizeof(p->note), "skipped: %s",
+                  why[0] ? why : "no method handles this size");
+    return ps;
+}
+
 int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const fmpz_t b,
                    slong k, const embz_target_t q, slong prec, embz_progress_fn progress,
                    void *ctx, embz_err_t *err)
@@ -147,92 +199,101 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
     }
     _fmpz_vec_clear(sizes, k);
 
-    embz_analytic_t an;
-    embz_error_result_t r;
-    embz_err_t e2;
+    /* Sizes are independent: they are shared out among OpenMP threads (dynamic schedule,
+     * largest first), each with an analytic engine of its own, its tail certified once for
+     * the largest size. A weight found invalid stops every thread. */
     int analytic_ok = (q->kind == EMBZ_TARGET_UNIFORM);
-    int last_fail = EMBZ_OK;
+    int nthreads = 1;
+#ifdef _OPENMP
+    if (!omp_in_parallel()) nthreads = omp_get_max_threads();
+#endif
+    if (nthreads > len) nthreads = (int) len;
+    if (nthreads < 1) nthreads = 1;
+    int stop = 0, fail_domain = 0;
+    slong done = 0, domain_at = -1;
     char prep_reason[200] = "";
-    embz_analytic_init(an, f, prec);
-    embz_error_result_init(r);
+    char domain_why[200] = "";
     if (analytic_ok) {
-        /* certify the tail once for the largest size: every smaller size reuses it */
+        /* one preparation up front decides whether the analytic engine applies at all */
+        embz_analytic_t an;
+        embz_err_t e2;
+        embz_analytic_init(an, f, prec);
         embz_err_clear(&e2);
         int ps = embz_analytic_prepare(an, s->pts[len - 1].n, &e2);
+        embz_analytic_clear(an);
         if (ps != EMBZ_OK) {
             analytic_ok = 0;
             snprintf(prep_reason, sizeof(prep_reason), "%.190s", e2.text);
-            if (ps == EMBZ_ERR_DOMAIN) {
-                st = embz_err_set(err, ps, "%s", e2.text);
-                goto out;
-            }
+            if (ps == EMBZ_ERR_DOMAIN) return embz_err_set(err, ps, "%s", e2.text);
         }
     }
-    for (slong j = 0; j < len; j++) {
-        embz_sweep_point_struct *p = s->pts + j;
-        double t0 = now_seconds();
-        int ps = EMBZ_ERR_UNSUPPORTED;
-        char why[200] = "";
+#ifdef _OPENMP
+#pragma omp parallel num_threads(nthreads)
+#endif
+    {
+        embz_analytic_t an;
+        embz_error_result_t r;
+        embz_err_t e2;
+        embz_analytic_init(an, f, prec);
+        embz_error_result_init(r);
         if (analytic_ok) {
             embz_err_clear(&e2);
-            ps = embz_analytic_error(r, an, p->n, q, &e2);
-            /* an enclosure without any certified bit: retry at higher precision with an
-             * engine of its own (rare: e.g. increasing weights at huge n) */
-            for (slong wp = 2 * prec; ps == EMBZ_OK && !usable(r->error) && wp <= 8 * prec;
-                 wp *= 2) {
-                embz_analytic_t hi;
-                embz_analytic_init(hi, f, wp);
-                embz_err_clear(&e2);
-                ps = embz_analytic_error(r, hi, p->n, q, &e2);
-                embz_analytic_clear(hi);
-            }
-            if (ps == EMBZ_OK && !usable(r->error)) {
-                ps = EMBZ_ERR_PREC;
-                snprintf(e2.text, sizeof(e2.text), "no certified digit up to %ld bits",
-                         (long) (8 * prec));
-            }
-            if (ps == EMBZ_OK) r->method = EMBZ_METHOD_ANALYTIC;
-            else snprintf(why, sizeof(why), "%.190s", e2.text);
-        } else if (prep_reason[0]) {
-            snprintf(why, sizeof(why), "%.190s", prep_reason);
+            embz_analytic_prepare(an, s->pts[len - 1].n, &e2);   /* succeeded above */
         }
-        if (ps != EMBZ_OK && ps != EMBZ_ERR_DOMAIN
-            && fmpz_cmp_si(p->n, EMBZ_EXPLICIT_MAX_N) <= 0) {
-            embz_err_clear(&e2);
-            ps = embz_error_explicit(r, f, p->n, q, prec, &e2);
-            if (ps == EMBZ_OK && !usable(r->error)) {
-                ps = EMBZ_ERR_PREC;
-                snprintf(e2.text, sizeof(e2.text), "no certified digit at %ld bits", (long) prec);
-            }
-            if (ps == EMBZ_OK) r->method = EMBZ_METHOD_EXPLICIT;
-            else snprintf(why, sizeof(why), "%.190s", e2.text);
-        }
-        p->status = ps;
-        if (ps == EMBZ_OK) {
-            take_result(p, r);
-            s->nok++;
-        } else {
-            last_fail = ps;
-            snprintf(p->note, sizeof(p->note), "skipped: %s",
-                     why[0] ? why : "no method handles this size");
-            if (ps == EMBZ_ERR_DOMAIN) {
-                /* the weight itself is invalid: no point in going on */
-                char *ns = embz_fmpz_string(p->n, 30);
-                st = embz_err_set(err, ps, "n = %s: %s", ns, why);
-                free(ns);
-                p->seconds = now_seconds() - t0;
-                goto out;
+#ifdef _OPENMP
+#pragma omp for schedule(dynamic, 1)
+#endif
+        for (slong jj = 0; jj < len; jj++) {
+            slong j = len - 1 - jj;                 /* largest (slowest) sizes first */
+            int halt;
+#ifdef _OPENMP
+#pragma omp atomic read
+#endif
+            halt = stop;
+            if (halt) continue;
+            embz_sweep_point_struct *p = s->pts + j;
+            char why[200] = "";
+            double t0 = now_seconds();
+            int ps = sweep_point(p, r, an, f, q, prec, analytic_ok, prep_reason, why);
+            p->seconds = now_seconds() - t0;
+#ifdef _OPENMP
+#pragma omp critical(embz_sweep)
+#endif
+            {
+                if (ps == EMBZ_ERR_DOMAIN && !fail_domain) {
+                    fail_domain = 1;
+                    domain_at = j;
+                    snprintf(domain_why, sizeof(domain_why), "%.190s", why);
+                }
+                if (ps == EMBZ_ERR_DOMAIN) {
+#ifdef _OPENMP
+#pragma omp atomic write
+#endif
+                    stop = 1;
+                }
+                done++;
+                if (progress != NULL && !stop) progress(ctx, done, len);
             }
         }
-        p->seconds = now_seconds() - t0;
-        if (progress != NULL) progress(ctx, j + 1, len);
+        embz_error_result_clear(r);
+        embz_analytic_clear(an);
+    }
+    if (fail_domain) {
+        /* the weight itself is invalid: no point in going on */
+        char *ns = embz_fmpz_string(s->pts[domain_at].n, 30);
+        st = embz_err_set(err, EMBZ_ERR_DOMAIN, "n = %s: %s", ns, domain_why);
+        free(ns);
+        return st;
+    }
+    int last_fail = EMBZ_OK;
+    s->nok = 0;
+    for (slong j = 0; j < len; j++) {
+        if (s->pts[j].status == EMBZ_OK) s->nok++;
+        else last_fail = s->pts[j].status;
     }
     if (s->nok == 0) {
         st = embz_err_set(err, last_fail ? last_fail : EMBZ_ERR_UNSUPPORTED,
                           "no size of the sweep could be computed: %s", s->pts[len - 1].note);
     }
-out:
-    embz_error_result_clear(r);
-    embz_analytic_clear(an);
     return st;
 }
