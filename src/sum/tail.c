@@ -357,9 +357,10 @@ static int merge_dir(int *dir, int d)
     return EMBZ_OK;
 }
 
-/* Certify the sign of f' on [ua, ub] with first-order enclosures, bisecting as needed. */
-static int certify_sign(embz_tail_t t, const arf_t ua, const arf_t ub, int *dir, int depth,
-                        slong prec)
+/* Certify the sign of f' on [ua, ub] with first-order enclosures, bisecting as needed;
+ * *deep records the deepest halving that was needed. */
+static int certify_sign(embz_tail_t t, const arf_t ua, const arf_t ub, int *dir, int *deep,
+                        int depth, slong prec)
 {
     arb_t x, xa, xb, one;
     arb_ptr g = _arb_vec_init(2);
@@ -370,12 +371,13 @@ static int certify_sign(embz_tail_t t, const arf_t ua, const arf_t ub, int *dir,
     int d = (st == EMBZ_OK) ? sign_of(g + 1) : 2;
     if (d != 2) {
         st = merge_dir(dir, d);
+        if (depth > *deep) *deep = depth;
     } else if (depth < EMBZ_TAIL_MAX_SPLIT) {
         arf_t mid;
         arf_init(mid);
         midpoint(mid, ua, ub);
-        st = certify_sign(t, ua, mid, dir, depth + 1, prec);
-        if (st == EMBZ_OK) st = certify_sign(t, mid, ub, dir, depth + 1, prec);
+        st = certify_sign(t, ua, mid, dir, deep, depth + 1, prec);
+        if (st == EMBZ_OK) st = certify_sign(t, mid, ub, dir, deep, depth + 1, prec);
         arf_clear(mid);
     } else if (st == EMBZ_OK) {
         st = EMBZ_ERR_UNSUPPORTED;
@@ -403,6 +405,7 @@ static int level_meets(const embz_tail_struct *t, slong j, const arb_t xa, const
 }
 
 static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_ptr integral,
+                         int *deep,
                          int *dir, int depth, slong prec)
 {
     arb_t xa, xb, x, one, w;
@@ -434,15 +437,16 @@ static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_ptr 
         }
         mag_clear(m); mag_clear(tmp); mag_clear(wd);
         int d = sign_of(g + 1);
+        if (depth > *deep) *deep = depth;
         if (d != 2) st = merge_dir(dir, d);
-        else st = certify_sign(t, ua, ub, dir, 0, prec);
+        else st = certify_sign(t, ua, ub, dir, deep, 0, prec);
     } else if (st != EMBZ_ERR_NONSMOOTH && depth < EMBZ_TAIL_MAX_SPLIT) {
         /* enclosures too wide to be finite: halve the chunk */
         arf_t mid;
         arf_init(mid);
         midpoint(mid, ua, ub);
-        st = certify_chunk(t, ua, mid, integral, dir, depth + 1, prec);
-        if (st == EMBZ_OK) st = certify_chunk(t, mid, ub, integral, dir, depth + 1, prec);
+        st = certify_chunk(t, ua, mid, integral, deep, dir, depth + 1, prec);
+        if (st == EMBZ_OK) st = certify_chunk(t, mid, ub, integral, deep, dir, depth + 1, prec);
         arf_clear(mid);
     } else if (st == EMBZ_OK) {
         st = EMBZ_ERR_UNSUPPORTED;
@@ -555,6 +559,63 @@ static void finish_levels(embz_tail_t t, mag_srcptr integral)
     mag_clear(c); mag_clear(r); mag_clear(worst);
 }
 
+/* Is f(e^u) certainly below 2^-(prec+40) f(M) (f(M) = g0)? A cheap first test before
+ * try_cut, with room to spare: try_cut then usually succeeds at once. */
+static int weight_negligible_at(embz_tail_t t, const arf_t u, arb_srcptr g0, slong prec)
+{
+    arb_t x, v;
+    mag_t a, b;
+    arb_init(x); arb_init(v);
+    mag_init(a); mag_init(b);
+    arb_set_arf(x, u);
+    arb_exp(x, x, prec);
+    int ok = embz_expr_eval_arb(v, t->w, x, t->n, prec) == EMBZ_OK && arb_is_finite(v);
+    if (ok) {
+        arb_get_mag(a, v);
+        arb_get_mag_lower(b, g0);
+        mag_mul_2exp_si(b, b, -prec - 40);
+        ok = mag_cmp(a, b) < 0;
+    }
+    arb_clear(x); arb_clear(v);
+    mag_clear(a); mag_clear(b);
+    return ok;
+}
+
+/* Perhaps the weights from e^ua on are too small to matter (a geometric family far out): if
+ * their total is certainly below 2^-(prec+20) of the first weight f(M) = g0, end the tail
+ * there (t->end) and record the neglected mass. Returns 1 when it did. */
+static int try_cut(embz_tail_t t, const arf_t ua, const arf_t uend, arb_srcptr g0, slong prec)
+{
+    mag_t mass, goal;
+    arb_t x0;
+    fmpz_t X;
+    mag_init(mass); mag_init(goal);
+    arb_init(x0);
+    fmpz_init(X);
+    arb_get_mag_lower(goal, g0);
+    mag_mul_2exp_si(goal, goal, -prec - 20);
+    int ok = (negligible_mass(mass, t, ua, uend, goal, 0, prec) == EMBZ_OK)
+             && mag_cmp(mass, goal) <= 0;
+    if (ok) {
+        arf_t xl;
+        arf_init(xl);
+        arb_set_arf(x0, ua);
+        arb_exp(x0, x0, prec);
+        arb_get_lbound_arf(xl, x0, prec);
+        arf_get_fmpz(X, xl, ARF_RND_FLOOR);   /* certified up to e^ua >= X */
+        arf_clear(xl);
+        ok = fmpz_cmp_si(X, t->M + 1) > 0;
+    }
+    if (ok) {
+        fmpz_set(t->end, X);
+        mag_set(t->neglected, mass);
+    }
+    mag_clear(mass); mag_clear(goal);
+    arb_clear(x0);
+    fmpz_clear(X);
+    return ok;
+}
+
 int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
                    const fmpz_t end, slong prec, embz_err_t *err)
 {
@@ -644,7 +705,18 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
         arf_t uj;
         arf_init(uj);
         st = EMBZ_OK;
+        int cut = 0;
+        double utry = 0.0;                /* a cut is considered again from u = utry on */
         while (arf_cmp(ua, uend) < 0) {
+            /* far out, once the weight itself is negligible, see whether all the rest is:
+             * the tail then ends here (a geometric family needs no certificate up to n) */
+            if (arf_get_d(ua, ARF_RND_DOWN) >= utry && weight_negligible_at(t, ua, g, prec)) {
+                if (try_cut(t, ua, uend, g, prec)) {
+                    cut = 1;
+                    break;
+                }
+                utry = 2.0 * arf_get_d(ua, ARF_RND_DOWN) + 8.0;   /* back off */
+            }
             arf_set_d(ub, width);
             arf_add(ub, ub, ua, prec, ARF_RND_UP);
             if (arf_cmp(ub, uend) > 0) arf_set(ub, uend);
@@ -663,47 +735,20 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
                 arf_set(ub, uj);
                 restart = 1;
             }
-            st = certify_chunk(t, ua, ub, integral, &dir, 0, prec);
+            int deep = 0;
+            st = certify_chunk(t, ua, ub, integral, &deep, &dir, 0, prec);
             if (st != EMBZ_OK) break;
             arf_set(ua, ub);
             /* wider chunks are cheaper, but enclosures over x-ranges wider than a factor
              * e^16 (2^23, near the 30-bit radius of a ball) lose all meaning */
-            width = restart ? 0.25 : FLINT_MIN(2 * width, 16.0);
+            /* after halvings, go on with the width that worked */
+            if (restart) width = 0.25;
+            else if (deep > 0) width = FLINT_MAX(ldexp(width, -deep), 0.125);
+            else width = FLINT_MIN(2 * width, 16.0);
         }
         arf_clear(uj);
-        if (st != EMBZ_OK && st != EMBZ_ERR_DOMAIN) {
-            /* Perhaps the weights from here on are too small to matter (a geometric
-             * family far out): if their total is certainly below 2^-(prec+20) of the
-             * first weight, stop the tail here and report the neglected mass. */
-            mag_t mass, goal;
-            arb_t x0;
-            fmpz_t X;
-            mag_init(mass); mag_init(goal);
-            arb_init(x0);
-            fmpz_init(X);
-            arb_get_mag_lower(goal, g);
-            mag_mul_2exp_si(goal, goal, -prec - 20);
-            int ok = (negligible_mass(mass, t, ua, uend, goal, 0, prec) == EMBZ_OK)
-                     && mag_cmp(mass, goal) <= 0;
-            if (ok) {
-                arf_t xl;
-                arf_init(xl);
-                arb_set_arf(x0, ua);
-                arb_exp(x0, x0, prec);
-                arb_get_lbound_arf(xl, x0, prec);
-                arf_get_fmpz(X, xl, ARF_RND_FLOOR);   /* certified up to e^ua >= X */
-                arf_clear(xl);
-                ok = ok && fmpz_cmp_si(X, M + 1) > 0;
-            }
-            if (ok) {
-                fmpz_set(t->end, X);
-                mag_set(t->neglected, mass);
-                st = EMBZ_OK;
-            }
-            mag_clear(mass); mag_clear(goal);
-            arb_clear(x0);
-            fmpz_clear(X);
-        }
+        if (st != EMBZ_OK && st != EMBZ_ERR_DOMAIN && !cut && try_cut(t, ua, uend, g, prec))
+            st = EMBZ_OK;
         if (st != EMBZ_OK) {
             embz_err_set(err, st == EMBZ_ERR_DOMAIN ? EMBZ_ERR_DOMAIN : EMBZ_ERR_UNSUPPORTED,
                          "cannot certify that the weight is smooth and monotone for i > %ld", M);
