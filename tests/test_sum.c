@@ -514,6 +514,59 @@ static void integral_case(const char *text, int kind, ulong e)
     flint_randclear(st);
 }
 
+/* Short u-integrals (the Taylor path of the integrator, and the adaptive one beyond it)
+ * against closed forms: phi = u^-2 for w = 1/(i log(i)^2), phi = e^(u/2) for w = i^-0.5. */
+START_TEST(test_integral_short)
+{
+    const slong M = 64, prec = 128;
+    static const char *const ws[] = { "1/(i*log(i)^2)", "i^-0.5" };
+    flint_rand_t st;
+    flint_randinit(st);
+    for (int k = 0; k < 2; k++) {
+        embz_expr_t w;
+        embz_tail_t t;
+        fmpz_t n;
+        arb_t a, b, I, ref, u;
+        fmpz_init(n);
+        arb_init(a); arb_init(b); arb_init(I); arb_init(ref); arb_init(u);
+        parse_or_die(w, ws[k]);
+        ten_pow(n, 40);
+        init_tail(t, w, n, M, n, prec);
+        for (int it = 0; it < 30; it++) {
+            /* a in [5, 80], length up to 3 (beyond the Taylor path's reach) */
+            arb_set_ui(a, 5000 + n_randint(st, 75001));
+            arb_div_ui(a, a, 1000, prec);
+            arb_set_ui(b, 1 + n_randint(st, 3000));
+            arb_div_ui(b, b, 1000, prec);
+            arb_add(b, b, a, prec);
+            ck_assert_int_eq(embz_tail_integral_u(I, t, a, b, prec), EMBZ_OK);
+            if (k == 0) {
+                arb_inv(ref, a, prec);
+                arb_inv(u, b, prec);
+                arb_sub(ref, ref, u, prec);
+            } else {
+                arb_mul_2exp_si(u, b, -1);
+                arb_exp(ref, u, prec);
+                arb_mul_2exp_si(u, a, -1);
+                arb_exp(u, u, prec);
+                arb_sub(ref, ref, u, prec);
+                arb_mul_2exp_si(ref, ref, 1);
+            }
+            ck_assert_msg(arb_overlaps(I, ref), "%s: short integral misses the closed form",
+                          ws[k]);
+            ck_assert_msg(arb_rel_accuracy_bits(I) >= prec - 16, "%s: %ld bits", ws[k],
+                          (long) arb_rel_accuracy_bits(I));
+        }
+        ck_assert_msg(t->taylor_ok > 0, "%s: the Taylor path was never taken", ws[k]);
+        embz_tail_clear(t);
+        embz_expr_clear(w);
+        fmpz_clear(n);
+        arb_clear(a); arb_clear(b); arb_clear(I); arb_clear(ref); arb_clear(u);
+    }
+    flint_randclear(st);
+}
+END_TEST
+
 START_TEST(test_integral_log) { integral_case("1/i", 0, 60); }
 END_TEST
 START_TEST(test_integral_loglog) { integral_case("1/(i*log(i))", 1, 60); }
@@ -615,6 +668,7 @@ static Suite *sum_suite(void)
     tcase_add_test(tc, test_harmonic_exact);
     tcase_add_test(tc, test_harmonic_digamma_1e30);
     tcase_add_test(tc, test_harmonic_levels);
+    tcase_add_test(tc, test_integral_short);
     tcase_add_test(tc, test_harmonic_digamma_1e1000);
     tcase_add_test(tc, test_zeta_half);
     tcase_add_test(tc, test_zeta_two);

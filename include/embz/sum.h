@@ -53,6 +53,7 @@ typedef struct {
     embz_expr_t phi;           /* phi(u) = w(e^u) e^u, simplified (embz_expr_log_substitute) */
     long evals;                /* statistics: series evaluations */
     long integrals;            /* statistics: integrator calls */
+    long taylor_ok, taylor_fail;  /* short integrals by Taylor expansion: successes, failures */
 } embz_tail_struct;
 typedef embz_tail_struct embz_tail_t[1];
 

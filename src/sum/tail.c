@@ -67,8 +67,84 @@ static int phi_acb(acb_ptr out, const acb_t u, void *param, slong order, slong p
     return 0;
 }
 
+/* Short integrals by a Taylor expansion about the midpoint m of [ua, ub], h = (ub - ua)/2:
+ *     integral = sum_(k even, k < K) 2 c_k h^(k+1) / (k+1) + R,
+ *     |R| <= 2 sup |c_K| |h|^(K+1) / (K+1),
+ * c_k the Taylor coefficients of phi at m (for R: enclosed over [m - |h|, m + |h|], at low
+ * precision, which also picks K <= TAYLOR_INT_MAX). Cheaper than the adaptive integrator
+ * when phi is smooth on the scale of h (exact for a polynomial phi). Returns 0 when no such
+ * K brings R below 2^-(prec+4) of the value; after repeated failures (phi not smooth enough
+ * on these scales) the tail stops trying. */
+#define TAYLOR_INT_MAX 32
+static int integrate_taylor(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub,
+                            slong prec)
+{
+    if (t->taylor_fail >= 8 && t->taylor_fail > 4 * t->taylor_ok) return 0;
+    arb_t m, h, b, hp, acc, term;
+    mag_t r, lim, hm;
+    arb_init(m); arb_init(h); arb_init(b); arb_init(hp); arb_init(acc); arb_init(term);
+    mag_init(r); mag_init(lim); mag_init(hm);
+    int ok = 0;
+    slong Kmax = TAYLOR_INT_MAX;
+    arb_ptr c = _arb_vec_init(Kmax + 1);
+    arb_add(m, ua, ub, prec);
+    arb_mul_2exp_si(m, m, -1);
+    arb_sub(h, ub, ua, prec);
+    arb_mul_2exp_si(h, h, -1);
+    arb_get_mag(hm, h);
+    if (mag_cmp_2exp_si(hm, 0) <= 0) {                   /* |h| <= 1 */
+        arb_set(b, m);
+        arb_add_error_mag(b, hm);
+        slong K = -1;
+        if (embz_tail_phi_series(c, t, b, Kmax + 1, 64) == EMBZ_OK) {
+            /* size of the value: about 2 h |phi| */
+            arb_get_mag_lower(lim, c);
+            mag_mul(lim, lim, hm);
+            mag_mul_2exp_si(lim, lim, -prec - 3);
+            for (slong k = 4; k <= Kmax && K < 0; k += 4) {
+                arb_get_mag(r, c + k);
+                mag_t hk;
+                mag_init(hk);
+                mag_pow_ui(hk, hm, (ulong) k + 1);
+                mag_mul(r, r, hk);
+                mag_mul_2exp_si(r, r, 1);
+                mag_div_ui(r, r, (ulong) k + 1);
+                mag_clear(hk);
+                if (mag_is_finite(r) && mag_cmp(r, lim) <= 0) K = k;
+            }
+        }
+        if (K > 0 && embz_tail_phi_series(c, t, m, K, prec) == EMBZ_OK) {
+            arb_zero(acc);
+            arb_set(hp, h);                              /* h^(k+1) */
+            arb_mul(b, h, h, prec);                      /* h^2 */
+            for (slong k = 0; k < K; k += 2) {
+                arb_mul(term, c + k, hp, prec);
+                arb_div_ui(term, term, (ulong) k + 1, prec);
+                arb_add(acc, acc, term, prec);
+                arb_mul(hp, hp, b, prec);
+            }
+            arb_mul_2exp_si(acc, acc, 1);
+            if (arb_is_finite(acc)) {
+                arb_add_error_mag(acc, r);
+                arb_set(res, acc);
+                ok = 1;
+            }
+        }
+    }
+    if (ok) t->taylor_ok++;
+    else t->taylor_fail++;
+    _arb_vec_clear(c, Kmax + 1);
+    arb_clear(m); arb_clear(h); arb_clear(b); arb_clear(hp); arb_clear(acc); arb_clear(term);
+    mag_clear(r); mag_clear(lim); mag_clear(hm);
+    return ok;
+}
+
 static int integrate_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub, slong prec)
 {
+    if (integrate_taylor(res, t, ua, ub, prec)) {
+        t->integrals++;
+        return EMBZ_OK;
+    }
     acb_t a, b, r;
     mag_t tol;
     acb_calc_integrate_opt_t opt;
