@@ -571,10 +571,10 @@ static int negligible_mass(mag_t mass, embz_tail_t t, const arf_t ua, const arf_
     return st;
 }
 
-/* Far levels at X = 2^16, 2^32, 2^64, ... below end: the order q at X is the first whose
- * remainder estimate |B_2q|/(2q)! |f^(2q-1)(X)| is below goal 2^-(prec+8) (the criterion of
- * level 0); a level is kept when it lowers the order. g holds f's Taylor coefficients at M
- * (len = 2p + 1 of them) and goal = M f(M). */
+/* Far levels at X = 2^10, 2^15, 2^22, ... (exponents growing by half) below end: the order
+ * q at X is the first whose remainder estimate |B_2q|/(2q)! |f^(2q-1)(X)| is below
+ * 2^-(prec+8) goal (the criterion of level 0), goal = M f(M); a level is kept when it lowers
+ * the order. */
 static void set_levels(embz_tail_t t, const arb_t goal, slong prec)
 {
     slong len = 2 * t->p + 1;
@@ -589,7 +589,7 @@ static void set_levels(embz_tail_t t, const arb_t goal, slong prec)
     arb_set(t->lev_base, t->base);
     arb_get_mag_lower(gm, goal);
     mag_mul_2exp_si(gm, gm, -prec - 8);
-    for (slong b = 16; t->nlev < EMBZ_TAIL_MAX_LEVELS; b += b / 2) {
+    for (slong b = 10; t->nlev < EMBZ_TAIL_MAX_LEVELS; b += b / 2) {
         if (b <= (slong) FLINT_BIT_COUNT((ulong) t->M) + 1) continue;
         if ((slong) fmpz_bits(t->end) <= b) break;
         arb_one(X);
