@@ -565,6 +565,17 @@ START_TEST(test_bind_square_uses)
     ck_assert_int_eq(eval_at(r, f, 12, 10, 64), EMBZ_OK);
     ck_assert(arb_contains_si(r, 4));
 
+    /* squaring an amplitude keeps no dead nodes (the evaluators walk every node): the
+     * square of 1/sqrt(i) is as small as 1/i itself, and prints the same */
+    parse_ok(e, "1/sqrt(i)");
+    embz_expr_square(e);
+    parse_ok(f, "1/i");
+    ck_assert_int_eq(e->len, f->len);
+    ck_assert_int_eq(e->root, e->len - 1);
+    c = embz_expr_to_string(e);
+    ck_assert_str_eq(c, "1/i");
+    free(c);
+
     parse_ok(e, "n*floor(i)");
     ck_assert_int_eq(embz_expr_uses(e), EMBZ_USES_I | EMBZ_USES_N | EMBZ_USES_NONSMOOTH);
     parse_ok(e, "max(pi, 2)");

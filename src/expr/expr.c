@@ -126,10 +126,51 @@ static int square_node(embz_expr_t e, int k)
     return a;
 }
 
+void _embz_expr_prune(embz_expr_t e)
+{
+    if (e->root < 0) return;
+    long len = e->root + 1;
+    char *keep = calloc((size_t) len, 1);
+    int *map = malloc((size_t) len * sizeof(int));
+    if (keep == NULL || map == NULL) abort();
+    keep[e->root] = 1;
+    long kept = 0;
+    for (long k = e->root; k >= 0; k--) {
+        if (!keep[k]) continue;
+        kept++;
+        if (e->nodes[k].a >= 0) keep[e->nodes[k].a] = 1;
+        if (e->nodes[k].b >= 0) keep[e->nodes[k].b] = 1;
+    }
+    if (kept < e->len) {
+        embz_expr_t t;
+        embz_expr_init(t);
+        for (long k = 0; k < len; k++) {
+            if (!keep[k]) continue;
+            const embz_node_t *s = e->nodes + k;
+            int j = _embz_expr_push(t, s->op, s->a >= 0 ? map[s->a] : -1,
+                                    s->b >= 0 ? map[s->b] : -1, s->col);
+            if (j < 0) abort();
+            t->nodes[j].param = s->param;
+            fmpq_set(t->nodes[j].num, s->num);
+            map[k] = j;
+        }
+        t->root = map[e->root];
+        t->params = e->params;                 /* the parameter names move over */
+        t->nparams = e->nparams;
+        e->params = NULL;
+        e->nparams = 0;
+        embz_expr_clear(e);
+        *e = *t;
+    }
+    free(keep);
+    free(map);
+}
+
 void embz_expr_square(embz_expr_t e)
 {
     if (e->root < 0) return;
     e->root = square_node(e, e->root);
+    _embz_expr_prune(e);    /* the evaluators walk every node up to the root */
 }
 
 int _embz_op_arity(int op)

@@ -7,6 +7,10 @@
 /* Appends a node (num set to 0) and returns its index, or -1 when out of memory. */
 int _embz_expr_push(embz_expr_t e, int op, int a, int b, long col);
 
+/* Drop the nodes the root does not reach (the evaluators walk every node up to the root),
+ * keeping the order. */
+void _embz_expr_prune(embz_expr_t e);
+
 /* Number of children of op (0, 1 or 2). */
 int _embz_op_arity(int op);
 

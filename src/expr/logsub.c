@@ -295,5 +295,6 @@ int embz_expr_log_substitute(embz_expr_t out, const embz_expr_t w)
     fmpq_add_ui(r.alpha, r.alpha, 1);      /* the Jacobian dx/du = e^u */
     out->root = materialize(out, &r);
     fmpq_clear(r.alpha);
+    _embz_expr_prune(out);    /* parts built and then folded away are not evaluated */
     return EMBZ_OK;
 }
