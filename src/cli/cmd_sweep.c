@@ -25,9 +25,10 @@ static const cli_spec_t sweep_spec = {
     "Sizes are the integers nearest to A^(1-t) B^t, t = 0, 1/(K-1), ..., 1. Each E_n is a\n"
     "certified enclosure (one reusable analytic engine for all sizes; explicit summation for\n"
     "small n). The fitted parameters, their jackknife intervals and the model choice (lowest\n"
-    "BIC on relative residuals) are estimates, not certified. Time: roughly 0.1-3 s per size\n"
-    "for the inverse family at 10^300 and default precision; a progress bar appears on a\n"
-    "terminal when the run takes longer than a second.\n",
+    "BIC on relative residuals) are estimates, not certified. Sizes run in parallel on the\n"
+    "OpenMP threads (OMP_NUM_THREADS). Time: about 10-50 ms per size for the inverse family\n"
+    "up to 10^300 at default precision; a progress bar appears on a terminal when the run\n"
+    "takes longer than a second.\n",
     sweep_opts, 1, 1
 };
 
