@@ -205,7 +205,9 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
     int analytic_ok = (q->kind == EMBZ_TARGET_UNIFORM);
     int nthreads = 1;
 #ifdef _OPENMP
-    if (!omp_in_parallel()) nthreads = omp_get_max_threads();
+    /* not from inside another parallel region (a scan): threads created there would end
+     * with their FLINT caches */
+    if (omp_get_level() == 0) nthreads = omp_get_max_threads();
 #endif
     if (nthreads > len) nthreads = (int) len;
     if (nthreads < 1) nthreads = 1;
