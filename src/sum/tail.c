@@ -153,18 +153,26 @@ static int integrate_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub,
     acb_calc_integrate_opt_init(opt);
     acb_set_arb(a, ua);
     acb_set_arb(b, ub);
-    /* absolute tolerance relative to the size of the integrand at the left end */
+    /* absolute tolerance relative to the size of the integrand at the larger end (for a
+     * growing phi such as e^(u/2) the integral is about the value at the right end; a
+     * tolerance from the left end would ask for far more than 2^-prec relative accuracy) */
     {
-        acb_t fa;
-        acb_init(fa);
+        acb_t fa, fb;
+        mag_t mb;
+        acb_init(fa); acb_init(fb);
+        mag_init(mb);
         phi_acb(fa, a, t, 0, 64);
-        if (acb_is_finite(fa)) {
-            acb_get_mag(tol, fa);
-            mag_mul_2exp_si(tol, tol, -prec - 4);
+        phi_acb(fb, b, t, 0, 64);
+        if (acb_is_finite(fa)) acb_get_mag(tol, fa);
+        if (acb_is_finite(fb)) {
+            acb_get_mag(mb, fb);
+            if (mag_cmp(mb, tol) > 0) mag_set(tol, mb);
         }
+        mag_mul_2exp_si(tol, tol, -prec - 4);
         if (mag_is_zero(tol) || !mag_is_finite(tol))
             mag_set_ui_2exp_si(tol, 1, -prec - 4);
-        acb_clear(fa);
+        acb_clear(fa); acb_clear(fb);
+        mag_clear(mb);
     }
     acb_calc_integrate(r, phi_acb, t, a, b, prec, tol, opt, prec + 10);
     t->integrals++;
