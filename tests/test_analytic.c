@@ -779,6 +779,54 @@ START_TEST(test_vector_target_bounds)
 END_TEST
 
 
+/* The threshold form E(q) = max_t Phi(t) - sum_j q_j Phi(t/q_j) for target vectors: the
+ * analytic enclosure must contain the explicit value, and its proven lower end (a value of
+ * the threshold function at a point) must lie within 1e-6 of it, for several families and
+ * vectors; the detail line must say that the threshold search ran. */
+START_TEST(test_vector_target_threshold)
+{
+    static const char *const fams[3] = { "inverse", "power", "logpower" };
+    static const char *const tgts[3] = { "0.5,0.3,0.2", "0.7,0.3", "0.4,0.3,0.2,0.1" };
+    for (int k = 0; k < 3; k++) {
+        embz_family_t f;
+        embz_target_t q;
+        embz_error_result_t ra, rx;
+        embz_err_t err;
+        fmpz_t n;
+        arb_t d;
+        embz_err_clear(&err);
+        fmpz_init(n);
+        arb_init(d);
+        fmpz_set_ui(n, 40000 + 20000 * (ulong) k);
+        resolve(f, fams[k], NULL, NULL);
+        target(q, tgts[k]);
+        embz_error_result_init(ra);
+        embz_error_result_init(rx);
+        ck_assert_msg(embz_error_analytic(ra, f, n, q, 128, &err) == EMBZ_OK, "%s", err.text);
+        ck_assert_msg(embz_error_explicit(rx, f, n, q, 128, &err) == EMBZ_OK, "%s", err.text);
+        ck_assert_msg(arb_overlaps(ra->error, rx->error), "%s %s: analytic vs explicit",
+                      fams[k], tgts[k]);
+        ck_assert_msg(strstr(ra->detail, "max_t") != NULL, "%s: %s", fams[k], ra->detail);
+        arf_t lo;
+        arf_init(lo);
+        arb_get_lbound_arf(lo, ra->error, 128);
+        arb_set_arf(d, lo);
+        arb_sub(d, rx->error, d, 128);
+        arb_abs(d, d);
+        ck_assert_msg(arf_cmp_d(arb_midref(d), 1e-6) < 0 && mag_cmp_2exp_si(arb_radref(d), -30) < 0,
+                      "%s %s: lower end %g below the explicit value",
+                      fams[k], tgts[k], arf_get_d(arb_midref(d), ARF_RND_NEAR));
+        arf_clear(lo);
+        embz_error_result_clear(ra);
+        embz_error_result_clear(rx);
+        embz_target_clear(q);
+        embz_family_clear(f);
+        fmpz_clear(n);
+        arb_clear(d);
+    }
+}
+END_TEST
+
 /* Head weights that tie (here w(1) = w(2), computed as equal inexact balls) cannot be ordered
  * by ball comparisons; the engine merges them and must still agree with explicit sums. */
 START_TEST(test_head_ties)
@@ -844,6 +892,7 @@ static Suite *analytic_suite(void)
     tcase_add_test(tc, test_two_precisions);
     tcase_add_test(tc, test_uniform_half);
     tcase_add_test(tc, test_vector_target_bounds);
+    tcase_add_test(tc, test_vector_target_threshold);
     tcase_add_test(tc, test_head_ties);
     tcase_add_test(tc, test_head_insertions);
     suite_add_tcase(s, tc);

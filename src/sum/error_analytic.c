@@ -24,6 +24,7 @@
 #define TAYLOR_MAX 80          /* largest Taylor model order */
 #define BB_BUDGET 40000        /* interval evaluations before giving up refining */
 #define BB_SMALL 6             /* intervals with at most this many integers are enumerated */
+#define THRESHOLD_BUDGET 600   /* evaluations of the threshold search for a target vector */
 
 typedef struct {
     embz_tail_struct *t;
@@ -1562,6 +1563,227 @@ out:
     return st;
 }
 
+/* ---------- general targets: the threshold form ----------
+ *
+ * E_n(q) = max_(t >= 0) F(t),  F(t) = Phi(t) - sum_j q_j Phi(t / q_j),
+ * Phi(t) = sum_i (p_i - t)_+. In weight units (V = t W): W Phi = S(N(V)) - N(V) V with
+ * N(V) = #{i : w_i > V} (A, B and the inserted head weights by comparison, the tail by
+ * embz_tail_count) and S(N) the sum of the N largest weights (pos_sum). Phi decreases, so
+ * on [V1, V2]:  W F <= W Phi(V1) - sum_j q_j W Phi(V2 / q_j), and values at points are lower
+ * bounds. Below V_lo = q_m w_min, F = n V (m - 1) / W increases; above the largest weight
+ * F = 0. The search runs best first in ln V over [V_lo, V_hi]. */
+
+/* W Phi(V): EMBZ_ERR_PREC when V cannot be told apart from some weight */
+static int phi_w(arb_t res, actx *c, const arb_t V, slong prec)
+{
+    fmpz_t N, cnt;
+    fmpz_init(N); fmpz_init(cnt);
+    int st = EMBZ_OK;
+    slong k = 0;
+    for (slong i = 0; i < c->a && st == EMBZ_OK; i++) {
+        if (arb_gt(c->A + i, V)) k++;
+        else if (!arb_le(c->A + i, V)) st = EMBZ_ERR_PREC;
+    }
+    for (slong i = 0; i < c->nins && st == EMBZ_OK; i++) {
+        if (arb_gt(c->ins_val + i, V)) k++;
+        else if (!arb_le(c->ins_val + i, V)) st = EMBZ_ERR_PREC;
+    }
+    for (slong i = 0; i < c->b && st == EMBZ_OK; i++) {
+        if (arb_gt(c->B + i, V)) k++;
+        else if (!arb_le(c->B + i, V)) st = EMBZ_ERR_PREC;
+    }
+    if (st == EMBZ_OK) st = embz_tail_count(cnt, c->t, V, c->n, prec);
+    if (st == EMBZ_OK) {
+        fmpz_add_si(N, cnt, k);
+        st = pos_sum(res, c, N, prec);
+        arb_t nv;
+        arb_init(nv);
+        arb_mul_fmpz(nv, V, N, prec);
+        arb_sub(res, res, nv, prec);
+        arb_clear(nv);
+    }
+    fmpz_clear(N); fmpz_clear(cnt);
+    return st;
+}
+
+/* W F at V, or (bound != 0) the upper bound W Phi(V1) - sum_j q_j W Phi(V2/q_j) */
+static int threshold_f(arb_t res, actx *c, const embz_target_t q, const arb_t V1,
+                       const arb_t V2, slong prec)
+{
+    arb_t u, qj, x;
+    arb_init(u); arb_init(qj); arb_init(x);
+    int st = phi_w(res, c, V1, prec);
+    for (long j = 0; j < q->q->len && st == EMBZ_OK; j++) {
+        if (fmpq_is_zero(q->q->p + j)) continue;
+        arb_set_fmpq(qj, q->q->p + j, prec);
+        arb_div(x, V2, qj, prec);
+        st = phi_w(u, c, x, prec);
+        arb_submul(res, u, qj, prec);
+    }
+    arb_clear(u); arb_clear(qj); arb_clear(x);
+    c->evals++;
+    return st;
+}
+
+/* a point near V where every comparison is decided (V itself, else nudged by 2^-40 relative
+ * steps in the given direction) */
+static int threshold_point(arb_t res, actx *c, const embz_target_t q, arb_t V, int dir,
+                           slong prec)
+{
+    int st = EMBZ_ERR_PREC;
+    for (int tries = 0; tries < 8 && st == EMBZ_ERR_PREC; tries++) {
+        st = threshold_f(res, c, q, V, V, prec);
+        if (st == EMBZ_ERR_PREC) {
+            arb_t e;
+            arb_init(e);
+            arb_one(e);
+            arb_mul_2exp_si(e, e, -40);
+            arb_mul(e, e, V, prec);
+            if (dir >= 0) arb_add(V, V, e, prec);
+            else arb_sub(V, V, e, prec);
+            arb_set_arf(V, arb_midref(V));
+            arb_clear(e);
+        }
+    }
+    return st;
+}
+
+typedef struct { arf_t a, b, U; } th_item;
+
+/* best-first search; fills *lo (proven value, lower end) and *hi (upper bound) of W E */
+static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, slong budget,
+                            slong prec)
+{
+    slong cap = 64, len = 0;
+    th_item *h = flint_malloc(sizeof(th_item) * cap);
+    arb_t V, Va, Vb, f, wmin, qm, tol;
+    arf_t best, bnd;
+    arb_init(V); arb_init(Va); arb_init(Vb); arb_init(f); arb_init(wmin); arb_init(qm);
+    arb_init(tol);
+    arf_init(best); arf_init(bnd);
+    int st = EMBZ_OK;
+    /* V_hi: the largest weight; V_lo: q_m times the smallest one */
+    fmpz_t K;
+    fmpz_init(K);
+    fmpz_one(K);
+    st = pos_val(Vb, c, K, prec);
+    if (st == EMBZ_OK) {
+        fmpz_set(K, c->n);
+        st = pos_val(wmin, c, K, prec);
+    }
+    fmpz_clear(K);
+    long m = q->q->len;
+    while (m > 1 && fmpq_is_zero(q->q->p + m - 1)) m--;
+    arb_set_fmpq(qm, q->q->p + m - 1, prec);
+    arb_mul(Va, wmin, qm, prec);
+    arb_set_arf(Va, arb_midref(Va));
+    arb_set_arf(Vb, arb_midref(Vb));
+    arf_zero(best);                                  /* F(0) = 0 */
+    arf_zero(hi);
+    /* tolerance in weight units: 2^-(prec-16) W */
+    arb_mul_2exp_si(tol, c->W, -(prec - 16));
+    if (st == EMBZ_OK && arb_is_positive(Va) && arb_lt(Va, Vb)) {
+        st = threshold_point(f, c, q, Va, -1, prec);
+        if (st == EMBZ_OK) {
+            arb_get_lbound_arf(bnd, f, prec);
+            if (arf_cmp(bnd, best) > 0) arf_set(best, bnd);
+            arb_get_ubound_arf(bnd, f, prec);    /* the maximum over [0, V_lo] is at V_lo */
+            if (arf_cmp(bnd, hi) > 0) arf_set(hi, bnd);
+        }
+        if (st == EMBZ_OK) {
+            arf_init(h[0].a); arf_init(h[0].b); arf_init(h[0].U);
+            arf_set(h[0].a, arb_midref(Va));
+            arf_set(h[0].b, arb_midref(Vb));
+            arf_pos_inf(h[0].U);
+            len = 1;
+        }
+    }
+    slong evals = 0;
+    while (st == EMBZ_OK && len > 0) {
+        /* the item with the largest bound */
+        slong top = 0;
+        for (slong i = 1; i < len; i++) if (arf_cmp(h[i].U, h[top].U) > 0) top = i;
+        arf_sub(bnd, h[top].U, best, prec, ARF_RND_UP);
+        if (arf_cmp(bnd, arb_midref(tol)) <= 0 || evals > budget) break;
+        th_item it = h[top];
+        h[top] = h[--len];
+        /* split: geometric mean while the ratio exceeds 2, else the midpoint */
+        arb_set_arf(Va, it.a);
+        arb_set_arf(Vb, it.b);
+        arb_mul_2exp_si(V, Va, 1);
+        if (arb_lt(V, Vb)) {
+            arb_mul(V, Va, Vb, prec);
+            arb_sqrt(V, V, prec);
+        } else {
+            arb_add(V, Va, Vb, prec);
+            arb_mul_2exp_si(V, V, -1);
+        }
+        arb_set_arf(V, arb_midref(V));
+        st = threshold_point(f, c, q, V, 1, prec);
+        evals++;
+        if (st != EMBZ_OK) { arf_clear(it.a); arf_clear(it.b); arf_clear(it.U); break; }
+        arb_get_lbound_arf(bnd, f, prec);
+        if (arf_cmp(bnd, best) > 0) arf_set(best, bnd);
+        arb_get_ubound_arf(bnd, f, prec);
+        if (arf_cmp(bnd, hi) > 0) arf_set(hi, bnd);
+        /* the two halves with their bounds (if V was nudged past b, only the left one) */
+        for (int side = 0; side < 2 && st == EMBZ_OK; side++) {
+            arb_set_arf(Va, side == 0 ? it.a : arb_midref(V));
+            arb_set_arf(Vb, side == 0 ? arb_midref(V) : it.b);
+            if (!arb_lt(Va, Vb)) continue;
+            /* bound endpoints nudged outwards until decided */
+            arb_t A, B;
+            arb_init(A); arb_init(B);
+            arb_set(A, Va);
+            arb_set(B, Vb);
+            int ok = 0;
+            for (int tries = 0; tries < 8 && !ok; tries++) {
+                int s2 = threshold_f(f, c, q, A, B, prec);
+                if (s2 == EMBZ_OK) ok = 1;
+                else if (s2 != EMBZ_ERR_PREC) { st = s2; break; }
+                else {
+                    arb_t e;
+                    arb_init(e);
+                    arb_mul_2exp_si(e, A, -40);
+                    arb_sub(A, A, e, prec);
+                    arb_mul_2exp_si(e, B, -40);
+                    arb_add(B, B, e, prec);
+                    arb_set_arf(A, arb_midref(A));
+                    arb_set_arf(B, arb_midref(B));
+                    arb_clear(e);
+                }
+            }
+            evals++;
+            if (st == EMBZ_OK) {
+                if (len == cap) {
+                    cap *= 2;
+                    h = flint_realloc(h, sizeof(th_item) * cap);
+                }
+                arf_init(h[len].a); arf_init(h[len].b); arf_init(h[len].U);
+                arf_set(h[len].a, arb_midref(Va));
+                arf_set(h[len].b, arb_midref(Vb));
+                if (ok) arb_get_ubound_arf(h[len].U, f, prec);
+                else arf_pos_inf(h[len].U);
+                if (arf_cmp(h[len].U, best) >= 0) len++;   /* else: below a proven value */
+                else { arf_clear(h[len].a); arf_clear(h[len].b); arf_clear(h[len].U); }
+            }
+            arb_clear(A); arb_clear(B);
+        }
+        arf_clear(it.a); arf_clear(it.b); arf_clear(it.U);
+    }
+    for (slong i = 0; i < len; i++) {
+        if (arf_cmp(h[i].U, hi) > 0) arf_set(hi, h[i].U);
+        arf_clear(h[i].a); arf_clear(h[i].b); arf_clear(h[i].U);
+    }
+    if (arf_cmp(hi, best) < 0) arf_set(hi, best);
+    arf_set(lo, best);
+    flint_free(h);
+    arb_clear(V); arb_clear(Va); arb_clear(Vb); arb_clear(f); arb_clear(wmin); arb_clear(qm);
+    arb_clear(tol);
+    arf_clear(best); arf_clear(bnd);
+    return st;
+}
+
 void embz_analytic_init(embz_analytic_t a, const embz_family_t f, slong prec)
 {
     memset(a, 0, sizeof(*a));
@@ -1633,6 +1855,9 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
     return st;
 }
 
+static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
+                        const embz_target_t q, embz_err_t *err);
+
 /* A general target q (m nonzero entries, largest q_1) is bracketed by uniform ones:
  * u_m is majorized by q, and q by u_d' with d' = floor(1/q_1); tensoring with p keeps these
  * relations and K(p -> r) can only fall as r moves up in the majorization order, so
@@ -1668,16 +1893,41 @@ static int vector_target_bounds(embz_error_result_t res, embz_analytic_t an, con
         if (st != EMBZ_OK) goto out;
         arb_get_lbound_arf(lo, rl->error, an->prec);
     }
-    arb_set_interval_arf(res->error, lo, hi, an->prec);
-    res->estimate = NAN;   /* no double estimate of E(q) itself */
-    res->have_bounds = 0;
     {
+        /* then the threshold form of E(q) itself; both enclosures hold, so their
+         * intersection does (the bracket is kept when the search fails) */
         char inner[sizeof(res->detail)];
         snprintf(inner, sizeof(inner), "%s", res->detail);
-        snprintf(res->detail, sizeof(res->detail),
-                 "analytic bounds for a general target: E(uniform:%lu) <= E(q) <= "
-                 "E(uniform:%lu) by majorization; %.100s", fmpz_get_ui(dl) >= 2 ?
-                 fmpz_get_ui(dl) : 1UL, m, inner);
+        embz_err_t e2;
+        embz_err_clear(&e2);
+        int ts = analytic_run(rl, an, n, q, &e2);
+        int tight = 0;
+        if (ts == EMBZ_OK) {
+            arf_t a, b;
+            arf_init(a); arf_init(b);
+            arb_get_lbound_arf(a, rl->error, an->prec);
+            arb_get_ubound_arf(b, rl->error, an->prec);
+            if (arf_cmp(a, lo) > 0) arf_set(lo, a);
+            if (arf_cmp(b, hi) < 0) arf_set(hi, b);
+            if (arf_cmp(hi, lo) < 0) arf_set(hi, lo);   /* (cannot happen: both enclose E) */
+            tight = 1;
+            arf_clear(a); arf_clear(b);
+        }
+        arb_set_interval_arf(res->error, lo, hi, an->prec);
+        res->estimate = arf_get_d(arb_midref(res->error), ARF_RND_NEAR);
+        res->have_bounds = 0;
+        fmpz_zero(res->argk);
+        if (tight)
+            snprintf(res->detail, sizeof(res->detail),
+                     "analytic, general target: max_t Phi(t) - sum_j q_j Phi(t/q_j) by branch "
+                     "and bound over ln t, within E(uniform:%lu) <= E(q) <= E(uniform:%lu) "
+                     "(majorization); %.40s",
+                     fmpz_get_ui(dl) >= 2 ? fmpz_get_ui(dl) : 1UL, m, inner);
+        else
+            snprintf(res->detail, sizeof(res->detail),
+                     "analytic bounds for a general target: E(uniform:%lu) <= E(q) <= "
+                     "E(uniform:%lu) by majorization (threshold search: %.50s); %.40s",
+                     fmpz_get_ui(dl) >= 2 ? fmpz_get_ui(dl) : 1UL, m, e2.text, inner);
     }
 out:
     embz_target_clear(tu);
@@ -1690,17 +1940,26 @@ out:
 int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
                         const embz_target_t q, embz_err_t *err)
 {
-    const embz_family_struct *f = an->f;
-    slong prec = an->prec;
     if (q->kind != EMBZ_TARGET_UNIFORM)
         return vector_target_bounds(res, an, n, q, err);
+    return analytic_run(res, an, n, q, err);
+}
+
+/* The engine for one size: the layout, then the Ky Fan search (uniform targets) or the
+ * threshold search (a target vector). */
+static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
+                        const embz_target_t q, embz_err_t *err)
+{
+    const embz_family_struct *f = an->f;
+    slong prec = an->prec;
+    int vector = (q->kind != EMBZ_TARGET_UNIFORM);
     slong wp = prec + 32;
     actx c;
     memset(&c, 0, sizeof(c));
     embz_tail_t tail;
     c.t = tail;
     c.f = f;
-    c.d = q->d;
+    c.d = vector ? 1 : q->d;
     c.prec = wp;
     c.decide = an->have_decide ? an->decide : NULL;
     c.decide_lo = an->have_decide ? an->decide_lo : NULL;
@@ -1770,55 +2029,76 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
         fmpz_init(k); fmpz_init(kmax); fmpz_init(tmp);
         arf_init(tol);
         arf_zero(c.upper);
-        /* explicit positions */
-        for (slong kk = 1; kk <= c.E; kk++) {
-            fmpz_set_si(k, kk);
-            st = h_at(h, &c, k, wp);
-            if (st != EMBZ_OK) break;
-            offer(&c, h, k);
-        }
-        /* k = n */
-        if (st == EMBZ_OK) {
-            st = h_at(h, &c, c.n, wp);
-            if (st == EMBZ_OK) offer(&c, h, c.n);
-        }
-        /* k inside B: a + L < k < n */
-        if (st == EMBZ_OK) {
-            fmpz_add_si(k, c.L, c.a + c.nins + 1);
-            for (; st == EMBZ_OK && fmpz_cmp(k, c.n) < 0; fmpz_add_ui(k, k, 1)) {
+        if (vector) {
+            /* a target vector: the threshold form (the result is [proven value, bound]) */
+            arf_t tlo, thi;
+            arb_t x;
+            arf_init(tlo); arf_init(thi);
+            arb_init(x);
+            st = threshold_search(tlo, thi, &c, q, THRESHOLD_BUDGET, wp);
+            if (st == EMBZ_OK) {
+                arb_set_arf(x, tlo);
+                arb_div(c.best, x, c.W, wp);
+                arb_get_lbound_arf(tlo, c.best, wp);
+                arb_set_arf(c.best, tlo);
+                arb_set_arf(x, thi);
+                arb_div(x, x, c.W, wp);
+                arb_get_ubound_arf(c.upper, x, wp);
+                fmpz_zero(c.argk);
+            }
+            arf_clear(tlo); arf_clear(thi);
+            arb_clear(x);
+        } else {
+            /* explicit positions */
+            for (slong kk = 1; kk <= c.E; kk++) {
+                fmpz_set_si(k, kk);
                 st = h_at(h, &c, k, wp);
-                if (st == EMBZ_OK) offer(&c, h, k);
+                if (st != EMBZ_OK) break;
+                offer(&c, h, k);
             }
-        }
-        /* the smooth region, residue by residue */
-        fmpz_add_si(kmax, c.L, c.a + c.nins);
-        fmpz_sub_ui(tmp, c.n, 1);
-        if (fmpz_cmp(tmp, kmax) < 0) fmpz_set(kmax, tmp);
-        fmpz_set(c.kmax, kmax);
-        arf_one(tol);
-        arf_mul_2exp_si(tol, tol, -(prec - 16));
-        {
-            fmpz *vlo = _fmpz_vec_init(c.d), *vhi = _fmpz_vec_init(c.d);
-            for (ulong r = 0; r < c.d; r++) {
-                /* s_lo = floor((E - r)/d) + 1, s_hi = floor((kmax - r)/d) */
-                fmpz_set_si(vlo + r, c.E - (slong) r);
-                fmpz_fdiv_q_ui(vlo + r, vlo + r, c.d);
-                fmpz_add_ui(vlo + r, vlo + r, 1);
-                fmpz_sub_ui(vhi + r, kmax, r);
-                fmpz_fdiv_q_ui(vhi + r, vhi + r, c.d);
+            /* k = n */
+            if (st == EMBZ_OK) {
+                st = h_at(h, &c, c.n, wp);
+                if (st == EMBZ_OK) offer(&c, h, c.n);
             }
-            int decided = 0;
-            if (c.decide != NULL && arb_is_finite(c.best)) {
-                arf_t b0;
-                arf_init(b0);
-                arb_get_lbound_arf(b0, c.best, wp);
-                decided = arf_cmp(b0, c.decide) > 0;
-                arf_clear(b0);
+            /* k inside B: a + L < k < n */
+            if (st == EMBZ_OK) {
+                fmpz_add_si(k, c.L, c.a + c.nins + 1);
+                for (; st == EMBZ_OK && fmpz_cmp(k, c.n) < 0; fmpz_add_ui(k, k, 1)) {
+                    st = h_at(h, &c, k, wp);
+                    if (st == EMBZ_OK) offer(&c, h, k);
+                }
             }
-            if (st == EMBZ_OK && !decided) st = branch_and_bound(&c, vlo, vhi, tol, wp);
-            if (decided) c.cut_short = 1;
-            _fmpz_vec_clear(vlo, c.d);
-            _fmpz_vec_clear(vhi, c.d);
+            /* the smooth region, residue by residue */
+            fmpz_add_si(kmax, c.L, c.a + c.nins);
+            fmpz_sub_ui(tmp, c.n, 1);
+            if (fmpz_cmp(tmp, kmax) < 0) fmpz_set(kmax, tmp);
+            fmpz_set(c.kmax, kmax);
+            arf_one(tol);
+            arf_mul_2exp_si(tol, tol, -(prec - 16));
+            {
+                fmpz *vlo = _fmpz_vec_init(c.d), *vhi = _fmpz_vec_init(c.d);
+                for (ulong r = 0; r < c.d; r++) {
+                    /* s_lo = floor((E - r)/d) + 1, s_hi = floor((kmax - r)/d) */
+                    fmpz_set_si(vlo + r, c.E - (slong) r);
+                    fmpz_fdiv_q_ui(vlo + r, vlo + r, c.d);
+                    fmpz_add_ui(vlo + r, vlo + r, 1);
+                    fmpz_sub_ui(vhi + r, kmax, r);
+                    fmpz_fdiv_q_ui(vhi + r, vhi + r, c.d);
+                }
+                int decided = 0;
+                if (c.decide != NULL && arb_is_finite(c.best)) {
+                    arf_t b0;
+                    arf_init(b0);
+                    arb_get_lbound_arf(b0, c.best, wp);
+                    decided = arf_cmp(b0, c.decide) > 0;
+                    arf_clear(b0);
+                }
+                if (st == EMBZ_OK && !decided) st = branch_and_bound(&c, vlo, vhi, tol, wp);
+                if (decided) c.cut_short = 1;
+                _fmpz_vec_clear(vlo, c.d);
+                _fmpz_vec_clear(vhi, c.d);
+            }
         }
         if (st == EMBZ_OK) {
             /* E in [best lower end, max(upper bounds)] */
@@ -1860,7 +2140,9 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
                      (long) c.M, c.evals, c.t->evals, c.t->integrals, (long) prec);
             arf_clear(lo); arf_clear(hi);
         } else {
-            embz_err_set(err, st, "the analytic engine could not certify the maximum");
+            embz_err_set(err, st, vector && st == EMBZ_ERR_PREC
+                         ? "weights near a threshold cannot be told apart at this precision"
+                         : "the analytic engine could not certify the maximum");
         }
         arb_clear(h);
         fmpz_clear(k); fmpz_clear(kmax);
