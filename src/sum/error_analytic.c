@@ -58,6 +58,7 @@ typedef struct {
     arb_t best;          /* best proven value (lower end used) */
     fmpz_t argk;
     arf_t upper;         /* running maximum of the upper bounds (points and intervals) */
+    arf_t tol;           /* intervals whose bound is within tol of the best value are settled */
     long evals;
     slong prec;
 } actx;
@@ -1020,7 +1021,7 @@ static int phi_discard(actx *c, ulong r, const fmpz_t lo, const fmpz_t hi, slong
 {
     embz_tail_struct *t = c->t;
     if (t->dir <= 0 || !arb_is_finite(c->best)) return 0;
-    slong sp = 64;
+    slong sp = prec;   /* the bound may settle a stretch to within the tolerance */
     arb_t x1, x2, lam, l2, ua, ub, u, v, acc;
     arf_t a, b, blo;
     arb_init(x1); arb_init(x2); arb_init(lam); arb_init(l2); arb_init(ua); arb_init(ub);
@@ -1066,6 +1067,16 @@ static int phi_discard(actx *c, ulong r, const fmpz_t lo, const fmpz_t hi, slong
         arb_get_ubound_arf(a, acc, sp);
         arb_get_lbound_arf(blo, c->best, prec);
         drop = arb_is_finite(acc) && arf_cmp(a, blo) < 0;
+        if (!drop && arb_is_finite(acc)) {
+            /* within the tolerance of the best value (far out for flat families): the
+             * stretch is settled, its bound joins the upper end of the result */
+            arb_get_ubound_arf(blo, c->best, prec);
+            arf_add(blo, blo, c->tol, prec, ARF_RND_DOWN);
+            if (arf_cmp(a, blo) <= 0) {
+                if (arf_cmp(a, c->upper) > 0) arf_set(c->upper, a);
+                drop = 1;
+            }
+        }
     }
     c->evals++;
     arb_clear(x1); arb_clear(x2); arb_clear(lam); arb_clear(l2); arb_clear(ua); arb_clear(ub);
@@ -1969,7 +1980,7 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
     fmpz_init(c.argk);
     fmpz_init(c.kmax);
     arb_init(c.SA); arb_init(c.SB); arb_init(c.Ttot); arb_init(c.W);
-    arb_init(c.best); arf_init(c.upper);
+    arb_init(c.best); arf_init(c.upper); arf_init(c.tol);
     arb_init(c.dH);
     mag_init(c.rslack);
     arb_indeterminate(c.best);
@@ -2076,6 +2087,7 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             fmpz_set(c.kmax, kmax);
             arf_one(tol);
             arf_mul_2exp_si(tol, tol, -(prec - 16));
+            arf_set(c.tol, tol);
             {
                 fmpz *vlo = _fmpz_vec_init(c.d), *vhi = _fmpz_vec_init(c.d);
                 for (ulong r = 0; r < c.d; r++) {
@@ -2154,7 +2166,7 @@ cleanup:
     free_layout(&c);
     fmpz_clear(c.n); fmpz_clear(c.ntrue); fmpz_clear(c.L); fmpz_clear(c.argk); fmpz_clear(c.kmax);
     arb_clear(c.SA); arb_clear(c.SB); arb_clear(c.Ttot); arb_clear(c.W);
-    arb_clear(c.best); arf_clear(c.upper);
+    arb_clear(c.best); arf_clear(c.upper); arf_clear(c.tol);
     arb_clear(c.dH);
     mag_clear(c.rslack);
     return st;
