@@ -827,6 +827,48 @@ START_TEST(test_vector_target_threshold)
 }
 END_TEST
 
+/* Weights that vanish somewhere (log(i) at i = 1, n - i at i = n) leave no positive lower end
+ * for the threshold search: the result must still contain the explicit value. And in decision
+ * mode the side of a threshold is that of E(q) itself: with E(q) = 0.0624 < 0.065 < E(u_3) at
+ * n = 10^6 (inverse family) the engine must not report "above". */
+START_TEST(test_vector_target_edge_cases)
+{
+    agree_with_explicit("log(i)", "0.6,0.3,0.1", 100000);
+    agree_with_explicit("n-i", "0.6,0.3,0.1", 100000);
+
+    embz_family_t f;
+    embz_target_t q;
+    embz_error_result_t ra, rx;
+    embz_err_t err;
+    fmpz_t n;
+    arb_t thr;
+    embz_err_clear(&err);
+    fmpz_init(n);
+    arb_init(thr);
+    fmpz_set_ui(n, 1000000);
+    resolve(f, "inverse", NULL, NULL);
+    target(q, "0.6,0.3,0.1");
+    embz_error_result_init(ra);
+    embz_error_result_init(rx);
+    arb_set_str(thr, "0.065", 128);
+    ck_assert_int_eq(embz_error_explicit(rx, f, n, q, 128, &err), EMBZ_OK);
+    ck_assert(arb_lt(rx->error, thr));
+    embz_analytic_t an;
+    embz_analytic_init(an, f, 128);
+    embz_analytic_set_decision(an, thr);
+    ck_assert_msg(embz_analytic_error(ra, an, n, q, &err) == EMBZ_OK, "%s", err.text);
+    ck_assert_msg(ra->decided != 1, "decided 'above' although E(q) < 0.065");
+    ck_assert(arb_overlaps(ra->error, rx->error));
+    embz_analytic_clear(an);
+    embz_error_result_clear(ra);
+    embz_error_result_clear(rx);
+    embz_target_clear(q);
+    embz_family_clear(f);
+    fmpz_clear(n);
+    arb_clear(thr);
+}
+END_TEST
+
 /* Head weights that tie (here w(1) = w(2), computed as equal inexact balls) cannot be ordered
  * by ball comparisons; the engine merges them and must still agree with explicit sums. */
 START_TEST(test_head_ties)
@@ -893,6 +935,7 @@ static Suite *analytic_suite(void)
     tcase_add_test(tc, test_uniform_half);
     tcase_add_test(tc, test_vector_target_bounds);
     tcase_add_test(tc, test_vector_target_threshold);
+    tcase_add_test(tc, test_vector_target_edge_cases);
     tcase_add_test(tc, test_head_ties);
     tcase_add_test(tc, test_head_insertions);
     suite_add_tcase(s, tc);

@@ -35,11 +35,13 @@ typedef struct {
     /* Far levels: far out, where derivatives are small, a lower order suffices. Level j
      * (1 <= j < nlev) restarts the formula at X_j = 2^lev_bits[j] with order lev_p[j]:
      *   T~_j(x) = I(M, x) + em_(lev_p[j])(x) + lev_base[j],
-     *   lev_base[j] = base + em_p(X_j) - em_(lev_p[j])(X_j),
-     * certified for X_j <= x <= Z_j = 2^lev_top[j] (lev_top[j] < 0: up to end), where
-     * Z_j = 2^32 X_(j+1) so that any ball starting below X_(j+1) and narrower than a factor
-     * 2^32 has a level. Level 0 is the formula above (lev_bits[0] = 0, lev_p[0] = p).
-     * Far out only the last levels apply, so certification there needs few derivatives. */
+     *   lev_base[j] = lev_base[j-1] + em_(lev_p[j-1])(X_j) - em_(lev_p[j])(X_j)
+     * (chained: level j-1 is certified at X_j). Level j is certified for
+     * X_j <= x <= Z_j = 2^lev_top[j] (lev_top[j] < 0: up to end), Z_j = 2^32 X_(j+1), so that
+     * any ball starting below X_(j+1) and narrower than a factor 2^32 has a level; rem covers
+     * the sum of the remainders of all levels. Level 0 is the formula above (lev_bits[0] = 0,
+     * lev_p[0] = p). Far out only the last levels apply, so certification there needs few
+     * derivatives. */
     slong nlev;
     slong lev_bits[EMBZ_TAIL_MAX_LEVELS];
     slong lev_top[EMBZ_TAIL_MAX_LEVELS];

@@ -738,8 +738,8 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
         arb_mul(lam, lam, delta, sp);
         arb_log1p(lam, lam, sp);
         arb_abs(lam, lam);
-        arb_add(y, vball, lam, sp);
-        arb_union(y, y, vball, sp);
+        arb_set(y, vball);                 /* [v, v + lambda], lambda of either sign */
+        arb_add_error(y, lam);
         st = embz_tail_phi_series(g, t, y, 2, sp);
         if (st == EMBZ_OK) {
             arb_abs(tmp, g);
@@ -776,6 +776,11 @@ static int model_bound_wide(arf_t U, int *mono, actx *c, ulong r, const arb_t vc
         arb_set_arf(acc, UG);
         arb_add(acc, acc, rest, prec);
         arb_add(acc, acc, c->dH, prec);
+        if (lev[0] != lev[1]) {
+            /* x1 and x2 on different levels: the difference of their constants */
+            arb_sub(tmp, t->lev_base + lev[0], t->lev_base + lev[1], prec);
+            arb_add(acc, acc, tmp, prec);
+        }
         arb_div(acc, acc, c->W, prec);
         arb_get_ubound_arf(U, acc, prec);
         if (!arb_is_finite(acc)) st = EMBZ_ERR_PREC;
@@ -865,6 +870,12 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
         arb_div(tmp, c->dH, c->W, prec);
         arb_add(co, co, tmp, prec);
     }
+    if (st == EMBZ_OK && lev[0] != lev[1]) {
+        /* x1 and x2 on different Euler-Maclaurin levels: their constants do not cancel */
+        arb_sub(tmp, c->t->lev_base + lev[0], c->t->lev_base + lev[1], prec);
+        arb_div(tmp, tmp, c->W, prec);
+        arb_add(co, co, tmp, prec);
+    }
     slong sp = FLINT_MIN(prec, 96);
     if (st == EMBZ_OK) st = vmodel_series(ci, c, r, vball, delta, J + 1, 0, lev, K, sp);
     if (st == EMBZ_OK && !arb_is_zero(delta)) {
@@ -877,8 +888,9 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
         arb_abs(lam, lam);
         arb_t b;
         arb_init(b);
-        arb_add(b, vball, lam, sp);
-        arb_union(b, b, vball, sp);
+        /* S runs over [v, v + lambda] with lambda of either sign: vball +- |lambda| */
+        arb_set(b, vball);
+        arb_add_error(b, lam);
         st = embz_tail_phi_series(ph, c->t, b, K + 1, sp);
         if (st == EMBZ_OK) {
             /* ph[K] = phi^(K)/K!: sup|phi^(K)|/(K+1)! = |ph[K]|/(K+1) */
@@ -1687,13 +1699,23 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
     while (m > 1 && fmpq_is_zero(q->q->p + m - 1)) m--;
     arb_set_fmpq(qm, q->q->p + m - 1, prec);
     arb_mul(Va, wmin, qm, prec);
-    arb_set_arf(Va, arb_midref(Va));
-    arb_set_arf(Vb, arb_midref(Vb));
+    {
+        /* [V_lo, V_hi] rounded outwards */
+        arf_t e;
+        arf_init(e);
+        arb_get_lbound_arf(e, Va, prec);
+        arb_set_arf(Va, e);
+        arb_get_ubound_arf(e, Vb, prec);
+        arb_set_arf(Vb, e);
+        arf_clear(e);
+    }
+    if (st == EMBZ_OK && !(arb_is_positive(Va) && arb_lt(Va, Vb)))
+        st = EMBZ_ERR_UNSUPPORTED;      /* zero weights (or a single value): no search */
     arf_zero(best);                                  /* F(0) = 0 */
     arf_zero(hi);
     /* tolerance in weight units: 2^-(prec-16) W */
     arb_mul_2exp_si(tol, c->W, -(prec - 16));
-    if (st == EMBZ_OK && arb_is_positive(Va) && arb_lt(Va, Vb)) {
+    if (st == EMBZ_OK) {
         st = threshold_point(f, c, q, Va, -1, prec);
         if (st == EMBZ_OK) {
             arb_get_lbound_arf(bnd, f, prec);
@@ -1918,14 +1940,27 @@ static int vector_target_bounds(embz_error_result_t res, embz_analytic_t an, con
             arf_init(a); arf_init(b);
             arb_get_lbound_arf(a, rl->error, an->prec);
             arb_get_ubound_arf(b, rl->error, an->prec);
-            if (arf_cmp(a, lo) > 0) arf_set(lo, a);
-            if (arf_cmp(b, hi) < 0) arf_set(hi, b);
-            if (arf_cmp(hi, lo) < 0) arf_set(hi, lo);   /* (cannot happen: both enclose E) */
-            tight = 1;
+            if (arf_cmp(a, hi) <= 0 && arf_cmp(b, lo) >= 0) {
+                if (arf_cmp(a, lo) > 0) arf_set(lo, a);
+                if (arf_cmp(b, hi) < 0) arf_set(hi, b);
+                tight = 1;
+            } else {
+                /* both should enclose E(q): disjoint means a fault, so neither is used
+                 * beyond the bracket, and the detail says so */
+                ts = EMBZ_ERR_PREC;
+                snprintf(e2.text, sizeof(e2.text), "inconsistent with the bracket, ignored");
+            }
             arf_clear(a); arf_clear(b);
         }
         arb_set_interval_arf(res->error, lo, hi, an->prec);
         res->estimate = arf_get_d(arb_midref(res->error), ARF_RND_NEAR);
+        /* decision mode: the side of the threshold from the final enclosure of E(q) (the
+         * flag left by the bracket's runs is about other targets) */
+        res->decided = 0;
+        if (an->have_decide) {
+            if (arf_cmp(lo, an->decide) > 0) res->decided = 1;
+            else if (arf_cmp(hi, an->decide_lo) < 0) res->decided = -1;
+        }
         res->have_bounds = 0;
         fmpz_zero(res->argk);
         if (tight)
@@ -2121,23 +2156,30 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             /* decision mode stopped before the smooth region was bounded: only the trivial
              * upper end E <= 1 is known (K is a difference of Ky Fan norms, each <= 1) */
             if (c.cut_short && arf_cmp_si(hi, 1) < 0) arf_one(hi);
-            res->decided = 0;
-            if (c.decide != NULL) {
-                if (arf_cmp(lo, c.decide) > 0) res->decided = 1;
-                else if (arf_cmp(hi, c.decide_lo) < 0) res->decided = -1;
-            }
             if (arf_cmp(hi, lo) < 0) arf_set(hi, lo);
-            arb_set_interval_arf(res->error, lo, hi, wp);
             if (fmpz_cmp(c.n, c.ntrue) < 0 && !mag_is_zero(c.t->neglected)) {
                 /* K moves by at most twice the l1 change of p, which is at most
                  * 2 * neglected / W when the negligible weights are dropped */
                 mag_t e;
+                arf_t ea;
                 mag_init(e);
+                arf_init(ea);
                 arb_get_mag_lower(e, c.W);
                 mag_div(e, c.t->neglected, e);
                 mag_mul_2exp_si(e, e, 2);
-                arb_add_error_mag(res->error, e);
+                arf_set_mag(ea, e);
+                arf_sub(lo, lo, ea, wp, ARF_RND_FLOOR);
+                arf_add(hi, hi, ea, wp, ARF_RND_CEIL);
                 mag_clear(e);
+                arf_clear(ea);
+            }
+            arb_set_interval_arf(res->error, lo, hi, wp);
+            /* the side of a decision threshold, from the ends themselves (a wide ball's
+             * lower end, with its 30-bit radius, is much coarser) */
+            res->decided = 0;
+            if (c.decide != NULL) {
+                if (arf_cmp(lo, c.decide) > 0) res->decided = 1;
+                else if (arf_cmp(hi, c.decide_lo) < 0) res->decided = -1;
             }
             arb_set_round(res->error, res->error, prec);
             fmpz_set(res->argk, c.argk);

@@ -612,11 +612,12 @@ static void set_levels(embz_tail_t t, const arb_t goal, slong prec)
             if (mag_cmp(cur, gm) < 0) break;
         }
         if (q >= t->lev_p[t->nlev - 1]) continue;
-        /* lev_base = base + em_p(X) - em_q(X) */
-        em_terms(e0, t, g, t->p, prec);
+        /* chained from the previous level, which is certified at X (X <= Z of that level):
+         * lev_base = lev_base_prev + em_(q_prev)(X) - em_q(X) */
+        em_terms(e0, t, g, t->lev_p[t->nlev - 1], prec);
         em_terms(e1, t, g, q, prec);
         arb_sub(e0, e0, e1, prec);
-        arb_add(t->lev_base + t->nlev, t->base, e0, prec);
+        arb_add(t->lev_base + t->nlev, t->lev_base + t->nlev - 1, e0, prec);
         t->lev_bits[t->nlev] = b;
         t->lev_p[t->nlev] = q;
         t->nlev++;
@@ -629,18 +630,18 @@ static void set_levels(embz_tail_t t, const arb_t goal, slong prec)
 }
 
 /* With the remainder integrals known, t->rem (level 0) becomes the bound for every level:
- * rem_0 + max_j rem_j. */
+ * level j's base holds the sum up to X_j through levels 0 .. j-1, so its error is
+ * rem_0 + ... + rem_j; t->rem is the sum over all levels. */
 static void finish_levels(embz_tail_t t, mag_srcptr integral)
 {
-    mag_t c, r, worst;
-    mag_init(c); mag_init(r); mag_init(worst);
+    mag_t c, r;
+    mag_init(c); mag_init(r);
     for (slong j = 1; j < t->nlev; j++) {
         arb_get_mag(c, t->bern + t->lev_p[j] - 1);
         mag_mul(r, c, integral + j);
-        if (mag_cmp(r, worst) > 0) mag_set(worst, r);
+        mag_add(t->rem, t->rem, r);
     }
-    mag_add(t->rem, t->rem, worst);
-    mag_clear(c); mag_clear(r); mag_clear(worst);
+    mag_clear(c); mag_clear(r);
 }
 
 /* Is f(e^u) certainly below 2^-(prec+40) f(M) (f(M) = g0)? A cheap first test before
