@@ -132,7 +132,9 @@ static void emit_table(embz_buf_t *b, const row_t *r, const embz_error_result_t 
     char *hi = embz_arb_hi_string(res->error, TABLE_DIGITS);
     embz_buf_printf(b, "%-10s [%s, %s]\n", "enclosure", lo, hi);
     free(lo); free(hi);
-    embz_buf_printf(b, "%-10s %s   (Ky Fan index of the largest proven value)\n", "argmax k", ks);
+    if (fmpz_sgn(res->argk) > 0)   /* (none for a target vector searched by thresholds) */
+        embz_buf_printf(b, "%-10s %s   (Ky Fan index of the largest proven value)\n",
+                        "argmax k", ks);
     free(ns);
     free(ks);
     if (r->have_bounds) {

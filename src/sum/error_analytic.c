@@ -1952,8 +1952,20 @@ static int vector_target_bounds(embz_error_result_t res, embz_analytic_t an, con
             }
             arf_clear(a); arf_clear(b);
         }
-        arb_set_interval_arf(res->error, lo, hi, an->prec);
-        res->estimate = arf_get_d(arb_midref(res->error), ARF_RND_NEAR);
+        if (arf_is_zero(lo) && arf_sgn(hi) > 0) {
+            /* [0, hi] with hi rounded up to 30 bits is exactly the ball hi/2 +- hi/2, so the
+             * lower end stays 0 (E >= 0; arb_set_interval_arf would round the radius up) */
+            fmpz_t man, ex;
+            fmpz_init(man); fmpz_init(ex);
+            arf_set_round(hi, hi, MAG_BITS - 1, ARF_RND_UP);
+            arf_get_fmpz_2exp(man, ex, hi);
+            arf_mul_2exp_si(arb_midref(res->error), hi, -1);
+            mag_set_ui_2exp_si(arb_radref(res->error), fmpz_get_ui(man), fmpz_get_si(ex) - 1);
+            fmpz_clear(man); fmpz_clear(ex);
+        } else {
+            arb_set_interval_arf(res->error, lo, hi, an->prec);
+        }
+        res->estimate = NAN;   /* the middle of a bracket is no estimate of E(q) */
         /* decision mode: the side of the threshold from the final enclosure of E(q) (the
          * flag left by the bracket's runs is about other targets) */
         res->decided = 0;
@@ -2195,7 +2207,7 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             arf_clear(lo); arf_clear(hi);
         } else {
             embz_err_set(err, st, vector && st == EMBZ_ERR_PREC
-                         ? "weights near a threshold cannot be told apart at this precision"
+                         ? "weights tie with a threshold at this precision"
                          : "the analytic engine could not certify the maximum");
         }
         arb_clear(h);
