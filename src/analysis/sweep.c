@@ -215,32 +215,41 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
     slong done = 0, domain_at = -1;
     char prep_reason[200] = "";
     char domain_why[200] = "";
+    /* one engine per thread; the first is prepared up front, which also decides whether the
+     * analytic engine applies at all */
+    embz_analytic_struct *eng = flint_malloc((size_t) nthreads * sizeof(embz_analytic_struct));
+    char *used = flint_calloc((size_t) nthreads, 1);
+    for (int i = 0; i < nthreads; i++) embz_analytic_init(eng + i, f, prec);
     if (analytic_ok) {
-        /* one preparation up front decides whether the analytic engine applies at all */
-        embz_analytic_t an;
         embz_err_t e2;
-        embz_analytic_init(an, f, prec);
         embz_err_clear(&e2);
-        int ps = embz_analytic_prepare(an, s->pts[len - 1].n, &e2);
-        embz_analytic_clear(an);
+        int ps = embz_analytic_prepare(eng, s->pts[len - 1].n, &e2);
         if (ps != EMBZ_OK) {
             analytic_ok = 0;
             snprintf(prep_reason, sizeof(prep_reason), "%.190s", e2.text);
-            if (ps == EMBZ_ERR_DOMAIN) return embz_err_set(err, ps, "%s", e2.text);
+            if (ps == EMBZ_ERR_DOMAIN) {
+                for (int i = 0; i < nthreads; i++) embz_analytic_clear(eng + i);
+                flint_free(eng);
+                flint_free(used);
+                return embz_err_set(err, ps, "%s", e2.text);
+            }
         }
     }
 #ifdef _OPENMP
 #pragma omp parallel num_threads(nthreads)
 #endif
     {
-        embz_analytic_t an;
+        int tid = 0;
+#ifdef _OPENMP
+        tid = omp_get_thread_num();
+#endif
+        embz_analytic_struct *an = eng + tid;
         embz_error_result_t r;
         embz_err_t e2;
-        embz_analytic_init(an, f, prec);
         embz_error_result_init(r);
-        if (analytic_ok) {
+        if (analytic_ok && tid > 0) {
             embz_err_clear(&e2);
-            embz_analytic_prepare(an, s->pts[len - 1].n, &e2);   /* succeeded above */
+            embz_analytic_prepare(an, s->pts[len - 1].n, &e2);   /* succeeded for eng[0] */
         }
 #ifdef _OPENMP
 #pragma omp for schedule(dynamic, 1)
@@ -278,8 +287,13 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
             }
         }
         embz_error_result_clear(r);
-        embz_analytic_clear(an);
+        embz_analytic_clear(an);   /* in the thread that used it (its FLINT caches) */
+        used[tid] = 1;
     }
+    for (int i = 0; i < nthreads; i++)       /* a team may come out smaller than asked */
+        if (!used[i]) embz_analytic_clear(eng + i);
+    flint_free(eng);
+    flint_free(used);
     if (fail_domain) {
         /* the weight itself is invalid: no point in going on */
         char *ns = embz_fmpz_string(s->pts[domain_at].n, 30);

@@ -1596,25 +1596,37 @@ out:
  * bounds. Below V_lo = q_m w_min, F = n V (m - 1) / W increases; above the largest weight
  * F = 0. The search runs best first in ln V over [V_lo, V_hi]. */
 
+/* *k += the number of the len values above V; EMBZ_ERR_PREC when one cannot be compared */
+static int count_above(slong *k, arb_srcptr v, slong len, const arb_t V)
+{
+    for (slong i = 0; i < len; i++) {
+        if (arb_gt(v + i, V)) (*k)++;
+        else if (!arb_le(v + i, V)) return EMBZ_ERR_PREC;
+    }
+    return EMBZ_OK;
+}
+
+/* V moved by 2^-40 of itself (dir > 0: up, else down), as an exact midpoint */
+static void nudge(arb_t V, int dir, slong prec)
+{
+    arb_t e;
+    arb_init(e);
+    arb_mul_2exp_si(e, V, -40);
+    if (dir > 0) arb_add(V, V, e, prec);
+    else arb_sub(V, V, e, prec);
+    arb_set_arf(V, arb_midref(V));
+    arb_clear(e);
+}
+
 /* W Phi(V): EMBZ_ERR_PREC when V cannot be told apart from some weight */
 static int phi_w(arb_t res, actx *c, const arb_t V, slong prec)
 {
     fmpz_t N, cnt;
     fmpz_init(N); fmpz_init(cnt);
-    int st = EMBZ_OK;
     slong k = 0;
-    for (slong i = 0; i < c->a && st == EMBZ_OK; i++) {
-        if (arb_gt(c->A + i, V)) k++;
-        else if (!arb_le(c->A + i, V)) st = EMBZ_ERR_PREC;
-    }
-    for (slong i = 0; i < c->nins && st == EMBZ_OK; i++) {
-        if (arb_gt(c->ins_val + i, V)) k++;
-        else if (!arb_le(c->ins_val + i, V)) st = EMBZ_ERR_PREC;
-    }
-    for (slong i = 0; i < c->b && st == EMBZ_OK; i++) {
-        if (arb_gt(c->B + i, V)) k++;
-        else if (!arb_le(c->B + i, V)) st = EMBZ_ERR_PREC;
-    }
+    int st = count_above(&k, c->A, c->a, V);
+    if (st == EMBZ_OK) st = count_above(&k, c->ins_val, c->nins, V);
+    if (st == EMBZ_OK) st = count_above(&k, c->B, c->b, V);
     if (st == EMBZ_OK) st = embz_tail_count(cnt, c->t, V, c->n, prec);
     if (st == EMBZ_OK) {
         fmpz_add_si(N, cnt, k);
@@ -1656,17 +1668,7 @@ static int threshold_point(arb_t res, actx *c, const embz_target_t q, arb_t V, i
     int st = EMBZ_ERR_PREC;
     for (int tries = 0; tries < 8 && st == EMBZ_ERR_PREC; tries++) {
         st = threshold_f(res, c, q, V, V, prec);
-        if (st == EMBZ_ERR_PREC) {
-            arb_t e;
-            arb_init(e);
-            arb_one(e);
-            arb_mul_2exp_si(e, e, -40);
-            arb_mul(e, e, V, prec);
-            if (dir >= 0) arb_add(V, V, e, prec);
-            else arb_sub(V, V, e, prec);
-            arb_set_arf(V, arb_midref(V));
-            arb_clear(e);
-        }
+        if (st == EMBZ_ERR_PREC) nudge(V, dir >= 0 ? 1 : -1, prec);
     }
     return st;
 }
@@ -1775,15 +1777,8 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
                 if (s2 == EMBZ_OK) ok = 1;
                 else if (s2 != EMBZ_ERR_PREC) { st = s2; break; }
                 else {
-                    arb_t e;
-                    arb_init(e);
-                    arb_mul_2exp_si(e, A, -40);
-                    arb_sub(A, A, e, prec);
-                    arb_mul_2exp_si(e, B, -40);
-                    arb_add(B, B, e, prec);
-                    arb_set_arf(A, arb_midref(A));
-                    arb_set_arf(B, arb_midref(B));
-                    arb_clear(e);
+                    nudge(A, -1, prec);
+                    nudge(B, 1, prec);
                 }
             }
             evals++;

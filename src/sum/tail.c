@@ -476,14 +476,13 @@ static int certify_sign(embz_tail_t t, const arf_t ua, const arf_t ub, int *dir,
 /* does the range [X_j, Z_j] of level j meet the x-range of a chunk? */
 static int level_meets(const embz_tail_struct *t, slong j, const arb_t xa, const arb_t xb)
 {
+    if (!arb_is_finite(xa) || !arb_is_finite(xb)) return 1;   /* (cannot tell: count it) */
     arf_t lo, hi;
     arf_init(lo); arf_init(hi);
     arb_get_lbound_arf(lo, xa, MAG_BITS);
     arb_get_ubound_arf(hi, xb, MAG_BITS);
-    int meets = arb_is_finite(xa) && arb_is_finite(xb)
-                && (j == 0 || arf_cmp_2exp_si(hi, t->lev_bits[j]) > 0)
+    int meets = (j == 0 || arf_cmp_2exp_si(hi, t->lev_bits[j]) > 0)
                 && (t->lev_top[j] < 0 || arf_cmp_2exp_si(lo, t->lev_top[j]) < 0);
-    if (!arb_is_finite(xa) || !arb_is_finite(xb)) meets = 1;
     arf_clear(lo); arf_clear(hi);
     return meets;
 }
