@@ -1126,6 +1126,82 @@ START_TEST(test_series_random)
 }
 END_TEST
 
+/* ------------------------------------------------------------------ log substitution */
+
+/* w(e^u) = core(u) e^(rate u) = phi(u) e^-u: both substitutions against the plain value at
+ * points u, for random expressions (an identity of the substitution itself, no reference
+ * needed), and the split of three known weights */
+START_TEST(test_log_split)
+{
+    flint_rand_t st;
+    embz_expr_t e, core, rate, phi;
+    ttree_t *t = malloc(sizeof(ttree_t));
+    arb_t u, x, n, a, b, r;
+    int checked = 0;
+    flint_randinit(st);
+    embz_expr_init(e); embz_expr_init(core); embz_expr_init(rate); embz_expr_init(phi);
+    arb_init(u); arb_init(x); arb_init(n); arb_init(a); arb_init(b); arb_init(r);
+    for (int iter = 0; iter < 1500; iter++) {
+        int root;
+        char *text = render_random(t, &root, st, 1 + (int) n_randint(st, 4), 2);
+        parse_ok(e, text);
+        ck_assert_int_eq(embz_expr_log_split(core, rate, e), EMBZ_OK);
+        ck_assert_int_eq(embz_expr_log_substitute(phi, e), EMBZ_OK);
+        ck_assert_msg(!(embz_expr_uses(rate) & EMBZ_USES_I), "'%s': rate uses i", text);
+        arb_set_si(n, 1 + (slong) n_randint(st, 20));
+        for (int pt = 0; pt < 3; pt++) {
+            /* u = k/3 + 1/7 for k in [0, 60) */
+            arb_set_si(u, (slong) n_randint(st, 60));
+            arb_div_ui(u, u, 3, 128);
+            arb_set_ui(a, 1);
+            arb_div_ui(a, a, 7, 128);
+            arb_add(u, u, a, 128);
+            arb_exp(x, u, 128);
+            if (embz_expr_eval_arb(a, e, x, n, 128) != EMBZ_OK) continue;
+            if (embz_expr_eval_arb(r, rate, u, n, 128) == EMBZ_OK
+                && embz_expr_eval_arb(b, core, u, n, 128) == EMBZ_OK) {
+                arb_mul(r, r, u, 128);
+                arb_exp(r, r, 128);
+                arb_mul(b, b, r, 128);
+                ck_assert_msg(arb_overlaps(a, b), "'%s': core e^(rate u) at u = %s", text,
+                              arb_get_str(u, 10, 0));
+                checked++;
+            }
+            if (embz_expr_eval_arb(b, phi, u, n, 128) == EMBZ_OK) {
+                arb_mul(a, a, x, 128);
+                ck_assert_msg(arb_overlaps(a, b), "'%s': phi at u = %s", text,
+                              arb_get_str(u, 10, 0));
+            }
+        }
+        free(text);
+        tclear(t);
+    }
+    ck_assert_int_gt(checked, 1000);
+    /* known splits */
+    {
+        const char *w[] = { "1/(i*log(i+1)^0.5)", "i^(-1 + 1/log(n+1))", "3*i^2*exp(-i)" };
+        const char *rref[] = { "-1", "-1 + 1/log(n+1)", "2" };
+        for (int k = 0; k < 3; k++) {
+            parse_ok(e, w[k]);
+            ck_assert_int_eq(embz_expr_log_split(core, rate, e), EMBZ_OK);
+            embz_expr_t ref;
+            embz_expr_init(ref);
+            parse_ok(ref, rref[k]);
+            arb_set_ui(n, 1000);
+            arb_one(u);
+            ck_assert_int_eq(embz_expr_eval_arb(a, rate, u, n, 128), EMBZ_OK);
+            ck_assert_int_eq(embz_expr_eval_arb(b, ref, u, n, 128), EMBZ_OK);
+            ck_assert_msg(arb_overlaps(a, b), "%s: rate", w[k]);
+            embz_expr_clear(ref);
+        }
+    }
+    arb_clear(u); arb_clear(x); arb_clear(n); arb_clear(a); arb_clear(b); arb_clear(r);
+    embz_expr_clear(e); embz_expr_clear(core); embz_expr_clear(rate); embz_expr_clear(phi);
+    free(t);
+    flint_randclear(st);
+}
+END_TEST
+
 /* ------------------------------------------------------------------ acb */
 
 START_TEST(test_acb)
@@ -1219,6 +1295,7 @@ static Suite *expr_suite(void)
     tcase_add_test(tc, test_series_linear_forms);
     tcase_add_test(tc, test_series_random);
     tcase_add_test(tc, test_acb);
+    tcase_add_test(tc, test_log_split);
     suite_add_tcase(s, tc);
     return s;
 }

@@ -49,8 +49,9 @@ check "no temporary file in read-only dir" no_temp "$T/ro"
 check "no temporary file" no_temp "$T"
 
 # an interrupted run (SIGTERM: background jobs of a script ignore SIGINT): the old file stays
-echo "old" > "$T/keep.svg"
-"$EMBZ" plot inverse iterlog --from 10 --to 10^2000 --points 40 -o "$T/keep.svg" 2>/dev/null &
+# an interrupted run (SIGTERM: background jobs of a script ignore SIGINT): the old file stays;
+# the job takes about 100 s, far longer than the 1 s wait
+"$EMBZ" plot inverse iterlog logpower tilted --from 10 --to 10^5000 --points 400 --prec 256 -o "$T/keep.svg" 2>/dev/null &
 pid=$!
 sleep 1
 kill -TERM $pid 2>/dev/null

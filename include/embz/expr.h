@@ -67,6 +67,12 @@ void embz_expr_bind(embz_expr_t e, const fmpq *values);
  * Returns EMBZ_OK, or EMBZ_ERR_INPUT for an empty expression. */
 int embz_expr_log_substitute(embz_expr_t out, const embz_expr_t w);
 
+/* The same substitution without the Jacobian, split as w(e^u) = core(u) exp(rate u): core is an
+ * expression in which i stands for u, rate an expression free of i (it may use n), e.g.
+ * w = 1/(i log(i+1)^b) gives core = (log(1 + e^-u) + u)^-b and rate = -1. Parameters must be
+ * bound. Returns EMBZ_OK, or EMBZ_ERR_INPUT for an empty expression. */
+int embz_expr_log_split(embz_expr_t core, embz_expr_t rate, const embz_expr_t w);
+
 /* Wrap: e <- e^2 (used for amplitude families). */
 void embz_expr_square(embz_expr_t e);
 

@@ -53,6 +53,9 @@ typedef struct {
     arb_ptr icum;              /* icum[k] = integral of f from M to M e^(k du) */
     slong prec;
     embz_expr_t phi;           /* phi(u) = w(e^u) e^u, simplified (embz_expr_log_substitute) */
+    embz_expr_t core;          /* w(e^u) = core(u) e^(rate u) (embz_expr_log_split), used to */
+    arb_t rate;                /* certify wide u-chunks; usplit = 0 when rate has no finite */
+    int usplit;                /* enclosure */
     long evals;                /* statistics: series evaluations */
     long integrals;            /* statistics: integrator calls */
     long taylor_ok, taylor_fail;  /* short integrals by Taylor expansion: successes, failures */

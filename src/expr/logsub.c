@@ -298,3 +298,21 @@ int embz_expr_log_substitute(embz_expr_t out, const embz_expr_t w)
     _embz_expr_prune(out);    /* parts built and then folded away are not evaluated */
     return EMBZ_OK;
 }
+
+int embz_expr_log_split(embz_expr_t core, embz_expr_t rate, const embz_expr_t w)
+{
+    embz_expr_clear(core);
+    embz_expr_clear(rate);
+    if (w->root < 0) return EMBZ_ERR_INPUT;
+    part_t r;
+    fmpq_init(r.alpha);
+    r.anode = -1;
+    transform(&r, core, w, w->root);
+    embz_expr_set(rate, core);
+    core->root = core_node(core, r.core);
+    rate->root = rate_node(rate, &r);
+    fmpq_clear(r.alpha);
+    _embz_expr_prune(core);
+    _embz_expr_prune(rate);
+    return EMBZ_OK;
+}

@@ -1185,18 +1185,20 @@ static int bb_consider(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmp
     return st;
 }
 
-/* bb_consider on k pieces of [lo, hi] of (nearly) equal ratio: cuts at floor(lo (hi/lo)^(j/k)) */
+/* bb_consider on k pieces of [lo, hi] of (nearly) equal ratio: cuts near lo (hi/lo)^(j/k).
+ * Any cuts give a valid partition (empty pieces are skipped, the last one ends at hi), so the
+ * cuts are computed with just enough bits to resolve hi - lo, not with all bits of hi (an
+ * exponential at thousands of bits cost more than the bounds at n = 10^1000). */
 static int consider_pieces(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const fmpz_t hi,
                            slong k, slong prec)
 {
-    slong wp = (slong) fmpz_bits(hi) + 32;
     fmpz_t a, b;
-    arb_t la, lr, x;
-    arf_t mid;
-    fmpz_init_set(a, lo);
     fmpz_init(b);
+    fmpz_sub(b, hi, lo);
+    slong wp = (slong) fmpz_bits(hi) - (slong) fmpz_bits(b) + 64;
+    arb_t la, lr, x;
+    fmpz_init_set(a, lo);
     arb_init(la); arb_init(lr); arb_init(x);
-    arf_init(mid);
     arb_set_fmpz(la, lo);
     arb_log(la, la, wp);
     arb_set_fmpz(lr, hi);
@@ -1221,7 +1223,6 @@ static int consider_pieces(bb_heap *hp, actx *c, ulong r, const fmpz_t lo, const
     }
     fmpz_clear(a); fmpz_clear(b);
     arb_clear(la); arb_clear(lr); arb_clear(x);
-    arf_clear(mid);
     return st;
 }
 

@@ -487,6 +487,103 @@ static int level_meets(const embz_tail_struct *t, slong j, const arb_t xa, const
     return meets;
 }
 
+/* The u-chunk [ua, ub] certified as a whole through w(e^u) = core(u) e^(r u), u the variable:
+ * x^k f^(k)(x) = e^(r u) P_k(u) with P_k = (D + r)(D + r - 1) ... (D + r - k + 1) core,
+ * D = d/du (because x d/dx = D and D e^(r u) = e^(r u) (D + r)). core is slowly varying for the
+ * usual weights, so one enclosure of its derivatives over a wide ball of u fixes the sign of
+ * P_1 (the direction of f) and bounds |P_2q|, and the remainder integral over the chunk is
+ * at most sup |P_2q| * integral of e^((r - 2q + 1) u) du over [ua, ub] (x = e^u, dx = x du),
+ * which is exact in the exponential part. Mid-radius balls of x itself lose all sign when
+ * xb / xa is larger than about e^2; this works for chunks of any width. Nothing is changed
+ * unless the whole chunk is certified; returns EMBZ_OK then. */
+static int certify_chunk_u(embz_tail_t t, const arf_t ua, const arf_t ub, mag_ptr integral,
+                           int *dir, const mag_t allow, slong prec)
+{
+    arb_t U, xa, xb, x, c, e1, e2;
+    arb_init(U); arb_init(xa); arb_init(xb); arb_init(x); arb_init(c); arb_init(e1);
+    arb_init(e2);
+    chunk_ball(x, xa, xb, t, ua, ub, prec);
+    arb_set_interval_arf(U, ua, ub, prec);
+    slong qmax = 0;
+    for (slong j = 0; j < t->nlev; j++)
+        if (level_meets(t, j, xa, xb)) qmax = FLINT_MAX(qmax, t->lev_p[j]);
+    slong K = FLINT_MAX(2 * qmax, 1), len = K + 1;
+    arb_ptr d = _arb_vec_init(len), P = _arb_vec_init(len);
+    mag_ptr add = _mag_vec_init(t->nlev);
+    arb_ptr us = _arb_vec_init(len);
+    arb_set(us, U);
+    arb_one(us + 1);
+    int st = embz_expr_eval_series(d, t->core, us, t->n, len, prec);
+    t->evals++;
+    if (st == EMBZ_OK && !_arb_vec_is_finite(d, len)) st = EMBZ_ERR_DOMAIN;
+    if (st == EMBZ_OK) {
+        /* d[i] = core^(i)(U); then P[k] = P_k(U) by applying (D + r - m), m = 0 .. K-1 */
+        for (slong i = 1; i < len; i++) {
+            arb_fac_ui(c, (ulong) i, prec);
+            arb_mul(d + i, d + i, c, prec);
+        }
+        arb_set(P, d);
+        for (slong m = 0; m < K; m++) {
+            arb_sub_si(c, t->rate, m, prec);
+            for (slong i = 0; i + m + 1 < len; i++) {
+                arb_mul(e1, c, d + i, prec);
+                arb_add(d + i, d + i + 1, e1, prec);
+            }
+            arb_set(P + m + 1, d);
+        }
+        int s = sign_of(P + 1);
+        if (s == 2 || !_arb_vec_is_finite(P, len)) st = EMBZ_ERR_UNSUPPORTED;
+        for (slong j = 0; j < t->nlev && st == EMBZ_OK; j++) {
+            if (!level_meets(t, j, xa, xb)) continue;
+            slong q = t->lev_p[j];
+            /* c = r - 2q + 1; the integral of e^(c u) over [ua, ub] */
+            arb_sub_si(c, t->rate, 2 * q - 1, prec);
+            if (arb_contains_zero(c)) {
+                /* at most sup e^(cu) * (ub - ua) */
+                arb_mul(e1, c, U, prec);
+                arb_exp(e1, e1, prec);
+                arb_set_arf(e2, ub);
+                arb_sub_arf(e2, e2, ua, prec);
+                arb_mul(e1, e1, e2, prec);
+            } else {
+                arb_set_arf(e1, ub);
+                arb_mul(e1, e1, c, prec);
+                arb_exp(e1, e1, prec);
+                arb_set_arf(e2, ua);
+                arb_mul(e2, e2, c, prec);
+                arb_exp(e2, e2, prec);
+                arb_sub(e1, e1, e2, prec);
+                arb_div(e1, e1, c, prec);
+            }
+            mag_t m;
+            mag_init(m);
+            arb_get_mag(m, e1);
+            arb_get_mag(add + j, P + 2 * q);
+            mag_mul(add + j, add + j, m);
+            /* refused when this chunk's share of the remainder is not small (for weights
+             * whose core varies fast, such as e^(-x/n), these bounds are loose; the x-path
+             * then does better) */
+            arb_get_mag(m, t->bern + q - 1);
+            mag_mul(m, m, add + j);
+            if (!mag_is_finite(m) || mag_cmp(m, allow) > 0) st = EMBZ_ERR_UNSUPPORTED;
+            mag_clear(m);
+        }
+        if (st == EMBZ_OK) {
+            int dd = *dir;
+            st = merge_dir(&dd, s);
+            if (st == EMBZ_OK) {
+                *dir = dd;
+                for (slong j = 0; j < t->nlev; j++) mag_add(integral + j, integral + j, add + j);
+            }
+        }
+    }
+    _arb_vec_clear(d, len); _arb_vec_clear(P, len); _arb_vec_clear(us, len);
+    _mag_vec_clear(add, t->nlev);
+    arb_clear(U); arb_clear(xa); arb_clear(xb); arb_clear(x); arb_clear(c); arb_clear(e1);
+    arb_clear(e2);
+    return st;
+}
+
 static int certify_chunk(embz_tail_t t, const arf_t ua, const arf_t ub, mag_ptr integral,
                          int *deep,
                          int *dir, int depth, slong prec)
@@ -723,6 +820,20 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
     t->bern = _arb_vec_init(EMBZ_TAIL_MAX_ORDER);
     embz_expr_init(t->phi);
     embz_expr_log_substitute(t->phi, w);
+    embz_expr_init(t->core);
+    arb_init(t->rate);
+    {
+        embz_expr_t re;
+        arb_t one;
+        embz_expr_init(re);
+        arb_init(one);
+        arb_one(one);
+        t->usplit = embz_expr_log_split(t->core, re, w) == EMBZ_OK
+                    && embz_expr_eval_arb(t->rate, re, one, t->n, prec) == EMBZ_OK
+                    && arb_is_finite(t->rate);
+        embz_expr_clear(re);
+        arb_clear(one);
+    }
 
     int st;
     arb_t xM, term, goal, u;
@@ -786,8 +897,14 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
         arb_get_lbound_arf(ua, t->logM, prec);
         double width = 0.125;
         slong nextlev = 1;
-        arf_t uj;
-        arf_init(uj);
+        arf_t uj, ub0;
+        arf_init(uj); arf_init(ub0);
+        double uwidth = 0.125;
+        int ufail = 0;
+        mag_t uallow;                     /* remainder share allowed to one u-chunk */
+        mag_init(uallow);
+        arb_get_mag_lower(uallow, goal);
+        mag_mul_2exp_si(uallow, uallow, -prec - 12);
         st = EMBZ_OK;
         int cut = 0;
         double utry = 0.0;                /* a cut is considered again from u = utry on */
@@ -819,6 +936,24 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
                 arf_set(ub, uj);
                 restart = 1;
             }
+            /* the end of a u-path chunk: the next level start or the end */
+            if (nextlev < t->nlev) arf_set(ub0, uj);
+            else arf_set(ub0, uend);
+            /* first the whole chunk of width uwidth in u (any width); when that fails, a
+             * chunk of the x-path's width by enclosures of f's own derivatives */
+            if (t->usplit && ufail < 4) {
+                arf_set_d(uj, uwidth);
+                arf_add(uj, uj, ua, prec, ARF_RND_UP);
+                if (arf_cmp(uj, ub0) > 0) arf_set(uj, ub0);
+                if (certify_chunk_u(t, ua, uj, integral, &dir, uallow, prec) == EMBZ_OK) {
+                    arf_set(ua, uj);
+                    uwidth *= 2;
+                    ufail = 0;
+                    continue;
+                }
+                ufail++;
+                uwidth = FLINT_MAX(uwidth / 4, 0.125);
+            }
             int deep = 0;
             st = certify_chunk(t, ua, ub, integral, &deep, &dir, 0, prec);
             if (st != EMBZ_OK) break;
@@ -830,7 +965,8 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
             else if (deep > 0) width = FLINT_MAX(ldexp(width, -deep), 0.125);
             else width = FLINT_MIN(2 * width, 16.0);
         }
-        arf_clear(uj);
+        arf_clear(uj); arf_clear(ub0);
+        mag_clear(uallow);
         if (st != EMBZ_OK && st != EMBZ_ERR_DOMAIN && !cut && try_cut(t, ua, uend, g, prec))
             st = EMBZ_OK;
         if (st != EMBZ_OK) {
@@ -871,6 +1007,8 @@ int embz_tail_phi_series(arb_ptr res, embz_tail_t t, const arb_t v, slong len, s
 void embz_tail_clear(embz_tail_t t)
 {
     embz_expr_clear(t->phi);
+    embz_expr_clear(t->core);
+    arb_clear(t->rate);
     arb_clear(t->n);
     fmpz_clear(t->end);
     _arb_vec_clear(t->bern, EMBZ_TAIL_MAX_ORDER);
