@@ -48,9 +48,9 @@ if [ "$(id -u)" != 0 ]; then check "read-only dir exit 1" test $st -eq 1; fi
 check "no temporary file in read-only dir" no_temp "$T/ro"
 check "no temporary file" no_temp "$T"
 
-# an interrupted run (SIGTERM: background jobs of a script ignore SIGINT): the old file stays
 # an interrupted run (SIGTERM: background jobs of a script ignore SIGINT): the old file stays;
 # the job takes about 100 s, far longer than the 1 s wait
+echo "old" > "$T/keep.svg"
 "$EMBZ" plot inverse iterlog logpower tilted --from 10 --to 10^5000 --points 400 --prec 256 -o "$T/keep.svg" 2>/dev/null &
 pid=$!
 sleep 1
