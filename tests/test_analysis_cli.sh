@@ -41,6 +41,20 @@ assert len(laws["log"]["residuals"]) == d["fits"]["points_used"]
 assert abs(laws["log"]["g"]["value"] - 1) < 0.05, laws["log"]["g"]
 assert d["fits"]["best"] in laws
 '
+# the same enclosures on one thread and on two (each thread has its own engine and cache of
+# integrals; every cached value is computed the same way whatever the order of the sizes)
+OMP_NUM_THREADS=1 run sweep logpower --to 10^300 --points 9 --prec 128 --json
+cp "$TMP/out" "$TMP/one.json"
+export ONE_THREAD="$TMP/one.json"
+OMP_NUM_THREADS=2 run sweep logpower --to 10^300 --points 9 --prec 128 --json
+expect_rc 0 "sweep on two threads"
+pycheck "sweep: the same enclosures on 1 and 2 threads" '
+import json, os, sys
+a = json.load(open(os.environ["ONE_THREAD"]))["points"]; b = json.load(sys.stdin)["points"]
+assert [(p["error_lo"], p["error_hi"]) for p in a] == [(p["error_lo"], p["error_hi"]) for p in b]
+assert sum(p["method"] == "analytic" for p in b) >= 7
+'
+
 run sweep power --set a=-0.5 --to 10^12 --points 5
 expect_rc 0 "sweep table"
 expect_out "fitted laws (estimates, not certified" "sweep table marks fits as estimates"

@@ -49,8 +49,10 @@ typedef struct {
     arb_struct lev_base[EMBZ_TAIL_MAX_LEVELS];
     arb_t logM;                /* ln M */
     double du;                 /* spacing of the integral cache nodes in u = ln x */
-    slong nnodes, nalloc;
-    arb_ptr icum;              /* icum[k] = integral of f from M to M e^(k du) */
+    slong nalloc;
+    arb_ptr icum;              /* icum[k] = integral of f from M to the node k (u = ln M +
+                                  node offset), computed on demand */
+    char *ihave;               /* ihave[k]: icum[k] is there */
     slong prec;
     embz_expr_t phi;           /* phi(u) = w(e^u) e^u, simplified (embz_expr_log_substitute) */
     embz_expr_t core;          /* w(e^u) = core(u) e^(rate u) (embz_expr_log_split), used to */

@@ -74,8 +74,10 @@ static int phi_acb(acb_ptr out, const acb_t u, void *param, slong order, slong p
  * precision, which also picks K <= TAYLOR_INT_MAX). Cheaper than the adaptive integrator
  * when phi is smooth on the scale of h (exact for a polynomial phi). Returns 0 when no such
  * K brings R below 2^-(prec+4) of the value; after repeated failures (phi not smooth enough
- * on these scales) the tail stops trying. */
-#define TAYLOR_INT_MAX 32
+ * on these scales) the tail stops trying. At most 16 terms: a series costs about the square
+ * of its length, and where 16 terms are not enough the adaptive integrator is cheaper (for
+ * (u + log1p(e^-u))^-1/2 at u ~ 30: 1.8M instructions with up to 32 terms, 1M adaptive). */
+#define TAYLOR_INT_MAX 16
 static int integrate_taylor(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub,
                             slong prec)
 {
@@ -132,7 +134,7 @@ static int integrate_taylor(arb_t res, embz_tail_t t, const arb_t ua, const arb_
         }
     }
     if (ok) t->taylor_ok++;
-    else t->taylor_fail++;
+    else if (mag_cmp_2exp_si(hm, 0) <= 0) t->taylor_fail++;   /* (long pieces: not tried) */
     _arb_vec_clear(c, Kmax + 1);
     arb_clear(m); arb_clear(h); arb_clear(b); arb_clear(hp); arb_clear(acc); arb_clear(term);
     mag_clear(r); mag_clear(lim); mag_clear(hm);
@@ -254,32 +256,42 @@ static void node_u(arb_t u, embz_tail_struct *t, slong k, slong prec)
     arb_clear(off);
 }
 
-/* make sure icum[0..k] exist */
-static int extend_cache(embz_tail_t t, slong k, slong prec)
+/* make icum[k] exist: icum[k] = icum[p] + integral from node p to node k with p = k with its
+ * lowest set bit cleared, so a node costs at most popcount(k) integrals (the first query at
+ * n = 10^1000 needs a handful, not one per node below it), and every icum[k] is the same ball
+ * whatever the order of the queries (a sweep on any number of threads gives the same
+ * enclosures). */
+static int node_value(embz_tail_t t, slong k, slong prec)
 {
-    if (k < t->nnodes) return EMBZ_OK;
     if (k + 1 > t->nalloc) {
         slong na = FLINT_MAX(k + 1, 2 * t->nalloc);
         arb_ptr v = _arb_vec_init(na);
-        _arb_vec_swap(v, t->icum, t->nnodes);
+        char *h = flint_calloc((size_t) na, 1);
+        _arb_vec_swap(v, t->icum, t->nalloc);
+        memcpy(h, t->ihave, (size_t) t->nalloc);
         _arb_vec_clear(t->icum, t->nalloc);
+        flint_free(t->ihave);
         t->icum = v;
+        t->ihave = h;
         t->nalloc = na;
     }
+    if (t->ihave[k]) return EMBZ_OK;
+    if (k == 0) {
+        arb_zero(t->icum);
+        t->ihave[0] = 1;
+        return EMBZ_OK;
+    }
+    slong p = k & (k - 1);
+    int st = node_value(t, p, prec);
+    if (st != EMBZ_OK) return st;
     arb_t ua, ub, piece;
     arb_init(ua); arb_init(ub); arb_init(piece);
-    int st = EMBZ_OK;
-    for (slong j = t->nnodes; j <= k; j++) {
-        if (j == 0) {
-            arb_zero(t->icum);
-        } else {
-            node_u(ua, t, j - 1, prec);
-            node_u(ub, t, j, prec);
-            st = integrate_u(piece, t, ua, ub, prec);
-            if (st != EMBZ_OK) break;
-            arb_add(t->icum + j, t->icum + j - 1, piece, prec);
-        }
-        t->nnodes = j + 1;
+    node_u(ua, t, p, prec);
+    node_u(ub, t, k, prec);
+    st = integrate_u(piece, t, ua, ub, prec);
+    if (st == EMBZ_OK) {
+        arb_add(t->icum + k, t->icum + p, piece, prec);
+        t->ihave[k] = 1;
     }
     arb_clear(ua); arb_clear(ub); arb_clear(piece);
     return st;
@@ -292,7 +304,7 @@ int embz_tail_integral(arb_t res, embz_tail_t t, const arb_t x, slong prec)
     arb_log(u, x, prec);
     double rel = arf_get_d(arb_midref(u), ARF_RND_DOWN) - arf_get_d(arb_midref(t->logM), ARF_RND_DOWN);
     slong k = node_below(t, rel);
-    int st = extend_cache(t, k, prec);
+    int st = node_value(t, k, prec);
     if (st == EMBZ_OK) {
         node_u(uk, t, k, prec);
         if (arb_equal(uk, u)) {
@@ -816,6 +828,7 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
     t->du = 1.0;
     t->nalloc = 16;
     t->icum = _arb_vec_init(t->nalloc);
+    t->ihave = flint_calloc((size_t) t->nalloc, 1);
     t->prec = prec;
     t->bern = _arb_vec_init(EMBZ_TAIL_MAX_ORDER);
     embz_expr_init(t->phi);
@@ -1018,6 +1031,7 @@ void embz_tail_clear(embz_tail_t t)
     mag_clear(t->neglected);
     arb_clear(t->logM);
     _arb_vec_clear(t->icum, t->nalloc);
+    flint_free(t->ihave);
 }
 
 int embz_sum_explicit(arb_t res, const embz_expr_t w, const arb_t n, slong a, slong b,
