@@ -296,6 +296,59 @@ static void finish_coeff(arb_t co, const arb_t v, ulong r, const actx *c, slong 
     arb_div(co, co, c->W, prec);
 }
 
+/* Sharper bounds of the Taylor model below on P pieces of [-w, w] (Horner on each piece):
+ * the absolute-value bound c0 + sum |c_j| w^j overstates a model with alternating terms
+ * (such as e^-sigma, the shape of h near a maximum approached from below) by the whole
+ * variation over the interval, the pieces by about |p'| w / P. The derivative model is
+ * sum_j j c_j sigma^(j-1), j <= J (co[J], an enclosure of h^(J)/J! over the interval, also
+ * covers the derivative's remainder by Taylor's theorem for h'). Lowers U; sets *mono when
+ * the derivative keeps its sign on every piece. */
+static void taylor_bound_pieces(arf_t U, int *mono, arb_srcptr co, slong J, const arb_t w,
+                                const mag_struct *slack, const arb_struct *dslack, slong prec)
+{
+    slong P = (slong) ceil(8.0 * arf_get_d(arb_midref(w), ARF_RND_UP));
+    P = FLINT_MAX(4, FLINT_MIN(P, 32));
+    arb_t sg, acc, dacc, ds, lo, hi;
+    arf_t Ub, u;
+    arb_init(sg); arb_init(acc); arb_init(dacc); arb_init(ds); arb_init(lo); arb_init(hi);
+    arf_init(Ub); arf_init(u);
+    arf_neg_inf(Ub);
+    if (dslack != NULL) arb_abs(ds, dslack);
+    int pos = 1, neg = 1, ok = 1;
+    for (slong k = 0; k < P && ok; k++) {
+        /* sigma in [-w + 2wk/P, -w + 2w(k+1)/P] */
+        arb_mul_si(lo, w, 2 * k - P, prec);
+        arb_div_si(lo, lo, P, prec);
+        arb_mul_si(hi, w, 2 * k + 2 - P, prec);
+        arb_div_si(hi, hi, P, prec);
+        arb_union(sg, lo, hi, prec);
+        arb_set(acc, co + J);
+        arb_mul_ui(dacc, co + J, (ulong) J, prec);
+        for (slong j = J - 1; j >= 0; j--) {
+            arb_mul(acc, acc, sg, prec);
+            arb_add(acc, acc, co + j, prec);
+            if (j >= 1) {
+                arb_mul(dacc, dacc, sg, prec);
+                arb_addmul_ui(dacc, co + j, (ulong) j, prec);
+            }
+        }
+        if (slack != NULL) arb_add_error_mag(acc, slack);
+        if (dslack != NULL) arb_add_error(dacc, ds);
+        if (!arb_is_finite(acc)) { ok = 0; break; }
+        arb_get_ubound_arf(u, acc, prec);
+        if (arf_cmp(u, Ub) > 0) arf_set(Ub, u);
+        if (!arb_is_positive(dacc)) pos = 0;
+        if (!arb_is_negative(dacc)) neg = 0;
+    }
+    if (ok) {
+        if (arf_cmp(Ub, U) < 0) arf_set(U, Ub);
+        if (pos) *mono = 1;
+        else if (neg) *mono = -1;
+    }
+    arb_clear(sg); arb_clear(acc); arb_clear(dacc); arb_clear(ds); arb_clear(lo); arb_clear(hi);
+    arf_clear(Ub); arf_clear(u);
+}
+
 /* The Taylor model sum_{j <= J} co[j] sigma^j for |sigma| <= w (co[J] already an enclosure
  * over the whole interval), off by at most slack (may be NULL): sets U to an upper bound,
  * c0 + sum_j |c_j| w^j + slack, and *mono to +1 / -1 when the derivative,
@@ -333,6 +386,7 @@ static int taylor_bound(arf_t U, int *mono, arb_srcptr co, slong J, const arb_t 
     if (arb_is_positive(t)) *mono = 1;
     arb_add(t, co + 1, dacc, prec);
     if (arb_is_negative(t)) *mono = -1;
+    if (*mono == 0 && st == EMBZ_OK) taylor_bound_pieces(U, mono, co, J, w, slack, dslack, prec);
     if (*mono != 0 && ends != NULL && st == EMBZ_OK) {
         /* the model at the maximising end (Horner; co[J] covers the Lagrange remainder) */
         arb_srcptr e = ends + (*mono > 0 ? 1 : 0);
@@ -453,6 +507,11 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
 #define VMODEL_FROM_BITS 10    /* v-models for s >= 2^10 */
 #define VMODEL_LEN 10          /* their order */
 #define VMODEL_SHORT 12        /* most terms kept of the short integral S */
+#define VMODEL_FULL_EXP 1      /* full v-models up to half-width 2^1 when the parts in x are
+                                  expanded through the split w(e^u) = core e^(ru) (else 1/2) */
+#define VMODEL_SPLIT_PIECE 3.5 /* and unsettled stretches cut into pieces this long in v
+                                  (measured: 3.5 costs least for the inverse family at 10^30,
+                                  10^100 and 10^1000; 0.7 without the split) */
 
 /* res(tau) = P(A (e^tau - 1)) for P = sum_l p_l y^l (len terms; p is overwritten), using
  * (e^tau - 1)^l = l! sum_m S(m, l) tau^m / m!   (S: Stirling numbers of the second kind):
@@ -481,6 +540,92 @@ static void compose_exp(arb_ptr res, arb_ptr p, slong len, const arb_t A, slong 
     arb_clear(u);
 }
 
+/* The same series through w(e^u) = core(u) e^(r u) (embz_expr_log_split): with
+ * x = A e^(v + tau) + B = e^Y, Y = ln A + v + tau + ln(1 + (B/A) e^(-v - tau)),
+ *     f^(k)(x) = e^((r - k) Y) P_k(Y),   P_k = (D + r)(D + r - 1) ... (D + r - k + 1) core,
+ * D = d/dY, as series in sigma = Y - Y(0), composed with sigma(tau) at the end. Over a wide
+ * ball of v this keeps the structure of f (e^-v for f = 1/x is one exponential), where the
+ * Taylor expansion in x composed with x(tau) multiplies wide balls of x and loses all
+ * accuracy in the high coefficients (1e-3 instead of 1e-11 for the remainder coefficient of
+ * the inverse family at s ~ 2^20). q < 0: f(x) itself, else em_q(x). Returns EMBZ_ERR_DOMAIN
+ * when the core has no finite series there (the caller then expands in x). */
+static int em_split(arb_ptr res, actx *c, const arb_t v, const arb_t A, const arb_t B,
+                    slong len, slong q, slong prec)
+{
+    embz_tail_struct *t = c->t;
+    slong kmax = q < 0 ? 0 : 2 * q - 1, L = len + kmax;
+    arb_ptr a = _arb_vec_init(L), ys = _arb_vec_init(L), e = _arb_vec_init(len);
+    arb_ptr lam = _arb_vec_init(len), ex = _arb_vec_init(len), tk = _arb_vec_init(len);
+    arb_ptr acc = _arb_vec_init(len);
+    arb_t Y0, rho, rk, u;
+    arb_init(Y0); arb_init(rho); arb_init(rk); arb_init(u);
+    int shifted = !arb_is_zero(B);
+    /* Y(0) and lambda(tau) = ln(1 + rho e^-tau), rho = (B/A) e^-v */
+    arb_log(Y0, A, prec);
+    arb_add(Y0, Y0, v, prec);
+    if (shifted) {
+        arb_neg(rho, v);
+        arb_exp(rho, rho, prec);
+        arb_mul(rho, rho, B, prec);
+        arb_div(rho, rho, A, prec);
+        arb_set(u, rho);
+        for (slong k = 0; k < len; k++) {
+            arb_set(e + k, u);
+            arb_div_si(u, u, -(slong) (k + 1), prec);
+        }
+        _arb_poly_log1p_series(lam, e, len, len, prec);
+        arb_add(Y0, Y0, lam, prec);
+    }
+    arb_set(ys, Y0);
+    arb_one(ys + 1);
+    int st = embz_expr_eval_series(a, t->core, ys, t->n, L, prec);
+    t->evals++;
+    if (st == EMBZ_OK && !_arb_vec_is_finite(a, L)) st = EMBZ_ERR_DOMAIN;
+    if (st == EMBZ_OK) {
+        _arb_vec_zero(acc, len);
+        /* a holds the Taylor coefficients of P_k about Y0 (length L - k) */
+        for (slong k = 0; k <= kmax; k++) {
+            if (k == 0 || (k & 1)) {
+                /* e^((r - k) Y) = e^((r - k) Y0) e^((r - k) sigma) */
+                arb_sub_si(rk, t->rate, k, prec);
+                arb_mul(u, rk, Y0, prec);
+                arb_exp(u, u, prec);
+                for (slong l = 0; l < len; l++) {
+                    arb_set(ex + l, u);
+                    arb_mul(u, u, rk, prec);
+                    arb_div_ui(u, u, (ulong) l + 1, prec);
+                }
+                _arb_poly_mullow(tk, a, len, ex, len, len, prec);
+                if (q < 0) _arb_vec_set(acc, tk, len);
+                else if (k == 0) _arb_vec_scalar_mul_2exp_si(acc, tk, len, -1);
+                else _arb_vec_scalar_addmul(acc, tk, len, t->bern + (k + 1) / 2 - 1, prec);
+            }
+            if (k == kmax) break;
+            /* a <- (D + r - k) a on Taylor coefficients: (D a)_l = (l + 1) a_(l+1) */
+            arb_sub_si(rk, t->rate, k, prec);
+            for (slong l = 0; l + 1 < L - k; l++) {
+                arb_mul(u, a + l, rk, prec);
+                arb_mul_ui(a + l, a + l + 1, (ulong) l + 1, prec);
+                arb_add(a + l, a + l, u, prec);
+            }
+        }
+        if (shifted) {
+            /* sigma(tau) = tau + lambda(tau) - lambda(0) */
+            arb_zero(lam);
+            if (len > 1) arb_add_ui(lam + 1, lam + 1, 1, prec);
+            _arb_poly_compose_series(res, acc, len, lam, len, len, prec);
+        } else {
+            _arb_vec_set(res, acc, len);
+        }
+        if (!_arb_vec_is_finite(res, len)) st = EMBZ_ERR_DOMAIN;
+    }
+    _arb_vec_clear(a, L); _arb_vec_clear(ys, L); _arb_vec_clear(e, len);
+    _arb_vec_clear(lam, len); _arb_vec_clear(ex, len); _arb_vec_clear(tk, len);
+    _arb_vec_clear(acc, len);
+    arb_clear(Y0); arb_clear(rho); arb_clear(rk); arb_clear(u);
+    return st;
+}
+
 /* em(x(tau)) with x(tau) = scale e^(v + tau) + shift, as a series in tau, with the order of
  * Euler-Maclaurin level lev */
 static int em_composed(arb_ptr res, actx *c, const arb_t v, const arb_t scale,
@@ -488,6 +633,8 @@ static int em_composed(arb_ptr res, actx *c, const arb_t v, const arb_t scale,
 {
     embz_tail_struct *t = c->t;
     if (lev < 0) return EMBZ_ERR_PREC;
+    if (t->usplit && em_split(res, c, v, scale, shift, len, t->lev_p[lev], prec) == EMBZ_OK)
+        return EMBZ_OK;
     slong q = t->lev_p[lev];
     slong L = len + 2 * q;
     arb_ptr g = _arb_vec_init(L), em = _arb_vec_init(len), ts = _arb_vec_init(len);
@@ -522,6 +669,14 @@ static int em_composed(arb_ptr res, actx *c, const arb_t v, const arb_t scale,
 static int f_composed(arb_ptr res, actx *c, const arb_t v, const arb_t shift, slong len,
                       slong prec)
 {
+    if (c->t->usplit) {
+        arb_t one;
+        arb_init(one);
+        arb_one(one);
+        int st = em_split(res, c, v, one, shift, len, -1, prec);
+        arb_clear(one);
+        if (st == EMBZ_OK) return st;
+    }
     arb_ptr xs = _arb_vec_init(len);
     arb_t u;
     arb_init(u);
@@ -845,7 +1000,7 @@ static int model_bound_v(arf_t U, int *mono, mag_t slack, actx *c, ulong r, cons
     lev[0] = embz_tail_level(c->t, acc);
     arb_add(acc, tmp, delta, prec);
     lev[1] = embz_tail_level(c->t, acc);
-    if (arf_cmpabs_2exp_si(arb_midref(w), -1) > 0) {
+    if (arf_cmpabs_2exp_si(arb_midref(w), c->t->usplit ? VMODEL_FULL_EXP : -1) > 0) {
         /* wide: enclosures of the small parts lose too much under a full model */
         int st = EMBZ_ERR_PREC;
         /* x-ranges wider than a factor e^20 would put 0 inside the enclosures of x */
@@ -1373,9 +1528,11 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
             /* v-models: a stretch whose model did not settle it is cut at once into pieces
              * of equal ratio: of length 8 in v = ln s while it is longer than that (the
              * reach of the wide models), else of length below 0.7 (where the full models
-             * prove monotonicity), so that few models are spent on intermediate lengths */
+             * prove monotonicity; VMODEL_SPLIT_PIECE with the split of w), so that few models
+             * are spent on intermediate lengths */
             double vw = fmpz_dlog(it.hi) - fmpz_dlog(it.lo);
-            slong k = vw > 8.0 ? (slong) ceil(vw / 8.0) : (vw > 0.7 ? (slong) ceil(vw / 0.7) : 2);
+            double full = c->t->usplit ? VMODEL_SPLIT_PIECE : 0.7;
+            slong k = vw > 8.0 ? (slong) ceil(vw / 8.0) : (vw > full ? (slong) ceil(vw / full) : 2);
             st = consider_pieces(&hp, c, it.r, it.lo, it.hi, FLINT_MIN(k, 4096), prec);
         }
         item_clear(&it);
