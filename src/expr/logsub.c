@@ -284,14 +284,20 @@ static void transform(part_t *res, embz_expr_t out, const embz_expr_struct *src,
     fmpq_clear(b.alpha);
 }
 
+/* w(e^u) = r.core e^(rate u) built in out (r.alpha to be cleared by the caller) */
+static void transform_root(part_t *r, embz_expr_t out, const embz_expr_t w)
+{
+    fmpq_init(r->alpha);
+    r->anode = -1;
+    transform(r, out, w, w->root);
+}
+
 int embz_expr_log_substitute(embz_expr_t out, const embz_expr_t w)
 {
     embz_expr_clear(out);
     if (w->root < 0) return EMBZ_ERR_INPUT;
     part_t r;
-    fmpq_init(r.alpha);
-    r.anode = -1;
-    transform(&r, out, w, w->root);
+    transform_root(&r, out, w);
     fmpq_add_ui(r.alpha, r.alpha, 1);      /* the Jacobian dx/du = e^u */
     out->root = materialize(out, &r);
     fmpq_clear(r.alpha);
@@ -305,9 +311,7 @@ int embz_expr_log_split(embz_expr_t core, embz_expr_t rate, const embz_expr_t w)
     embz_expr_clear(rate);
     if (w->root < 0) return EMBZ_ERR_INPUT;
     part_t r;
-    fmpq_init(r.alpha);
-    r.anode = -1;
-    transform(&r, core, w, w->root);
+    transform_root(&r, core, w);
     embz_expr_set(rate, core);
     core->root = core_node(core, r.core);
     rate->root = rate_node(rate, &r);
