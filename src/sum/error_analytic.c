@@ -553,7 +553,7 @@ static int em_split(arb_ptr res, actx *c, const arb_t v, const arb_t A, const ar
                     slong len, slong q, slong prec)
 {
     embz_tail_struct *t = c->t;
-    slong kmax = q < 0 ? 0 : 2 * q - 1, L = len + kmax;
+    slong kmax = q <= 0 ? 0 : 2 * q - 1, L = len + kmax;
     arb_ptr a = _arb_vec_init(L), ys = _arb_vec_init(L), e = _arb_vec_init(len);
     arb_ptr lam = _arb_vec_init(len), ex = _arb_vec_init(len), tk = _arb_vec_init(len);
     arb_ptr acc = _arb_vec_init(len);
