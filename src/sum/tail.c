@@ -710,7 +710,9 @@ static void set_levels(embz_tail_t t, const arb_t goal, slong prec)
         if ((slong) fmpz_bits(t->end) <= b) break;
         arb_one(X);
         arb_mul_2exp_si(X, X, b);
-        if (weight_taylor(g, t, X, len, prec) != EMBZ_OK) break;
+        /* derivatives up to 2 q_prev: the previous level's terms and the orders below it
+         * (series cost about the square of their length; the orders only fall) */
+        if (weight_taylor(g, t, X, 2 * t->lev_p[t->nlev - 1] + 1, prec) != EMBZ_OK) break;
         slong q;
         for (q = 1; q < t->lev_p[t->nlev - 1]; q++) {
             arb_fac_ui(u, 2 * q - 1, prec);
