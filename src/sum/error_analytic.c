@@ -1407,6 +1407,10 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
     if (st == EMBZ_OK) {
         slong cap = 64, top = 0;
         fmpz *stk = _fmpz_vec_init(2 * cap);
+        /* the tail sums at a stretch's two ends, when its parent already had them: a split
+         * shares one end with each half, so a stretch costs two new sums, not four */
+        arb_ptr stv = _arb_vec_init(2 * cap);
+        char *sth = flint_calloc((size_t) (2 * cap), 1);
         fmpz_t Slo, Shi, kk;
         arb_t y, ca, cb, ub;
         arf_t blo, u;
@@ -1434,9 +1438,11 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
             fmpz_mul_ui(kk, b, c->d);
             fmpz_add_ui(kk, kk, c->d - 1);
             if (fmpz_cmp(kk, c->kmax) > 0) fmpz_set(kk, c->kmax);
-            st = pos_sum(cb, c, kk, prec);
+            if (sth[2 * top + 1]) arb_set(cb, stv + 2 * top + 1);
+            else st = pos_sum(cb, c, kk, prec);
             if (st != EMBZ_OK) break;
-            st = pos_sum(ca, c, a, prec);
+            if (sth[2 * top]) arb_set(ca, stv + 2 * top);
+            else st = pos_sum(ca, c, a, prec);
             if (st != EMBZ_OK) break;
             arb_sub(ub, cb, ca, prec);
             arb_div(ub, ub, c->W, prec);
@@ -1465,19 +1471,36 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
             if (fmpz_cmp(m, a) <= 0) fmpz_add_ui(m, a, 1);
             if (top + 2 > cap) {
                 fmpz *ns = _fmpz_vec_init(4 * cap);
+                arb_ptr nv = _arb_vec_init(4 * cap);
+                char *nh = flint_calloc((size_t) (4 * cap), 1);
                 _fmpz_vec_set(ns, stk, 2 * top);
+                _arb_vec_swap(nv, stv, 2 * top);
+                memcpy(nh, sth, (size_t) (2 * top));
                 _fmpz_vec_clear(stk, 2 * cap);
+                _arb_vec_clear(stv, 2 * cap);
+                flint_free(sth);
                 stk = ns;
+                stv = nv;
+                sth = nh;
                 cap *= 2;
             }
+            /* [a, m - 1] keeps C(a); [m, b] keeps C(position of b) */
             fmpz_set(stk + 2 * top, a);
             fmpz_sub_ui(stk + 2 * top + 1, m, 1);
+            arb_set(stv + 2 * top, ca);
+            sth[2 * top] = 1;
+            sth[2 * top + 1] = 0;
             top++;
             fmpz_set(stk + 2 * top, m);
             fmpz_set(stk + 2 * top + 1, b);
+            arb_set(stv + 2 * top + 1, cb);
+            sth[2 * top] = 0;
+            sth[2 * top + 1] = 1;
             top++;
         }
         _fmpz_vec_clear(stk, 2 * cap);
+        _arb_vec_clear(stv, 2 * cap);
+        flint_free(sth);
         fmpz_clear(Slo); fmpz_clear(Shi); fmpz_clear(kk);
         arb_clear(y); arb_clear(ca); arb_clear(cb); arb_clear(ub);
         arf_clear(blo); arf_clear(u);
