@@ -1799,8 +1799,9 @@ static void nudge(arb_t V, int dir, slong prec)
     arb_clear(e);
 }
 
-/* W Phi(V): EMBZ_ERR_PREC when V cannot be told apart from some weight */
-static int phi_w(arb_t res, actx *c, const arb_t V, slong prec)
+/* W Phi(V) and (Nout, may be NULL) N(V): EMBZ_ERR_PREC when V cannot be told apart from
+ * some weight */
+static int phi_wn(arb_t res, fmpz_t Nout, actx *c, const arb_t V, slong prec)
 {
     fmpz_t N, cnt;
     fmpz_init(N); fmpz_init(cnt);
@@ -1817,8 +1818,76 @@ static int phi_w(arb_t res, actx *c, const arb_t V, slong prec)
         arb_mul_fmpz(nv, V, N, prec);
         arb_sub(res, res, nv, prec);
         arb_clear(nv);
+        if (Nout != NULL) fmpz_set(Nout, N);
     }
     fmpz_clear(N); fmpz_clear(cnt);
+    return st;
+}
+
+#define phi_w(res, c, V, prec) phi_wn(res, NULL, c, V, prec)
+
+/* W F at V1 and (F1 != NULL) the counts slope sums for the bound below: F1 = W F(V1),
+ * *Nv = N(V1), *Nq = sum_j N(V1/q_j) */
+static int threshold_fn(arb_t F1, fmpz_t Nv, fmpz_t Nq, actx *c, const embz_target_t q,
+                        const arb_t V1, slong prec)
+{
+    arb_t u, qj, x;
+    fmpz_t k;
+    arb_init(u); arb_init(qj); arb_init(x);
+    fmpz_init(k);
+    fmpz_zero(Nq);
+    int st = phi_wn(F1, Nv, c, V1, prec);
+    for (long j = 0; j < q->q->len && st == EMBZ_OK; j++) {
+        if (fmpq_is_zero(q->q->p + j)) continue;
+        arb_set_fmpq(qj, q->q->p + j, prec);
+        arb_div(x, V1, qj, prec);
+        st = phi_wn(u, k, c, x, prec);
+        arb_submul(F1, u, qj, prec);
+        fmpz_add(Nq, Nq, k);
+    }
+    arb_clear(u); arb_clear(qj); arb_clear(x);
+    fmpz_clear(k);
+    c->evals++;
+    return st;
+}
+
+/* Second-order bound of W F on [A, B]. F' = -N(t) + sum_j N(t/q_j) (N(t): the number of
+ * weights above t, non-increasing), so on [A, B]
+ *     F' <= sum_j N(A/q_j) - N(B)   and   -F' <= N(A) - sum_j N(B/q_j),
+ * hence F <= F(A) + (B - A) max(0, sum_j N(A/q_j) - N(B)) and
+ *       F <= F(B) + (B - A) max(0, N(A) - sum_j N(B/q_j)).
+ * Near the maximum the count differences are small, so the slack falls like (B - A)^2 where
+ * the first-order bound W Phi(A) - sum_j q_j W Phi(B/q_j) keeps a slack of order
+ * (B - A) N. Sets U to the smaller upper bound. */
+static int threshold_bound2(arf_t U, actx *c, const embz_target_t q, const arb_t A,
+                            const arb_t B, slong prec)
+{
+    arb_t Fa, Fb, w, t;
+    fmpz_t Na, Nqa, Nb, Nqb, s;
+    arf_t u;
+    arb_init(Fa); arb_init(Fb); arb_init(w); arb_init(t);
+    fmpz_init(Na); fmpz_init(Nqa); fmpz_init(Nb); fmpz_init(Nqb); fmpz_init(s);
+    arf_init(u);
+    int st = threshold_fn(Fa, Na, Nqa, c, q, A, prec);
+    if (st == EMBZ_OK) st = threshold_fn(Fb, Nb, Nqb, c, q, B, prec);
+    if (st == EMBZ_OK) {
+        arb_sub(w, B, A, prec);
+        fmpz_sub(s, Nqa, Nb);
+        if (fmpz_sgn(s) < 0) fmpz_zero(s);
+        arb_mul_fmpz(t, w, s, prec);
+        arb_add(t, t, Fa, prec);
+        arb_get_ubound_arf(U, t, prec);
+        fmpz_sub(s, Na, Nqb);
+        if (fmpz_sgn(s) < 0) fmpz_zero(s);
+        arb_mul_fmpz(t, w, s, prec);
+        arb_add(t, t, Fb, prec);
+        arb_get_ubound_arf(u, t, prec);
+        if (arf_cmp(u, U) < 0) arf_set(U, u);
+        if (!arf_is_finite(U)) st = EMBZ_ERR_PREC;
+    }
+    arb_clear(Fa); arb_clear(Fb); arb_clear(w); arb_clear(t);
+    fmpz_clear(Na); fmpz_clear(Nqa); fmpz_clear(Nb); fmpz_clear(Nqb); fmpz_clear(s);
+    arf_clear(u);
     return st;
 }
 
@@ -1953,6 +2022,8 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
             arb_set(A, Va);
             arb_set(B, Vb);
             int ok = 0;
+            arf_t U2;
+            arf_init(U2);
             for (int tries = 0; tries < 8 && !ok; tries++) {
                 int s2 = threshold_f(f, c, q, A, B, prec);
                 if (s2 == EMBZ_OK) ok = 1;
@@ -1963,6 +2034,17 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
                 }
             }
             evals++;
+            /* the second-order bound where the first-order one is not already below the
+             * best value (it costs the counts at both ends) */
+            if (st == EMBZ_OK && ok) {
+                arb_get_ubound_arf(U2, f, prec);
+                if (arf_cmp(U2, best) >= 0 && threshold_bound2(U2, c, q, A, B, prec) == EMBZ_OK) {
+                    evals++;
+                    arb_get_ubound_arf(bnd, f, prec);
+                    if (arf_cmp(U2, bnd) < 0) arb_set_arf(f, U2);
+                }
+            }
+            arf_clear(U2);
             if (st == EMBZ_OK) {
                 if (len == cap) {
                     cap *= 2;
