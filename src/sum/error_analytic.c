@@ -2465,7 +2465,7 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             arf_clear(lo); arf_clear(hi);
         } else {
             embz_err_set(err, st, vector && st == EMBZ_ERR_PREC
-                         ? "weights tie with a threshold at this precision"
+                         ? "weights tie with a threshold: more bits needed"
                          : "the analytic engine could not certify the maximum");
         }
         arb_clear(h);
