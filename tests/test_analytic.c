@@ -834,6 +834,38 @@ START_TEST(test_vector_target_threshold)
 }
 END_TEST
 
+/* Beyond n ~ 2^prec some weights tie with the thresholds of the search (1/(i log(i+1)^b) at
+ * n = 10^30 > 2^64): the counts then come as certified ranges, and the result at 64 bits must
+ * still be tight (below 1e-15) and agree with the 128-bit one (two precisions, one value). */
+START_TEST(test_vector_target_ties)
+{
+    embz_family_t f;
+    embz_target_t q;
+    embz_error_result_t r64, r128;
+    embz_err_t err;
+    fmpz_t n;
+    embz_err_clear(&err);
+    fmpz_init(n);
+    fmpz_set_ui(n, 10);
+    fmpz_pow_ui(n, n, 30);
+    resolve(f, "logpower", NULL, NULL);
+    target(q, "0.7,0.3");
+    embz_error_result_init(r64);
+    embz_error_result_init(r128);
+    ck_assert_msg(embz_error_analytic(r64, f, n, q, 64, &err) == EMBZ_OK, "%s", err.text);
+    ck_assert_msg(embz_error_analytic(r128, f, n, q, 128, &err) == EMBZ_OK, "%s", err.text);
+    ck_assert_msg(strstr(r64->detail, "max_t") != NULL, "64 bits: %s", r64->detail);
+    ck_assert(arb_overlaps(r64->error, r128->error));
+    ck_assert_msg(mag_cmp_2exp_si(arb_radref(r64->error), -50) < 0, "64 bits: radius %g",
+                  mag_get_d(arb_radref(r64->error)));
+    embz_error_result_clear(r64);
+    embz_error_result_clear(r128);
+    embz_target_clear(q);
+    embz_family_clear(f);
+    fmpz_clear(n);
+}
+END_TEST
+
 /* Weights that vanish somewhere (log(i) at i = 1, n - i at i = n) leave no positive lower end
  * for the threshold search: the result must still contain the explicit value. And in decision
  * mode the side of a threshold is that of E(q) itself: with E(q) = 0.0624 < 0.065 < E(u_3) at
@@ -942,6 +974,7 @@ static Suite *analytic_suite(void)
     tcase_add_test(tc, test_uniform_half);
     tcase_add_test(tc, test_vector_target_bounds);
     tcase_add_test(tc, test_vector_target_threshold);
+    tcase_add_test(tc, test_vector_target_ties);
     tcase_add_test(tc, test_vector_target_edge_cases);
     tcase_add_test(tc, test_head_ties);
     tcase_add_test(tc, test_head_insertions);

@@ -661,6 +661,79 @@ START_TEST(test_tail_count)
 }
 END_TEST
 
+/* Counts where weights tie with the threshold at the working precision (64 bits, indices up
+ * to 2^120): lo <= N <= hi against the exact count of the closed forms above, the undecided
+ * weights above v by at most tie (checked at 512 bits), and lo == hi, tie == 0 when the
+ * precision suffices. */
+START_TEST(test_tail_count_range)
+{
+    flint_rand_t st;
+    flint_randinit(st);
+    slong M = 64;
+    const char *texts[2] = { "1/i", "sqrt(i)" };
+    for (int k = 0; k < 2; k++) {
+        embz_expr_t w;
+        embz_tail_t t;
+        fmpz_t n, upto, lo, hi, want, q, idx;
+        arb_t v, tie, x, y;
+        int ties = 0;
+        parse_or_die(w, texts[k]);
+        fmpz_init(n); fmpz_init(upto); fmpz_init(lo); fmpz_init(hi); fmpz_init(want);
+        fmpz_init(q); fmpz_init(idx);
+        arb_init(v); arb_init(tie); arb_init(x); arb_init(y);
+        fmpz_one(n);
+        fmpz_mul_2exp(n, n, 130);
+        init_tail(t, w, n, M, n, 64);
+        fmpz_one(upto);
+        fmpz_mul_2exp(upto, upto, 120);
+        for (int j = 0; j < 120; j++) {
+            slong prec = (j % 4 == 0) ? 200 : 64;
+            fmpz_set_ui(q, 1 + n_randint(st, 1000000));
+            fmpz_mul_2exp(q, q, n_randint(st, 100));
+            fmpz_add_ui(q, q, (ulong) M);
+            /* v = 1/(q + 1/2) or sqrt(q + 1/2) at 512 bits */
+            arb_set_fmpz(v, q);
+            arb_set_d(x, 0.5);
+            arb_add(v, v, x, 512);
+            if (k == 0) arb_inv(v, v, 512); else arb_sqrt(v, v, 512);
+            ck_assert_int_eq(embz_tail_count_range(lo, hi, tie, t, v, upto, prec), EMBZ_OK);
+            if (k == 0) {
+                if (fmpz_cmp(q, upto) > 0) fmpz_sub_si(want, upto, M);
+                else fmpz_sub_si(want, q, M);
+            } else {
+                if (fmpz_cmp(q, upto) >= 0) fmpz_zero(want);
+                else fmpz_sub(want, upto, q);
+            }
+            ck_assert_msg(fmpz_cmp(lo, want) <= 0 && fmpz_cmp(want, hi) <= 0,
+                          "%s: the count is outside [lo, hi]", texts[k]);
+            ck_assert(arb_is_exact(tie) && !arb_is_negative(tie));
+            if (fmpz_cmp(lo, hi) < 0) {
+                ties++;
+                /* the largest undecided weight: index M + lo + 1 (1/i) or upto - hi + 1 */
+                if (k == 0) fmpz_add_si(idx, lo, M + 1);
+                else { fmpz_sub(idx, upto, hi); fmpz_add_ui(idx, idx, 1); }
+                arb_set_fmpz(x, idx);
+                if (k == 0) arb_inv(x, x, 512); else arb_sqrt(x, x, 512);
+                arb_sub(y, x, v, 512);
+                ck_assert_msg(arb_le(y, tie), "%s: an undecided weight exceeds v by more than tie",
+                              texts[k]);
+            } else {
+                ck_assert(arb_is_zero(tie));
+            }
+            if (prec == 200 && fmpz_bits(q) < 100)
+                ck_assert_msg(fmpz_equal(lo, hi), "%s: undecided at 200 bits", texts[k]);
+        }
+        ck_assert_msg(ties > 10, "%s: no ties seen (%d)", texts[k], ties);
+        embz_tail_clear(t);
+        embz_expr_clear(w);
+        fmpz_clear(n); fmpz_clear(upto); fmpz_clear(lo); fmpz_clear(hi); fmpz_clear(want);
+        fmpz_clear(q); fmpz_clear(idx);
+        arb_clear(v); arb_clear(tie); arb_clear(x); arb_clear(y);
+    }
+    flint_randclear(st);
+}
+END_TEST
+
 static Suite *sum_suite(void)
 {
     Suite *s = suite_create("sum");
@@ -689,6 +762,7 @@ static Suite *sum_suite(void)
     tcase_add_test(tc, test_refuse_valley);
     tcase_add_test(tc, test_refuse_floor);
     tcase_add_test(tc, test_tail_count);
+    tcase_add_test(tc, test_tail_count_range);
     suite_add_tcase(s, tc);
     return s;
 }

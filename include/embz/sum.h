@@ -78,6 +78,12 @@ void embz_tail_clear(embz_tail_t t);
  * monotone tail with certified comparisons. EMBZ_ERR_PREC when a weight cannot be told apart
  * from v at this precision (for instance an exact tie). */
 int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto, slong prec);
+
+/* The same count where weights may tie with v at this precision: lo <= N <= hi, and each of
+ * the hi - lo undecided weights exceeds v by at most tie (>= 0, exact). lo == hi with tie 0
+ * when every comparison was decided. */
+int embz_tail_count_range(fmpz_t lo, fmpz_t hi, arb_t tie, embz_tail_t t, const arb_t v,
+                          const fmpz_t upto, slong prec);
 /* integral of phi(u) = f(e^u) e^u over [ua, ub] (= integral of f over [e^ua, e^ub]). */
 int embz_tail_integral_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub, slong prec);
 /* integral_M^x f(y) dy for a (narrow) ball x in [M, end]. */

@@ -1799,54 +1799,72 @@ static void nudge(arb_t V, int dir, slong prec)
     arb_clear(e);
 }
 
-/* W Phi(V) and (Nout, may be NULL) N(V): EMBZ_ERR_PREC when V cannot be told apart from
- * some weight */
-static int phi_wn(arb_t res, fmpz_t Nout, actx *c, const arb_t V, slong prec)
+/* W Phi(V) and (Nlo, Nhi, may be NULL) bounds on N(V). Tail weights that cannot be told apart
+ * from V at this precision are allowed: with Nlo weights certainly above V, and the N(V) - Nlo
+ * others above V by at most tie each (embz_tail_count_range),
+ *     S(Nlo) - Nlo V <= W Phi(V) <= S(Nlo) - Nlo V + (Nhi - Nlo) tie
+ * (S(N) - N V <= W Phi(V) for every N; and the (Nlo+1)-th largest weight is at most V + tie,
+ * as every larger one is counted in Nlo). EMBZ_ERR_PREC when a head weight ties with V. */
+static int phi_wn(arb_t res, fmpz_t Nlo, fmpz_t Nhi, actx *c, const arb_t V, slong prec)
 {
-    fmpz_t N, cnt;
-    fmpz_init(N); fmpz_init(cnt);
+    fmpz_t N, clo, chi;
+    arb_t tie;
+    fmpz_init(N); fmpz_init(clo); fmpz_init(chi);
+    arb_init(tie);
     slong k = 0;
     int st = count_above(&k, c->A, c->a, V);
     if (st == EMBZ_OK) st = count_above(&k, c->ins_val, c->nins, V);
     if (st == EMBZ_OK) st = count_above(&k, c->B, c->b, V);
-    if (st == EMBZ_OK) st = embz_tail_count(cnt, c->t, V, c->n, prec);
+    if (st == EMBZ_OK) st = embz_tail_count_range(clo, chi, tie, c->t, V, c->n, prec);
     if (st == EMBZ_OK) {
-        fmpz_add_si(N, cnt, k);
+        fmpz_add_si(N, clo, k);
         st = pos_sum(res, c, N, prec);
         arb_t nv;
         arb_init(nv);
         arb_mul_fmpz(nv, V, N, prec);
         arb_sub(res, res, nv, prec);
+        if (fmpz_cmp(chi, clo) > 0) {
+            /* + [0, (Nhi - Nlo) tie] */
+            fmpz_sub(N, chi, clo);
+            arb_mul_fmpz(nv, tie, N, prec);
+            arb_mul_2exp_si(nv, nv, -1);
+            arb_add(res, res, nv, prec);
+            arb_add_error(res, nv);
+        }
         arb_clear(nv);
-        if (Nout != NULL) fmpz_set(Nout, N);
+        if (Nlo != NULL) fmpz_add_si(Nlo, clo, k);
+        if (Nhi != NULL) fmpz_add_si(Nhi, chi, k);
     }
-    fmpz_clear(N); fmpz_clear(cnt);
+    fmpz_clear(N); fmpz_clear(clo); fmpz_clear(chi);
+    arb_clear(tie);
     return st;
 }
 
-#define phi_w(res, c, V, prec) phi_wn(res, NULL, c, V, prec)
+#define phi_w(res, c, V, prec) phi_wn(res, NULL, NULL, c, V, prec)
 
-/* W F at V1 and (F1 != NULL) the counts slope sums for the bound below: F1 = W F(V1),
- * *Nv = N(V1), *Nq = sum_j N(V1/q_j) */
-static int threshold_fn(arb_t F1, fmpz_t Nv, fmpz_t Nq, actx *c, const embz_target_t q,
+/* W F at V1 with bounds on the counts for the slope bounds below: N(V1) in [Nv[0], Nv[1]],
+ * sum_j N(V1/q_j) in [Nq[0], Nq[1]] */
+static int threshold_fn(arb_t F1, fmpz *Nv, fmpz *Nq, actx *c, const embz_target_t q,
                         const arb_t V1, slong prec)
 {
     arb_t u, qj, x;
-    fmpz_t k;
+    fmpz_t klo, khi;
     arb_init(u); arb_init(qj); arb_init(x);
-    fmpz_init(k);
+    fmpz_init(klo); fmpz_init(khi);
     fmpz_zero(Nq);
-    int st = phi_wn(F1, Nv, c, V1, prec);
+    fmpz_zero(Nq + 1);
+    int st = phi_wn(F1, Nv, Nv + 1, c, V1, prec);
     for (long j = 0; j < q->q->len && st == EMBZ_OK; j++) {
         if (fmpq_is_zero(q->q->p + j)) continue;
         arb_set_fmpq(qj, q->q->p + j, prec);
         arb_div(x, V1, qj, prec);
-        st = phi_wn(u, k, c, x, prec);
+        st = phi_wn(u, klo, khi, c, x, prec);
         arb_submul(F1, u, qj, prec);
-        fmpz_add(Nq, Nq, k);
+        fmpz_add(Nq, Nq, klo);
+        fmpz_add(Nq + 1, Nq + 1, khi);
     }
     arb_clear(u); arb_clear(qj); arb_clear(x);
-    fmpz_clear(k);
+    fmpz_clear(klo); fmpz_clear(khi);
     c->evals++;
     return st;
 }
@@ -1855,29 +1873,32 @@ static int threshold_fn(arb_t F1, fmpz_t Nv, fmpz_t Nq, actx *c, const embz_targ
  * weights above t, non-increasing), so on [A, B]
  *     F' <= sum_j N(A/q_j) - N(B)   and   -F' <= N(A) - sum_j N(B/q_j),
  * hence F <= F(A) + (B - A) max(0, sum_j N(A/q_j) - N(B)) and
- *       F <= F(B) + (B - A) max(0, N(A) - sum_j N(B/q_j)).
- * Near the maximum the count differences are small, so the slack falls like (B - A)^2 where
- * the first-order bound W Phi(A) - sum_j q_j W Phi(B/q_j) keeps a slack of order
- * (B - A) N. Sets U to the smaller upper bound. */
+ *       F <= F(B) + (B - A) max(0, N(A) - sum_j N(B/q_j))
+ * (counts taken at the ends of their certified ranges that make these larger). Near the
+ * maximum the count differences are small, so the slack falls like (B - A)^2 where the
+ * first-order bound W Phi(A) - sum_j q_j W Phi(B/q_j) keeps a slack of order (B - A) N. Sets
+ * U to the smaller upper bound. */
 static int threshold_bound2(arf_t U, actx *c, const embz_target_t q, const arb_t A,
                             const arb_t B, slong prec)
 {
     arb_t Fa, Fb, w, t;
-    fmpz_t Na, Nqa, Nb, Nqb, s;
+    fmpz *Na = _fmpz_vec_init(2), *Nqa = _fmpz_vec_init(2), *Nb = _fmpz_vec_init(2);
+    fmpz *Nqb = _fmpz_vec_init(2);
+    fmpz_t s;
     arf_t u;
     arb_init(Fa); arb_init(Fb); arb_init(w); arb_init(t);
-    fmpz_init(Na); fmpz_init(Nqa); fmpz_init(Nb); fmpz_init(Nqb); fmpz_init(s);
+    fmpz_init(s);
     arf_init(u);
     int st = threshold_fn(Fa, Na, Nqa, c, q, A, prec);
     if (st == EMBZ_OK) st = threshold_fn(Fb, Nb, Nqb, c, q, B, prec);
     if (st == EMBZ_OK) {
         arb_sub(w, B, A, prec);
-        fmpz_sub(s, Nqa, Nb);
+        fmpz_sub(s, Nqa + 1, Nb);
         if (fmpz_sgn(s) < 0) fmpz_zero(s);
         arb_mul_fmpz(t, w, s, prec);
         arb_add(t, t, Fa, prec);
         arb_get_ubound_arf(U, t, prec);
-        fmpz_sub(s, Na, Nqb);
+        fmpz_sub(s, Na + 1, Nqb);
         if (fmpz_sgn(s) < 0) fmpz_zero(s);
         arb_mul_fmpz(t, w, s, prec);
         arb_add(t, t, Fb, prec);
@@ -1886,7 +1907,9 @@ static int threshold_bound2(arf_t U, actx *c, const embz_target_t q, const arb_t
         if (!arf_is_finite(U)) st = EMBZ_ERR_PREC;
     }
     arb_clear(Fa); arb_clear(Fb); arb_clear(w); arb_clear(t);
-    fmpz_clear(Na); fmpz_clear(Nqa); fmpz_clear(Nb); fmpz_clear(Nqb); fmpz_clear(s);
+    _fmpz_vec_clear(Na, 2); _fmpz_vec_clear(Nqa, 2); _fmpz_vec_clear(Nb, 2);
+    _fmpz_vec_clear(Nqb, 2);
+    fmpz_clear(s);
     arf_clear(u);
     return st;
 }

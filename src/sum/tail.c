@@ -220,6 +220,72 @@ int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto,
     return st;
 }
 
+int embz_tail_count_range(fmpz_t lo, fmpz_t hi, arb_t tie, embz_tail_t t, const arb_t v,
+                          const fmpz_t upto, slong prec)
+{
+    /* two bisections on the index, one for "certainly on v's side of the large weights"
+     * and one for "certainly on the other side": their boundaries enclose the true one,
+     * because a certified comparison at an index also holds for all indices beyond it on the
+     * far side (the weights are monotone); the indices in between are undecided */
+    fmpz_t a, b, mid;
+    arb_t x, w;
+    int st = EMBZ_OK;
+    fmpz_init(a); fmpz_init(b); fmpz_init(mid);
+    arb_init(x); arb_init(w);
+    fmpz_t bnd[2];
+    fmpz_init(bnd[0]); fmpz_init(bnd[1]);
+    for (int pass = 0; pass < 2 && st == EMBZ_OK; pass++) {
+        /* pass 0: a = last index with w certainly above v (dir > 0) / certainly not above
+         * (dir < 0); pass 1: a = last index with w not certainly below / not certainly above */
+        fmpz_set_si(a, t->M);
+        fmpz_add_ui(b, upto, 1);
+        for (;;) {
+            fmpz_sub(mid, b, a);
+            if (fmpz_cmp_ui(mid, 1) <= 0) break;
+            fmpz_add(mid, a, b);
+            fmpz_fdiv_q_2exp(mid, mid, 1);
+            arb_set_fmpz(x, mid);
+            if (embz_expr_eval_arb(w, t->w, x, t->n, prec) != EMBZ_OK) { st = EMBZ_ERR_DOMAIN; break; }
+            int left;                 /* does mid belong to the left part? */
+            if (t->dir > 0) left = (pass == 0) ? arb_gt(w, v) : !arb_le(w, v);
+            else left = (pass == 0) ? arb_le(w, v) : !arb_gt(w, v);
+            if (left) fmpz_set(a, mid);
+            else fmpz_set(b, mid);
+        }
+        fmpz_set(bnd[pass], a);
+    }
+    if (st == EMBZ_OK) {
+        /* indices bnd[0] + 1 .. bnd[1] are undecided */
+        if (t->dir > 0) {
+            fmpz_sub_si(lo, bnd[0], t->M);
+            fmpz_sub_si(hi, bnd[1], t->M);
+        } else {
+            fmpz_sub(lo, upto, bnd[1]);
+            fmpz_sub(hi, upto, bnd[0]);
+        }
+        /* the undecided weights exceed v by at most their largest value minus v */
+        arb_zero(tie);
+        if (fmpz_cmp(lo, hi) < 0) {
+            if (t->dir > 0) fmpz_add_ui(mid, bnd[0], 1);
+            else fmpz_set(mid, bnd[1]);
+            arb_set_fmpz(x, mid);
+            if (embz_expr_eval_arb(w, t->w, x, t->n, prec) != EMBZ_OK) st = EMBZ_ERR_DOMAIN;
+            else {
+                arb_sub(w, w, v, prec);
+                arf_t u;
+                arf_init(u);
+                arb_get_ubound_arf(u, w, prec);
+                if (arf_sgn(u) > 0) arb_set_arf(tie, u);
+                arf_clear(u);
+            }
+        }
+    }
+    fmpz_clear(bnd[0]); fmpz_clear(bnd[1]);
+    fmpz_clear(a); fmpz_clear(b); fmpz_clear(mid);
+    arb_clear(x); arb_clear(w);
+    return st;
+}
+
 int embz_tail_integral_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub, slong prec)
 {
     return integrate_u(res, t, ua, ub, prec);
