@@ -31,6 +31,8 @@ typedef struct {
     const embz_family_struct *f;
     const arf_struct *decide;   /* stop as soon as E is known to be above this ... */
     const arf_struct *decide_lo;/* ... or below this (the ends of the threshold's ball) */
+    int search_open;            /* the threshold search stopped at its budget with bounds
+                                   above the tolerance (the upper end is not tight) */
     int cut_short;              /* decision mode skipped part of the search: the result's
                                    upper end is not known */
     fmpz_t n;            /* effective dimension: the true n, or less when the weights beyond
@@ -2012,7 +2014,8 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
         slong top = 0;
         for (slong i = 1; i < len; i++) if (arf_cmp(h[i].U, h[top].U) > 0) top = i;
         arf_sub(bnd, h[top].U, best, prec, ARF_RND_UP);
-        if (arf_cmp(bnd, arb_midref(tol)) <= 0 || evals > budget) break;
+        if (arf_cmp(bnd, arb_midref(tol)) <= 0) break;
+        if (evals > budget) { c->search_open = 1; break; }
         th_item it = h[top];
         h[top] = h[--len];
         /* split: geometric mean while the ratio exceeds 2, else the midpoint */
@@ -2259,8 +2262,10 @@ static int vector_target_bounds(embz_error_result_t res, embz_analytic_t an, con
         if (tight)
             snprintf(res->detail, sizeof(res->detail),
                      "analytic, general target: max_t Phi(t) - sum_j q_j Phi(t/q_j) by branch "
-                     "and bound over ln t, within E(uniform:%lu) <= E(q) <= E(uniform:%lu) "
+                     "and bound over ln t%s, within E(uniform:%lu) <= E(q) <= E(uniform:%lu) "
                      "(majorization); %.40s",
+                     strstr(rl->detail, "budget reached") ? " (budget reached, upper end loose)"
+                                                          : "",
                      fmpz_get_ui(dl) >= 2 ? fmpz_get_ui(dl) : 1UL, m, inner);
         else
             snprintf(res->detail, sizeof(res->detail),
@@ -2482,9 +2487,10 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             res->estimate = arf_get_d(arb_midref(res->error), ARF_RND_NEAR);
             snprintf(res->detail, sizeof(res->detail),
                      "analytic: %ld explicit terms + Euler-Maclaurin tail (order %ld, weights %s "
-                     "beyond i = %ld), branch and bound: %ld bounds, %ld series, %ld integrals, arb %ld bits",
+                     "beyond i = %ld), branch and bound: %ld bounds, %ld series, %ld integrals, arb %ld bits%s",
                      (long) c.M, (long) c.t->p, c.t->dir > 0 ? "non-increasing" : "non-decreasing",
-                     (long) c.M, c.evals, c.t->evals, c.t->integrals, (long) prec);
+                     (long) c.M, c.evals, c.t->evals, c.t->integrals, (long) prec,
+                     c.search_open ? "; search budget reached" : "");
             arf_clear(lo); arf_clear(hi);
         } else {
             embz_err_set(err, st, vector && st == EMBZ_ERR_PREC
