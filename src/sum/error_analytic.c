@@ -2218,7 +2218,7 @@ static int vector_target_bounds(embz_error_result_t res, embz_analytic_t an, con
         embz_err_t e2;
         embz_err_clear(&e2);
         int ts = analytic_run(rl, an, n, q, &e2);
-        int tight = 0;
+        int tight = 0, rdec = rl->decided;
         if (ts == EMBZ_OK) {
             arf_t a, b;
             arf_init(a); arf_init(b);
@@ -2254,8 +2254,11 @@ static int vector_target_bounds(embz_error_result_t res, embz_analytic_t an, con
          * flag left by the bracket's runs is about other targets) */
         res->decided = 0;
         if (an->have_decide) {
-            if (arf_cmp(lo, an->decide) > 0) res->decided = 1;
-            else if (arf_cmp(hi, an->decide_lo) < 0) res->decided = -1;
+            /* also the threshold run's own side, taken from the exact ends of its enclosure
+             * (its ball, with a 30-bit radius, is coarser: a wide ball 1e-12 above the
+             * threshold may reach below it) */
+            if (arf_cmp(lo, an->decide) > 0 || (tight && rdec > 0)) res->decided = 1;
+            else if (arf_cmp(hi, an->decide_lo) < 0 || (tight && rdec < 0)) res->decided = -1;
         }
         res->have_bounds = 0;
         fmpz_zero(res->argk);

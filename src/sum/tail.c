@@ -141,7 +141,25 @@ static int integrate_taylor(arb_t res, embz_tail_t t, const arb_t ua, const arb_
     return ok;
 }
 
+/* The adaptive integrator gets a bounded effort per call on pieces longer than 2 (its
+ * default, 1000 prec + prec^2 evaluations, spent tens of seconds on atan(e^u), which has
+ * branch points at distance pi/2 from every real u); when the result is then neither within
+ * 2^12 of the tolerance nor accurate to prec - 20 bits, the piece is halved, so the
+ * subdivision follows the strip of analyticity instead of one long rule. Pieces of length
+ * at most 2 get the default effort. */
+#define INTEGRATE_EVALS_PER_BIT 40
+#define INTEGRATE_MAX_HALVINGS 16
+
+static int integrate_u_depth(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub,
+                             slong prec, int depth);
+
 static int integrate_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub, slong prec)
+{
+    return integrate_u_depth(res, t, ua, ub, prec, 0);
+}
+
+static int integrate_u_depth(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub,
+                             slong prec, int depth)
 {
     if (integrate_taylor(res, t, ua, ub, prec)) {
         t->integrals++;
@@ -176,9 +194,38 @@ static int integrate_u(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub,
         acb_clear(fa); acb_clear(fb);
         mag_clear(mb);
     }
+    arb_t len;
+    arb_init(len);
+    arb_sub(len, ub, ua, prec);
+    int longer = arf_cmpabs_2exp_si(arb_midref(len), 1) > 0;     /* halves of length >= 1 */
+    arb_clear(len);
+    if (longer && depth < INTEGRATE_MAX_HALVINGS)
+        opt->eval_limit = INTEGRATE_EVALS_PER_BIT * prec;           /* else the default */
     acb_calc_integrate(r, phi_acb, t, a, b, prec, tol, opt, prec + 10);
     t->integrals++;
     int st = EMBZ_OK;
+    mag_t lim;
+    mag_init(lim);
+    mag_mul_2exp_si(lim, tol, 12);
+    if ((!acb_is_finite(r) || (mag_cmp(arb_radref(acb_realref(r)), lim) > 0
+                                && arb_rel_accuracy_bits(acb_realref(r)) < prec - 20))
+        && longer && depth < INTEGRATE_MAX_HALVINGS) {
+        /* halve: [ua, m] + [m, ub], m an exact midpoint */
+        arb_t m, r1, r2;
+        arb_init(m); arb_init(r1); arb_init(r2);
+        arb_add(m, ua, ub, prec);
+        arb_mul_2exp_si(m, m, -1);
+        arb_set_arf(m, arb_midref(m));
+        st = integrate_u_depth(r1, t, ua, m, prec, depth + 1);
+        if (st == EMBZ_OK) st = integrate_u_depth(r2, t, m, ub, prec, depth + 1);
+        if (st == EMBZ_OK) arb_add(res, r1, r2, prec);
+        arb_clear(m); arb_clear(r1); arb_clear(r2);
+        mag_clear(lim);
+        acb_clear(a); acb_clear(b); acb_clear(r);
+        mag_clear(tol);
+        return st;
+    }
+    mag_clear(lim);
     if (!acb_is_finite(r)) st = EMBZ_ERR_PREC;
     arb_set(res, acb_realref(r));
     /* the integrand is real on the real axis: the imaginary part is noise */
