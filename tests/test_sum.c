@@ -605,6 +605,20 @@ START_TEST(test_refuse_floor) { refuse_case("1/floor(sqrt(i))", 10000); }
 END_TEST
 
 
+/* the exact count for the threshold between q and q + 1: k = 0 for 1/i, 1 for sqrt(i) */
+static void count_want(fmpz_t want, int k, const fmpz_t q, const fmpz_t upto, slong M)
+{
+    if (k == 0) {
+        /* 1/i > 1/(q + 1/2) iff i <= q: indices M+1 .. min(q, upto) */
+        if (fmpz_cmp(q, upto) > 0) fmpz_sub_si(want, upto, M);
+        else fmpz_sub_si(want, q, M);
+    } else {
+        /* sqrt(i) > sqrt(q + 1/2) iff i >= q + 1: indices q+1 .. upto */
+        if (fmpz_cmp(q, upto) >= 0) fmpz_zero(want);
+        else fmpz_sub(want, upto, q);
+    }
+}
+
 /* Counts N(v) = #{ M < i <= upto : w(i) > v } on a monotone tail, against closed forms:
  * 1/i > v iff i < 1/v, and sqrt(i) > v iff i > v^2 (exact integer arithmetic in the test). */
 START_TEST(test_tail_count)
@@ -641,15 +655,7 @@ START_TEST(test_tail_count)
             }
             if (k == 0) arb_inv(v, v, prec); else arb_sqrt(v, v, prec);
             ck_assert_int_eq(embz_tail_count(got, t, v, upto, prec), EMBZ_OK);
-            if (k == 0) {
-                /* 1/i > 1/(q + 1/2) iff i <= q: indices M+1 .. min(q, upto) */
-                if (fmpz_cmp(q, upto) > 0) fmpz_sub_si(want, upto, M);
-                else fmpz_sub_si(want, q, M);
-            } else {
-                /* sqrt(i) > sqrt(q + 1/2) iff i >= q + 1: indices q+1 .. upto */
-                if (fmpz_cmp(q, upto) >= 0) fmpz_zero(want);
-                else fmpz_sub(want, upto, q);
-            }
+            count_want(want, k, q, upto, M);
             ck_assert_msg(fmpz_equal(got, want), "%s: count mismatch", texts[k]);
         }
         embz_tail_clear(t);
@@ -697,13 +703,7 @@ START_TEST(test_tail_count_range)
             arb_add(v, v, x, 512);
             if (k == 0) arb_inv(v, v, 512); else arb_sqrt(v, v, 512);
             ck_assert_int_eq(embz_tail_count_range(lo, hi, tie, t, v, upto, prec), EMBZ_OK);
-            if (k == 0) {
-                if (fmpz_cmp(q, upto) > 0) fmpz_sub_si(want, upto, M);
-                else fmpz_sub_si(want, q, M);
-            } else {
-                if (fmpz_cmp(q, upto) >= 0) fmpz_zero(want);
-                else fmpz_sub(want, upto, q);
-            }
+            count_want(want, k, q, upto, M);
             ck_assert_msg(fmpz_cmp(lo, want) <= 0 && fmpz_cmp(want, hi) <= 0,
                           "%s: the count is outside [lo, hi]", texts[k]);
             ck_assert(arb_is_exact(tie) && !arb_is_negative(tie));
