@@ -1844,30 +1844,63 @@ static int phi_wn(arb_t res, fmpz_t Nlo, fmpz_t Nhi, actx *c, const arb_t V, slo
 
 #define phi_w(res, c, V, prec) phi_wn(res, NULL, NULL, c, V, prec)
 
-/* W F at V1 with bounds on the counts for the slope bounds below: N(V1) in [Nv[0], Nv[1]],
- * sum_j N(V1/q_j) in [Nq[0], Nq[1]] */
-static int threshold_fn(arb_t F1, fmpz *Nv, fmpz *Nq, actx *c, const embz_target_t q,
-                        const arb_t V1, slong prec)
+/* The upper bound W Phi(V1) - sum_j q_j W Phi(V2/q_j) (W F at V when V1 = V2 = V), and when
+ * Nv, Nq are not NULL the counts for the slope bounds below: N(V1) in [Nv[0], Nv[1]] and
+ * sum_j N(V2/q_j) in [Nq[0], Nq[1]]. */
+static int threshold_f(arb_t res, fmpz *Nv, fmpz *Nq, actx *c, const embz_target_t q,
+                       const arb_t V1, const arb_t V2, slong prec)
 {
     arb_t u, qj, x;
     fmpz_t klo, khi;
     arb_init(u); arb_init(qj); arb_init(x);
     fmpz_init(klo); fmpz_init(khi);
-    fmpz_zero(Nq);
-    fmpz_zero(Nq + 1);
-    int st = phi_wn(F1, Nv, Nv + 1, c, V1, prec);
+    if (Nq != NULL) { fmpz_zero(Nq); fmpz_zero(Nq + 1); }
+    int st = phi_wn(res, Nv, Nv == NULL ? NULL : Nv + 1, c, V1, prec);
     for (long j = 0; j < q->q->len && st == EMBZ_OK; j++) {
         if (fmpq_is_zero(q->q->p + j)) continue;
         arb_set_fmpq(qj, q->q->p + j, prec);
-        arb_div(x, V1, qj, prec);
+        arb_div(x, V2, qj, prec);
         st = phi_wn(u, klo, khi, c, x, prec);
-        arb_submul(F1, u, qj, prec);
-        fmpz_add(Nq, Nq, klo);
-        fmpz_add(Nq + 1, Nq + 1, khi);
+        arb_submul(res, u, qj, prec);
+        if (Nq != NULL) { fmpz_add(Nq, Nq, klo); fmpz_add(Nq + 1, Nq + 1, khi); }
     }
     arb_clear(u); arb_clear(qj); arb_clear(x);
     fmpz_clear(klo); fmpz_clear(khi);
     c->evals++;
+    return st;
+}
+
+/* W F at a point with its counts (n: N(V) lo, hi, sum_j N(V/q_j) lo, hi); ok when known */
+typedef struct {
+    arb_t F;
+    fmpz n[4];
+    int ok;
+} th_end;
+
+static void th_end_init(th_end *e)
+{
+    arb_init(e->F);
+    for (int k = 0; k < 4; k++) fmpz_init(e->n + k);
+    e->ok = 0;
+}
+
+static void th_end_clear(th_end *e)
+{
+    arb_clear(e->F);
+    for (int k = 0; k < 4; k++) fmpz_clear(e->n + k);
+}
+
+static void th_end_set(th_end *d, const th_end *e)
+{
+    arb_set(d->F, e->F);
+    for (int k = 0; k < 4; k++) fmpz_set(d->n + k, e->n + k);
+    d->ok = e->ok;
+}
+
+static int th_end_eval(th_end *e, actx *c, const embz_target_t q, const arb_t V, slong prec)
+{
+    int st = threshold_f(e->F, e->n, e->n + 2, c, q, V, V, prec);
+    e->ok = (st == EMBZ_OK);
     return st;
 }
 
@@ -1879,76 +1912,68 @@ static int threshold_fn(arb_t F1, fmpz *Nv, fmpz *Nq, actx *c, const embz_target
  * (counts taken at the ends of their certified ranges that make these larger). Near the
  * maximum the count differences are small, so the slack falls like (B - A)^2 where the
  * first-order bound W Phi(A) - sum_j q_j W Phi(B/q_j) keeps a slack of order (B - A) N. Sets
- * U to the smaller upper bound. */
+ * U to the smaller upper bound. The values at the ends come from ea, eb when known there
+ * (a split point is an end of both halves), else they are computed and kept in them. */
 static int threshold_bound2(arf_t U, actx *c, const embz_target_t q, const arb_t A,
-                            const arb_t B, slong prec)
+                            const arb_t B, th_end *ea, th_end *eb, slong prec)
 {
-    arb_t Fa, Fb, w, t;
-    fmpz *Na = _fmpz_vec_init(2), *Nqa = _fmpz_vec_init(2), *Nb = _fmpz_vec_init(2);
-    fmpz *Nqb = _fmpz_vec_init(2);
+    arb_t w, t;
     fmpz_t s;
     arf_t u;
-    arb_init(Fa); arb_init(Fb); arb_init(w); arb_init(t);
+    arb_init(w); arb_init(t);
     fmpz_init(s);
     arf_init(u);
-    int st = threshold_fn(Fa, Na, Nqa, c, q, A, prec);
-    if (st == EMBZ_OK) st = threshold_fn(Fb, Nb, Nqb, c, q, B, prec);
+    int st = ea->ok ? EMBZ_OK : th_end_eval(ea, c, q, A, prec);
+    if (st == EMBZ_OK && !eb->ok) st = th_end_eval(eb, c, q, B, prec);
     if (st == EMBZ_OK) {
         arb_sub(w, B, A, prec);
-        fmpz_sub(s, Nqa + 1, Nb);
+        fmpz_sub(s, ea->n + 3, eb->n);
         if (fmpz_sgn(s) < 0) fmpz_zero(s);
         arb_mul_fmpz(t, w, s, prec);
-        arb_add(t, t, Fa, prec);
+        arb_add(t, t, ea->F, prec);
         arb_get_ubound_arf(U, t, prec);
-        fmpz_sub(s, Na + 1, Nqb);
+        fmpz_sub(s, ea->n + 1, eb->n + 2);
         if (fmpz_sgn(s) < 0) fmpz_zero(s);
         arb_mul_fmpz(t, w, s, prec);
-        arb_add(t, t, Fb, prec);
+        arb_add(t, t, eb->F, prec);
         arb_get_ubound_arf(u, t, prec);
         if (arf_cmp(u, U) < 0) arf_set(U, u);
         if (!arf_is_finite(U)) st = EMBZ_ERR_PREC;
     }
-    arb_clear(Fa); arb_clear(Fb); arb_clear(w); arb_clear(t);
-    _fmpz_vec_clear(Na, 2); _fmpz_vec_clear(Nqa, 2); _fmpz_vec_clear(Nb, 2);
-    _fmpz_vec_clear(Nqb, 2);
+    arb_clear(w); arb_clear(t);
     fmpz_clear(s);
     arf_clear(u);
     return st;
 }
 
-/* W F at V, or (bound != 0) the upper bound W Phi(V1) - sum_j q_j W Phi(V2/q_j) */
-static int threshold_f(arb_t res, actx *c, const embz_target_t q, const arb_t V1,
-                       const arb_t V2, slong prec)
-{
-    arb_t u, qj, x;
-    arb_init(u); arb_init(qj); arb_init(x);
-    int st = phi_w(res, c, V1, prec);
-    for (long j = 0; j < q->q->len && st == EMBZ_OK; j++) {
-        if (fmpq_is_zero(q->q->p + j)) continue;
-        arb_set_fmpq(qj, q->q->p + j, prec);
-        arb_div(x, V2, qj, prec);
-        st = phi_w(u, c, x, prec);
-        arb_submul(res, u, qj, prec);
-    }
-    arb_clear(u); arb_clear(qj); arb_clear(x);
-    c->evals++;
-    return st;
-}
-
 /* a point near V where every comparison is decided (V itself, else nudged by 2^-40 relative
- * steps in the given direction) */
-static int threshold_point(arb_t res, actx *c, const embz_target_t q, arb_t V, int dir,
-                           slong prec)
+ * steps in the given direction); e receives the value with its counts */
+static int threshold_point(arb_t res, th_end *e, actx *c, const embz_target_t q, arb_t V,
+                           int dir, slong prec)
 {
     int st = EMBZ_ERR_PREC;
     for (int tries = 0; tries < 8 && st == EMBZ_ERR_PREC; tries++) {
-        st = threshold_f(res, c, q, V, V, prec);
+        st = th_end_eval(e, c, q, V, prec);
         if (st == EMBZ_ERR_PREC) nudge(V, dir >= 0 ? 1 : -1, prec);
     }
+    arb_set(res, e->F);
     return st;
 }
 
-typedef struct { arf_t a, b, U; } th_item;
+/* an interval [a, b] of thresholds with its bound U and what is known at its ends */
+typedef struct { arf_t a, b, U; th_end ea, eb; } th_item;
+
+static void th_item_init(th_item *it)
+{
+    arf_init(it->a); arf_init(it->b); arf_init(it->U);
+    th_end_init(&it->ea); th_end_init(&it->eb);
+}
+
+static void th_item_clear(th_item *it)
+{
+    arf_clear(it->a); arf_clear(it->b); arf_clear(it->U);
+    th_end_clear(&it->ea); th_end_clear(&it->eb);
+}
 
 /* best-first search; fills *lo (proven value, lower end) and *hi (upper bound) of W E */
 static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, slong budget,
@@ -1992,8 +2017,10 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
     arf_zero(hi);
     /* tolerance in weight units: 2^-(prec-16) W */
     arb_mul_2exp_si(tol, c->W, -(prec - 16));
+    th_end ev, ca, cb;
+    th_end_init(&ev); th_end_init(&ca); th_end_init(&cb);
     if (st == EMBZ_OK) {
-        st = threshold_point(f, c, q, Va, -1, prec);
+        st = threshold_point(f, &ev, c, q, Va, -1, prec);
         if (st == EMBZ_OK) {
             arb_get_lbound_arf(bnd, f, prec);
             if (arf_cmp(bnd, best) > 0) arf_set(best, bnd);
@@ -2001,7 +2028,8 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
             if (arf_cmp(bnd, hi) > 0) arf_set(hi, bnd);
         }
         if (st == EMBZ_OK) {
-            arf_init(h[0].a); arf_init(h[0].b); arf_init(h[0].U);
+            th_item_init(h);
+            th_end_set(&h[0].ea, &ev);
             arf_set(h[0].a, arb_midref(Va));
             arf_set(h[0].b, arb_midref(Vb));
             arf_pos_inf(h[0].U);
@@ -2030,9 +2058,9 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
             arb_mul_2exp_si(V, V, -1);
         }
         arb_set_arf(V, arb_midref(V));
-        st = threshold_point(f, c, q, V, 1, prec);
+        st = threshold_point(f, &ev, c, q, V, 1, prec);
         evals++;
-        if (st != EMBZ_OK) { arf_clear(it.a); arf_clear(it.b); arf_clear(it.U); break; }
+        if (st != EMBZ_OK) { th_item_clear(&it); break; }
         arb_get_lbound_arf(bnd, f, prec);
         if (arf_cmp(bnd, best) > 0) arf_set(best, bnd);
         arb_get_ubound_arf(bnd, f, prec);
@@ -2047,11 +2075,14 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
             arb_init(A); arb_init(B);
             arb_set(A, Va);
             arb_set(B, Vb);
-            int ok = 0;
+            int ok = 0, tries;
             arf_t U2;
             arf_init(U2);
-            for (int tries = 0; tries < 8 && !ok; tries++) {
-                int s2 = threshold_f(f, c, q, A, B, prec);
+            /* the values known at the ends: the parent's, and the split point's */
+            th_end_set(&ca, side == 0 ? &it.ea : &ev);
+            th_end_set(&cb, side == 0 ? &ev : &it.eb);
+            for (tries = 0; tries < 8 && !ok; tries++) {
+                int s2 = threshold_f(f, NULL, NULL, c, q, A, B, prec);
                 if (s2 == EMBZ_OK) ok = 1;
                 else if (s2 != EMBZ_ERR_PREC) { st = s2; break; }
                 else {
@@ -2060,11 +2091,13 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
                 }
             }
             evals++;
+            if (tries > 1) ca.ok = cb.ok = 0;      /* nudged ends: known values do not apply */
             /* the second-order bound where the first-order one is not already below the
-             * best value (it costs the counts at both ends) */
+             * best value (it needs the values and counts at both ends) */
             if (st == EMBZ_OK && ok) {
                 arb_get_ubound_arf(U2, f, prec);
-                if (arf_cmp(U2, best) >= 0 && threshold_bound2(U2, c, q, A, B, prec) == EMBZ_OK) {
+                if (arf_cmp(U2, best) >= 0
+                    && threshold_bound2(U2, c, q, A, B, &ca, &cb, prec) == EMBZ_OK) {
                     evals++;
                     arb_get_ubound_arf(bnd, f, prec);
                     if (arf_cmp(U2, bnd) < 0) arb_set_arf(f, U2);
@@ -2076,22 +2109,27 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
                     cap *= 2;
                     h = flint_realloc(h, sizeof(th_item) * cap);
                 }
-                arf_init(h[len].a); arf_init(h[len].b); arf_init(h[len].U);
+                th_item_init(h + len);
                 arf_set(h[len].a, arb_midref(Va));
                 arf_set(h[len].b, arb_midref(Vb));
                 if (ok) arb_get_ubound_arf(h[len].U, f, prec);
                 else arf_pos_inf(h[len].U);
+                if (tries <= 1) {
+                    th_end_set(&h[len].ea, &ca);
+                    th_end_set(&h[len].eb, &cb);
+                }
                 if (arf_cmp(h[len].U, best) >= 0) len++;   /* else: below a proven value */
-                else { arf_clear(h[len].a); arf_clear(h[len].b); arf_clear(h[len].U); }
+                else th_item_clear(h + len);
             }
             arb_clear(A); arb_clear(B);
         }
-        arf_clear(it.a); arf_clear(it.b); arf_clear(it.U);
+        th_item_clear(&it);
     }
     for (slong i = 0; i < len; i++) {
         if (arf_cmp(h[i].U, hi) > 0) arf_set(hi, h[i].U);
-        arf_clear(h[i].a); arf_clear(h[i].b); arf_clear(h[i].U);
+        th_item_clear(h + i);
     }
+    th_end_clear(&ev); th_end_clear(&ca); th_end_clear(&cb);
     if (arf_cmp(hi, best) < 0) arf_set(hi, best);
     arf_set(lo, best);
     flint_free(h);
