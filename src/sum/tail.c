@@ -234,73 +234,70 @@ static int integrate_u_depth(arb_t res, embz_tail_t t, const arb_t ua, const arb
     return st;
 }
 
-int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto, slong prec)
+/* Bisection on the index for the boundary between a left part (M, a] and the rest of
+ * (M, upto]: the left part is "w > v" for a non-increasing tail and "w <= v" for a
+ * non-decreasing one. mode 0: every comparison must be decided (EMBZ_ERR_PREC otherwise);
+ * mode 1: an index is left when it is certainly left; mode 2: when it is not certainly right.
+ * A certified comparison at an index also holds beyond it on the far side (the weights are
+ * monotone), so modes 1 and 2 give the lower and upper ends of the true boundary. */
+static int tail_bisect(fmpz_t a, embz_tail_t t, const arb_t v, const fmpz_t upto, int mode,
+                       slong prec)
 {
-    /* the indices with w > v form a prefix (non-increasing) or a suffix (non-decreasing) of
-     * (M, upto]: bisection on the index, every comparison certified by the balls */
-    fmpz_t lo, hi, mid;
+    fmpz_t b, mid;
     arb_t x, w;
     int st = EMBZ_OK;
-    fmpz_init(lo); fmpz_init(hi); fmpz_init(mid);
+    fmpz_init(b); fmpz_init(mid);
     arb_init(x); arb_init(w);
-    /* invariant (non-increasing): indices <= lo are above v, indices >= hi are below */
-    fmpz_set_si(lo, t->M);
-    fmpz_add_ui(hi, upto, 1);
+    fmpz_set_si(a, t->M);
+    fmpz_add_ui(b, upto, 1);
     for (;;) {
-        fmpz_sub(mid, hi, lo);
+        fmpz_sub(mid, b, a);
         if (fmpz_cmp_ui(mid, 1) <= 0) break;
-        fmpz_add(mid, lo, hi);
+        fmpz_add(mid, a, b);
         fmpz_fdiv_q_2exp(mid, mid, 1);
         arb_set_fmpz(x, mid);
         if (embz_expr_eval_arb(w, t->w, x, t->n, prec) != EMBZ_OK) { st = EMBZ_ERR_DOMAIN; break; }
-        int above = arb_gt(w, v), below = arb_lt(w, v);
-        if (!above && !below) { st = EMBZ_ERR_PREC; break; }
-        if ((t->dir > 0) == (above != 0)) fmpz_set(lo, mid);
-        else fmpz_set(hi, mid);
+        int left, above = arb_gt(w, v);
+        if (mode == 0) {
+            if (!above && !arb_lt(w, v)) { st = EMBZ_ERR_PREC; break; }
+            left = (t->dir > 0) == (above != 0);
+        } else if (mode == 1) {
+            left = t->dir > 0 ? above : arb_le(w, v);
+        } else {
+            left = t->dir > 0 ? !arb_le(w, v) : !above;
+        }
+        if (left) fmpz_set(a, mid);
+        else fmpz_set(b, mid);
     }
-    if (st == EMBZ_OK) {
-        if (t->dir > 0) fmpz_sub_si(res, lo, t->M);      /* indices M+1 .. lo */
-        else fmpz_sub(res, upto, lo);                    /* indices hi .. upto, hi = lo + 1 */
-    }
-    fmpz_clear(lo); fmpz_clear(hi); fmpz_clear(mid);
+    fmpz_clear(b); fmpz_clear(mid);
     arb_clear(x); arb_clear(w);
+    return st;
+}
+
+int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto, slong prec)
+{
+    /* the indices with w > v form a prefix (non-increasing) or a suffix (non-decreasing) of
+     * (M, upto] */
+    fmpz_t a;
+    fmpz_init(a);
+    int st = tail_bisect(a, t, v, upto, 0, prec);
+    if (st == EMBZ_OK) {
+        if (t->dir > 0) fmpz_sub_si(res, a, t->M);       /* indices M+1 .. a */
+        else fmpz_sub(res, upto, a);                     /* indices a+1 .. upto */
+    }
+    fmpz_clear(a);
     return st;
 }
 
 int embz_tail_count_range(fmpz_t lo, fmpz_t hi, arb_t tie, embz_tail_t t, const arb_t v,
                           const fmpz_t upto, slong prec)
 {
-    /* two bisections on the index, one for "certainly on v's side of the large weights"
-     * and one for "certainly on the other side": their boundaries enclose the true one,
-     * because a certified comparison at an index also holds for all indices beyond it on the
-     * far side (the weights are monotone); the indices in between are undecided */
-    fmpz_t a, b, mid;
+    fmpz_t bnd[2], mid;
     arb_t x, w;
-    int st = EMBZ_OK;
-    fmpz_init(a); fmpz_init(b); fmpz_init(mid);
+    fmpz_init(bnd[0]); fmpz_init(bnd[1]); fmpz_init(mid);
     arb_init(x); arb_init(w);
-    fmpz_t bnd[2];
-    fmpz_init(bnd[0]); fmpz_init(bnd[1]);
-    for (int pass = 0; pass < 2 && st == EMBZ_OK; pass++) {
-        /* pass 0: a = last index with w certainly above v (dir > 0) / certainly not above
-         * (dir < 0); pass 1: a = last index with w not certainly below / not certainly above */
-        fmpz_set_si(a, t->M);
-        fmpz_add_ui(b, upto, 1);
-        for (;;) {
-            fmpz_sub(mid, b, a);
-            if (fmpz_cmp_ui(mid, 1) <= 0) break;
-            fmpz_add(mid, a, b);
-            fmpz_fdiv_q_2exp(mid, mid, 1);
-            arb_set_fmpz(x, mid);
-            if (embz_expr_eval_arb(w, t->w, x, t->n, prec) != EMBZ_OK) { st = EMBZ_ERR_DOMAIN; break; }
-            int left;                 /* does mid belong to the left part? */
-            if (t->dir > 0) left = (pass == 0) ? arb_gt(w, v) : !arb_le(w, v);
-            else left = (pass == 0) ? arb_le(w, v) : !arb_gt(w, v);
-            if (left) fmpz_set(a, mid);
-            else fmpz_set(b, mid);
-        }
-        fmpz_set(bnd[pass], a);
-    }
+    int st = tail_bisect(bnd[0], t, v, upto, 1, prec);
+    if (st == EMBZ_OK) st = tail_bisect(bnd[1], t, v, upto, 2, prec);
     if (st == EMBZ_OK) {
         /* indices bnd[0] + 1 .. bnd[1] are undecided */
         if (t->dir > 0) {
@@ -327,8 +324,7 @@ int embz_tail_count_range(fmpz_t lo, fmpz_t hi, arb_t tie, embz_tail_t t, const 
             }
         }
     }
-    fmpz_clear(bnd[0]); fmpz_clear(bnd[1]);
-    fmpz_clear(a); fmpz_clear(b); fmpz_clear(mid);
+    fmpz_clear(bnd[0]); fmpz_clear(bnd[1]); fmpz_clear(mid);
     arb_clear(x); arb_clear(w);
     return st;
 }
