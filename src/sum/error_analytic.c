@@ -1774,10 +1774,11 @@ out:
  * E_n(q) = max_(t >= 0) F(t),  F(t) = Phi(t) - sum_j q_j Phi(t / q_j),
  * Phi(t) = sum_i (p_i - t)_+. In weight units (V = t W): W Phi = S(N(V)) - N(V) V with
  * N(V) = #{i : w_i > V} (A, B and the inserted head weights by comparison, the tail by
- * embz_tail_count) and S(N) the sum of the N largest weights (pos_sum). Phi decreases, so
- * on [V1, V2]:  W F <= W Phi(V1) - sum_j q_j W Phi(V2 / q_j), and values at points are lower
- * bounds. Below V_lo = q_m w_min, F = n V (m - 1) / W increases; above the largest weight
- * F = 0. The search runs best first in ln V over [V_lo, V_hi]. */
+ * embz_tail_count_range) and S(N) the sum of the N largest weights (pos_sum). Phi
+ * decreases, so on [V1, V2]:  W F <= W Phi(V1) - sum_j q_j W Phi(V2 / q_j) (first order;
+ * threshold_bound2 gives the second-order bound), and values at points are lower bounds.
+ * Below V_lo = q_m w_min, F = n V (m - 1) / W increases; above the largest weight F = 0.
+ * The search runs best first in ln V over [V_lo, V_hi]. */
 
 /* *k += the number of the len values above V; EMBZ_ERR_PREC when one cannot be compared */
 static int count_above(slong *k, arb_srcptr v, slong len, const arb_t V)
@@ -1842,7 +1843,6 @@ static int phi_wn(arb_t res, fmpz_t Nlo, fmpz_t Nhi, actx *c, const arb_t V, slo
     return st;
 }
 
-#define phi_w(res, c, V, prec) phi_wn(res, NULL, NULL, c, V, prec)
 
 /* The upper bound W Phi(V1) - sum_j q_j W Phi(V2/q_j) (W F at V when V1 = V2 = V), and when
  * Nv, Nq are not NULL the counts for the slope bounds below: N(V1) in [Nv[0], Nv[1]] and
