@@ -191,6 +191,10 @@ START_TEST(test_targets)
     ck_assert_int_eq(t->q->len, 3);
     ck_assert(qeq(t->q->p + 0, 7, 10) && qeq(t->q->p + 1, 1, 5) && qeq(t->q->p + 2, 1, 10));
     ck_assert_str_eq(t->label, "vector[3]");
+    /* entries that do not sum to 1 are normalised, and the label says so */
+    ck_assert_int_eq(embz_target_parse(t, "0.7,0.4", 0, &err), EMBZ_OK);
+    ck_assert(qeq(t->q->p + 0, 7, 11) && qeq(t->q->p + 1, 4, 11));
+    ck_assert_str_eq(t->label, "vector[2], normalised to sum 1");
     /* errors */
     const char *bad[] = { "ebits:0", "ebits:31", "ebits:", "ebits:x", "uniform:1", "uniform:",
                           "uniform:-3", "uniform:2.5", "1", "0,0.5,0", "ebitz", "0.5,-0.5", NULL };

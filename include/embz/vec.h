@@ -33,7 +33,8 @@ typedef struct {
     int kind;
     ulong d;          /* UNIFORM: d-level maximally entangled (ebit: 2; ebits:J: 2^J) */
     embz_qvec_t q;    /* VECTOR: the Schmidt probabilities, sorted non-increasing */
-    char label[64];   /* "ebit", "ebits:3", "uniform:5", "vector[4]" */
+    char label[64];   /* "ebit", "ebits:3", "uniform:5", "vector[4]" (", normalised to sum 1"
+                         added when the entries were divided by their sum) */
 } embz_target_struct;
 typedef embz_target_struct embz_target_t[1];
 

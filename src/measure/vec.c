@@ -327,6 +327,9 @@ int embz_target_parse(embz_target_t t, const char *spec, int amplitude, embz_err
     t->q->normalised = q->normalised;
     for (long k = 0; k < m; k++) fmpq_set(t->q->p + k, q->p + k);
     embz_qvec_clear(q);
-    snprintf(t->label, sizeof(t->label), "vector[%ld]", m);
+    /* entries that did not sum to 1 were divided by their sum: say so wherever the label is
+     * shown */
+    snprintf(t->label, sizeof(t->label), "vector[%ld]%s", m,
+             t->q->normalised ? ", normalised to sum 1" : "");
     return EMBZ_OK;
 }
