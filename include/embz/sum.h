@@ -135,6 +135,18 @@ void embz_analytic_clear_decision(embz_analytic_t a);
 int embz_analytic_error(embz_error_result_t res, embz_analytic_t a, const fmpz_t n,
                         const embz_target_t q, embz_err_t *err);
 
+/* With w(e^u) = core(u) e^(rate u) (t->usplit): P_k over a ball U of u = ln x, k = 0..K,
+ * where x^k f^(k)(x) = e^(rate u) P_k(u); and the Taylor coefficients 0..len-1 of
+ * sigma -> ln f(e^(s + sigma)) at a (point or wide) ball s. EMBZ_ERR_UNSUPPORTED without
+ * the split. */
+int embz_tail_pk(arb_ptr P, embz_tail_t t, const arb_t U, slong K, slong prec);
+int embz_tail_logweight_series(arb_ptr res, embz_tail_t t, const arb_t s, slong len,
+                               slong prec);
+/* An approximation s (exact ball, not verified) of ln x where f(x) = e^lnv, by Newton on
+ * ln f(e^s) from the middle of [slo, shi]; EMBZ_ERR_PREC when it does not converge. */
+int embz_tail_log_root(arb_t s, embz_tail_t t, const arb_t lnv, const arb_t slo,
+                       const arb_t shi, slong prec);
+
 /* Taylor coefficients 0..len-1 of tau -> phi(v + tau), phi(u) = w(e^u) e^u; v may be wide. */
 int embz_tail_phi_series(arb_ptr res, embz_tail_t t, const arb_t v, slong len, slong prec);
 

@@ -240,14 +240,36 @@ static int integrate_u_depth(arb_t res, embz_tail_t t, const arb_t ua, const arb
  * mode 1: an index is left when it is certainly left; mode 2: when it is not certainly right.
  * A certified comparison at an index also holds beyond it on the far side (the weights are
  * monotone), so modes 1 and 2 give the lower and upper ends of the true boundary. */
+/* the bisection predicate at index x (see tail_bisect): 1 / 0, or EMBZ_ERR_* < 0 */
+static int tail_left(embz_tail_t t, const fmpz_t x, const arb_t v, int mode, slong prec)
+{
+    arb_t xb, w;
+    arb_init(xb); arb_init(w);
+    int res;
+    arb_set_fmpz(xb, x);
+    if (embz_expr_eval_arb(w, t->w, xb, t->n, prec) != EMBZ_OK) {
+        res = -EMBZ_ERR_DOMAIN;
+    } else {
+        int above = arb_gt(w, v);
+        if (mode == 0) {
+            if (!above && !arb_lt(w, v)) res = -EMBZ_ERR_PREC;
+            else res = (t->dir > 0) == (above != 0);
+        } else if (mode == 1) {
+            res = t->dir > 0 ? above : arb_le(w, v);
+        } else {
+            res = t->dir > 0 ? !arb_le(w, v) : !above;
+        }
+    }
+    arb_clear(xb); arb_clear(w);
+    return res;
+}
+
 static int tail_bisect(fmpz_t a, embz_tail_t t, const arb_t v, const fmpz_t upto, int mode,
                        slong prec)
 {
     fmpz_t b, mid;
-    arb_t x, w;
     int st = EMBZ_OK;
     fmpz_init(b); fmpz_init(mid);
-    arb_init(x); arb_init(w);
     fmpz_set_si(a, t->M);
     fmpz_add_ui(b, upto, 1);
     for (;;) {
@@ -255,22 +277,12 @@ static int tail_bisect(fmpz_t a, embz_tail_t t, const arb_t v, const fmpz_t upto
         if (fmpz_cmp_ui(mid, 1) <= 0) break;
         fmpz_add(mid, a, b);
         fmpz_fdiv_q_2exp(mid, mid, 1);
-        arb_set_fmpz(x, mid);
-        if (embz_expr_eval_arb(w, t->w, x, t->n, prec) != EMBZ_OK) { st = EMBZ_ERR_DOMAIN; break; }
-        int left, above = arb_gt(w, v);
-        if (mode == 0) {
-            if (!above && !arb_lt(w, v)) { st = EMBZ_ERR_PREC; break; }
-            left = (t->dir > 0) == (above != 0);
-        } else if (mode == 1) {
-            left = t->dir > 0 ? above : arb_le(w, v);
-        } else {
-            left = t->dir > 0 ? !arb_le(w, v) : !above;
-        }
+        int left = tail_left(t, mid, v, mode, prec);
+        if (left < 0) { st = -left; break; }
         if (left) fmpz_set(a, mid);
         else fmpz_set(b, mid);
     }
     fmpz_clear(b); fmpz_clear(mid);
-    arb_clear(x); arb_clear(w);
     return st;
 }
 
@@ -289,6 +301,56 @@ int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto,
     return st;
 }
 
+/* Beyond about 2^prec the set of undecided indices is wide, and bisection to its exact
+ * edges costs one evaluation per bit of the index. Instead: the root x* of f(x) = v by Newton
+ * in s = ln x (embz_tail_log_root), then bnd[0] = floor(x* (1 - e)) with the mode-1
+ * predicate true and bnd[1] + 1 = ceil(x* (1 + e)) with the mode-2 predicate false,
+ * e = 2^-(prec - 10) |s| (what s at prec bits can locate): the same guarantees as the bisection's ends (by monotonicity), with
+ * an undecided range about 2 e x* wide instead of the smallest one. EMBZ_ERR_PREC when
+ * the checks fail (the caller bisects). */
+static int tail_bracket(fmpz *bnd, embz_tail_t t, const arb_t v, const fmpz_t upto,
+                        slong prec)
+{
+    arb_t lv, slo, shi, s, x, e;
+    fmpz_t xa, xb;
+    arb_init(lv); arb_init(slo); arb_init(shi); arb_init(s); arb_init(x); arb_init(e);
+    fmpz_init(xa); fmpz_init(xb);
+    int st = EMBZ_ERR_PREC;
+    if (t->usplit && arb_is_positive(v)) {
+        arb_log(lv, v, prec);
+        arb_set_si(slo, t->M + 1);
+        arb_log(slo, slo, prec);
+        arb_set_fmpz(shi, upto);
+        arb_log(shi, shi, prec);
+        st = embz_tail_log_root(s, t, lv, slo, shi, prec);
+    }
+    if (st == EMBZ_OK) {
+        /* s is known to about 2^-prec |s| (absolute), so x to that relative precision */
+        slong eb = prec - 10 - FLINT_MAX(0, arf_abs_bound_lt_2exp_si(arb_midref(s)));
+        arb_exp(x, s, prec);
+        arb_mul_2exp_si(e, x, -eb);
+        arb_sub(e, x, e, prec);
+        arf_get_fmpz(xa, arb_midref(e), ARF_RND_FLOOR);
+        arb_mul_2exp_si(e, x, -eb);
+        arb_add(e, x, e, prec);
+        arf_get_fmpz(xb, arb_midref(e), ARF_RND_CEIL);
+        /* the ends M and upto + 1 hold the predicates by convention (as in tail_bisect) */
+        if (fmpz_cmp_si(xa, t->M) < 0) fmpz_set_si(xa, t->M);
+        if (fmpz_cmp(xb, upto) > 0) fmpz_add_ui(xb, upto, 1);
+        st = EMBZ_ERR_PREC;
+        if (fmpz_cmp(xa, xb) < 0
+            && (fmpz_cmp_si(xa, t->M) == 0 || tail_left(t, xa, v, 1, prec) == 1)
+            && (fmpz_cmp(xb, upto) > 0 || tail_left(t, xb, v, 2, prec) == 0)) {
+            fmpz_set(bnd, xa);
+            fmpz_sub_ui(bnd + 1, xb, 1);
+            st = EMBZ_OK;
+        }
+    }
+    arb_clear(lv); arb_clear(slo); arb_clear(shi); arb_clear(s); arb_clear(x); arb_clear(e);
+    fmpz_clear(xa); fmpz_clear(xb);
+    return st;
+}
+
 int embz_tail_count_range(fmpz_t lo, fmpz_t hi, arb_t tie, embz_tail_t t, const arb_t v,
                           const fmpz_t upto, slong prec)
 {
@@ -296,8 +358,13 @@ int embz_tail_count_range(fmpz_t lo, fmpz_t hi, arb_t tie, embz_tail_t t, const 
     arb_t x, w;
     fmpz_init(bnd[0]); fmpz_init(bnd[1]); fmpz_init(mid);
     arb_init(x); arb_init(w);
-    int st = tail_bisect(bnd[0], t, v, upto, 1, prec);
-    if (st == EMBZ_OK) st = tail_bisect(bnd[1], t, v, upto, 2, prec);
+    int st = EMBZ_ERR_PREC;
+    if (fmpz_bits(upto) > (flint_bitcnt_t) prec - 16)
+        st = tail_bracket(bnd, t, v, upto, prec);
+    if (st != EMBZ_OK) {
+        st = tail_bisect(bnd[0], t, v, upto, 1, prec);
+        if (st == EMBZ_OK) st = tail_bisect(bnd[1], t, v, upto, 2, prec);
+    }
     if (st == EMBZ_OK) {
         /* indices bnd[0] + 1 .. bnd[1] are undecided */
         if (t->dir > 0) {
@@ -608,6 +675,95 @@ static int level_meets(const embz_tail_struct *t, slong j, const arb_t xa, const
     return meets;
 }
 
+/* s = ln x with f(x) = e^lnv approximately (an exact ball, not verified): Newton on
+ * L(s) = ln f(e^s) from the middle of [slo, shi], clamped to it. EMBZ_ERR_PREC when it does
+ * not settle to 2^-(prec - 8) max(1, |s|). Needs t->usplit. */
+int embz_tail_log_root(arb_t s, embz_tail_t t, const arb_t lnv, const arb_t slo,
+                       const arb_t shi, slong prec)
+{
+    arb_t step;
+    arb_ptr g = _arb_vec_init(2);
+    arb_init(step);
+    int st = EMBZ_ERR_PREC;
+    arb_add(s, slo, shi, prec);
+    arb_mul_2exp_si(s, s, -1);
+    arb_set_arf(s, arb_midref(s));
+    for (int it = 0; it < 60; it++) {
+        if (embz_tail_logweight_series(g, t, s, 2, prec) != EMBZ_OK) break;
+        arb_sub(step, g, lnv, prec);
+        arb_div(step, step, g + 1, prec);
+        if (!arb_is_finite(step)) break;
+        arb_sub(s, s, step, prec);
+        arb_set_arf(s, arb_midref(s));
+        if (arf_cmp(arb_midref(s), arb_midref(slo)) < 0) arb_set_arf(s, arb_midref(slo));
+        if (arf_cmp(arb_midref(s), arb_midref(shi)) > 0) arb_set_arf(s, arb_midref(shi));
+        if (arf_cmpabs_2exp_si(arb_midref(step), -prec + 8 + FLINT_MAX(0,
+                arf_abs_bound_lt_2exp_si(arb_midref(s)))) < 0) { st = EMBZ_OK; break; }
+    }
+    _arb_vec_clear(g, 2);
+    arb_clear(step);
+    return st;
+}
+
+/* P_k over a ball U of u = ln x, k = 0..K, where x^k f^(k)(x) = e^(rate u) P_k(u):
+ * P_0 = core, P_(k+1) = (D + rate - k) P_k (D = d/du). Needs t->usplit. */
+int embz_tail_pk(arb_ptr P, embz_tail_t t, const arb_t U, slong K, slong prec)
+{
+    if (!t->usplit) return EMBZ_ERR_UNSUPPORTED;
+    slong len = K + 1;
+    arb_ptr d = _arb_vec_init(len), us = _arb_vec_init(len);
+    arb_t c, e1;
+    arb_init(c); arb_init(e1);
+    arb_set(us, U);
+    if (len > 1) arb_one(us + 1);
+    int st = embz_expr_eval_series(d, t->core, us, t->n, len, prec);
+    t->evals++;
+    if (st == EMBZ_OK && !_arb_vec_is_finite(d, len)) st = EMBZ_ERR_DOMAIN;
+    if (st == EMBZ_OK) {
+        /* d[i] = core^(i)(U); then P[k] = P_k(U) by applying (D + r - m), m = 0 .. K-1 */
+        for (slong i = 1; i < len; i++) {
+            arb_fac_ui(c, (ulong) i, prec);
+            arb_mul(d + i, d + i, c, prec);
+        }
+        arb_set(P, d);
+        for (slong m = 0; m < K; m++) {
+            arb_sub_si(c, t->rate, m, prec);
+            for (slong i = 0; i + m + 1 < len; i++) {
+                arb_mul(e1, c, d + i, prec);
+                arb_add(d + i, d + i + 1, e1, prec);
+            }
+            arb_set(P + m + 1, d);
+        }
+    }
+    _arb_vec_clear(d, len);
+    _arb_vec_clear(us, len);
+    arb_clear(c); arb_clear(e1);
+    return st;
+}
+
+/* Taylor coefficients 0..len-1 of sigma -> ln f(e^(s + sigma)) = ln core(s + sigma)
+ * + rate (s + sigma), s a (point or wide) ball. Needs t->usplit. */
+int embz_tail_logweight_series(arb_ptr res, embz_tail_t t, const arb_t s, slong len,
+                               slong prec)
+{
+    if (!t->usplit) return EMBZ_ERR_UNSUPPORTED;
+    arb_ptr d = _arb_vec_init(len), us = _arb_vec_init(len);
+    arb_set(us, s);
+    if (len > 1) arb_one(us + 1);
+    int st = embz_expr_eval_series(d, t->core, us, t->n, len, prec);
+    t->evals++;
+    if (st == EMBZ_OK && !(arb_is_positive(d) && _arb_vec_is_finite(d, len)))
+        st = EMBZ_ERR_DOMAIN;
+    if (st == EMBZ_OK) {
+        _arb_poly_log_series(res, d, len, len, prec);
+        arb_addmul(res, t->rate, s, prec);
+        if (len > 1) arb_add(res + 1, res + 1, t->rate, prec);
+    }
+    _arb_vec_clear(d, len);
+    _arb_vec_clear(us, len);
+    return st;
+}
+
 /* The u-chunk [ua, ub] certified as a whole through w(e^u) = core(u) e^(r u), u the variable:
  * x^k f^(k)(x) = e^(r u) P_k(u) with P_k = (D + r)(D + r - 1) ... (D + r - k + 1) core,
  * D = d/du (because x d/dx = D and D e^(r u) = e^(r u) (D + r)). core is slowly varying for the
@@ -629,29 +785,10 @@ static int certify_chunk_u(embz_tail_t t, const arf_t ua, const arf_t ub, mag_pt
     for (slong j = 0; j < t->nlev; j++)
         if (level_meets(t, j, xa, xb)) qmax = FLINT_MAX(qmax, t->lev_p[j]);
     slong K = FLINT_MAX(2 * qmax, 1), len = K + 1;
-    arb_ptr d = _arb_vec_init(len), P = _arb_vec_init(len);
+    arb_ptr P = _arb_vec_init(len);
     mag_ptr add = _mag_vec_init(t->nlev);
-    arb_ptr us = _arb_vec_init(len);
-    arb_set(us, U);
-    arb_one(us + 1);
-    int st = embz_expr_eval_series(d, t->core, us, t->n, len, prec);
-    t->evals++;
-    if (st == EMBZ_OK && !_arb_vec_is_finite(d, len)) st = EMBZ_ERR_DOMAIN;
+    int st = embz_tail_pk(P, t, U, K, prec);
     if (st == EMBZ_OK) {
-        /* d[i] = core^(i)(U); then P[k] = P_k(U) by applying (D + r - m), m = 0 .. K-1 */
-        for (slong i = 1; i < len; i++) {
-            arb_fac_ui(c, (ulong) i, prec);
-            arb_mul(d + i, d + i, c, prec);
-        }
-        arb_set(P, d);
-        for (slong m = 0; m < K; m++) {
-            arb_sub_si(c, t->rate, m, prec);
-            for (slong i = 0; i + m + 1 < len; i++) {
-                arb_mul(e1, c, d + i, prec);
-                arb_add(d + i, d + i + 1, e1, prec);
-            }
-            arb_set(P + m + 1, d);
-        }
         int s = sign_of(P + 1);
         if (s == 2 || !_arb_vec_is_finite(P, len)) st = EMBZ_ERR_UNSUPPORTED;
         for (slong j = 0; j < t->nlev && st == EMBZ_OK; j++) {
@@ -698,7 +835,7 @@ static int certify_chunk_u(embz_tail_t t, const arf_t ua, const arf_t ub, mag_pt
             }
         }
     }
-    _arb_vec_clear(d, len); _arb_vec_clear(P, len); _arb_vec_clear(us, len);
+    _arb_vec_clear(P, len);
     _mag_vec_clear(add, t->nlev);
     arb_clear(U); arb_clear(xa); arb_clear(xb); arb_clear(x); arb_clear(c); arb_clear(e1);
     arb_clear(e2);
