@@ -6,12 +6,18 @@ Plain definition: p_i = w(i) / sum w, sorted non-increasing; r = all products p_
 non-increasing; with p padded by zeros, K = max over k of (sum of the k largest p) - (sum of the
 k largest r), k = 0 .. len(r).
 
+Second part: the inverse-index family w_i = 1/i at astronomically large n (10^5 .. 10^1000) for
+target vectors, from exact harmonic numbers (mpmath's digamma) at the breakpoints of the threshold
+form next to the smallest weight (see corner_reference); that shortcut is itself checked against
+the plain definition at n = 3000.
+
 Usage: reference_mpmath.py EMBZ_BINARY
 Exit status: 0 all inside, 1 a mismatch or a failing run.
 """
 import json
 import subprocess
 import sys
+from fractions import Fraction
 
 import mpmath
 from mpmath import mp, mpf
@@ -50,10 +56,80 @@ def reference(weights, q):
     return best
 
 
-def main():
-    embz = sys.argv[1]
+def harmonic(N):
+    """H_N = digamma(N + 1) + Euler's constant (N an exact integer)."""
+    return mpmath.digamma(mpf(N) + 1) + mpmath.euler if N > 0 else mpf(0)
+
+
+def corner_reference(n, q):
+    """E_n(q) for w_i = 1/i by the threshold form [derived, see docs/engine.md]:
+    E = max_t F(t), F(t) = Phi(t) - sum_j q_j Phi(t/q_j), Phi(t) = sum_i (p_i - t)_+. In weight
+    units (V = t W, W = H_n) W Phi(T) = H_N - N T with N = N(T) = min(n, ceil(1/T) - 1), the
+    number of weights above T. F is piecewise linear with local maxima at V = q_j / i. Right of
+    the smallest weight 1/n its slope is about -(m - 1)/2 (F rises towards V = 1/n), left of it
+    the slope is -n + sum_j N(V/q_j) ~ 1/V - n - O(m), so the maximum is at a breakpoint
+    V = q_j / i with i / q_j within a few units of n. Counts and N T are exact (fractions)."""
+    q = [Fraction(x) for x in q]
+    W = harmonic(n)
+
+    def phi_w(T):
+        N = min(n, max(0, -(-1 // T) - 1))      # ceil(1/T) - 1, exactly
+        return harmonic(N) - mpf(N * T.numerator) / T.denominator
+
+    best = mpf(0)
+    for qb in q + [Fraction(1)]:
+        start = (qb * n).__floor__() - 8
+        for i in range(max(1, start), start + 40):
+            V = qb / i
+            f = phi_w(V) - mpmath.fsum(mpf(qj.numerator) / qj.denominator * phi_w(V / qj)
+                                       for qj in q)
+            best = max(best, f)
+    return best / W
+
+
+def corner_checks(embz):
+    """(checks, failures) of the large-n inverse-family part."""
     failures = 0
     checks = 0
+    # the shortcut against the plain definition
+    n = 3000
+    weights = [1 / mpf(i) for i in range(1, n + 1)]
+    for q in (["0.7", "0.3"], ["0.5", "0.3", "0.2"]):
+        plain = reference(weights, [mpf(x) for x in q])
+        short = corner_reference(n, q)
+        checks += 1
+        if abs(plain - short) > TOL:
+            print("FAIL: corner shortcut %s vs plain definition %s at n=%d, q=%s"
+                  % (mpmath.nstr(short, 40), mpmath.nstr(plain, 40), n, ",".join(q)))
+            failures += 1
+    cases = [(10 ** 5, ["0.7", "0.3"]), (10 ** 30, ["0.7", "0.3"]),
+             (10 ** 30, ["0.5", "0.3", "0.2"]), (10 ** 100, ["0.6", "0.25", "0.15"]),
+             (10 ** 1000, ["0.7", "0.3"])]
+    for n, q in cases:
+        ref = corner_reference(n, q)
+        exp = len(str(n)) - 1
+        cmd = [embz, "error", "1/i", "-n", "1e%d" % exp, "--target", ",".join(q), "--json"]
+        run = subprocess.run(cmd, capture_output=True, text=True)
+        checks += 1
+        if run.returncode != 0:
+            print("FAIL (exit %d): %s\n%s" % (run.returncode, " ".join(cmd), run.stderr))
+            failures += 1
+            continue
+        data = json.loads(run.stdout)
+        lo = mpf(data["error_lo"])
+        hi = mpf(data["error_hi"])
+        if not (lo - TOL <= ref <= hi + TOL) or hi - lo > mpf("1e-30"):
+            print("FAIL: 1/i n=1e%d target=%s reference %s, engine [%s, %s]"
+                  % (exp, ",".join(q), mpmath.nstr(ref, 45), data["error_lo"], data["error_hi"]))
+            failures += 1
+    return checks, failures
+
+
+def main():
+    embz = sys.argv[1]
+    mp.dps = 80
+    checks, failures = corner_checks(embz)
+    mp.dps = 50
     for fname, fn in FAMILIES:
         for n in SIZES:
             weights = [fn(i) for i in range(1, n + 1)]

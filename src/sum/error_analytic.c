@@ -25,6 +25,8 @@
 #define BB_BUDGET 40000        /* interval evaluations before giving up refining */
 #define BB_SMALL 6             /* intervals with at most this many integers are enumerated */
 #define THRESHOLD_BUDGET 600   /* evaluations of the threshold search for a target vector */
+#define TH_MODEL_TERMS 64      /* smooth threshold models for targets up to this length */
+#define TH_MODEL_LEN 16        /* their order */
 
 typedef struct {
     embz_tail_struct *t;
@@ -1846,16 +1848,19 @@ static int phi_wn(arb_t res, fmpz_t Nlo, fmpz_t Nhi, actx *c, const arb_t V, slo
 
 /* The upper bound W Phi(V1) - sum_j q_j W Phi(V2/q_j) (W F at V when V1 = V2 = V), and when
  * Nv, Nq are not NULL the counts for the slope bounds below: N(V1) in [Nv[0], Nv[1]] and
- * sum_j N(V2/q_j) in [Nq[0], Nq[1]]. */
-static int threshold_f(arb_t res, fmpz *Nv, fmpz *Nq, actx *c, const embz_target_t q,
-                       const arb_t V1, const arb_t V2, slong prec)
+ * sum_j N(V2/q_j) in [Nq[0], Nq[1]]; tn (may be NULL; 2 (len q + 1) entries) receives each
+ * term's count range: N(V1) in [tn[0], tn[1]], N(V2/q_j) in [tn[2j+2], tn[2j+3]]. */
+static int threshold_f(arb_t res, fmpz *Nv, fmpz *Nq, fmpz *tn, actx *c,
+                       const embz_target_t q, const arb_t V1, const arb_t V2, slong prec)
 {
     arb_t u, qj, x;
     fmpz_t klo, khi;
     arb_init(u); arb_init(qj); arb_init(x);
     fmpz_init(klo); fmpz_init(khi);
     if (Nq != NULL) { fmpz_zero(Nq); fmpz_zero(Nq + 1); }
-    int st = phi_wn(res, Nv, Nv == NULL ? NULL : Nv + 1, c, V1, prec);
+    int st = phi_wn(res, klo, khi, c, V1, prec);
+    if (Nv != NULL) { fmpz_set(Nv, klo); fmpz_set(Nv + 1, khi); }
+    if (tn != NULL) { fmpz_set(tn, klo); fmpz_set(tn + 1, khi); }
     for (long j = 0; j < q->q->len && st == EMBZ_OK; j++) {
         if (fmpq_is_zero(q->q->p + j)) continue;
         arb_set_fmpq(qj, q->q->p + j, prec);
@@ -1863,6 +1868,7 @@ static int threshold_f(arb_t res, fmpz *Nv, fmpz *Nq, actx *c, const embz_target
         st = phi_wn(u, klo, khi, c, x, prec);
         arb_submul(res, u, qj, prec);
         if (Nq != NULL) { fmpz_add(Nq, Nq, klo); fmpz_add(Nq + 1, Nq + 1, khi); }
+        if (tn != NULL) { fmpz_set(tn + 2 * j + 2, klo); fmpz_set(tn + 2 * j + 3, khi); }
     }
     arb_clear(u); arb_clear(qj); arb_clear(x);
     fmpz_clear(klo); fmpz_clear(khi);
@@ -1870,17 +1876,23 @@ static int threshold_f(arb_t res, fmpz *Nv, fmpz *Nq, actx *c, const embz_target
     return st;
 }
 
-/* W F at a point with its counts (n: N(V) lo, hi, sum_j N(V/q_j) lo, hi); ok when known */
+/* W F at a point with its counts (n: N(V) lo, hi, sum_j N(V/q_j) lo, hi; tn: each term's,
+ * as in threshold_f, kept for targets of at most TH_MODEL_TERMS entries, else NULL); ok when
+ * known */
 typedef struct {
     arb_t F;
     fmpz n[4];
+    fmpz *tn;
+    slong tlen;
     int ok;
 } th_end;
 
-static void th_end_init(th_end *e)
+static void th_end_init(th_end *e, const embz_target_t q)
 {
     arb_init(e->F);
     for (int k = 0; k < 4; k++) fmpz_init(e->n + k);
+    e->tlen = q->q->len <= TH_MODEL_TERMS ? 2 * q->q->len + 2 : 0;
+    e->tn = e->tlen > 0 ? _fmpz_vec_init(e->tlen) : NULL;
     e->ok = 0;
 }
 
@@ -1888,18 +1900,20 @@ static void th_end_clear(th_end *e)
 {
     arb_clear(e->F);
     for (int k = 0; k < 4; k++) fmpz_clear(e->n + k);
+    if (e->tn != NULL) _fmpz_vec_clear(e->tn, e->tlen);
 }
 
 static void th_end_set(th_end *d, const th_end *e)
 {
     arb_set(d->F, e->F);
     for (int k = 0; k < 4; k++) fmpz_set(d->n + k, e->n + k);
+    if (d->tn != NULL) _fmpz_vec_set(d->tn, e->tn, d->tlen);
     d->ok = e->ok;
 }
 
 static int th_end_eval(th_end *e, actx *c, const embz_target_t q, const arb_t V, slong prec)
 {
-    int st = threshold_f(e->F, e->n, e->n + 2, c, q, V, V, prec);
+    int st = threshold_f(e->F, e->n, e->n + 2, e->tn, c, q, V, V, prec);
     e->ok = (st == EMBZ_OK);
     return st;
 }
@@ -1946,6 +1960,324 @@ static int threshold_bound2(arf_t U, actx *c, const embz_target_t q, const arb_t
     return st;
 }
 
+/* ---------- smooth models of F over wide threshold intervals ----------
+ *
+ * Where F is flat over many decades of t (weights close to 1/i: W F ~ H(q) - (m - 1) V / 2
+ * in the tail), interval bounds built from counts leave a slack of order (B/A - 1)^2 and
+ * cannot close. There F is modelled as a function of u = ln V, term by term:
+ *     W F(V) = W Phi(V) - sum_j q_j W Phi(V / q_j),
+ * each W Phi(T) (T = V / q_j) either
+ *   - linear: no weight lies in (T_min, T_max], so W Phi(T) = S(K) - K T exactly, or
+ *   - tail: (non-increasing tail only) every non-tail weight is above T_max or at most
+ *     T_min, the K0 above sum to S0, and the tail position y(T) (v(y) = T, v(y) = f(M + y))
+ *     stays in [1, L]. Then W Phi(T) = S0 - K0 T + C(floor y) - floor(y) T (C: sum of the
+ *     first y tail values) is close to the smooth
+ *         Psi(T) = S0 - K0 T + C~(y) - y T,   d Psi / d u = -T (K0 + y - 1/2) + T e(y),
+ *     e(y) = (C~'(y) - v - v'/2) / v' = sum_i b_i f^(2i) / f' (the Euler-Maclaurin terms of
+ *     C~ = T~(M + y), b_i = B_2i / (2i)!). With theta = y - floor(y) <= 1,
+ *         |C(floor y) - C~(floor y)| <= rem,
+ *         |C~(floor y) - C~(y) + theta T| = |int_(floor y)^y (C~'(s) - T) ds| <= |f'| + E,
+ *         E = sum_i |b_i| |f^(2i)|,  and the part T e(y) left out of the derivative adds
+ *         at most |u - u0| sup(f / |f'|) E,
+ *     sups over x = M + y in the interval's range of y (from the counts at its ends).
+ * The coefficients of -T (K0 - 1/2 + y(u)) come from y(u), the inverse of ln v (series
+ * reversion of ln v(y0 + sigma)); at the centre y0 is a verified root, and the Lagrange
+ * remainder coefficient comes from the same series over the whole range of y, which
+ * encloses the inverse function's derivatives at every u of the interval. The terms'
+ * models are added coefficient by coefficient, so the large slopes (about 1 per unit of u
+ * in each term) cancel exactly in the model, and the bound (taylor_bound) is tight to the
+ * slack. A term in neither regime (an interval across a weight of the head or across the
+ * smallest weight) leaves the interval to the bounds above. */
+
+/* the log-position s = ln x (x = M + y) with f(x) = T as a tight ball, given
+ * s in [slo, shi]: Newton on midpoints of L(s) = ln f(e^s), then L(s-) > ln T > L(s+) is
+ * verified (L decreases on the tail) */
+static int tail_root(arb_t s0, actx *c, const arb_t lnT, const arb_t slo, const arb_t shi,
+                     slong prec)
+{
+    arb_t s, step, a, b;
+    arb_ptr g = _arb_vec_init(1);
+    arb_init(s); arb_init(step); arb_init(a); arb_init(b);
+    int st = embz_tail_log_root(s, c->t, lnT, slo, shi, prec);
+    for (slong eb = prec - 10; st == EMBZ_OK && eb > prec / 2; eb -= 12) {
+        arb_one(step);
+        arb_mul_2exp_si(step, step, -eb);
+        arb_add(step, step, s, prec);      /* half-width about 2^-eb |s| */
+        arb_abs(step, step);
+        arb_mul_2exp_si(step, step, -eb);
+        arb_sub(a, s, step, prec);
+        arb_add(b, s, step, prec);
+        arb_set_arf(a, arb_midref(a));
+        arb_set_arf(b, arb_midref(b));
+        if (embz_tail_logweight_series(g, c->t, a, 1, prec) == EMBZ_OK && arb_gt(g, lnT)
+            && embz_tail_logweight_series(g, c->t, b, 1, prec) == EMBZ_OK && arb_lt(g, lnT)) {
+            arb_union(s0, a, b, prec);
+            break;
+        }
+        if (eb - 12 <= prec / 2) st = EMBZ_ERR_PREC;
+    }
+    _arb_vec_clear(g, 1);
+    arb_clear(s); arb_clear(step); arb_clear(a); arb_clear(b);
+    return st;
+}
+
+/* Series in tau of T x = e^(lnT + tau + s(tau)), where s(tau) is the log-position of the
+ * threshold T e^tau: the reversion of L(s + sigma) - L(s) at a (point or wide) ball s of
+ * log-positions containing the root (ln T may be a wide ball too) */
+static int tail_tx_series(arb_ptr res, actx *c, const arb_t s, const arb_t lnT, slong len,
+                          slong prec)
+{
+    arb_ptr l = _arb_vec_init(len), r = _arb_vec_init(len);
+    int st = embz_tail_logweight_series(l, c->t, s, len, prec);
+    if (st == EMBZ_OK && !arb_is_negative(l + 1)) st = EMBZ_ERR_PREC;
+    if (st == EMBZ_OK) {
+        arb_zero(l);
+        _arb_poly_revert_series(r, l, len, len, prec);
+        arb_add(r, lnT, s, prec);
+        arb_add_ui(r + 1, r + 1, 1, prec);
+        _arb_poly_exp_series(res, r, len, len, prec);
+        if (!_arb_vec_is_finite(res, len)) st = EMBZ_ERR_PREC;
+    }
+    _arb_vec_clear(l, len);
+    _arb_vec_clear(r, len);
+    return st;
+}
+
+/* the slope series -T (K0 - 1/2 - M) - T x (T = e^lnT e^tau), length len, from T x's */
+static void tail_slope_series(arb_ptr res, arb_srcptr tx, const arb_t lnT, const fmpz_t K0,
+                              slong M, slong len, slong prec)
+{
+    arb_t a, e;
+    arb_init(a); arb_init(e);
+    arb_set_d(a, 0.5);
+    arb_sub_fmpz(a, a, K0, prec);
+    arb_add_si(a, a, M, prec);              /* -(K0 - 1/2 - M) */
+    arb_exp(e, lnT, prec);
+    arb_mul(e, e, a, prec);
+    for (slong k = 0; k < len; k++) {
+        if (k > 0) arb_div_ui(e, e, (ulong) k, prec);
+        arb_sub(res + k, e, tx + k, prec);
+    }
+    arb_clear(a); arb_clear(e);
+}
+
+/* The model of one tail-regime term: ps[0..J-1] at the centre (ln T0), ps[J] over the
+ * interval (ln T in lnTw, positions [ylo, yhi]), and its slack rho (see above). */
+static int tail_term_model(arb_ptr ps, mag_t rho, actx *c, const arb_t lnT0, const arb_t lnTw,
+                           const fmpz_t K0, const arb_t S0, const fmpz_t ylo, const fmpz_t yhi,
+                           const arb_t dl, slong J, slong prec)
+{
+    arb_t s0, x0, Sw, X, slo, shi, T0, t;
+    arb_ptr tx = _arb_vec_init(J), sl = _arb_vec_init(J);
+    arb_init(s0); arb_init(x0); arb_init(Sw); arb_init(X); arb_init(slo); arb_init(shi);
+    arb_init(T0); arb_init(t);
+    int st;
+    /* the range of x = M + y, its logarithm, and the level valid on it */
+    arb_set_fmpz(slo, ylo);
+    arb_add_si(slo, slo, c->M, prec);
+    arb_set_fmpz(shi, yhi);
+    arb_add_si(shi, shi, c->M, prec);
+    arb_union(X, slo, shi, prec);
+    arb_log(slo, slo, prec);
+    arb_log(shi, shi, prec);
+    arb_union(Sw, slo, shi, prec);
+    slong lev = embz_tail_level(c->t, X);
+    st = lev >= 0 ? EMBZ_OK : EMBZ_ERR_PREC;
+    if (st == EMBZ_OK) st = tail_root(s0, c, lnT0, slo, shi, prec);
+    /* value: S0 - K0 T0 + C~(y0) - y0 T0, in mean-value form around the midpoint ym of
+     * y0 (the derivative in y, C~'(y) - T0, is small near the root) */
+    if (st == EMBZ_OK) {
+        arb_t ym, dc;
+        arb_ptr cs = _arb_vec_init(2);
+        arb_init(ym); arb_init(dc);
+        arb_exp(x0, s0, prec);
+        arb_sub_si(t, x0, c->M, prec);       /* y0 */
+        arb_exp(T0, lnT0, prec);
+        arb_set_arf(ym, arb_midref(t));
+        st = tail_C(ps, c, ym, lev, prec);
+        arb_submul(ps, ym, T0, prec);
+        if (st == EMBZ_OK) {
+            arb_one(dc);
+            st = tail_C_series(cs, c, t, dc, 2, lev, prec);
+            arb_sub(dc, cs + 1, T0, prec);
+            arb_sub(ym, t, ym, prec);        /* y0 - ym */
+            arb_addmul(ps, dc, ym, prec);
+        }
+        arb_add(ps, ps, S0, prec);
+        arb_mul_fmpz(dc, T0, K0, prec);
+        arb_sub(ps, ps, dc, prec);
+        _arb_vec_clear(cs, 2);
+        arb_clear(ym); arb_clear(dc);
+    }
+    if (st == EMBZ_OK) st = tail_tx_series(tx, c, s0, lnT0, J, prec);
+    if (st == EMBZ_OK) {
+        tail_slope_series(sl, tx, lnT0, K0, c->M, J, prec);
+        for (slong k = 1; k < J; k++) arb_div_ui(ps + k, sl + k - 1, (ulong) k, prec);
+        st = tail_tx_series(tx, c, Sw, lnTw, J, prec);
+    }
+    if (st == EMBZ_OK) {
+        tail_slope_series(sl, tx, lnTw, K0, c->M, J, prec);
+        arb_div_ui(ps + J, sl + J - 1, (ulong) J, prec);
+    }
+    if (st == EMBZ_OK) {
+        /* rho = rem + |f'| + E + dl sup(f / |f'|) E over the range, from
+         * |f^(k)(x)| = e^((rate - k) s) |P_k(s)|, s = ln x */
+        slong p = c->t->lev_p[lev], K = 2 * p;
+        arb_ptr P = _arb_vec_init(K + 1);
+        st = embz_tail_pk(P, c->t, Sw, K, prec);
+        if (st == EMBZ_OK && !arb_is_negative(P + 1)) st = EMBZ_ERR_PREC;
+        if (st == EMBZ_OK) {
+            arb_t E, u, d;
+            arb_init(E); arb_init(u); arb_init(d);
+            for (slong k = 1; k <= K; k++) {
+                if (k > 1 && (k & 1)) continue;
+                arb_sub_si(u, c->t->rate, k, prec);
+                arb_mul(u, u, Sw, prec);
+                arb_exp(u, u, prec);
+                arb_mul(u, u, P + k, prec);
+                arb_abs(u, u);
+                if (k == 1) { arb_set(d, u); continue; }
+                arb_fac_ui(t, (ulong) k, prec);
+                arb_div(u, u, t, prec);
+                arb_mul(u, u, c->t->bern + k / 2 - 1, prec);
+                arb_abs(u, u);
+                arb_add(E, E, u, prec);
+            }
+            /* sup f / |f'| = sup x P_0 / |P_1| */
+            arb_exp(u, Sw, prec);
+            arb_mul(u, u, P, prec);
+            arb_div(u, u, P + 1, prec);
+            arb_abs(u, u);
+            arb_mul(u, u, dl, prec);
+            arb_add_ui(u, u, 1, prec);
+            arb_mul(u, u, E, prec);
+            arb_add(u, u, d, prec);
+            arb_get_mag(rho, u);
+            mag_add(rho, rho, c->t->rem);
+            if (!mag_is_finite(rho)) st = EMBZ_ERR_PREC;
+            arb_clear(E); arb_clear(u); arb_clear(d);
+        }
+        _arb_vec_clear(P, K + 1);
+    }
+    _arb_vec_clear(tx, J);
+    _arb_vec_clear(sl, J);
+    arb_clear(s0); arb_clear(x0); arb_clear(Sw); arb_clear(X); arb_clear(slo); arb_clear(shi);
+    arb_clear(T0); arb_clear(t);
+    return st;
+}
+
+/* Upper bound U of W F over [A, B] from the smooth model; ea, eb: the values and per-term
+ * counts at A and B. EMBZ_ERR_UNSUPPORTED when a term is in neither regime. */
+static int threshold_model(arf_t U, actx *c, const embz_target_t q, const arb_t A,
+                           const arb_t B, const th_end *ea, const th_end *eb, slong prec)
+{
+    if (ea->tn == NULL || !ea->ok || !eb->ok) return EMBZ_ERR_UNSUPPORTED;
+    const slong J = TH_MODEL_LEN;
+    arb_ptr co = _arb_vec_init(J + 1), ps = _arb_vec_init(J + 1), ends = _arb_vec_init(2);
+    arb_t ua, ub, u0, dl, uw, qj, T0, Tw, Tmin, Tmax, S0, t, lnT0, lnTw;
+    fmpz_t K0, ylo, yhi;
+    mag_t slack, rho;
+    arb_init(ua); arb_init(ub); arb_init(u0); arb_init(dl); arb_init(uw); arb_init(qj);
+    arb_init(T0); arb_init(Tw); arb_init(Tmin); arb_init(Tmax); arb_init(S0); arb_init(t);
+    arb_init(lnT0); arb_init(lnTw);
+    fmpz_init(K0); fmpz_init(ylo); fmpz_init(yhi);
+    mag_init(slack); mag_init(rho);
+    int st = EMBZ_OK;
+    /* u in [ua, ub] within [u0 - dl, u0 + dl] */
+    arb_log(t, A, prec);
+    arb_get_lbound_arf(arb_midref(ua), t, prec);
+    arb_log(t, B, prec);
+    arb_get_ubound_arf(arb_midref(ub), t, prec);
+    arb_add(u0, ua, ub, prec);
+    arb_mul_2exp_si(u0, u0, -1);
+    arb_set_arf(u0, arb_midref(u0));
+    arb_sub(dl, ub, u0, prec);
+    arb_sub(t, u0, ua, prec);
+    arb_max(dl, dl, t, prec);
+    arb_get_ubound_arf(arb_midref(dl), dl, prec);
+    mag_zero(arb_radref(dl));
+    arb_sub(ends, ua, u0, prec);
+    arb_sub(ends + 1, ub, u0, prec);
+    arb_set(uw, u0);
+    arb_add_error(uw, dl);
+    for (slong j = -1; j < q->q->len && st == EMBZ_OK; j++) {
+        /* term j: T = V / q_j with coefficient -q_j; j = -1: T = V, coefficient 1 */
+        if (j >= 0 && fmpq_is_zero(q->q->p + j)) continue;
+        if (j >= 0) arb_set_fmpq(qj, q->q->p + j, prec);
+        else arb_one(qj);
+        const fmpz *nmin = ea->tn + 2 * (j + 1), *nmax = eb->tn + 2 * (j + 1);
+        arb_log(t, qj, prec);
+        arb_sub(lnT0, u0, t, prec);
+        arb_sub(lnTw, uw, t, prec);
+        arb_exp(T0, lnT0, prec);
+        arb_exp(Tw, lnTw, prec);
+        if (fmpz_equal(nmin, nmin + 1) && fmpz_equal(nmin, nmax) && fmpz_equal(nmax, nmax + 1)) {
+            /* linear: S(K) - K T */
+            st = pos_sum(ps, c, nmin, prec);
+            arb_mul_fmpz(t, T0, nmin, prec);
+            arb_sub(ps, ps, t, prec);
+            arb_neg(ps + 1, t);
+            for (slong k = 2; k < J; k++) arb_div_ui(ps + k, ps + k - 1, (ulong) k, prec);
+            arb_mul_fmpz(t, Tw, nmin, prec);
+            arb_neg(t, t);
+            arb_fac_ui(ps + J, (ulong) J, prec);
+            arb_div(ps + J, t, ps + J, prec);
+            mag_zero(rho);
+        } else {
+            /* tail: classify the non-tail weights against [T_min, T_max] */
+            if (c->t->dir <= 0) { st = EMBZ_ERR_UNSUPPORTED; break; }
+            arb_div(Tmin, A, qj, prec);
+            arb_div(Tmax, B, qj, prec);
+            if (c->a > 0 && !arb_gt(c->A + c->a - 1, Tmax)) { st = EMBZ_ERR_UNSUPPORTED; break; }
+            if (c->b > 0 && !arb_le(c->B, Tmin)) { st = EMBZ_ERR_UNSUPPORTED; break; }
+            fmpz_set_si(K0, c->a);
+            arb_set(S0, c->SA);
+            for (slong i = 0; i < c->nins && st == EMBZ_OK; i++) {
+                if (arb_gt(c->ins_val + i, Tmax)) {
+                    fmpz_add_ui(K0, K0, 1);
+                    arb_add(S0, S0, c->ins_val + i, prec);
+                } else if (!arb_le(c->ins_val + i, Tmin)) {
+                    st = EMBZ_ERR_UNSUPPORTED;
+                }
+            }
+            if (st != EMBZ_OK) break;
+            /* tail positions: y(T_max) >= count(T_max) >= 1, y(T_min) <= count(T_min) + 1 <= L */
+            fmpz_sub(ylo, nmax, K0);
+            fmpz_sub(yhi, nmin + 1, K0);
+            fmpz_add_ui(yhi, yhi, 1);
+            if (fmpz_cmp_ui(ylo, 1) < 0 || fmpz_cmp(yhi, c->L) > 0) {
+                st = EMBZ_ERR_UNSUPPORTED;
+                break;
+            }
+            st = tail_term_model(ps, rho, c, lnT0, lnTw, K0, S0, ylo, yhi, dl, J, prec);
+        }
+        if (st != EMBZ_OK) break;
+        /* add with the term's coefficient */
+        if (j >= 0) {
+            arb_neg(qj, qj);
+            _arb_vec_scalar_mul(ps, ps, J + 1, qj, prec);
+            mag_t qm;
+            mag_init(qm);
+            arb_get_mag(qm, qj);
+            mag_mul(rho, rho, qm);
+            mag_clear(qm);
+        }
+        _arb_vec_add(co, co, ps, J + 1, prec);
+        mag_add(slack, slack, rho);
+    }
+    if (st == EMBZ_OK) {
+        int mono;
+        st = taylor_bound(U, &mono, co, J, dl, slack, NULL, ends, prec);
+    }
+    _arb_vec_clear(co, J + 1); _arb_vec_clear(ps, J + 1); _arb_vec_clear(ends, 2);
+    arb_clear(ua); arb_clear(ub); arb_clear(u0); arb_clear(dl); arb_clear(uw); arb_clear(qj);
+    arb_clear(T0); arb_clear(Tw); arb_clear(Tmin); arb_clear(Tmax); arb_clear(S0); arb_clear(t);
+    arb_clear(lnT0); arb_clear(lnTw);
+    fmpz_clear(K0); fmpz_clear(ylo); fmpz_clear(yhi);
+    mag_clear(slack); mag_clear(rho);
+    return st;
+}
+
 /* a point near V where every comparison is decided (V itself, else nudged by 2^-40 relative
  * steps in the given direction); e receives the value with its counts */
 static int threshold_point(arb_t res, th_end *e, actx *c, const embz_target_t q, arb_t V,
@@ -1963,16 +2295,28 @@ static int threshold_point(arb_t res, th_end *e, actx *c, const embz_target_t q,
 /* an interval [a, b] of thresholds with its bound U and what is known at its ends */
 typedef struct { arf_t a, b, U; th_end ea, eb; } th_item;
 
-static void th_item_init(th_item *it)
+static void th_item_init(th_item *it, const embz_target_t q)
 {
     arf_init(it->a); arf_init(it->b); arf_init(it->U);
-    th_end_init(&it->ea); th_end_init(&it->eb);
+    th_end_init(&it->ea, q); th_end_init(&it->eb, q);
 }
 
 static void th_item_clear(th_item *it)
 {
     arf_clear(it->a); arf_clear(it->b); arf_clear(it->U);
     th_end_clear(&it->ea); th_end_clear(&it->eb);
+}
+
+/* the search's tolerance is at least 4 times the radius of a value: intervals cannot be
+ * settled more finely than the values themselves are known */
+static void raise_tol(arb_t tol, const arb_t f)
+{
+    arf_t r;
+    arf_init(r);
+    arf_set_mag(r, arb_radref(f));
+    arf_mul_2exp_si(r, r, 2);
+    if (arf_cmp(r, arb_midref(tol)) > 0) arb_set_arf(tol, r);
+    arf_clear(r);
 }
 
 /* best-first search; fills *lo (proven value, lower end) and *hi (upper bound) of W E */
@@ -2013,22 +2357,62 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
     }
     if (st == EMBZ_OK && !(arb_is_positive(Va) && arb_lt(Va, Vb)))
         st = EMBZ_ERR_UNSUPPORTED;      /* zero weights (or a single value): no search */
+    /* kinks of F where a term's count saturates: V = q_j w_min (q_0 = 1 for Phi(V)); F has
+     * a corner there (often the maximum), so intervals are split just below and just above
+     * each (a relative 2^-(prec-12) outside the ball, past the weights that tie with it) */
+    slong nk = 0;
+    arb_ptr kink = _arb_vec_init(2 * (m + 1));   /* exact: midpoints */
+    if (st == EMBZ_OK && m <= TH_MODEL_TERMS) {
+        for (long j = -1; j < m; j++) {
+            if (j >= 0 && fmpq_is_zero(q->q->p + j)) continue;
+            if (j >= 0) {
+                arb_set_fmpq(f, q->q->p + j, prec);
+                arb_mul(f, f, wmin, prec);
+            } else {
+                arb_set(f, wmin);
+            }
+            arb_mul_2exp_si(tol, f, -(prec - 12));
+            arb_sub(V, f, tol, prec);
+            arb_get_lbound_arf(arb_midref(kink + 2 * nk), V, prec);
+            arb_add(V, f, tol, prec);
+            arb_get_ubound_arf(arb_midref(kink + 2 * nk + 1), V, prec);
+            nk++;
+        }
+    }
+    if (st == EMBZ_OK) {
+        /* a few more evaluations per unit of ln t: wide ranges are cut into pieces of a
+         * factor e^2 .. e^8 before models settle them */
+        arb_div(f, Vb, Va, prec);
+        arb_log(f, f, prec);
+        budget += 4 * (slong) arf_get_d(arb_midref(f), ARF_RND_UP);
+    }
     arf_zero(best);                                  /* F(0) = 0 */
     arf_zero(hi);
     /* tolerance in weight units: 2^-(prec-16) W */
     arb_mul_2exp_si(tol, c->W, -(prec - 16));
+    {
+        /* but not below what the tail sums can resolve: their remainder bound enters every
+         * value (and each term of a smooth model) */
+        arb_t r;
+        arb_init(r);
+        arf_set_mag(arb_midref(r), c->t->rem);
+        arb_mul_2exp_si(r, r, 3);
+        if (arf_cmp(arb_midref(r), arb_midref(tol)) > 0) arb_set(tol, r);
+        arb_clear(r);
+    }
     th_end ev, ca, cb;
-    th_end_init(&ev); th_end_init(&ca); th_end_init(&cb);
+    th_end_init(&ev, q); th_end_init(&ca, q); th_end_init(&cb, q);
     if (st == EMBZ_OK) {
         st = threshold_point(f, &ev, c, q, Va, -1, prec);
         if (st == EMBZ_OK) {
+            raise_tol(tol, f);
             arb_get_lbound_arf(bnd, f, prec);
             if (arf_cmp(bnd, best) > 0) arf_set(best, bnd);
             arb_get_ubound_arf(bnd, f, prec);    /* the maximum over [0, V_lo] is at V_lo */
             if (arf_cmp(bnd, hi) > 0) arf_set(hi, bnd);
         }
         if (st == EMBZ_OK) {
-            th_item_init(h);
+            th_item_init(h, q);
             th_end_set(&h[0].ea, &ev);
             arf_set(h[0].a, arb_midref(Va));
             arf_set(h[0].b, arb_midref(Vb));
@@ -2046,11 +2430,18 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
         if (evals > budget) { c->search_open = 1; break; }
         th_item it = h[top];
         h[top] = h[--len];
-        /* split: geometric mean while the ratio exceeds 2, else the midpoint */
+        /* split: just outside a kink inside the interval, else at the geometric mean while
+         * the ratio exceeds 2, else at the midpoint */
         arb_set_arf(Va, it.a);
         arb_set_arf(Vb, it.b);
         arb_mul_2exp_si(V, Va, 1);
-        if (arb_lt(V, Vb)) {
+        slong kk;
+        for (kk = 0; kk < 2 * nk; kk++)
+            if (arf_cmp(it.a, arb_midref(kink + kk)) < 0 && arf_cmp(arb_midref(kink + kk), it.b) < 0)
+                break;
+        if (kk < 2 * nk) {
+            arb_set(V, kink + kk);
+        } else if (arb_lt(V, Vb)) {
             arb_mul(V, Va, Vb, prec);
             arb_sqrt(V, V, prec);
         } else {
@@ -2061,6 +2452,7 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
         st = threshold_point(f, &ev, c, q, V, 1, prec);
         evals++;
         if (st != EMBZ_OK) { th_item_clear(&it); break; }
+        raise_tol(tol, f);
         arb_get_lbound_arf(bnd, f, prec);
         if (arf_cmp(bnd, best) > 0) arf_set(best, bnd);
         arb_get_ubound_arf(bnd, f, prec);
@@ -2071,8 +2463,8 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
             arb_set_arf(Vb, side == 0 ? arb_midref(V) : it.b);
             if (!arb_lt(Va, Vb)) continue;
             /* bound endpoints nudged outwards until decided */
-            arb_t A, B;
-            arb_init(A); arb_init(B);
+            arb_t A, B, Vw;
+            arb_init(A); arb_init(B); arb_init(Vw);
             arb_set(A, Va);
             arb_set(B, Vb);
             int ok = 0, tries;
@@ -2082,7 +2474,7 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
             th_end_set(&ca, side == 0 ? &it.ea : &ev);
             th_end_set(&cb, side == 0 ? &ev : &it.eb);
             for (tries = 0; tries < 8 && !ok; tries++) {
-                int s2 = threshold_f(f, NULL, NULL, c, q, A, B, prec);
+                int s2 = threshold_f(f, NULL, NULL, NULL, c, q, A, B, prec);
                 if (s2 == EMBZ_OK) ok = 1;
                 else if (s2 != EMBZ_ERR_PREC) { st = s2; break; }
                 else {
@@ -2096,11 +2488,22 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
              * best value (it needs the values and counts at both ends) */
             if (st == EMBZ_OK && ok) {
                 arb_get_ubound_arf(U2, f, prec);
-                if (arf_cmp(U2, best) >= 0
+                /* (not on intervals wider than a factor 2^24: neither bound can help there) */
+                arb_mul_2exp_si(Vw, A, 24);
+                if (arf_cmp(U2, best) >= 0 && arb_gt(B, Vw)) {
+                    /* split further */
+                } else if (arf_cmp(U2, best) >= 0
                     && threshold_bound2(U2, c, q, A, B, &ca, &cb, prec) == EMBZ_OK) {
                     evals++;
                     arb_get_ubound_arf(bnd, f, prec);
                     if (arf_cmp(U2, bnd) < 0) arb_set_arf(f, U2);
+                    /* the smooth model where the interval is still above the tolerance */
+                    arb_get_ubound_arf(bnd, f, prec);
+                    arf_sub(U2, bnd, best, prec, ARF_RND_UP);
+                    int mst = EMBZ_ERR_UNSUPPORTED;
+                    if (arf_cmp(U2, arb_midref(tol)) > 0)
+                        mst = threshold_model(U2, c, q, A, B, &ca, &cb, prec);
+                    if (mst == EMBZ_OK && arf_cmp(U2, bnd) < 0) arb_set_arf(f, U2);
                 }
             }
             arf_clear(U2);
@@ -2109,7 +2512,7 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
                     cap *= 2;
                     h = flint_realloc(h, sizeof(th_item) * cap);
                 }
-                th_item_init(h + len);
+                th_item_init(h + len, q);
                 arf_set(h[len].a, arb_midref(Va));
                 arf_set(h[len].b, arb_midref(Vb));
                 if (ok) arb_get_ubound_arf(h[len].U, f, prec);
@@ -2121,7 +2524,7 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
                 if (arf_cmp(h[len].U, best) >= 0) len++;   /* else: below a proven value */
                 else th_item_clear(h + len);
             }
-            arb_clear(A); arb_clear(B);
+            arb_clear(A); arb_clear(B); arb_clear(Vw);
         }
         th_item_clear(&it);
     }
@@ -2133,6 +2536,7 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
     if (arf_cmp(hi, best) < 0) arf_set(hi, best);
     arf_set(lo, best);
     flint_free(h);
+    _arb_vec_clear(kink, 2 * (m + 1));
     arb_clear(V); arb_clear(Va); arb_clear(Vb); arb_clear(f); arb_clear(wmin); arb_clear(qm);
     arb_clear(tol);
     arf_clear(best); arf_clear(bnd);
