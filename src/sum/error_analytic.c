@@ -2319,7 +2319,11 @@ static void raise_tol(arb_t tol, const arb_t f)
     arf_clear(r);
 }
 
-/* best-first search; fills *lo (proven value, lower end) and *hi (upper bound) of W E */
+/* best-first search; fills *lo (proven value, lower end) and *hi (upper bound) of W E, and
+ * c->argk with the count N(V) at the point V of the best proven value: at a maximising
+ * threshold t, k = N_p(t) is a maximising Ky Fan index (||p||_(k) = k t + Phi_p(t) there,
+ * ||p (x) q||_(k) <= k t + Phi_(p (x) q)(t)), so this is the argmax up to the tolerance (the
+ * lower end of the count's range where weights tie with V) */
 static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, slong budget,
                             slong prec)
 {
@@ -2407,7 +2411,7 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
         if (st == EMBZ_OK) {
             raise_tol(tol, f);
             arb_get_lbound_arf(bnd, f, prec);
-            if (arf_cmp(bnd, best) > 0) arf_set(best, bnd);
+            if (arf_cmp(bnd, best) > 0) { arf_set(best, bnd); fmpz_set(c->argk, ev.n); }
             arb_get_ubound_arf(bnd, f, prec);    /* the maximum over [0, V_lo] is at V_lo */
             if (arf_cmp(bnd, hi) > 0) arf_set(hi, bnd);
         }
@@ -2454,7 +2458,7 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
         if (st != EMBZ_OK) { th_item_clear(&it); break; }
         raise_tol(tol, f);
         arb_get_lbound_arf(bnd, f, prec);
-        if (arf_cmp(bnd, best) > 0) arf_set(best, bnd);
+        if (arf_cmp(bnd, best) > 0) { arf_set(best, bnd); fmpz_set(c->argk, ev.n); }
         arb_get_ubound_arf(bnd, f, prec);
         if (arf_cmp(bnd, hi) > 0) arf_set(hi, bnd);
         /* the two halves with their bounds (if V was nudged past b, only the left one) */
@@ -2703,7 +2707,9 @@ static int vector_target_bounds(embz_error_result_t res, embz_analytic_t an, con
             else if (arf_cmp(hi, an->decide_lo) < 0 || (tight && rdec < 0)) res->decided = -1;
         }
         res->have_bounds = 0;
-        fmpz_zero(res->argk);
+        /* the Ky Fan index of the best proven threshold value (see threshold_search) */
+        if (tight) fmpz_set(res->argk, rl->argk);
+        else fmpz_zero(res->argk);
         if (tight)
             snprintf(res->detail, sizeof(res->detail),
                      "analytic, general target: max_t Phi(t) - sum_j q_j Phi(t/q_j) by branch "
@@ -2833,7 +2839,6 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
                 arb_set_arf(x, thi);
                 arb_div(x, x, c.W, wp);
                 arb_get_ubound_arf(c.upper, x, wp);
-                fmpz_zero(c.argk);
             }
             arf_clear(tlo); arf_clear(thi);
             arb_clear(x);
