@@ -5,7 +5,7 @@
  * at n = 10^6 measured in the same process, and their ratio. Then 100 sizes log-spaced from 10
  * to 10^100 for the inverse family in one process with embz_sweep_run (engines reused across
  * sizes, sizes shared among OpenMP threads; OMP_NUM_THREADS=1 for one thread). Peak RSS from
- * getrusage.
+ * getrusage. Then a general target vector, (0.7, 0.3), for four families (one run each).
  * Usage: bench_analytic [prec] [runs] [family ...]   (EMBZ_FAMILY_PATH must name families/) */
 #include <stdio.h>
 #include <stdlib.h>
@@ -108,6 +108,51 @@ int main(int argc, char **argv)
         embz_family_clear(f);
     }
     printf("(* = above the 20 ms goal)\n");
+
+    /* a general target vector (threshold search with smooth models; no speed goal): one run
+     * per size, with the enclosure's radius and the ratio to explicit mode at 10^6 */
+    {
+        static const char *const vf[4] = { "inverse", "power", "logpower", "tilted" };
+        embz_target_t qv;
+        embz_target_init(qv);
+        if (embz_target_parse(qv, "0.7,0.3", 0, &err) != EMBZ_OK) {
+            fprintf(stderr, "target: %s\n", err.text);
+            fails++;
+        } else {
+            printf("\ntarget (0.7, 0.3), %ld bits, one run: time (radius)\n", (long) prec);
+            for (int i = 0; i < 4 && argc <= 3; i++) {
+                embz_family_t f;
+                double tv[3], rv[3], tx, rad;
+                int st[3], sx;
+                embz_family_init(f);
+                if (embz_family_resolve(f, vf[i], NULL, 0, 0, &err) != EMBZ_OK) {
+                    embz_family_clear(f);
+                    fails++;
+                    continue;
+                }
+                printf("%-10s", vf[i]);
+                for (int j = 0; j < 3; j++) {
+                    fmpz_set_ui(n, 10);
+                    fmpz_pow_ui(n, n, exps[j]);
+                    tv[j] = time_error(st + j, rv + j, EMBZ_METHOD_ANALYTIC, f, n, qv, prec, 1,
+                                       msg, sizeof(msg));
+                    if (st[j] == EMBZ_OK) printf(" %8.0f ms (%7.1e)", tv[j], rv[j]);
+                    else { printf(" %8s (%d)      ", "fail", st[j]); fails++; }
+                }
+                fmpz_set_ui(n, 1000000);
+                tx = time_error(&sx, &rad, EMBZ_METHOD_EXPLICIT, f, n, qv, prec, 1, msg,
+                                sizeof(msg));
+                if (sx == EMBZ_OK) {
+                    printf("   explicit 1e6 %6.0f ms, ratios", tx);
+                    for (int j = 0; j < 3; j++) printf(" %.2f", tv[j] / tx);
+                }
+                printf("\n");
+                fflush(stdout);
+                embz_family_clear(f);
+            }
+        }
+        embz_target_clear(qv);
+    }
 
     /* 100 sizes log-spaced from 10 to 10^100, inverse family, one process: the sweep with
      * reused engines (embz_sweep_run, OpenMP threads), wall and CPU time */

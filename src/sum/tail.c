@@ -303,12 +303,12 @@ int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto,
 
 /* Beyond about 2^prec the set of undecided indices is wide, and bisection to its exact
  * edges costs one evaluation per bit of the index. Instead: the root x* of f(x) = v by Newton
- * in s = ln x (embz_tail_log_root), then bnd[0] = floor(x* (1 - e)) with the mode-1
- * predicate true and bnd[1] + 1 = ceil(x* (1 + e)) with the mode-2 predicate false,
+ * in s = ln x (embz_tail_log_root), then b0 = floor(x* (1 - e)) with the mode-1
+ * predicate true and b1 + 1 = ceil(x* (1 + e)) with the mode-2 predicate false,
  * e = 2^-(prec - 10) |s| (what s at prec bits can locate): the same guarantees as the bisection's ends (by monotonicity), with
  * an undecided range about 2 e x* wide instead of the smallest one. EMBZ_ERR_PREC when
  * the checks fail (the caller bisects). */
-static int tail_bracket(fmpz *bnd, embz_tail_t t, const arb_t v, const fmpz_t upto,
+static int tail_bracket(fmpz_t b0, fmpz_t b1, embz_tail_t t, const arb_t v, const fmpz_t upto,
                         slong prec)
 {
     arb_t lv, slo, shi, s, x, e;
@@ -341,8 +341,8 @@ static int tail_bracket(fmpz *bnd, embz_tail_t t, const arb_t v, const fmpz_t up
         if (fmpz_cmp(xa, xb) < 0
             && (fmpz_cmp_si(xa, t->M) == 0 || tail_left(t, xa, v, 1, prec) == 1)
             && (fmpz_cmp(xb, upto) > 0 || tail_left(t, xb, v, 2, prec) == 0)) {
-            fmpz_set(bnd, xa);
-            fmpz_sub_ui(bnd + 1, xb, 1);
+            fmpz_set(b0, xa);
+            fmpz_sub_ui(b1, xb, 1);
             st = EMBZ_OK;
         }
     }
@@ -360,7 +360,7 @@ int embz_tail_count_range(fmpz_t lo, fmpz_t hi, arb_t tie, embz_tail_t t, const 
     arb_init(x); arb_init(w);
     int st = EMBZ_ERR_PREC;
     if (fmpz_bits(upto) > (flint_bitcnt_t) prec - 16)
-        st = tail_bracket(bnd, t, v, upto, prec);
+        st = tail_bracket(bnd[0], bnd[1], t, v, upto, prec);
     if (st != EMBZ_OK) {
         st = tail_bisect(bnd[0], t, v, upto, 1, prec);
         if (st == EMBZ_OK) st = tail_bisect(bnd[1], t, v, upto, 2, prec);
