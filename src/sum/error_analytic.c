@@ -2776,7 +2776,7 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
         st = embz_analytic_prepare(an, fmpz_cmp(an->nmax, n) >= 0 ? an->nmax : n, err);
         if (st != EMBZ_OK) goto cleanup;
         c.t = an->tail;
-        if (fmpz_cmp_si(n, 8 * ((slong) c.d * (an->tail->M + 2) + (slong) c.d)) <= 0) {
+        if (fmpz_cmp_si(n, 2 * ((slong) c.d * (an->tail->M + 2) + (slong) c.d)) <= 0) {
             st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
                               "n is too small for the analytic engine (use explicit mode)");
             goto cleanup;
@@ -2788,7 +2788,7 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
         slong M = 64;
         for (int attempt = 0; attempt < 4; attempt++, M *= 4) {
             /* the analytic layout needs a long tail */
-            if (fmpz_cmp_si(n, 8 * ((slong) c.d * (M + 2) + (slong) c.d)) <= 0) {
+            if (fmpz_cmp_si(n, 2 * ((slong) c.d * (M + 2) + (slong) c.d)) <= 0) {
                 st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
                                   "n is too small for the analytic engine (use explicit mode)");
                 break;
