@@ -306,7 +306,8 @@ int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto,
  * in s = ln x (embz_tail_log_root), then b0 = floor(x* (1 - e)) with the mode-1
  * predicate true and b1 + 1 = ceil(x* (1 + e)) with the mode-2 predicate false,
  * e = 2^-(prec - 10) |s| (what s at prec bits can locate): the same guarantees as the bisection's ends (by monotonicity), with
- * an undecided range about 2 e x* wide instead of the smallest one. EMBZ_ERR_PREC when
+ * an undecided range about 2 e x* wide instead of the smallest one. A v beyond the tail's
+ * range is settled by the predicates at its ends (all or none counted). EMBZ_ERR_PREC when
  * the checks fail (the caller bisects). */
 static int tail_bracket(fmpz_t b0, fmpz_t b1, embz_tail_t t, const arb_t v, const fmpz_t upto,
                         slong prec)
@@ -316,6 +317,18 @@ static int tail_bracket(fmpz_t b0, fmpz_t b1, embz_tail_t t, const arb_t v, cons
     arb_init(lv); arb_init(slo); arb_init(shi); arb_init(s); arb_init(x); arb_init(e);
     fmpz_init(xa); fmpz_init(xb);
     int st = EMBZ_ERR_PREC;
+    /* v beyond the tail's range: the predicates hold (or fail) at its far end already */
+    fmpz_set_si(xa, t->M + 1);
+    if (tail_left(t, upto, v, 1, prec) == 1) {
+        fmpz_set(b0, upto);
+        fmpz_set(b1, upto);
+        st = EMBZ_OK;
+    } else if (tail_left(t, xa, v, 2, prec) == 0) {
+        fmpz_set_si(b0, t->M);
+        fmpz_set_si(b1, t->M);
+        st = EMBZ_OK;
+    }
+    if (st == EMBZ_OK) goto out;
     if (t->usplit && arb_is_positive(v)) {
         arb_log(lv, v, prec);
         arb_set_si(slo, t->M + 1);
@@ -346,6 +359,7 @@ static int tail_bracket(fmpz_t b0, fmpz_t b1, embz_tail_t t, const arb_t v, cons
             st = EMBZ_OK;
         }
     }
+out:
     arb_clear(lv); arb_clear(slo); arb_clear(shi); arb_clear(s); arb_clear(x); arb_clear(e);
     fmpz_clear(xa); fmpz_clear(xb);
     return st;
