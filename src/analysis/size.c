@@ -66,13 +66,15 @@ static int side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
         slong p = c->prec << step;
         st = EMBZ_ERR_UNSUPPORTED;
         res->decided = 0;
-        /* general targets get only bounds from the analytic engine: explicit sums, exact,
-         * wherever they reach */
-        int vec_explicit = c->q->kind != EMBZ_TARGET_UNIFORM
-                           && fmpz_cmp_si(n, EMBZ_EXPLICIT_MAX_N) <= 0;
-        if (fmpz_cmp_si(n, SIZE_ANALYTIC_FROM) > 0 && !vec_explicit) {
+        if (fmpz_cmp_si(n, SIZE_ANALYTIC_FROM) > 0) {
             st = embz_analytic_error(res, c->an[step], n, c->q, err);
             if (st == EMBZ_OK) c->used_analytic = 1;
+            /* a general target whose enclosure does not decide the side (the threshold
+             * search at its budget): exact sums where they reach, before more bits */
+            if (st == EMBZ_OK && c->q->kind != EMBZ_TARGET_UNIFORM && res->decided == 0
+                && !arb_le(res->error, c->eps) && !arb_gt(res->error, c->eps)
+                && fmpz_cmp_si(n, EMBZ_EXPLICIT_MAX_N) <= 0)
+                st = EMBZ_ERR_UNSUPPORTED;
         }
         if (st == EMBZ_ERR_UNSUPPORTED && fmpz_cmp_si(n, EMBZ_EXPLICIT_MAX_N) <= 0) {
             embz_err_clear(err);

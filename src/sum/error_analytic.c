@@ -1976,10 +1976,15 @@ static int threshold_bound2(arf_t U, actx *c, const embz_target_t q, const arb_t
  *     e(y) = (C~'(y) - v - v'/2) / v' = sum_i b_i f^(2i) / f' (the Euler-Maclaurin terms of
  *     C~ = T~(M + y), b_i = B_2i / (2i)!). With theta = y - floor(y) <= 1,
  *         |C(floor y) - C~(floor y)| <= rem,
- *         |C~(floor y) - C~(y) + theta T| = |int_(floor y)^y (C~'(s) - T) ds| <= |f'| + E,
- *         E = sum_i |b_i| |f^(2i)|,  and the part T e(y) left out of the derivative adds
- *         at most |u - u0| sup(f / |f'|) E,
- *     sups over x = M + y in the interval's range of y (from the counts at its ends).
+ *         C~(floor y) - C~(y) + theta T = -int_(floor y)^y (C~'(s) - T) ds, where
+ *         C~' - T = (f - T) + f'/2 + sum_i b_i f^(2i) with f - T in [0, |f'| (y - s)] and
+ *         f'/2 <= 0, so its size is at most sup|f'|/2 + E1, E1 = sum_i |b_i| sup|f^(2i)|;
+ *         and the part T e(y) left out of the derivative integrates exactly (du = f'/f dx)
+ *         to sum_i b_i [f^(2i-1)] between x(u0) and x(u), at most
+ *         E2 = 2 sum_i |b_i| sup|f^(2i-1)|,
+ *     so rho = rem + sup|f'|/2 + E1 + E2, sups over x = M + y in the interval's range of y
+ *     (from the counts at its ends). The Taylor model's centre u0 must lie in [ln A, ln B]
+ *     so that every intermediate point of Taylor's theorem stays in that range.
  * The coefficients of -T (K0 - 1/2 + y(u)) come from y(u), the inverse of ln v (series
  * reversion of ln v(y0 + sigma)); at the centre y0 is a verified root, and the Lagrange
  * remainder coefficient comes from the same series over the whole range of y, which
@@ -2065,7 +2070,7 @@ static void tail_slope_series(arb_ptr res, arb_srcptr tx, const arb_t lnT, const
  * interval (ln T in lnTw, positions [ylo, yhi]), and its slack rho (see above). */
 static int tail_term_model(arb_ptr ps, mag_t rho, actx *c, const arb_t lnT0, const arb_t lnTw,
                            const fmpz_t K0, const arb_t S0, const fmpz_t ylo, const fmpz_t yhi,
-                           const arb_t dl, slong J, slong prec)
+                           slong J, slong prec)
 {
     arb_t s0, x0, Sw, X, slo, shi, T0, t;
     arb_ptr tx = _arb_vec_init(J), sl = _arb_vec_init(J);
@@ -2120,42 +2125,34 @@ static int tail_term_model(arb_ptr ps, mag_t rho, actx *c, const arb_t lnT0, con
         arb_div_ui(ps + J, sl + J - 1, (ulong) J, prec);
     }
     if (st == EMBZ_OK) {
-        /* rho = rem + |f'| + E + dl sup(f / |f'|) E over the range, from
+        /* rho = rem + sup|f'|/2 + E1 + E2 over the range (see above), from
          * |f^(k)(x)| = e^((rate - k) s) |P_k(s)|, s = ln x */
         slong p = c->t->lev_p[lev], K = 2 * p;
         arb_ptr P = _arb_vec_init(K + 1);
         st = embz_tail_pk(P, c->t, Sw, K, prec);
         if (st == EMBZ_OK && !arb_is_negative(P + 1)) st = EMBZ_ERR_PREC;
         if (st == EMBZ_OK) {
-            arb_t E, u, d;
-            arb_init(E); arb_init(u); arb_init(d);
+            arb_t acc, u;
+            arb_init(acc); arb_init(u);
             for (slong k = 1; k <= K; k++) {
-                if (k > 1 && (k & 1)) continue;
                 arb_sub_si(u, c->t->rate, k, prec);
                 arb_mul(u, u, Sw, prec);
                 arb_exp(u, u, prec);
                 arb_mul(u, u, P + k, prec);
+                arb_abs(u, u);                      /* sup |f^(k)| */
+                if (k == 1) arb_mul_2exp_si(t, u, -1);
+                else arb_zero(t);
+                /* E1: |b_i| |f^(2i)|;  E2: 2 |b_i| |f^(2i-1)| */
+                arb_mul(u, u, c->t->bern + (k + 1) / 2 - 1, prec);
                 arb_abs(u, u);
-                if (k == 1) { arb_set(d, u); continue; }
-                arb_fac_ui(t, (ulong) k, prec);
-                arb_div(u, u, t, prec);
-                arb_mul(u, u, c->t->bern + k / 2 - 1, prec);
-                arb_abs(u, u);
-                arb_add(E, E, u, prec);
+                if (k & 1) arb_mul_2exp_si(u, u, 1);
+                arb_add(acc, acc, u, prec);
+                arb_add(acc, acc, t, prec);
             }
-            /* sup f / |f'| = sup x P_0 / |P_1| */
-            arb_exp(u, Sw, prec);
-            arb_mul(u, u, P, prec);
-            arb_div(u, u, P + 1, prec);
-            arb_abs(u, u);
-            arb_mul(u, u, dl, prec);
-            arb_add_ui(u, u, 1, prec);
-            arb_mul(u, u, E, prec);
-            arb_add(u, u, d, prec);
-            arb_get_mag(rho, u);
+            arb_get_mag(rho, acc);
             mag_add(rho, rho, c->t->rem);
             if (!mag_is_finite(rho)) st = EMBZ_ERR_PREC;
-            arb_clear(E); arb_clear(u); arb_clear(d);
+            arb_clear(acc); arb_clear(u);
         }
         _arb_vec_clear(P, K + 1);
     }
@@ -2163,6 +2160,92 @@ static int tail_term_model(arb_ptr ps, mag_t rho, actx *c, const arb_t lnT0, con
     _arb_vec_clear(sl, J);
     arb_clear(s0); arb_clear(x0); arb_clear(Sw); arb_clear(X); arb_clear(slo); arb_clear(shi);
     arb_clear(T0); arb_clear(t);
+    return st;
+}
+
+/* series in u of S(K) - K T, T = T0 e^tau (coefficients 0..J-1 at the centre, J with Tw over
+ * the interval) */
+static int linear_series(arb_ptr ps, actx *c, const fmpz_t K, const arb_t T0, const arb_t Tw,
+                         slong J, slong prec)
+{
+    arb_t t;
+    arb_init(t);
+    int st = pos_sum(ps, c, K, prec);
+    arb_mul_fmpz(t, T0, K, prec);
+    arb_sub(ps, ps, t, prec);
+    arb_neg(ps + 1, t);
+    for (slong k = 2; k < J; k++) arb_div_ui(ps + k, ps + k - 1, (ulong) k, prec);
+    arb_mul_fmpz(t, Tw, K, prec);
+    arb_neg(t, t);
+    arb_fac_ui(ps + J, (ulong) J, prec);
+    arb_div(ps + J, t, ps + J, prec);
+    arb_clear(t);
+    return st;
+}
+
+/* series in u of the chord of W Phi over [A, B] (an upper bound there, Phi being convex):
+ * alpha + beta T, T = T0 e^tau */
+static int chord_series(arb_ptr ps, actx *c, const arb_t A, const arb_t B, const arb_t T0,
+                        const arb_t Tw, slong J, slong prec)
+{
+    arb_t pa, pb, beta, t;
+    arb_init(pa); arb_init(pb); arb_init(beta); arb_init(t);
+    int st = phi_wn(pa, NULL, NULL, c, A, prec);
+    if (st == EMBZ_OK) st = phi_wn(pb, NULL, NULL, c, B, prec);
+    if (st == EMBZ_OK) {
+        arb_sub(beta, pb, pa, prec);
+        arb_sub(t, B, A, prec);
+        arb_div(beta, beta, t, prec);
+        /* alpha + beta T0 = pa + beta (T0 - A) */
+        arb_sub(t, T0, A, prec);
+        arb_mul(t, t, beta, prec);
+        arb_add(ps, pa, t, prec);
+        arb_mul(ps + 1, beta, T0, prec);
+        for (slong k = 2; k < J; k++) arb_div_ui(ps + k, ps + k - 1, (ulong) k, prec);
+        arb_mul(t, beta, Tw, prec);
+        arb_fac_ui(ps + J, (ulong) J, prec);
+        arb_div(ps + J, t, ps + J, prec);
+        if (!_arb_vec_is_finite(ps, J + 1)) st = EMBZ_ERR_PREC;
+    }
+    arb_clear(pa); arb_clear(pb); arb_clear(beta); arb_clear(t);
+    return st;
+}
+
+/* the tail regime of one term (see above): the non-tail weights classified against
+ * [T_min, T_max], the range of tail positions from the counts at the ends; UNSUPPORTED
+ * when the term is not in it */
+static int tail_regime(arb_ptr ps, mag_t rho, actx *c, const arb_t Tmin, const arb_t Tmax,
+                       const fmpz *nmin, const fmpz *nmax, const arb_t lnT0, const arb_t lnTw,
+                       slong J, slong prec)
+{
+    if (c->t->dir <= 0) return EMBZ_ERR_UNSUPPORTED;
+    if (c->a > 0 && !arb_gt(c->A + c->a - 1, Tmax)) return EMBZ_ERR_UNSUPPORTED;
+    if (c->b > 0 && !arb_le(c->B, Tmin)) return EMBZ_ERR_UNSUPPORTED;
+    fmpz_t K0, ylo, yhi;
+    arb_t S0;
+    fmpz_init(K0); fmpz_init(ylo); fmpz_init(yhi);
+    arb_init(S0);
+    int st = EMBZ_OK;
+    fmpz_set_si(K0, c->a);
+    arb_set(S0, c->SA);
+    for (slong i = 0; i < c->nins && st == EMBZ_OK; i++) {
+        if (arb_gt(c->ins_val + i, Tmax)) {
+            fmpz_add_ui(K0, K0, 1);
+            arb_add(S0, S0, c->ins_val + i, prec);
+        } else if (!arb_le(c->ins_val + i, Tmin)) {
+            st = EMBZ_ERR_UNSUPPORTED;
+        }
+    }
+    if (st == EMBZ_OK) {
+        /* tail positions: y(T_max) > count(T_max) >= 1, y(T_min) <= count(T_min) + 1 <= L */
+        fmpz_sub(ylo, nmax, K0);
+        fmpz_sub(yhi, nmin + 1, K0);
+        fmpz_add_ui(yhi, yhi, 1);
+        if (fmpz_cmp_ui(ylo, 1) < 0 || fmpz_cmp(yhi, c->L) > 0) st = EMBZ_ERR_UNSUPPORTED;
+    }
+    if (st == EMBZ_OK) st = tail_term_model(ps, rho, c, lnT0, lnTw, K0, S0, ylo, yhi, J, prec);
+    fmpz_clear(K0); fmpz_clear(ylo); fmpz_clear(yhi);
+    arb_clear(S0);
     return st;
 }
 
@@ -2174,23 +2257,23 @@ static int threshold_model(arf_t U, actx *c, const embz_target_t q, const arb_t 
     if (ea->tn == NULL || !ea->ok || !eb->ok) return EMBZ_ERR_UNSUPPORTED;
     const slong J = TH_MODEL_LEN;
     arb_ptr co = _arb_vec_init(J + 1), ps = _arb_vec_init(J + 1), ends = _arb_vec_init(2);
-    arb_t ua, ub, u0, dl, uw, qj, T0, Tw, Tmin, Tmax, S0, t, lnT0, lnTw;
-    fmpz_t K0, ylo, yhi;
+    arb_t ua, ub, u0, dl, uw, qj, T0, Tw, Tmin, Tmax, t, lnT0, lnTw;
     mag_t slack, rho;
     arb_init(ua); arb_init(ub); arb_init(u0); arb_init(dl); arb_init(uw); arb_init(qj);
-    arb_init(T0); arb_init(Tw); arb_init(Tmin); arb_init(Tmax); arb_init(S0); arb_init(t);
+    arb_init(T0); arb_init(Tw); arb_init(Tmin); arb_init(Tmax); arb_init(t);
     arb_init(lnT0); arb_init(lnTw);
-    fmpz_init(K0); fmpz_init(ylo); fmpz_init(yhi);
     mag_init(slack); mag_init(rho);
     int st = EMBZ_OK;
     /* u in [ua, ub] within [u0 - dl, u0 + dl] */
-    arb_log(t, A, prec);
-    arb_get_lbound_arf(arb_midref(ua), t, prec);
-    arb_log(t, B, prec);
-    arb_get_ubound_arf(arb_midref(ub), t, prec);
+    arb_log(Tmin, A, prec);
+    arb_get_lbound_arf(arb_midref(ua), Tmin, prec);
+    arb_log(Tmax, B, prec);
+    arb_get_ubound_arf(arb_midref(ub), Tmax, prec);
     arb_add(u0, ua, ub, prec);
     arb_mul_2exp_si(u0, u0, -1);
     arb_set_arf(u0, arb_midref(u0));
+    /* the centre inside [ln A, ln B] (not certain for intervals a few ulps wide) */
+    if (!(arb_le(Tmin, u0) && arb_le(u0, Tmax))) st = EMBZ_ERR_UNSUPPORTED;
     arb_sub(dl, ub, u0, prec);
     arb_sub(t, u0, ua, prec);
     arb_max(dl, dl, t, prec);
@@ -2211,45 +2294,25 @@ static int threshold_model(arf_t U, actx *c, const embz_target_t q, const arb_t 
         arb_sub(lnTw, uw, t, prec);
         arb_exp(T0, lnT0, prec);
         arb_exp(Tw, lnTw, prec);
+        mag_zero(rho);
         if (fmpz_equal(nmin, nmin + 1) && fmpz_equal(nmin, nmax) && fmpz_equal(nmax, nmax + 1)) {
             /* linear: S(K) - K T */
-            st = pos_sum(ps, c, nmin, prec);
-            arb_mul_fmpz(t, T0, nmin, prec);
-            arb_sub(ps, ps, t, prec);
-            arb_neg(ps + 1, t);
-            for (slong k = 2; k < J; k++) arb_div_ui(ps + k, ps + k - 1, (ulong) k, prec);
-            arb_mul_fmpz(t, Tw, nmin, prec);
-            arb_neg(t, t);
-            arb_fac_ui(ps + J, (ulong) J, prec);
-            arb_div(ps + J, t, ps + J, prec);
-            mag_zero(rho);
+            st = linear_series(ps, c, nmin, T0, Tw, J, prec);
         } else {
-            /* tail: classify the non-tail weights against [T_min, T_max] */
-            if (c->t->dir <= 0) { st = EMBZ_ERR_UNSUPPORTED; break; }
+            /* tail, else a one-sided bound of the right direction */
             arb_div(Tmin, A, qj, prec);
             arb_div(Tmax, B, qj, prec);
-            if (c->a > 0 && !arb_gt(c->A + c->a - 1, Tmax)) { st = EMBZ_ERR_UNSUPPORTED; break; }
-            if (c->b > 0 && !arb_le(c->B, Tmin)) { st = EMBZ_ERR_UNSUPPORTED; break; }
-            fmpz_set_si(K0, c->a);
-            arb_set(S0, c->SA);
-            for (slong i = 0; i < c->nins && st == EMBZ_OK; i++) {
-                if (arb_gt(c->ins_val + i, Tmax)) {
-                    fmpz_add_ui(K0, K0, 1);
-                    arb_add(S0, S0, c->ins_val + i, prec);
-                } else if (!arb_le(c->ins_val + i, Tmin)) {
-                    st = EMBZ_ERR_UNSUPPORTED;
-                }
+            st = tail_regime(ps, rho, c, Tmin, Tmax, nmin, nmax, lnT0, lnTw, J, prec);
+            if (st != EMBZ_OK && j >= 0) {
+                /* -q_j W Phi: W Phi(T) >= S(K) - K T for every K (x_+ >= x), K = the
+                 * weights certainly above T_min */
+                mag_zero(rho);
+                st = linear_series(ps, c, nmin, T0, Tw, J, prec);
+            } else if (st != EMBZ_OK) {
+                /* + W Phi(V): convex in V, so below its chord over [A, B] */
+                mag_zero(rho);
+                st = chord_series(ps, c, A, B, T0, Tw, J, prec);
             }
-            if (st != EMBZ_OK) break;
-            /* tail positions: y(T_max) >= count(T_max) >= 1, y(T_min) <= count(T_min) + 1 <= L */
-            fmpz_sub(ylo, nmax, K0);
-            fmpz_sub(yhi, nmin + 1, K0);
-            fmpz_add_ui(yhi, yhi, 1);
-            if (fmpz_cmp_ui(ylo, 1) < 0 || fmpz_cmp(yhi, c->L) > 0) {
-                st = EMBZ_ERR_UNSUPPORTED;
-                break;
-            }
-            st = tail_term_model(ps, rho, c, lnT0, lnTw, K0, S0, ylo, yhi, dl, J, prec);
         }
         if (st != EMBZ_OK) break;
         /* add with the term's coefficient */
@@ -2271,9 +2334,8 @@ static int threshold_model(arf_t U, actx *c, const embz_target_t q, const arb_t 
     }
     _arb_vec_clear(co, J + 1); _arb_vec_clear(ps, J + 1); _arb_vec_clear(ends, 2);
     arb_clear(ua); arb_clear(ub); arb_clear(u0); arb_clear(dl); arb_clear(uw); arb_clear(qj);
-    arb_clear(T0); arb_clear(Tw); arb_clear(Tmin); arb_clear(Tmax); arb_clear(S0); arb_clear(t);
+    arb_clear(T0); arb_clear(Tw); arb_clear(Tmin); arb_clear(Tmax); arb_clear(t);
     arb_clear(lnT0); arb_clear(lnTw);
-    fmpz_clear(K0); fmpz_clear(ylo); fmpz_clear(yhi);
     mag_clear(slack); mag_clear(rho);
     return st;
 }
