@@ -9,7 +9,8 @@ k largest r), k = 0 .. len(r).
 Second part: the inverse-index family w_i = 1/i at astronomically large n (10^5 .. 10^1000) for
 target vectors, from exact harmonic numbers (mpmath's digamma) at the breakpoints of the threshold
 form next to the smallest weight (see corner_reference); that shortcut is itself checked against
-the plain definition at n = 3000.
+the plain definition at n = 3000; and `embz size` for that family and a target vector must
+return an n with E_(n-1) > eps >= E_n by these values.
 
 Usage: reference_mpmath.py EMBZ_BINARY
 Exit status: 0 all inside, 1 a mismatch or a failing run.
@@ -103,7 +104,8 @@ def corner_checks(embz):
                   % (mpmath.nstr(short, 40), mpmath.nstr(plain, 40), n, ",".join(q)))
             failures += 1
     cases = [(10 ** 5, ["0.7", "0.3"]), (10 ** 30, ["0.7", "0.3"]),
-             (10 ** 30, ["0.5", "0.3", "0.2"]), (10 ** 100, ["0.6", "0.25", "0.15"]),
+             (10 ** 30, ["0.5", "0.3", "0.2"]), (10 ** 30, ["0.5", "0.4999", "0.0001"]),
+             (10 ** 100, ["0.6", "0.25", "0.15"]),
              (10 ** 1000, ["0.7", "0.3"])]
     for n, q in cases:
         ref = corner_reference(n, q)
@@ -121,6 +123,22 @@ def corner_checks(embz):
         if not (lo - TOL <= ref <= hi + TOL) or hi - lo > mpf("1e-30"):
             print("FAIL: 1/i n=1e%d target=%s reference %s, engine [%s, %s]"
                   % (exp, ",".join(q), mpmath.nstr(ref, 45), data["error_lo"], data["error_hi"]))
+            failures += 1
+    # a size search across the error goal: E_(n-1) > eps >= E_n by the reference too
+    cmd = [embz, "size", "1/i", "--eps", "0.01", "--target", "0.7,0.3", "--json"]
+    run = subprocess.run(cmd, capture_output=True, text=True)
+    checks += 1
+    try:
+        n = int(json.loads(run.stdout)["goals"][0]["n"])
+        above = corner_reference(n - 1, ["0.7", "0.3"]) > mpf("0.01")
+        below = corner_reference(n, ["0.7", "0.3"]) <= mpf("0.01")
+    except (ValueError, KeyError, IndexError) as exc:
+        print("FAIL (%s): %s\n%s%s" % (exc, " ".join(cmd), run.stdout, run.stderr))
+        failures += 1
+    else:
+        if not (above and below):
+            print("FAIL: size n=%d for 1/i, eps 0.01, target 0.7,0.3: reference E_(n-1) > eps "
+                  "%s, E_n <= eps %s" % (n, above, below))
             failures += 1
     return checks, failures
 
