@@ -202,7 +202,7 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
     /* Sizes are independent: they are shared out among OpenMP threads (dynamic schedule,
      * largest first), each with an analytic engine of its own, its tail certified once for
      * the largest size. A weight found invalid stops every thread. */
-    int analytic_ok = (q->kind == EMBZ_TARGET_UNIFORM);
+    int analytic_ok = 1;          /* every target: target vectors by the threshold search */
     int nthreads = 1;
 #ifdef _OPENMP
     /* not from inside another parallel region (a scan): threads created there would end
