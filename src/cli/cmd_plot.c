@@ -182,13 +182,12 @@ int cli_cmd_plot(int argc, char **argv)
         slong s = embz_plot_add_series(fig, pe, label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE, -1000);
         embz_analytic_t eng;
         embz_analytic_init(eng, fam + i, prec);
-        int have_engine = q->kind == EMBZ_TARGET_UNIFORM;
         for (slong j = 0; j < ns; j++) {
             embz_error_result_t res;
             embz_error_result_init(res);
             embz_err_clear(&err);
             status = -1;
-            if (have_engine && fmpz_cmp_ui(sizes + j, EXPLICIT_UP_TO) > 0)
+            if (fmpz_cmp_ui(sizes + j, EXPLICIT_UP_TO) > 0)
                 status = embz_analytic_error(res, eng, sizes + j, q, &err);
             if (status != EMBZ_OK) {
                 embz_err_clear(&err);

@@ -288,7 +288,7 @@ static void compute_row(cli_compare_row_t *r, const cli_compare_opts_t *o)
             embz_error_result_init(res);
             embz_err_clear(&err);
             status = -1;
-            if (q->kind == EMBZ_TARGET_UNIFORM && fmpz_cmp_ui(o->sizes + j, EXPLICIT_UP_TO) > 0)
+            if (fmpz_cmp_ui(o->sizes + j, EXPLICIT_UP_TO) > 0)
                 status = embz_analytic_error(res, eng, o->sizes + j, q, &err);
             if (status != EMBZ_OK) {
                 embz_err_clear(&err);
