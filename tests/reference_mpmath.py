@@ -10,7 +10,8 @@ Second part: the inverse-index family w_i = 1/i at astronomically large n (10^5 
 target vectors, from exact harmonic numbers (mpmath's digamma) at the breakpoints of the threshold
 form next to the smallest weight (see corner_reference); that shortcut is itself checked against
 the plain definition at n = 3000; and `embz size` for that family and a target vector must
-return an n with E_(n-1) > eps >= E_n by these values.
+return an n with E_(n-1) > eps >= E_n by these values. Third part: increasing weights i^a
+(a > 0) at n = 10^60 .. 10^300 against their large-n limit (increasing_limit).
 
 Usage: reference_mpmath.py EMBZ_BINARY
 Exit status: 0 all inside, 1 a mismatch or a failing run.
@@ -143,10 +144,48 @@ def corner_checks(embz):
     return checks, failures
 
 
+def increasing_limit(a):
+    """[derived] For w_i = i^a, a > 0, the sorted probabilities at size n are
+    p_k ~ (b/n) (1 - k/n)^a (b = a + 1), so P_k -> 1 - (1 - t)^b with t = k/n, and one ebit
+    gives E_n -> max_t (1 - t/2)^b - (1 - t)^b (the Ky Fan form P_k - P_(k/2)); the maximum
+    is where (1 - t)^a = (1 - t/2)^a / 2, i.e. (1 - t) / (1 - t/2) = 2^(-1/a)."""
+    b = mpf(a) + 1
+    r = mpf(2) ** (-1 / mpf(a))
+    t = (1 - r) / (1 - r / 2)
+    return (1 - t / 2) ** b - (1 - t) ** b
+
+
+def increasing_checks(embz):
+    """(checks, failures): non-decreasing weights at huge n against their limit; the
+    finite-size corrections are far below 1e-30 there (they fall like a power of 1/n)."""
+    failures = 0
+    checks = 0
+    for a, exp in (("0.3", 100), ("0.5", 300), ("2", 60)):
+        ref = increasing_limit(a)
+        cmd = [embz, "error", "i^%s" % a, "-n", "1e%d" % exp, "--json"]
+        run = subprocess.run(cmd, capture_output=True, text=True)
+        checks += 1
+        if run.returncode != 0:
+            print("FAIL (exit %d): %s\n%s" % (run.returncode, " ".join(cmd), run.stderr))
+            failures += 1
+            continue
+        data = json.loads(run.stdout)
+        lo = mpf(data["error_lo"])
+        hi = mpf(data["error_hi"])
+        if not (lo - mpf("1e-30") <= ref <= hi + mpf("1e-30")) or hi - lo > mpf("1e-30"):
+            print("FAIL: i^%s n=1e%d limit %s, engine [%s, %s]"
+                  % (a, exp, mpmath.nstr(ref, 40), data["error_lo"], data["error_hi"]))
+            failures += 1
+    return checks, failures
+
+
 def main():
     embz = sys.argv[1]
     mp.dps = 80
     checks, failures = corner_checks(embz)
+    c2, f2 = increasing_checks(embz)
+    checks += c2
+    failures += f2
     mp.dps = 50
     for fname, fn in FAMILIES:
         for n in SIZES:

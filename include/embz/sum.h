@@ -95,6 +95,15 @@ slong embz_tail_level(const embz_tail_t t, const arb_t x);
  * EMBZ_TAIL_LEVEL_AUTO), the plain form the highest valid one; EMBZ_ERR_PREC without one. */
 int embz_tail_sum(arb_t res, embz_tail_t t, const arb_t x, slong prec);
 int embz_tail_sum_level(arb_t res, embz_tail_t t, const arb_t x, slong lev, slong prec);
+/* T~(top) - T~(top - y) for 0 <= y <= top - M (top an integer, y a ball of offsets), with
+ * the remainders of both ends added: for integer y it encloses the sum of the last y weights,
+ * sum_{top - y < i <= top} f(i). For y < top/2 the integral is taken directly over
+ * [top - y, top] (no cancellation between two integrals from M, and no position near top
+ * has to be represented), so the sum of the last few weights of a long increasing tail is
+ * accurate at the working precision. The level lev (or EMBZ_TAIL_LEVEL_AUTO) is used at
+ * top - y, the highest valid one at top. */
+int embz_tail_sum_top(arb_t res, embz_tail_t t, const arb_t y, const arb_t top, slong lev,
+                      slong prec);
 /* Taylor coefficients 1..len-1 of sigma -> T~(x + scale sigma) (res[0] is set to 0).
  * x may be a wide ball: the coefficients then enclose the values over the whole ball,
  * which is what Lagrange remainder bounds need. A Taylor model must take all its

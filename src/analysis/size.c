@@ -76,7 +76,7 @@ static int side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
                 && fmpz_cmp_si(n, EMBZ_EXPLICIT_MAX_N) <= 0)
                 st = EMBZ_ERR_UNSUPPORTED;
         }
-        if (st == EMBZ_ERR_UNSUPPORTED && fmpz_cmp_si(n, EMBZ_EXPLICIT_MAX_N) <= 0) {
+        if (st != EMBZ_OK && st != EMBZ_ERR_DOMAIN && fmpz_cmp_si(n, EMBZ_EXPLICIT_MAX_N) <= 0) {
             embz_err_clear(err);
             st = embz_error_explicit(res, c->f, n, c->q, p, err);
             if (st == EMBZ_OK) c->used_explicit = 1;

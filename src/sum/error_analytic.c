@@ -69,26 +69,29 @@ typedef struct {
 
 /* ---------- tail positions (1-based, real balls) ---------- */
 
-/* x coordinate of tail position y: dec: M + y, inc: n + 1 - y */
+/* x coordinate of tail position y: dec: M + y, inc: n + 1 - y (the subtraction with the bits
+ * of n, so that positions near the start of the tail, x ~ M, stay exact however large n is) */
 static void tail_x(arb_t x, const actx *c, const arb_t y, slong prec)
 {
     if (c->t->dir > 0) {
         arb_add_si(x, y, c->M, prec);
     } else {
+        slong wp = FLINT_MAX(prec, (slong) fmpz_bits(c->n) + 16);
         arb_set_fmpz(x, c->n);
-        arb_add_ui(x, x, 1, prec);
-        arb_sub(x, x, y, prec);
+        arb_add_ui(x, x, 1, wp);
+        arb_sub(x, x, y, wp);
     }
 }
 
-/* the x argument of the tail sum behind C(y): dec: M + y, inc: n - y */
+/* the x argument of the tail sum behind C(y): dec: M + y, inc: n - y (as in tail_x) */
 static void sum_x(arb_t x, const actx *c, const arb_t y, slong prec)
 {
     if (c->t->dir > 0) {
         arb_add_si(x, y, c->M, prec);
     } else {
+        slong wp = FLINT_MAX(prec, (slong) fmpz_bits(c->n) + 16);
         arb_set_fmpz(x, c->n);
-        arb_sub(x, x, y, prec);
+        arb_sub(x, x, y, wp);
     }
 }
 
@@ -107,12 +110,18 @@ static slong tail_level(const actx *c, const arb_t y, slong prec)
  * given level or EMBZ_TAIL_LEVEL_AUTO) */
 static int tail_C(arb_t res, actx *c, const arb_t y, slong lev, slong prec)
 {
-    arb_t x;
-    arb_init(x);
+    arb_t x, top;
+    arb_init(x); arb_init(top);
     sum_x(x, c, y, prec);
-    int st = embz_tail_sum_level(res, c->t, x, lev, prec);
-    if (c->t->dir < 0) arb_sub(res, c->Ttot, res, prec);
-    arb_clear(x);
+    int st;
+    if (c->t->dir > 0) {
+        st = embz_tail_sum_level(res, c->t, x, lev, prec);
+    } else {
+        /* the last y weights up to n: T~(n) - T~(n - y), taken without cancellation */
+        arb_set_fmpz(top, c->n);
+        st = embz_tail_sum_top(res, c->t, y, top, lev, prec);
+    }
+    arb_clear(x); arb_clear(top);
     return st;
 }
 
@@ -438,9 +447,11 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
     int st = EMBZ_OK;
     *mono = 0;
 
-    /* centre and half width */
+    /* centre and half width, and below the positions, exactly (with the bits of hi: a
+     * non-decreasing tail maps positions near n to x = n - y near M) */
+    slong pp = FLINT_MAX(prec, (slong) fmpz_bits(hi) + 16);
     arb_set_fmpz(sc, lo);
-    arb_add_fmpz(sc, sc, hi, prec);
+    arb_add_fmpz(sc, sc, hi, pp);
     arb_mul_2exp_si(sc, sc, -1);
     arb_set_fmpz(w, hi);
     arb_sub_fmpz(w, w, lo, prec);
@@ -456,11 +467,11 @@ static int model_bound(arf_t U, int *mono, actx *c, ulong r, const fmpz_t lo, co
         if (pass == 1) arb_add_error(s, w);
         slong len = (pass == 0) ? J : J + 1;
         /* y1 = d s + r - a (position of k), y2 = s - a (of s), y3 = s + 1 - a (of s + 1) */
-        arb_mul_ui(y1, s, c->d, prec);
-        arb_add_ui(y1, y1, r, prec);
-        arb_sub_si(y1, y1, c->off_k, prec);
-        arb_sub_si(y2, s, c->off_s, prec);
-        arb_add_ui(y3, y2, 1, prec);
+        arb_mul_ui(y1, s, c->d, pp);
+        arb_add_ui(y1, y1, r, pp);
+        arb_sub_si(y1, y1, c->off_k, pp);
+        arb_sub_si(y2, s, c->off_s, pp);
+        arb_add_ui(y3, y2, 1, pp);
         /* the remainder coefficient is only needed to a few bits */
         slong sp = (pass == 0) ? prec : FLINT_MIN(prec, 64 + (slong) fmpz_bits(hi));
         if (pass == 1) {
@@ -2652,13 +2663,6 @@ int embz_analytic_prepare(embz_analytic_t a, const fmpz_t nmax, embz_err_t *err)
     for (slong M = 64; M <= 4096; M *= 4) {
         embz_err_clear(err);
         st = embz_tail_init(a->tail, a->f->weight, nmax, M, nmax, wp, err);
-        if (st == EMBZ_OK && a->tail->dir < 0) {
-            /* increasing weights: positions are counted down from n, so sums near n must
-             * resolve differences far below n: carry the bits of n as well */
-            embz_tail_clear(a->tail);
-            st = embz_tail_init(a->tail, a->f->weight, nmax, M, nmax,
-                                wp + (slong) fmpz_bits(nmax), err);
-        }
         if (st == EMBZ_OK) {
             a->have_tail = 1;
             fmpz_set(a->nmax, nmax);
@@ -2863,16 +2867,6 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             }
             st = setup(&c, M, 0, wp, err);
             have_tail = 1;
-            if (st == EMBZ_OK && tail->dir < 0 && wp < prec + 32 + (slong) fmpz_bits(n)) {
-                /* increasing weights: redo with the bits of n (see embz_analytic_prepare) */
-                embz_tail_clear(tail);
-                free_layout(&c);
-                have_tail = 0;
-                wp = prec + 32 + (slong) fmpz_bits(n);
-                c.prec = wp;
-                st = setup(&c, M, 0, wp, err);
-                have_tail = 1;
-            }
             if (st == EMBZ_OK || st == EMBZ_ERR_DOMAIN) break;
         }
     }

@@ -554,6 +554,95 @@ int embz_tail_sum_level(arb_t res, embz_tail_t t, const arb_t x, slong lev, slon
     return st;
 }
 
+/* integrand f(top - tau) for embz_tail_sum_top */
+typedef struct { embz_tail_struct *t; const arb_struct *top; } top_param;
+
+static int top_acb(acb_ptr out, const acb_t tau, void *param, slong order, slong prec)
+{
+    top_param *tp = param;
+    acb_t x, nn;
+    acb_init(x); acb_init(nn);
+    acb_set_arb(nn, tp->t->n);
+    acb_set_arb(x, tp->top);
+    acb_sub(x, x, tau, prec);
+    if (embz_expr_eval_acb(out, tp->t->w, x, nn, order != 0, prec) != EMBZ_OK)
+        acb_indeterminate(out);
+    acb_clear(x); acb_clear(nn);
+    return 0;
+}
+
+int embz_tail_sum_top(arb_t res, embz_tail_t t, const arb_t y, const arb_t top, slong lev,
+                      slong prec)
+{
+    arb_t I, e, ym, d, x;
+    arb_init(I); arb_init(e); arb_init(ym); arb_init(d); arb_init(x);
+    /* with the bits of top: x ~ M stays exact however large top is */
+    arb_sub(x, top, y, FLINT_MAX(prec, arf_abs_bound_lt_2exp_si(arb_midref(top)) + 16));
+    if (lev == EMBZ_TAIL_LEVEL_AUTO) lev = embz_tail_level(t, x);
+    slong ltop = embz_tail_level(t, top);
+    int st = EMBZ_OK;
+    if (lev < 0 || lev >= t->nlev || ltop < 0) st = EMBZ_ERR_PREC;
+    slong q = st == EMBZ_OK ? FLINT_MAX(t->lev_p[lev], t->lev_p[ltop]) : 0;
+    arb_ptr g = _arb_vec_init(2 * q + 1);
+    /* the integral from x = top - y to top */
+    arb_mul_2exp_si(d, y, 1);
+    if (st != EMBZ_OK) {
+        /* no level */
+    } else if (!arb_lt(d, top)) {
+        /* y >= top / 2 (or not known to be below): the difference of cached integrals
+         * loses at most a constant factor */
+        st = embz_tail_integral(I, t, top, prec);
+        if (st == EMBZ_OK) st = embz_tail_integral(e, t, x, prec);
+        arb_sub(I, I, e, prec);
+    } else {
+        /* y < top / 2: integral of f(top - tau) over [0, ym] at the midpoint ym of y, then
+         * f over the ball times its radius */
+        acb_t a, b, r;
+        mag_t tol;
+        acb_calc_integrate_opt_t opt;
+        top_param tp = { t, top };
+        acb_init(a); acb_init(b); acb_init(r);
+        mag_init(tol);
+        acb_calc_integrate_opt_init(opt);
+        arb_set_arf(ym, arb_midref(y));
+        acb_set_arb(b, ym);
+        mag_set_ui_2exp_si(tol, 1, -prec);
+        st = acb_calc_integrate(r, top_acb, &tp, a, b, prec, tol, opt, prec + 10);
+        t->integrals++;
+        arb_set(I, acb_realref(r));
+        st = (st == ARB_CALC_SUCCESS && arb_is_finite(I)) ? EMBZ_OK : EMBZ_ERR_PREC;
+        if (st == EMBZ_OK && !mag_is_zero(arb_radref(y))) {
+            st = weight_taylor(g, t, x, 1, prec);
+            mag_t m;
+            mag_init(m);
+            arb_get_mag(m, g);
+            mag_mul(m, m, arb_radref(y));
+            arb_add_error_mag(I, m);
+            mag_clear(m);
+        }
+        acb_clear(a); acb_clear(b); acb_clear(r);
+        mag_clear(tol);
+    }
+    /* + em(top) + base(top level) - em(x) - base(x level), the remainders of both ends */
+    if (st == EMBZ_OK) st = weight_taylor(g, t, top, 2 * t->lev_p[ltop] + 1, prec);
+    if (st == EMBZ_OK) {
+        em_terms(e, t, g, t->lev_p[ltop], prec);
+        arb_add(I, I, e, prec);
+        arb_add(I, I, t->lev_base + ltop, prec);
+        st = weight_taylor(g, t, x, 2 * t->lev_p[lev] + 1, prec);
+    }
+    if (st == EMBZ_OK) {
+        em_terms(e, t, g, t->lev_p[lev], prec);
+        arb_sub(I, I, e, prec);
+        arb_sub(res, I, t->lev_base + lev, prec);
+        arb_add_error_mag(res, t->rem);
+        arb_add_error_mag(res, t->rem);
+    }
+    _arb_vec_clear(g, 2 * q + 1);
+    arb_clear(I); arb_clear(e); arb_clear(ym); arb_clear(d); arb_clear(x);
+    return st;
+}
+
 int embz_tail_series(arb_ptr res, embz_tail_t t, const arb_t x, const arb_t scale,
                      slong len, slong prec)
 {
