@@ -172,7 +172,8 @@ START_TEST(test_table)
 END_TEST
 
 /* one-ebit limit 1 - 2^-(a+1) for -1 < a <= 0 (f = x^a up to slowly varying factors); for a = 0
- * (maximally entangled state) the error is 1/2 for every n. */
+ * (maximally entangled state) the error is 1/2 for every n; for a > 0 the limit of the
+ * increasing profile. */
 START_TEST(test_limits)
 {
     embz_asym_result_t r;
@@ -193,8 +194,32 @@ START_TEST(test_limits)
     ck_assert(arb_equal(ref, r->limit));
     ck_assert_int_eq(analyse_text(r, "i^-2", 128), EMBZ_OK);
     ck_assert(!r->limit_known);                 /* depends on all weights, not on the tail */
-    ck_assert_int_eq(analyse_text(r, "i^2", 128), EMBZ_OK);
-    ck_assert(!r->limit_known);
+    /* increasing weights: max_t (1 - t/2)^(a+1) - (1 - t)^(a+1) [derived, docs/analysis.md]:
+     * 1/3 for a = 1 (at t = 2/3), (4/7)^1.5 - (1/7)^1.5 for a = 1/2 (at t = 6/7) */
+    ck_assert_int_eq(analyse_text(r, "i", 128), EMBZ_OK);
+    ck_assert(r->limit_known);
+    arb_set_ui(ref, 1);
+    arb_div_ui(ref, ref, 3, 128);
+    ck_assert(arb_overlaps(ref, r->limit));
+    ck_assert(arb_rel_accuracy_bits(r->limit) > 100);
+    ck_assert_int_eq(analyse_text(r, "sqrt(i)", 128), EMBZ_OK);
+    ck_assert(r->limit_known);
+    {
+        arb_t u;
+        arb_init(u);
+        arb_set_ui(ref, 4);
+        arb_div_ui(ref, ref, 7, 128);
+        arb_sqrt(u, ref, 128);
+        arb_mul(ref, ref, u, 128);               /* (4/7)^1.5 */
+        arb_set_ui(u, 1);
+        arb_div_ui(u, u, 7, 128);
+        arb_sqrt(u, u, 128);
+        arb_div_ui(u, u, 7, 128);                /* (1/7)^1.5 */
+        arb_sub(ref, ref, u, 128);
+        arb_clear(u);
+    }
+    ck_assert(arb_overlaps(ref, r->limit));
+    ck_assert(arb_rel_accuracy_bits(r->limit) > 100);
     arb_clear(ref);
     embz_asym_result_clear(r);
 }

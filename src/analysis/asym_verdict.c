@@ -239,8 +239,29 @@ static void classify(embz_asym_result_struct *r, const aser_t *s, const aser_t *
                 snprintf(r->rate_text, sizeof(r->rate_text),
                          "positive limit 1 - 2^-(a+1) [derived]");
             } else {
+                /* increasing weights [derived]: the sorted profile is (a+1)(1-t)^a, so
+                 * E -> max_t (1 - t/2)^(a+1) - (1 - t)^(a+1), attained where
+                 * (1 - t)/(1 - t/2) = r = 2^(-1/a): (1 - r^(a+1)) / (2 - r)^(a+1) */
+                arb_t x, rr, b, num;
+                arb_init(x); arb_init(rr); arb_init(b); arb_init(num);
+                arb_set_fmpq(x, a, prec);
+                arb_inv(rr, x, prec);
+                arb_neg(rr, rr);
+                arb_set_ui(num, 2);
+                arb_pow(rr, num, rr, prec);              /* r = 2^(-1/a) */
+                arb_add_ui(b, x, 1, prec);               /* a + 1 */
+                arb_pow(num, rr, b, prec);
+                arb_sub_ui(num, num, 1, prec);
+                arb_neg(num, num);                       /* 1 - r^(a+1) */
+                arb_sub_ui(x, rr, 2, prec);
+                arb_neg(x, x);                           /* 2 - r */
+                arb_pow(x, x, b, prec);
+                arb_div(r->limit, num, x, prec);
+                r->limit_known = 1;
+                arb_clear(x); arb_clear(rr); arb_clear(b); arb_clear(num);
                 snprintf(r->rate_text, sizeof(r->rate_text),
-                         "positive limit (increasing weights; value not computed)");
+                         "positive limit (1 - r^(a+1)) / (2 - r)^(a+1), r = 2^(-1/a) "
+                         "[derived]");
             }
             snprintf(r->why, sizeof(r->why), "f ~ x^a with a > -1: f is not below x^(-1+eps)");
         } else if (fmpq_cmp_si(a, -1) < 0) {
