@@ -25,7 +25,8 @@
 #define BB_BUDGET 40000        /* interval evaluations before giving up refining */
 #define BB_SMALL 6             /* intervals with at most this many integers are enumerated */
 #define THRESHOLD_BUDGET 600   /* evaluations of the threshold search for a target vector */
-#define TH_MODEL_TERMS 64      /* smooth threshold models for targets up to this length */
+#define TH_MODEL_TERMS 128     /* smooth threshold models for targets up to this length (each
+                                  end of a search interval keeps two counts per entry) */
 #define TH_MODEL_LEN 16        /* their order */
 
 typedef struct {
