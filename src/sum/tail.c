@@ -303,12 +303,12 @@ int embz_tail_count(fmpz_t res, embz_tail_t t, const arb_t v, const fmpz_t upto,
 
 /* Beyond about 2^prec the set of undecided indices is wide, and bisection to its exact
  * edges costs one evaluation per bit of the index. Instead: the root x* of f(x) = v by Newton
- * in s = ln x (embz_tail_log_root), then b0 = floor(x* (1 - e)) with the mode-1
- * predicate true and b1 + 1 = ceil(x* (1 + e)) with the mode-2 predicate false,
- * e = 2^-(prec - 10) |s| (what s at prec bits can locate): the same guarantees as the bisection's ends (by monotonicity), with
- * an undecided range about 2 e x* wide instead of the smallest one. A v beyond the tail's
- * range is settled by the predicates at its ends (all or none counted). EMBZ_ERR_PREC when
- * the checks fail (the caller bisects). */
+ * in s = ln x (embz_tail_log_root), then b0 = floor(x* (1 - e)) with the mode-1 predicate
+ * true and b1 + 1 = ceil(x* (1 + e)) with the mode-2 predicate false, e = 2^-(prec - 10) |s|
+ * (what s at prec bits can locate): the same guarantees as the bisection's ends (by
+ * monotonicity), with an undecided range about 2 e x* wide instead of the smallest one. A v
+ * beyond the tail's range is settled by the predicates at its ends (all or none counted).
+ * EMBZ_ERR_PREC when the checks fail (the caller bisects). */
 static int tail_bracket(fmpz_t b0, fmpz_t b1, embz_tail_t t, const arb_t v, const fmpz_t upto,
                         slong prec)
 {
