@@ -2515,7 +2515,8 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
         arb_mul_2exp_si(V, Va, 1);
         slong kk;
         for (kk = 0; kk < 2 * nk; kk++)
-            if (arf_cmp(it.a, arb_midref(kink + kk)) < 0 && arf_cmp(arb_midref(kink + kk), it.b) < 0)
+            if (arf_cmp(it.a, arb_midref(kink + kk)) < 0
+                && arf_cmp(arb_midref(kink + kk), it.b) < 0)
                 break;
         if (kk < 2 * nk) {
             arb_set(V, kink + kk);
