@@ -756,6 +756,36 @@ static slong agree_with_explicit(const char *spec, const char *tgt, ulong nval)
     return bits;
 }
 
+/* A head weight inside a non-decreasing tail whose place is beyond 2^prec (10^4/e + 1 equals
+ * i^0.1 near i ~ 4.6 10^35 > 2^96): placing it needs more bits than the working precision,
+ * which that one count gets; the 64-bit result must agree with the 128-bit one. */
+START_TEST(test_insertion_beyond_prec)
+{
+    if (quick()) return;
+    embz_family_t f;
+    embz_target_t q;
+    embz_error_result_t r64, r128;
+    embz_err_t err;
+    fmpz_t n;
+    embz_err_clear(&err);
+    fmpz_init(n);
+    fmpz_ui_pow_ui(n, 10, 40);
+    resolve(f, "10^4*exp(-i)+i^0.1", NULL, NULL);
+    target(q, "ebit");
+    embz_error_result_init(r64);
+    embz_error_result_init(r128);
+    ck_assert_msg(embz_error_analytic(r64, f, n, q, 64, &err) == EMBZ_OK, "%s", err.text);
+    ck_assert_msg(embz_error_analytic(r128, f, n, q, 128, &err) == EMBZ_OK, "%s", err.text);
+    ck_assert(arb_overlaps(r64->error, r128->error));
+    ck_assert(arb_rel_accuracy_bits(r128->error) > 100);
+    embz_error_result_clear(r64);
+    embz_error_result_clear(r128);
+    embz_target_clear(q);
+    embz_family_clear(f);
+    fmpz_clear(n);
+}
+END_TEST
+
 /* The smallest sizes of the correctness range, n = 10^3: the analytic engine takes them (a tail
  * of at least 2 (d (M + 2) + 1) d entries) and agrees with exact sums, tight, for every shipped
  * smooth family and several targets. */
@@ -996,6 +1026,7 @@ static Suite *analytic_suite(void)
     tcase_add_test(tc, test_two_precisions);
     tcase_add_test(tc, test_uniform_half);
     tcase_add_test(tc, test_small_sizes);
+    tcase_add_test(tc, test_insertion_beyond_prec);
     tcase_add_test(tc, test_vector_target_bounds);
     tcase_add_test(tc, test_vector_target_threshold);
     tcase_add_test(tc, test_vector_target_ties);

@@ -1685,7 +1685,16 @@ static int setup(actx *c, slong M, int shared, slong prec, embz_err_t *err)
             if (arb_le(head + i, tmin)) { arb_set(c->B + c->b++, head + i); continue; }
             /* its place: the number of tail weights above it */
             fmpz_add_ui(mid, c->L, (ulong) M);
-            if (embz_tail_count(lo, c->t, head + i, mid, prec) != EMBZ_OK)
+            int cst = embz_tail_count(lo, c->t, head + i, mid, prec);
+            /* neighbouring weights near an index beyond 2^prec differ by less than the
+             * working precision: this one bisection gets the bits of n as well */
+            if (cst == EMBZ_ERR_PREC) {
+                slong hp = prec + (slong) fmpz_bits(c->n) + 16;
+                arb_set_si(x, i + 1);
+                cst = embz_expr_eval_arb(v, w, x, nn, hp);
+                if (cst == EMBZ_OK) cst = embz_tail_count(lo, c->t, v, mid, hp);
+            }
+            if (cst != EMBZ_OK)
                 st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
                                   "the weight at i = %ld cannot be placed among the tail "
                                   "weights at this precision", i + 1);
