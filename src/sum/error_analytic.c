@@ -1867,41 +1867,12 @@ static int phi_wn(arb_t res, fmpz_t Nlo, fmpz_t Nhi, actx *c, const arb_t V, slo
 }
 
 
-/* The upper bound W Phi(V1) - sum_j q_j W Phi(V2/q_j) (W F at V when V1 = V2 = V), and when
- * Nv, Nq are not NULL the counts for the slope bounds below: N(V1) in [Nv[0], Nv[1]] and
- * sum_j N(V2/q_j) in [Nq[0], Nq[1]]; tn (may be NULL; 2 (len q + 1) entries) receives each
- * term's count range: N(V1) in [tn[0], tn[1]], N(V2/q_j) in [tn[2j+2], tn[2j+3]]. */
-static int threshold_f(arb_t res, fmpz *Nv, fmpz *Nq, fmpz *tn, actx *c,
-                       const embz_target_t q, const arb_t V1, const arb_t V2, slong prec)
-{
-    arb_t u, qj, x;
-    fmpz_t klo, khi;
-    arb_init(u); arb_init(qj); arb_init(x);
-    fmpz_init(klo); fmpz_init(khi);
-    if (Nq != NULL) { fmpz_zero(Nq); fmpz_zero(Nq + 1); }
-    int st = phi_wn(res, klo, khi, c, V1, prec);
-    if (Nv != NULL) { fmpz_set(Nv, klo); fmpz_set(Nv + 1, khi); }
-    if (tn != NULL) { fmpz_set(tn, klo); fmpz_set(tn + 1, khi); }
-    for (long j = 0; j < q->q->len && st == EMBZ_OK; j++) {
-        if (fmpq_is_zero(q->q->p + j)) continue;
-        arb_set_fmpq(qj, q->q->p + j, prec);
-        arb_div(x, V2, qj, prec);
-        st = phi_wn(u, klo, khi, c, x, prec);
-        arb_submul(res, u, qj, prec);
-        if (Nq != NULL) { fmpz_add(Nq, Nq, klo); fmpz_add(Nq + 1, Nq + 1, khi); }
-        if (tn != NULL) { fmpz_set(tn + 2 * j + 2, klo); fmpz_set(tn + 2 * j + 3, khi); }
-    }
-    arb_clear(u); arb_clear(qj); arb_clear(x);
-    fmpz_clear(klo); fmpz_clear(khi);
-    c->evals++;
-    return st;
-}
-
-/* W F at a point with its counts (n: N(V) lo, hi, sum_j N(V/q_j) lo, hi; tn: each term's,
- * as in threshold_f, kept for targets of at most TH_MODEL_TERMS entries, else NULL); ok when
- * known */
+/* W F at a point with what the bounds below need: P0 = W Phi(V) (for the chord of the smooth
+ * models), n = N(V) lo, hi and sum_j N(V/q_j) lo, hi (second-order bound), tn each term's
+ * count range, N(V) in [tn[0], tn[1]] and N(V/q_j) in [tn[2j+2], tn[2j+3]] (smooth models;
+ * kept for targets of at most TH_MODEL_TERMS entries, else NULL); ok when known */
 typedef struct {
-    arb_t F;
+    arb_t F, P0;
     fmpz n[4];
     fmpz *tn;
     slong tlen;
@@ -1911,6 +1882,7 @@ typedef struct {
 static void th_end_init(th_end *e, const embz_target_t q)
 {
     arb_init(e->F);
+    arb_init(e->P0);
     for (int k = 0; k < 4; k++) fmpz_init(e->n + k);
     e->tlen = q->q->len <= TH_MODEL_TERMS ? 2 * q->q->len + 2 : 0;
     e->tn = e->tlen > 0 ? _fmpz_vec_init(e->tlen) : NULL;
@@ -1920,6 +1892,7 @@ static void th_end_init(th_end *e, const embz_target_t q)
 static void th_end_clear(th_end *e)
 {
     arb_clear(e->F);
+    arb_clear(e->P0);
     for (int k = 0; k < 4; k++) fmpz_clear(e->n + k);
     if (e->tn != NULL) _fmpz_vec_clear(e->tn, e->tlen);
 }
@@ -1927,14 +1900,54 @@ static void th_end_clear(th_end *e)
 static void th_end_set(th_end *d, const th_end *e)
 {
     arb_set(d->F, e->F);
+    arb_set(d->P0, e->P0);
     for (int k = 0; k < 4; k++) fmpz_set(d->n + k, e->n + k);
     if (d->tn != NULL) _fmpz_vec_set(d->tn, e->tn, d->tlen);
     d->ok = e->ok;
 }
 
+/* The upper bound W Phi(V1) - sum_j q_j W Phi(V2/q_j) of W F on [V1, V2] (W F at V when
+ * V1 = V2 = V); e (may be NULL, only with V1 = V2) receives the value with its counts. */
+static int threshold_f(arb_t res, th_end *e, actx *c, const embz_target_t q, const arb_t V1,
+                       const arb_t V2, slong prec)
+{
+    arb_t u, qj, x;
+    fmpz_t klo, khi;
+    arb_init(u); arb_init(qj); arb_init(x);
+    fmpz_init(klo); fmpz_init(khi);
+    int st = phi_wn(res, klo, khi, c, V1, prec);
+    if (e != NULL) {
+        arb_set(e->P0, res);
+        fmpz_set(e->n, klo);
+        fmpz_set(e->n + 1, khi);
+        fmpz_zero(e->n + 2);
+        fmpz_zero(e->n + 3);
+        if (e->tn != NULL) { fmpz_set(e->tn, klo); fmpz_set(e->tn + 1, khi); }
+    }
+    for (long j = 0; j < q->q->len && st == EMBZ_OK; j++) {
+        if (fmpq_is_zero(q->q->p + j)) continue;
+        arb_set_fmpq(qj, q->q->p + j, prec);
+        arb_div(x, V2, qj, prec);
+        st = phi_wn(u, klo, khi, c, x, prec);
+        arb_submul(res, u, qj, prec);
+        if (e != NULL) {
+            fmpz_add(e->n + 2, e->n + 2, klo);
+            fmpz_add(e->n + 3, e->n + 3, khi);
+            if (e->tn != NULL) {
+                fmpz_set(e->tn + 2 * j + 2, klo);
+                fmpz_set(e->tn + 2 * j + 3, khi);
+            }
+        }
+    }
+    arb_clear(u); arb_clear(qj); arb_clear(x);
+    fmpz_clear(klo); fmpz_clear(khi);
+    c->evals++;
+    return st;
+}
+
 static int th_end_eval(th_end *e, actx *c, const embz_target_t q, const arb_t V, slong prec)
 {
-    int st = threshold_f(e->F, e->n, e->n + 2, e->tn, c, q, V, V, prec);
+    int st = threshold_f(e->F, e, c, q, V, V, prec);
     e->ok = (st == EMBZ_OK);
     return st;
 }
@@ -2204,31 +2217,27 @@ static int linear_series(arb_ptr ps, actx *c, const fmpz_t K, const arb_t T0, co
     return st;
 }
 
-/* series in u of the chord of W Phi over [A, B] (an upper bound there, Phi being convex):
- * alpha + beta T, T = T0 e^tau */
-static int chord_series(arb_ptr ps, actx *c, const arb_t A, const arb_t B, const arb_t T0,
-                        const arb_t Tw, slong J, slong prec)
+/* series in u of the chord of W Phi over [A, B] (an upper bound there, Phi being convex)
+ * through the values pa = W Phi(A), pb = W Phi(B): alpha + beta T, T = T0 e^tau */
+static int chord_series(arb_ptr ps, const arb_t pa, const arb_t pb, const arb_t A,
+                        const arb_t B, const arb_t T0, const arb_t Tw, slong J, slong prec)
 {
-    arb_t pa, pb, beta, t;
-    arb_init(pa); arb_init(pb); arb_init(beta); arb_init(t);
-    int st = phi_wn(pa, NULL, NULL, c, A, prec);
-    if (st == EMBZ_OK) st = phi_wn(pb, NULL, NULL, c, B, prec);
-    if (st == EMBZ_OK) {
-        arb_sub(beta, pb, pa, prec);
-        arb_sub(t, B, A, prec);
-        arb_div(beta, beta, t, prec);
-        /* alpha + beta T0 = pa + beta (T0 - A) */
-        arb_sub(t, T0, A, prec);
-        arb_mul(t, t, beta, prec);
-        arb_add(ps, pa, t, prec);
-        arb_mul(ps + 1, beta, T0, prec);
-        for (slong k = 2; k < J; k++) arb_div_ui(ps + k, ps + k - 1, (ulong) k, prec);
-        arb_mul(t, beta, Tw, prec);
-        arb_fac_ui(ps + J, (ulong) J, prec);
-        arb_div(ps + J, t, ps + J, prec);
-        if (!_arb_vec_is_finite(ps, J + 1)) st = EMBZ_ERR_PREC;
-    }
-    arb_clear(pa); arb_clear(pb); arb_clear(beta); arb_clear(t);
+    arb_t beta, t;
+    arb_init(beta); arb_init(t);
+    arb_sub(beta, pb, pa, prec);
+    arb_sub(t, B, A, prec);
+    arb_div(beta, beta, t, prec);
+    /* alpha + beta T0 = pa + beta (T0 - A) */
+    arb_sub(t, T0, A, prec);
+    arb_mul(t, t, beta, prec);
+    arb_add(ps, pa, t, prec);
+    arb_mul(ps + 1, beta, T0, prec);
+    for (slong k = 2; k < J; k++) arb_div_ui(ps + k, ps + k - 1, (ulong) k, prec);
+    arb_mul(t, beta, Tw, prec);
+    arb_fac_ui(ps + J, (ulong) J, prec);
+    arb_div(ps + J, t, ps + J, prec);
+    int st = _arb_vec_is_finite(ps, J + 1) ? EMBZ_OK : EMBZ_ERR_PREC;
+    arb_clear(beta); arb_clear(t);
     return st;
 }
 
@@ -2332,7 +2341,7 @@ static int threshold_model(arf_t U, actx *c, const embz_target_t q, const arb_t 
             } else if (st != EMBZ_OK) {
                 /* + W Phi(V): convex in V, so below its chord over [A, B] */
                 mag_zero(rho);
-                st = chord_series(ps, c, A, B, T0, Tw, J, prec);
+                st = chord_series(ps, ea->P0, eb->P0, A, B, T0, Tw, J, prec);
             }
         }
         if (st != EMBZ_OK) break;
@@ -2388,6 +2397,38 @@ static void th_item_clear(th_item *it)
 {
     arf_clear(it->a); arf_clear(it->b); arf_clear(it->U);
     th_end_clear(&it->ea); th_end_clear(&it->eb);
+}
+
+/* Lowers the first-order bound f of W F over [A, B] where it is not already below the best
+ * value: by the second-order bound (it needs the values and counts at both ends, ea and eb),
+ * then, while still above the tolerance, by the smooth model. Not on intervals wider than a
+ * factor 2^24: neither helps there. Returns the evaluations spent (0 or 1). */
+static int threshold_refine(arb_t f, actx *c, const embz_target_t q, const arb_t A,
+                            const arb_t B, th_end *ea, th_end *eb, const arf_t best,
+                            const arb_t tol, slong prec)
+{
+    arf_t U, bnd;
+    arb_t w;
+    arf_init(U); arf_init(bnd);
+    arb_init(w);
+    int spent = 0;
+    arb_get_ubound_arf(bnd, f, prec);
+    arb_mul_2exp_si(w, A, 24);
+    if (arf_cmp(bnd, best) >= 0 && !arb_gt(B, w)
+        && threshold_bound2(U, c, q, A, B, ea, eb, prec) == EMBZ_OK) {
+        spent = 1;
+        if (arf_cmp(U, bnd) < 0) {
+            arb_set_arf(f, U);
+            arf_set(bnd, U);
+        }
+        arf_sub(U, bnd, best, prec, ARF_RND_UP);
+        if (arf_cmp(U, arb_midref(tol)) > 0
+            && threshold_model(U, c, q, A, B, ea, eb, prec) == EMBZ_OK && arf_cmp(U, bnd) < 0)
+            arb_set_arf(f, U);
+    }
+    arf_clear(U); arf_clear(bnd);
+    arb_clear(w);
+    return spent;
 }
 
 /* the search's tolerance is at least 4 times the radius of a value: intervals cannot be
@@ -2447,9 +2488,9 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
     /* kinks of F where a term's count saturates: V = q_j w_min (q_0 = 1 for Phi(V)); F has
      * a corner there (often the maximum), so intervals are split just below and just above
      * each (a relative 2^-(prec-12) outside the ball, past the weights that tie with it) */
-    slong nk = 0;
-    arb_ptr kink = _arb_vec_init(2 * (m + 1));   /* exact: midpoints */
-    if (st == EMBZ_OK && m <= TH_MODEL_TERMS) {
+    slong nk = 0, kcap = m <= TH_MODEL_TERMS ? 2 * (m + 1) : 0;
+    arb_ptr kink = _arb_vec_init(kcap);          /* exact: midpoints */
+    if (st == EMBZ_OK && kcap > 0) {
         for (long j = -1; j < m; j++) {
             if (j >= 0 && fmpq_is_zero(q->q->p + j)) continue;
             if (j >= 0) {
@@ -2551,18 +2592,16 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
             arb_set_arf(Vb, side == 0 ? arb_midref(V) : it.b);
             if (!arb_lt(Va, Vb)) continue;
             /* bound endpoints nudged outwards until decided */
-            arb_t A, B, Vw;
-            arb_init(A); arb_init(B); arb_init(Vw);
+            arb_t A, B;
+            arb_init(A); arb_init(B);
             arb_set(A, Va);
             arb_set(B, Vb);
             int ok = 0, tries;
-            arf_t U2;
-            arf_init(U2);
             /* the values known at the ends: the parent's, and the split point's */
             th_end_set(&ca, side == 0 ? &it.ea : &ev);
             th_end_set(&cb, side == 0 ? &ev : &it.eb);
             for (tries = 0; tries < 8 && !ok; tries++) {
-                int s2 = threshold_f(f, NULL, NULL, NULL, c, q, A, B, prec);
+                int s2 = threshold_f(f, NULL, c, q, A, B, prec);
                 if (s2 == EMBZ_OK) ok = 1;
                 else if (s2 != EMBZ_ERR_PREC) { st = s2; break; }
                 else {
@@ -2572,29 +2611,8 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
             }
             evals++;
             if (tries > 1) ca.ok = cb.ok = 0;      /* nudged ends: known values do not apply */
-            /* the second-order bound where the first-order one is not already below the
-             * best value (it needs the values and counts at both ends) */
-            if (st == EMBZ_OK && ok) {
-                arb_get_ubound_arf(U2, f, prec);
-                /* (not on intervals wider than a factor 2^24: neither bound can help there) */
-                arb_mul_2exp_si(Vw, A, 24);
-                if (arf_cmp(U2, best) >= 0 && arb_gt(B, Vw)) {
-                    /* split further */
-                } else if (arf_cmp(U2, best) >= 0
-                    && threshold_bound2(U2, c, q, A, B, &ca, &cb, prec) == EMBZ_OK) {
-                    evals++;
-                    arb_get_ubound_arf(bnd, f, prec);
-                    if (arf_cmp(U2, bnd) < 0) arb_set_arf(f, U2);
-                    /* the smooth model where the interval is still above the tolerance */
-                    arb_get_ubound_arf(bnd, f, prec);
-                    arf_sub(U2, bnd, best, prec, ARF_RND_UP);
-                    int mst = EMBZ_ERR_UNSUPPORTED;
-                    if (arf_cmp(U2, arb_midref(tol)) > 0)
-                        mst = threshold_model(U2, c, q, A, B, &ca, &cb, prec);
-                    if (mst == EMBZ_OK && arf_cmp(U2, bnd) < 0) arb_set_arf(f, U2);
-                }
-            }
-            arf_clear(U2);
+            if (st == EMBZ_OK && ok)
+                evals += threshold_refine(f, c, q, A, B, &ca, &cb, best, tol, prec);
             if (st == EMBZ_OK) {
                 if (len == cap) {
                     cap *= 2;
@@ -2612,7 +2630,7 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
                 if (arf_cmp(h[len].U, best) >= 0) len++;   /* else: below a proven value */
                 else th_item_clear(h + len);
             }
-            arb_clear(A); arb_clear(B); arb_clear(Vw);
+            arb_clear(A); arb_clear(B);
         }
         th_item_clear(&it);
     }
@@ -2624,7 +2642,7 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
     if (arf_cmp(hi, best) < 0) arf_set(hi, best);
     arf_set(lo, best);
     flint_free(h);
-    _arb_vec_clear(kink, 2 * (m + 1));
+    _arb_vec_clear(kink, kcap);
     arb_clear(V); arb_clear(Va); arb_clear(Vb); arb_clear(f); arb_clear(wmin); arb_clear(qm);
     arb_clear(tol);
     arf_clear(best); arf_clear(bnd);

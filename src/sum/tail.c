@@ -234,12 +234,6 @@ static int integrate_u_depth(arb_t res, embz_tail_t t, const arb_t ua, const arb
     return st;
 }
 
-/* Bisection on the index for the boundary between a left part (M, a] and the rest of
- * (M, upto]: the left part is "w > v" for a non-increasing tail and "w <= v" for a
- * non-decreasing one. mode 0: every comparison must be decided (EMBZ_ERR_PREC otherwise);
- * mode 1: an index is left when it is certainly left; mode 2: when it is not certainly right.
- * A certified comparison at an index also holds beyond it on the far side (the weights are
- * monotone), so modes 1 and 2 give the lower and upper ends of the true boundary. */
 /* the bisection predicate at index x (see tail_bisect): 1 / 0, or EMBZ_ERR_* < 0 */
 static int tail_left(embz_tail_t t, const fmpz_t x, const arb_t v, int mode, slong prec)
 {
@@ -264,6 +258,12 @@ static int tail_left(embz_tail_t t, const fmpz_t x, const arb_t v, int mode, slo
     return res;
 }
 
+/* Bisection on the index for the boundary between a left part (M, a] and the rest of
+ * (M, upto]: the left part is "w > v" for a non-increasing tail and "w <= v" for a
+ * non-decreasing one. mode 0: every comparison must be decided (EMBZ_ERR_PREC otherwise);
+ * mode 1: an index is left when it is certainly left; mode 2: when it is not certainly right.
+ * A certified comparison at an index also holds beyond it on the far side (the weights are
+ * monotone), so modes 1 and 2 give the lower and upper ends of the true boundary. */
 static int tail_bisect(fmpz_t a, embz_tail_t t, const arb_t v, const fmpz_t upto, int mode,
                        slong prec)
 {
@@ -533,23 +533,32 @@ int embz_tail_sum(arb_t res, embz_tail_t t, const arb_t x, slong prec)
     return embz_tail_sum_level(res, t, x, EMBZ_TAIL_LEVEL_AUTO, prec);
 }
 
+/* the part of T~ at level lev (valid at x) besides the integral: em_(lev_p)(x) + lev_base */
+static int tail_ends(arb_t res, embz_tail_t t, const arb_t x, slong lev, slong prec)
+{
+    slong q = t->lev_p[lev], len = 2 * q + 1;
+    arb_ptr g = _arb_vec_init(len);
+    int st = weight_taylor(g, t, x, len, prec);
+    if (st == EMBZ_OK) {
+        em_terms(res, t, g, q, prec);
+        arb_add(res, res, t->lev_base + lev, prec);
+    }
+    _arb_vec_clear(g, len);
+    return st;
+}
+
 int embz_tail_sum_level(arb_t res, embz_tail_t t, const arb_t x, slong lev, slong prec)
 {
     if (lev == EMBZ_TAIL_LEVEL_AUTO) lev = embz_tail_level(t, x);
     if (lev < 0 || lev >= t->nlev) return EMBZ_ERR_PREC;
-    slong q = t->lev_p[lev], len = 2 * q + 1;
-    arb_ptr g = _arb_vec_init(len);
     arb_t I, e;
     arb_init(I); arb_init(e);
-    int st = weight_taylor(g, t, x, len, prec);
+    int st = tail_ends(e, t, x, lev, prec);
     if (st == EMBZ_OK) st = embz_tail_integral(I, t, x, prec);
     if (st == EMBZ_OK) {
-        em_terms(e, t, g, q, prec);
         arb_add(res, I, e, prec);
-        arb_add(res, res, t->lev_base + lev, prec);
         arb_add_error_mag(res, t->rem);
     }
-    _arb_vec_clear(g, len);
     arb_clear(I); arb_clear(e);
     return st;
 }
@@ -574,29 +583,25 @@ static int top_acb(acb_ptr out, const acb_t tau, void *param, slong order, slong
 int embz_tail_sum_top(arb_t res, embz_tail_t t, const arb_t y, const arb_t top, slong lev,
                       slong prec)
 {
-    arb_t I, e, ym, d, x;
-    arb_init(I); arb_init(e); arb_init(ym); arb_init(d); arb_init(x);
+    arb_t I, e, ym, x;
+    arb_init(I); arb_init(e); arb_init(ym); arb_init(x);
     /* with the bits of top: x ~ M stays exact however large top is */
     arb_sub(x, top, y, FLINT_MAX(prec, arf_abs_bound_lt_2exp_si(arb_midref(top)) + 16));
     if (lev == EMBZ_TAIL_LEVEL_AUTO) lev = embz_tail_level(t, x);
     slong ltop = embz_tail_level(t, top);
     int st = EMBZ_OK;
-    if (lev < 0 || lev >= t->nlev || ltop < 0) st = EMBZ_ERR_PREC;
-    slong q = st == EMBZ_OK ? FLINT_MAX(t->lev_p[lev], t->lev_p[ltop]) : 0;
-    arb_ptr g = _arb_vec_init(2 * q + 1);
-    /* the integral from x = top - y to top */
-    arb_mul_2exp_si(d, y, 1);
-    if (st != EMBZ_OK) {
-        /* no level */
-    } else if (!arb_lt(d, top)) {
-        /* y >= top / 2 (or not known to be below): the difference of cached integrals
-         * loses at most a constant factor */
-        st = embz_tail_integral(I, t, top, prec);
-        if (st == EMBZ_OK) st = embz_tail_integral(e, t, x, prec);
-        arb_sub(I, I, e, prec);
+    arb_mul_2exp_si(e, y, 1);
+    if (lev < 0 || lev >= t->nlev || ltop < 0) {
+        st = EMBZ_ERR_PREC;
+    } else if (!arb_lt(e, top)) {
+        /* y >= top / 2 (or not known to be below): T~(top) - T~(x), the difference of
+         * integrals from M losing at most a constant factor */
+        st = embz_tail_sum_level(I, t, top, ltop, prec);
+        if (st == EMBZ_OK) st = embz_tail_sum_level(e, t, x, lev, prec);
+        arb_sub(res, I, e, prec);
     } else {
-        /* y < top / 2: integral of f(top - tau) over [0, ym] at the midpoint ym of y, then
-         * f over the ball times its radius */
+        /* y < top / 2: the integral of f(top - tau) over [0, ym] at the midpoint ym of y,
+         * plus f over the ball times its radius, and the end terms at top and x */
         acb_t a, b, r;
         mag_t tol;
         acb_calc_integrate_opt_t opt;
@@ -612,34 +617,25 @@ int embz_tail_sum_top(arb_t res, embz_tail_t t, const arb_t y, const arb_t top, 
         arb_set(I, acb_realref(r));
         st = (st == ARB_CALC_SUCCESS && arb_is_finite(I)) ? EMBZ_OK : EMBZ_ERR_PREC;
         if (st == EMBZ_OK && !mag_is_zero(arb_radref(y))) {
-            st = weight_taylor(g, t, x, 1, prec);
+            st = weight_taylor(e, t, x, 1, prec);
             mag_t m;
             mag_init(m);
-            arb_get_mag(m, g);
+            arb_get_mag(m, e);
             mag_mul(m, m, arb_radref(y));
             arb_add_error_mag(I, m);
             mag_clear(m);
         }
         acb_clear(a); acb_clear(b); acb_clear(r);
         mag_clear(tol);
-    }
-    /* + em(top) + base(top level) - em(x) - base(x level), the remainders of both ends */
-    if (st == EMBZ_OK) st = weight_taylor(g, t, top, 2 * t->lev_p[ltop] + 1, prec);
-    if (st == EMBZ_OK) {
-        em_terms(e, t, g, t->lev_p[ltop], prec);
+        if (st == EMBZ_OK) st = tail_ends(e, t, top, ltop, prec);
         arb_add(I, I, e, prec);
-        arb_add(I, I, t->lev_base + ltop, prec);
-        st = weight_taylor(g, t, x, 2 * t->lev_p[lev] + 1, prec);
-    }
-    if (st == EMBZ_OK) {
-        em_terms(e, t, g, t->lev_p[lev], prec);
-        arb_sub(I, I, e, prec);
-        arb_sub(res, I, t->lev_base + lev, prec);
+        if (st == EMBZ_OK) st = tail_ends(e, t, x, lev, prec);
+        arb_sub(res, I, e, prec);
+        /* the remainders of both ends */
         arb_add_error_mag(res, t->rem);
         arb_add_error_mag(res, t->rem);
     }
-    _arb_vec_clear(g, 2 * q + 1);
-    arb_clear(I); arb_clear(e); arb_clear(ym); arb_clear(d); arb_clear(x);
+    arb_clear(I); arb_clear(e); arb_clear(ym); arb_clear(x);
     return st;
 }
 
@@ -808,20 +804,29 @@ int embz_tail_log_root(arb_t s, embz_tail_t t, const arb_t lnv, const arb_t slo,
     return st;
 }
 
+/* Taylor coefficients 0..len-1 of sigma -> core(u + sigma) at a (point or wide) ball u */
+static int core_series(arb_ptr d, embz_tail_t t, const arb_t u, slong len, slong prec)
+{
+    arb_ptr us = _arb_vec_init(len);
+    arb_set(us, u);
+    if (len > 1) arb_one(us + 1);
+    int st = embz_expr_eval_series(d, t->core, us, t->n, len, prec);
+    t->evals++;
+    if (st == EMBZ_OK && !_arb_vec_is_finite(d, len)) st = EMBZ_ERR_DOMAIN;
+    _arb_vec_clear(us, len);
+    return st;
+}
+
 /* P_k over a ball U of u = ln x, k = 0..K, where x^k f^(k)(x) = e^(rate u) P_k(u):
  * P_0 = core, P_(k+1) = (D + rate - k) P_k (D = d/du). Needs t->usplit. */
 int embz_tail_pk(arb_ptr P, embz_tail_t t, const arb_t U, slong K, slong prec)
 {
     if (!t->usplit) return EMBZ_ERR_UNSUPPORTED;
     slong len = K + 1;
-    arb_ptr d = _arb_vec_init(len), us = _arb_vec_init(len);
+    arb_ptr d = _arb_vec_init(len);
     arb_t c, e1;
     arb_init(c); arb_init(e1);
-    arb_set(us, U);
-    if (len > 1) arb_one(us + 1);
-    int st = embz_expr_eval_series(d, t->core, us, t->n, len, prec);
-    t->evals++;
-    if (st == EMBZ_OK && !_arb_vec_is_finite(d, len)) st = EMBZ_ERR_DOMAIN;
+    int st = core_series(d, t, U, len, prec);
     if (st == EMBZ_OK) {
         /* d[i] = core^(i)(U); then P[k] = P_k(U) by applying (D + r - m), m = 0 .. K-1 */
         for (slong i = 1; i < len; i++) {
@@ -839,7 +844,6 @@ int embz_tail_pk(arb_ptr P, embz_tail_t t, const arb_t U, slong K, slong prec)
         }
     }
     _arb_vec_clear(d, len);
-    _arb_vec_clear(us, len);
     arb_clear(c); arb_clear(e1);
     return st;
 }
@@ -850,20 +854,15 @@ int embz_tail_logweight_series(arb_ptr res, embz_tail_t t, const arb_t s, slong 
                                slong prec)
 {
     if (!t->usplit) return EMBZ_ERR_UNSUPPORTED;
-    arb_ptr d = _arb_vec_init(len), us = _arb_vec_init(len);
-    arb_set(us, s);
-    if (len > 1) arb_one(us + 1);
-    int st = embz_expr_eval_series(d, t->core, us, t->n, len, prec);
-    t->evals++;
-    if (st == EMBZ_OK && !(arb_is_positive(d) && _arb_vec_is_finite(d, len)))
-        st = EMBZ_ERR_DOMAIN;
+    arb_ptr d = _arb_vec_init(len);
+    int st = core_series(d, t, s, len, prec);
+    if (st == EMBZ_OK && !arb_is_positive(d)) st = EMBZ_ERR_DOMAIN;
     if (st == EMBZ_OK) {
         _arb_poly_log_series(res, d, len, len, prec);
         arb_addmul(res, t->rate, s, prec);
         if (len > 1) arb_add(res + 1, res + 1, t->rate, prec);
     }
     _arb_vec_clear(d, len);
-    _arb_vec_clear(us, len);
     return st;
 }
 
