@@ -113,6 +113,49 @@ START_TEST(test_json_escape)
 }
 END_TEST
 
+/* Text that is not UTF-8 still gives valid JSON: each stray byte becomes the character of
+ * its Latin-1 reading; well-formed UTF-8 (2, 3 and 4 bytes) is kept as it is. */
+START_TEST(test_json_utf8)
+{
+    embz_buf_t b;
+    embz_buf_init(&b);
+    embz_buf_json_string(&b, "caf\xe9 \xc3\xa9 \xe2\x82\xac \xf0\x9f\x98\x80 \xc3 \xed\xa0\x80");
+    ck_assert_str_eq(b.s, "\"caf\\u00e9 \xc3\xa9 \xe2\x82\xac \xf0\x9f\x98\x80 \\u00c3 "
+                          "\\u00ed\\u00a0\\u0080\"");
+    embz_buf_clear(&b);
+}
+END_TEST
+
+START_TEST(test_utf8_len)
+{
+    static const struct { const char *s; int len; } cases[] = {
+        { "a", 1 }, { "\x7f", 1 }, { "\xc3\xa9", 2 }, { "\xe2\x82\xac", 3 },
+        { "\xf0\x9f\x98\x80", 4 }, { "\xf4\x8f\xbf\xbf", 4 },  /* U+10FFFF */
+        { "", 0 }, { "\x80", 0 }, { "\xc0\xaf", 0 }, { "\xc1\xbf", 0 },   /* overlong */
+        { "\xe0\x80\xaf", 0 }, { "\xf0\x80\x80\xaf", 0 },              /* overlong */
+        { "\xed\xa0\x80", 0 },                                          /* surrogate */
+        { "\xf4\x90\x80\x80", 0 }, { "\xf5\x80\x80\x80", 0 },          /* > U+10FFFF */
+        { "\xe2\x82", 0 }, { "\xc3", 0 }, { "\xc3" "a", 0 },               /* truncated */
+    };
+    for (size_t k = 0; k < sizeof(cases) / sizeof(cases[0]); k++)
+        ck_assert_msg(embz_utf8_len(cases[k].s) == cases[k].len, "case %zu", k);
+}
+END_TEST
+
+START_TEST(test_err_quote)
+{
+    char buf[64];
+    ck_assert_str_eq(embz_err_quote(buf, sizeof(buf), "plain 1/i", 100), "plain 1/i");
+    ck_assert_str_eq(embz_err_quote(buf, sizeof(buf), "a\x01\x7f\xff\tz", 100),
+                     "a\\x01\\x7f\\xff\\x09z");
+    ck_assert_str_eq(embz_err_quote(buf, sizeof(buf), "caf\xc3\xa9", 100), "caf\xc3\xa9");
+    ck_assert_str_eq(embz_err_quote(buf, sizeof(buf), "abcdefgh", 3), "abc...");
+    /* a small buffer: cut with the mark, never overrun */
+    ck_assert_str_eq(embz_err_quote(buf, 8, "abcdefgh", 100), "abcd...");
+    ck_assert_str_eq(embz_err_quote(buf, 8, "\x01\x02", 100), "\\x01...");
+}
+END_TEST
+
 START_TEST(test_caret)
 {
     embz_err_t e;
@@ -176,6 +219,9 @@ int main(void)
     tcase_add_test(tc, test_certified_digits);
     tcase_add_test(tc, test_fmpz_string);
     tcase_add_test(tc, test_json_escape);
+    tcase_add_test(tc, test_json_utf8);
+    tcase_add_test(tc, test_utf8_len);
+    tcase_add_test(tc, test_err_quote);
     tcase_add_test(tc, test_caret);
     tcase_add_test(tc, test_write_atomic);
     suite_add_tcase(s, tc);

@@ -38,4 +38,15 @@ int embz_err_set(embz_err_t *err, int code, const char *fmt, ...)
  * source when col > 0) into buf of size len. */
 void embz_err_format(char *buf, size_t len, const embz_err_t *err);
 
+/* Length in bytes (1 to 4) of the well-formed UTF-8 character that starts at s, or 0 when
+ * the bytes there are not one: a NUL, a stray continuation byte, a truncated or overlong
+ * sequence, a UTF-16 surrogate or a code point above U+10FFFF. */
+int embz_utf8_len(const char *s);
+
+/* A copy of untrusted text that is safe to show in a message: bytes below 0x20, 0x7f and
+ * bytes that are not part of well-formed UTF-8 are written as \xHH; well-formed non-ASCII
+ * characters are kept. At most max bytes of text are shown, then "..." marks the cut. dst
+ * (capacity cap >= 4) always ends with a NUL, cut further when needed. Returns dst. */
+char *embz_err_quote(char *dst, size_t cap, const char *text, size_t max);
+
 #endif

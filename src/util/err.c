@@ -47,3 +47,54 @@ void embz_err_format(char *buf, size_t len, const embz_err_t *err)
     }
 #undef EMBZ_APPEND
 }
+
+int embz_utf8_len(const char *s)
+{
+    const unsigned char *p = (const unsigned char *) s;
+    int len;
+    unsigned long cp;
+    if (p[0] == 0) return 0;
+    if (p[0] < 0x80) return 1;
+    if (p[0] < 0xc2) return 0;                  /* continuation byte, or overlong 2-byte */
+    if (p[0] < 0xe0) { len = 2; cp = p[0] & 0x1f; }
+    else if (p[0] < 0xf0) { len = 3; cp = p[0] & 0x0f; }
+    else if (p[0] < 0xf5) { len = 4; cp = p[0] & 0x07; }
+    else return 0;
+    for (int k = 1; k < len; k++) {
+        if ((p[k] & 0xc0) != 0x80) return 0;    /* also stops at the NUL */
+        cp = (cp << 6) | (p[k] & 0x3f);
+    }
+    if ((len == 3 && cp < 0x800) || (len == 4 && cp < 0x10000)) return 0;   /* overlong */
+    if (cp >= 0xd800 && cp <= 0xdfff) return 0;                             /* surrogate */
+    if (cp > 0x10ffff) return 0;
+    return len;
+}
+
+char *embz_err_quote(char *dst, size_t cap, const char *text, size_t max)
+{
+    size_t o = 0, i = 0;
+    if (cap == 0) return dst;
+    dst[0] = '\0';
+    if (text == NULL) return dst;
+    while (text[i] != '\0' && i < max) {
+        int l = embz_utf8_len(text + i);
+        unsigned char c = (unsigned char) text[i];
+        int plain = l > 1 || (l == 1 && c >= 0x20 && c != 0x7f);
+        size_t need = plain ? (size_t) l : 4;
+        if (o + need + 4 > cap) break;           /* room for "..." and the NUL */
+        if (plain) {
+            memcpy(dst + o, text + i, (size_t) l);
+            i += (size_t) l;
+        } else {
+            snprintf(dst + o, cap - o, "\\x%02x", c);
+            i++;
+        }
+        o += need;
+    }
+    if (text[i] != '\0' && o + 4 <= cap) {
+        memcpy(dst + o, "...", 3);
+        o += 3;
+    }
+    dst[o] = '\0';
+    return dst;
+}

@@ -5,6 +5,7 @@
 #include <unistd.h>
 #include <fcntl.h>
 #include "embz/output.h"
+#include "embz/err.h"
 
 /* Decimal string of an arf rounded in direction rnd (MPFR_RNDD / MPFR_RNDU), digits significant. */
 static char *arf_decimal(const arf_t x, slong digits, mpfr_rnd_t rnd)
@@ -142,10 +143,20 @@ void embz_buf_printf(embz_buf_t *b, const char *fmt, ...)
     b->len += (size_t) need;
 }
 
+/* JSON wants UTF-8: well-formed characters pass through, and a byte that is not part of
+ * one (text in Latin-1, say) is written as the character of its Latin-1 reading, \u00XX, so
+ * the output stays valid and nothing is lost. */
 void embz_buf_json_string(embz_buf_t *b, const char *text)
 {
     embz_buf_printf(b, "\"");
     for (const unsigned char *p = (const unsigned char *) text; *p; p++) {
+        if (*p >= 0x80) {
+            int l = embz_utf8_len((const char *) p);
+            if (l == 0) embz_buf_printf(b, "\\u%04x", *p);
+            else embz_buf_printf(b, "%.*s", l, (const char *) p);
+            if (l > 1) p += l - 1;
+            continue;
+        }
         switch (*p) {
         case '"': embz_buf_printf(b, "\\\""); break;
         case '\\': embz_buf_printf(b, "\\\\"); break;
