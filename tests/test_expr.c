@@ -366,6 +366,10 @@ START_TEST(test_errors)
         {"exp(2,)", 7, "missing operand before ')'"},
         {"(1,2)", 3, "unexpected ','"},
         {"foo(1)", 1, "unknown name 'foo'"},
+        /* a character outside ASCII is one token, shown whole; stray bytes escaped */
+        {"1/i+\xc3\xa9", 5, "unexpected character '\xc3\xa9'"},
+        {"1/i+\xe9+1", 5, "unexpected character '\\xe9'"},
+        {"i\x01", 2, "unexpected character '\\x01'"},
     };
     embz_expr_t e;
     embz_err_t err;
@@ -612,6 +616,15 @@ START_TEST(test_number_parse)
     }
     for (size_t k = 0; k < sizeof(bad) / sizeof(bad[0]); k++)
         ck_assert_msg(embz_number_parse(x, bad[k]) == EMBZ_ERR_INPUT, "'%s' accepted", bad[k]);
+    /* of those, only the well-formed one with a huge exponent is "out of range" */
+    for (size_t k = 0; k < sizeof(bad) / sizeof(bad[0]); k++)
+        ck_assert_msg(embz_number_out_of_range(bad[k]) == (strcmp(bad[k], "1e999999") == 0),
+                      "'%s'", bad[k]);
+    ck_assert(embz_number_out_of_range(" -2.5E-100001 "));
+    ck_assert(embz_number_out_of_range("1e+100001"));
+    ck_assert(!embz_number_out_of_range("1e100000"));
+    ck_assert(!embz_number_out_of_range("1e999999x"));
+    ck_assert(!embz_number_out_of_range("0.5"));
     /* long exact decimal */
     ck_assert_int_eq(embz_number_parse(x, "3.14159265358979323846264338327950288"), EMBZ_OK);
     {

@@ -114,6 +114,99 @@ START_TEST(test_parse_file)
 }
 END_TEST
 
+/* An empty entry is refused with its position, never dropped. */
+START_TEST(test_parse_empty_entries)
+{
+    static const struct { const char *s; const char *words; } bad[] = {
+        { "0.5,,0.5", "entry 2 is empty: two separators in a row (',' at character 5)" },
+        { "0.5, ,0.5", "entry 2 is empty: two separators in a row (',' at character 6)" },
+        { "0.5;;0.5", "entry 2 is empty" },
+        { "0.5,0.25;,0.25", "entry 3 is empty" },
+        { ",0.5,0.5", "entry 1 is empty: the list starts with a separator" },
+        { "0.5,0.5,", "entry 3 is empty: the list ends with a separator" },
+        { "0.5 0.5 ; ", "entry 3 is empty" },
+    };
+    embz_qvec_t v;
+    embz_err_t err;
+    embz_qvec_init(v);
+    for (size_t k = 0; k < sizeof(bad) / sizeof(bad[0]); k++) {
+        embz_err_clear(&err);
+        ck_assert_msg(embz_qvec_parse(v, bad[k].s, 0, &err) == EMBZ_ERR_INPUT, "'%s' accepted",
+                      bad[k].s);
+        ck_assert_msg(strstr(err.text, bad[k].words) != NULL, "'%s': %s", bad[k].s, err.text);
+    }
+    /* one separator with blanks around it is still one */
+    ck_assert_int_eq(embz_qvec_parse(v, " 0.5 ,\t0.25 ; 0.25 ", 0, &err), EMBZ_OK);
+    ck_assert_int_eq(v->len, 3);
+    /* in a file: the line and the entry counted over the whole file */
+    char path[] = "/tmp/embz_test_vec_XXXXXX";
+    int fd = mkstemp(path);
+    ck_assert_int_ge(fd, 0);
+    close(fd);
+    write_file(path, "0.25 0.25\n0.25,,0.25\n");
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_qvec_parse(v, path, 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_int_eq(err.line, 2);
+    ck_assert_msg(strstr(err.text, "entry 4 is empty") != NULL, "%s", err.text);
+    write_file(path, "0.5,\n0.5\n");
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_qvec_parse(v, path, 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_int_eq(err.line, 1);
+    ck_assert_msg(strstr(err.text, "the line ends with a separator") != NULL, "%s", err.text);
+    unlink(path);
+    embz_qvec_clear(v);
+}
+END_TEST
+
+/* What is wrong with a target that is not a list of numbers is said as it is: a missing
+ * file, a directory, a device, a number out of range; bytes from a binary file are shown
+ * escaped, never raw. */
+START_TEST(test_parse_not_numbers)
+{
+    embz_qvec_t v;
+    embz_err_t err;
+    char buf[2048];
+    embz_qvec_init(v);
+
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_qvec_parse(v, "/nonexistent/file", 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_str_eq(err.file, "/nonexistent/file");
+    ck_assert_msg(strstr(err.text, "no such file") != NULL, "%s", err.text);
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_qvec_parse(v, "/tmp", 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "is a directory") != NULL, "%s", err.text);
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_qvec_parse(v, "/dev/null", 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "not a regular file") != NULL, "%s", err.text);
+
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_qvec_parse(v, "0.5,1e999999", 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "entry 2 is out of range: '1e999999'") != NULL, "%s",
+                  err.text);
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_qvec_parse(v, "1e-100001 0.5", 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "entry 1 is out of range") != NULL, "%s", err.text);
+    /* the largest exponent allowed is a number */
+    ck_assert_int_eq(embz_qvec_parse(v, "1e-100000 0.5", 0, &err), EMBZ_OK);
+
+    char path[] = "/tmp/embz_test_vec_XXXXXX";
+    int fd = mkstemp(path);
+    ck_assert_int_ge(fd, 0);
+    close(fd);
+    write_file(path, "0.5 \x7f" "ELF\x01\xff\x1b[2J\n");
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_qvec_parse(v, path, 0, &err), EMBZ_ERR_INPUT);
+    embz_err_format(buf, sizeof(buf), &err);
+    ck_assert_msg(strstr(buf, "entry 2 is not a number: '\\x7fELF\\x01\\xff\\x1b[2J'") != NULL,
+                  "%s", buf);
+    for (const char *p = buf; *p; p++)
+        ck_assert_msg((unsigned char) *p >= 0x20 && (unsigned char) *p < 0x7f, "raw byte in %s",
+                      buf);
+    unlink(path);
+    embz_qvec_clear(v);
+}
+END_TEST
+
 /* Round trip: random rational entries printed as p/q text parse back to the normalised
  * vector, exactly. */
 START_TEST(test_parse_random)
@@ -214,6 +307,8 @@ static Suite *vec_suite(void)
     tcase_add_test(tc, test_parse_list);
     tcase_add_test(tc, test_parse_errors);
     tcase_add_test(tc, test_parse_file);
+    tcase_add_test(tc, test_parse_empty_entries);
+    tcase_add_test(tc, test_parse_not_numbers);
     tcase_add_test(tc, test_parse_random);
     tcase_add_test(tc, test_targets);
     suite_add_tcase(s, tc);

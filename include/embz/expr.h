@@ -79,6 +79,11 @@ void embz_expr_square(embz_expr_t e);
 /* Exact decimal / integer / exponent number "1", "-0.75", "1e-3", "2.5E+4" -> rational.
  * Returns EMBZ_OK or EMBZ_ERR_INPUT. Also accepts "p/q". */
 int embz_number_parse(fmpq_t res, const char *s);
+/* 1 when s is written like a number ("1e999999", "-2.5e-200000") but embz_number_parse
+ * refuses it because its decimal exponent lies beyond +-EMBZ_NUMBER_MAX_EXP10; else 0. Lets
+ * messages say "out of range" rather than "not a number". */
+#define EMBZ_NUMBER_MAX_EXP10 100000
+int embz_number_out_of_range(const char *s);
 
 /* Queries. */
 #define EMBZ_USES_I 1

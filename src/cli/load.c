@@ -59,9 +59,10 @@ int cli_load_target(embz_target_t q, const cli_args_t *a, const char *cmd)
     embz_err_clear(&err);
     int status = embz_target_parse(q, text, 0, &err);
     if (status == EMBZ_OK) return CLI_EXIT_OK;
-    char buf[3000];
+    char buf[3000], shown[300];
     embz_err_format(buf, sizeof(buf), &err);
-    fprintf(stderr, "embz %s: bad target '%s': %s\n", cmd, text, buf);
+    fprintf(stderr, "embz %s: bad target '%s': %s\n", cmd,
+            embz_err_quote(shown, sizeof(shown), text, 200), buf);
     return cli_exit_code(status);
 }
 

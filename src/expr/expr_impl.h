@@ -20,7 +20,7 @@ const char *_embz_op_name(int op);
 /* Scanning of an unsigned decimal number "12", "0.75", ".5", "1e-3", "2.5E+4".
  * Returns 0 and sets *end (index after the number) and val; 1 if s does not start with a
  * number; 2 if the exponent is out of range (|exp| > EMBZ_NUMBER_MAX_EXP). */
-#define EMBZ_NUMBER_MAX_EXP 100000
+#define EMBZ_NUMBER_MAX_EXP EMBZ_NUMBER_MAX_EXP10
 int _embz_number_scan(fmpq_t val, long *end, const char *s);
 
 /* One scalar operation on balls with the real-domain rules of embz_expr_eval_arb.

@@ -129,6 +129,21 @@ fail:
     return EMBZ_ERR_INPUT;
 }
 
+int embz_number_out_of_range(const char *s)
+{
+    long p = 0, end;
+    fmpq_t v;
+    while (isspace((unsigned char) s[p])) p++;
+    if (s[p] == '+' || s[p] == '-') p++;
+    fmpq_init(v);
+    int r = _embz_number_scan(v, &end, s + p);
+    fmpq_clear(v);
+    if (r != 2) return 0;
+    p += end;
+    while (isspace((unsigned char) s[p])) p++;
+    return s[p] == '\0';
+}
+
 /* ------------------------------------------------------------------ lexer */
 
 static int is_ident_start(int c) { return isalpha(c) || c == '_'; }
@@ -157,7 +172,9 @@ static void next(parser_t *P)
         while (p < P->len && is_ident_char((unsigned char) s[p])) p++;
         P->tok.kind = T_IDENT;
     } else {
-        p++;
+        /* an unexpected character is one token however many bytes it takes in UTF-8 */
+        int l = c >= 0x80 ? embz_utf8_len(s + p) : 1;
+        p += l > 1 ? l : 1;
         switch (c) {
         case '+': P->tok.kind = T_PLUS; break;
         case '-': P->tok.kind = T_MINUS; break;
@@ -187,24 +204,24 @@ static int fail(parser_t *P, long col, const char *fmt, const char *arg)
     return -1;
 }
 
-/* Printable copy of a token's text (at most 40 characters). */
-static void tok_text(char *buf, const parser_t *P, const token_t *t)
+/* Printable copy of a token's text (at most 40 bytes of it; control bytes and bytes
+ * outside well-formed UTF-8 escaped). */
+static void tok_text(char *buf, size_t cap, const parser_t *P, const token_t *t)
 {
-    long l = t->end - t->start, o = 0;
-    if (t->kind == T_END) { strcpy(buf, "end of input"); return; }
-    for (long k = 0; k < l && o < 40; k++) {
-        unsigned char c = (unsigned char) P->s[t->start + k];
-        if (isprint(c)) buf[o++] = (char) c;
-        else { o += sprintf(buf + o, "\\x%02x", c); }
-    }
-    if (l > 40) { strcpy(buf + o, "..."); o += 3; }
-    buf[o] = '\0';
+    long l = t->end - t->start;
+    if (t->kind == T_END) { snprintf(buf, cap, "end of input"); return; }
+    char *piece = malloc((size_t) l + 1);
+    if (piece == NULL) abort();
+    memcpy(piece, P->s + t->start, (size_t) l);
+    piece[l] = '\0';
+    embz_err_quote(buf, cap, piece, 40);
+    free(piece);
 }
 
 static int fail_tok(parser_t *P, const token_t *t, const char *fmt)
 {
-    char buf[64];
-    tok_text(buf, P, t);
+    char buf[200];
+    tok_text(buf, sizeof(buf), P, t);
     return fail(P, t->start + 1, fmt, buf);
 }
 

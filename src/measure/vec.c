@@ -2,6 +2,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <ctype.h>
+#include <errno.h>
 #include <sys/stat.h>
 #include "embz/vec.h"
 #include "embz/expr.h"
@@ -69,19 +70,57 @@ static int is_sep(int c)
     return c == ',' || c == ';' || isspace(c);
 }
 
+static void at_line(embz_err_t *err, int in_file, long line, const char *file)
+{
+    if (!in_file) return;
+    snprintf(err->file, sizeof(err->file), "%s", file);
+    err->line = line;
+}
+
 /* Parse the numbers of one chunk of text (a whole list, or one line of a file after its
- * comment is removed). in_file: messages use err->line (set by the caller) rather than the
- * entry position. */
+ * comment is removed). Entries are separated by blanks and at most one ',' or ';': two
+ * of those with nothing but blanks between them, or one before the first entry or after
+ * the last, mark an empty entry, which is refused (a number left out by mistake should not
+ * silently shorten the vector). in_file: the message carries file:line. */
 static int parse_chunk(qlist_t *out, const char *text, int in_file, long line,
                        const char *file, embz_err_t *err)
 {
     const char *s = text;
     char tok[EMBZ_VEC_MAX_TOKEN + 1];
+    char shown[200];
     fmpq_t x;
     int status = EMBZ_OK;
     fmpq_init(x);
-    while (*s != '\0') {
-        while (*s != '\0' && is_sep((unsigned char) *s)) s++;
+    for (;;) {
+        /* the blanks and separators before the next entry (or the end) */
+        const char *run = s, *twice = NULL, *one = NULL;
+        while (*s != '\0' && is_sep((unsigned char) *s)) {
+            if (*s == ',' || *s == ';') {
+                if (one != NULL && twice == NULL) twice = s;
+                if (one == NULL) one = s;
+            }
+            s++;
+        }
+        const char *why = NULL, *at = NULL;
+        if (one != NULL && run == text) {
+            why = in_file ? "the line starts with a separator"
+                          : "the list starts with a separator";
+            at = one;
+        } else if (one != NULL && *s == '\0') {
+            why = in_file ? "the line ends with a separator"
+                          : "the list ends with a separator";
+            at = one;
+        } else if (twice != NULL) {
+            why = "two separators in a row";
+            at = twice;
+        }
+        if (why != NULL) {
+            at_line(err, in_file, line, file);
+            status = embz_err_set(err, EMBZ_ERR_INPUT, "entry %ld is empty: %s ('%c' at "
+                                  "character %ld)", out->len + 1, why, *at,
+                                  (long) (at - text) + 1);
+            goto done;
+        }
         if (*s == '\0') break;
         const char *t0 = s;
         while (*s != '\0' && !is_sep((unsigned char) *s)) s++;
@@ -93,10 +132,7 @@ static int parse_chunk(qlist_t *out, const char *text, int in_file, long line,
             goto done;
         }
         if (len > EMBZ_VEC_MAX_TOKEN) {
-            if (in_file) {
-                snprintf(err->file, sizeof(err->file), "%s", file);
-                err->line = line;
-            }
+            at_line(err, in_file, line, file);
             status = embz_err_set(err, EMBZ_ERR_INPUT, "entry %ld is too long", pos);
             goto done;
         }
@@ -104,17 +140,20 @@ static int parse_chunk(qlist_t *out, const char *text, int in_file, long line,
         tok[len] = '\0';
         int bad = embz_number_parse(x, tok) != EMBZ_OK;
         if (bad || fmpq_sgn(x) < 0) {
-            if (in_file) {
-                snprintf(err->file, sizeof(err->file), "%s", file);
-                err->line = line;
-            }
-            if (bad)
+            at_line(err, in_file, line, file);
+            embz_err_quote(shown, sizeof(shown), tok, 60);
+            if (bad && embz_number_out_of_range(tok))
                 status = embz_err_set(err, EMBZ_ERR_INPUT,
-                                      "entry %ld is not a number: '%.60s'", pos, tok);
+                                      "entry %ld is out of range: '%s' (decimal exponents "
+                                      "from -%d to %d)", pos, shown, EMBZ_NUMBER_MAX_EXP10,
+                                      EMBZ_NUMBER_MAX_EXP10);
+            else if (bad)
+                status = embz_err_set(err, EMBZ_ERR_INPUT,
+                                      "entry %ld is not a number: '%s'", pos, shown);
             else
                 status = embz_err_set(err, EMBZ_ERR_INPUT,
-                                      "entry %ld is negative: '%.60s' (Schmidt weights are >= 0)",
-                                      pos, tok);
+                                      "entry %ld is negative: '%s' (Schmidt weights are >= 0)",
+                                      pos, shown);
             goto done;
         }
         status = qlist_push(out, x);
@@ -132,8 +171,11 @@ static int parse_file(qlist_t *out, const char *path, embz_err_t *err)
 {
     FILE *fp = fopen(path, "rb");
     if (fp == NULL) {
+        int e = errno;
         snprintf(err->file, sizeof(err->file), "%s", path);
-        return embz_err_set(err, EMBZ_ERR_IO, "cannot open the file");
+        /* the file named is the user's input: refusing it is an input error */
+        return embz_err_set(err, e == ENOMEM ? EMBZ_ERR_NOMEM : EMBZ_ERR_INPUT,
+                            "cannot open the file: %s", strerror(e));
     }
     size_t cap = 4096, len = 0;
     char *buf = malloc(cap);
@@ -184,10 +226,32 @@ done:
     return status;
 }
 
-static int is_regular_file(const char *path)
+/* What a path names: 1 a regular file, 0 nothing (errno from stat), -1 a directory, -2
+ * something else (a device, a pipe, a socket). */
+static int path_kind(const char *path, int *stat_errno)
 {
     struct stat st;
-    return stat(path, &st) == 0 && S_ISREG(st.st_mode);
+    *stat_errno = 0;
+    if (stat(path, &st) != 0) {
+        *stat_errno = errno;
+        return 0;
+    }
+    if (S_ISREG(st.st_mode)) return 1;
+    return S_ISDIR(st.st_mode) ? -1 : -2;
+}
+
+/* One token without separators that is not a number: most likely the name of a file. */
+static int looks_like_path(const char *spec)
+{
+    fmpq_t x;
+    int r = 1;
+    if (spec[0] == '\0') return 0;
+    for (const char *p = spec; *p; p++)
+        if (is_sep((unsigned char) *p)) return 0;
+    fmpq_init(x);
+    if (embz_number_parse(x, spec) == EMBZ_OK || embz_number_out_of_range(spec)) r = 0;
+    fmpq_clear(x);
+    return r;
 }
 
 int embz_qvec_parse(embz_qvec_t v, const char *spec, int amplitude, embz_err_t *err)
@@ -196,9 +260,22 @@ int embz_qvec_parse(embz_qvec_t v, const char *spec, int amplitude, embz_err_t *
     int status;
     int from_file = 0;
     if (spec == NULL) return embz_err_set(err, EMBZ_ERR_INPUT, "empty vector");
-    if (is_regular_file(spec)) {
+    int serr, kind = path_kind(spec, &serr);
+    if (kind == 1) {
         from_file = 1;
         status = parse_file(&l, spec, err);
+    } else if (kind < 0) {
+        snprintf(err->file, sizeof(err->file), "%s", spec);
+        return embz_err_set(err, EMBZ_ERR_INPUT, kind == -1
+                            ? "is a directory, not a file of numbers"
+                            : "is not a regular file (a device, pipe or socket)");
+    } else if (looks_like_path(spec)) {
+        /* neither numbers nor an existing file: say why the file could not be read */
+        snprintf(err->file, sizeof(err->file), "%s", spec);
+        if (serr == ENOENT || serr == ENOTDIR)
+            return embz_err_set(err, EMBZ_ERR_INPUT,
+                                "no such file (and not a list of numbers either)");
+        return embz_err_set(err, EMBZ_ERR_INPUT, "cannot read the file: %s", strerror(serr));
     } else {
         status = parse_chunk(&l, spec, 0, 0, "", err);
     }
