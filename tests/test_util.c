@@ -177,6 +177,21 @@ START_TEST(test_caret)
     embz_err_set(&e, EMBZ_ERR_INPUT, "unknown key 'wieght'");
     embz_err_format(buf, sizeof(buf), &e);
     ck_assert_str_eq(buf, "x.fam:4: unknown key 'wieght'");
+    /* control and stray bytes of a source line or file name are escaped, and the caret
+     * stays under the byte it points at (four columns per escape, one per UTF-8 character,
+     * tabs kept) */
+    embz_err_clear(&e);
+    snprintf(e.source, sizeof(e.source), "\x01\xc3\xa9\t+x");
+    e.col = 6;
+    embz_err_set(&e, EMBZ_ERR_INPUT, "unknown name 'x'");
+    embz_err_format(buf, sizeof(buf), &e);
+    ck_assert_str_eq(buf, "column 6: unknown name 'x'\n  \\x01\xc3\xa9\t+x\n       \t ^");
+    embz_err_clear(&e);
+    snprintf(e.file, sizeof(e.file), "a\x1b[2Jb");
+    e.line = 2;
+    embz_err_set(&e, EMBZ_ERR_INPUT, "bad");
+    embz_err_format(buf, sizeof(buf), &e);
+    ck_assert_str_eq(buf, "a\\x1b[2Jb:2: bad");
 }
 END_TEST
 

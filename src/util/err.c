@@ -23,26 +23,52 @@ int embz_err_set(embz_err_t *err, int code, const char *fmt, ...)
 void embz_err_format(char *buf, size_t len, const embz_err_t *err)
 {
     size_t pos = 0;
+    char file[sizeof(err->file) * 4];
     if (len == 0) return;
     buf[0] = '\0';
 #define EMBZ_APPEND(...) do { \
         int w_ = snprintf(buf + pos, len - pos, __VA_ARGS__); \
         if (w_ < 0) return; \
         pos += (size_t) w_; if (pos >= len) { pos = len - 1; return; } } while (0)
+    /* names and source lines come from users: control and stray bytes are shown escaped */
+    embz_err_quote(file, sizeof(file), err->file, sizeof(err->file));
     if (err->file[0] != '\0' && err->line > 0)
-        EMBZ_APPEND("%s:%ld: ", err->file, err->line);
+        EMBZ_APPEND("%s:%ld: ", file, err->line);
     else if (err->file[0] != '\0')
-        EMBZ_APPEND("%s: ", err->file);
+        EMBZ_APPEND("%s: ", file);
     if (err->col > 0 && err->source[0] != '\0')
         EMBZ_APPEND("column %ld: ", err->col);
     EMBZ_APPEND("%s", err->text);
     if (err->col > 0 && err->source[0] != '\0') {
-        EMBZ_APPEND("\n  %s\n  ", err->source);
-        long srclen = (long) strlen(err->source);
-        for (long c = 1; c < err->col && c <= srclen + 1; c++) {
-            /* keep tabs so the caret lines up under the same character */
-            EMBZ_APPEND("%c", (c <= srclen && err->source[c - 1] == '\t') ? '\t' : ' ');
+        /* the source line, one character per column, then the caret under byte col: tabs
+         * are kept (the caret line repeats them), an escaped byte takes four columns, a
+         * UTF-8 character one */
+        const char *src = err->source;
+        long srclen = (long) strlen(src), width = 0, k = 0;
+        EMBZ_APPEND("\n  ");
+        while (k < srclen) {
+            int l = embz_utf8_len(src + k);
+            unsigned char c = (unsigned char) src[k];
+            if (c == '\t' || l > 1 || (l == 1 && c >= 0x20 && c != 0x7f)) {
+                if (l < 1) l = 1;
+                EMBZ_APPEND("%.*s", l, src + k);
+            } else {
+                EMBZ_APPEND("\\x%02x", c);
+                l = 1;
+            }
+            k += l;
         }
+        EMBZ_APPEND("\n  ");
+        for (k = 0; k < srclen && k < err->col - 1; ) {
+            int l = embz_utf8_len(src + k);
+            unsigned char c = (unsigned char) src[k];
+            if (c == '\t') { EMBZ_APPEND("\t"); k++; continue; }
+            width = (l > 1 || (l == 1 && c >= 0x20 && c != 0x7f)) ? 1 : 4;
+            EMBZ_APPEND("%*s", (int) width, "");
+            k += l > 1 ? l : 1;
+        }
+        /* a column past the end (a missing token at the end of the text) */
+        for (; k < err->col - 1 && k <= srclen; k++) EMBZ_APPEND(" ");
         EMBZ_APPEND("^");
     }
 #undef EMBZ_APPEND
