@@ -445,6 +445,63 @@ START_TEST(test_inverse_1e1000)
 }
 END_TEST
 
+/* Uniform targets beyond the Ky Fan search's range (d > 256: the threshold form with one
+ * entry of multiplicity d), against the closed form of section 6 of the notes (exact harmonic
+ * numbers [derived]); this used to print nan from d = 512 on and to exhaust memory from
+ * d = 2^20. */
+START_TEST(test_inverse_large_d)
+{
+    closed_form_large(30, "ebits:9", 512, 128);
+    closed_form_large(30, "uniform:1000", 1000, 128);
+    closed_form_large(30, "ebits:20", UWORD(1) << 20, 128);
+    closed_form_large(100, "ebits:30", UWORD(1) << 30, 64);
+    if (!quick()) closed_form_large(1000, "ebits:16", UWORD(1) << 16, 64);
+}
+END_TEST
+
+/* E(u_(2^J)) <= J E(u_2) (errors add over J ebits [derived, notes section 4]) and
+ * E(u_(2^J)) >= E(u_(2^(J-1))) (u_(2^J) is majorized by u_(2^(J-1)), so K can only grow)
+ * for every shipped family at 10^30, with J on both sides of the Ky Fan / threshold switch. */
+START_TEST(test_large_d_relations)
+{
+    embz_family_t f;
+    embz_target_t q;
+    embz_error_result_t r1, rj, rp;
+    embz_err_t err;
+    fmpz_t n;
+    arb_t t;
+    fmpz_init(n);
+    arb_init(t);
+    ten_pow(n, 30);
+    resolve(f, FAMS[_i], NULL, NULL);
+    embz_error_result_init(r1); embz_error_result_init(rj); embz_error_result_init(rp);
+    target(q, "ebit");
+    ck_assert_msg(embz_error_analytic(r1, f, n, q, 64, &err) == EMBZ_OK, "%s: %s", FAMS[_i],
+                  err.text);
+    embz_target_clear(q);
+    static const int J[] = { 8, 9, 12 };
+    for (int k = 0; k < 3; k++) {
+        char spec[32];
+        snprintf(spec, sizeof(spec), "ebits:%d", J[k]);
+        target(q, spec);
+        ck_assert_msg(embz_error_analytic(rj, f, n, q, 64, &err) == EMBZ_OK, "%s %s: %s",
+                      FAMS[_i], spec, err.text);
+        ck_assert_msg(arb_is_finite(rj->error), "%s %s: not finite", FAMS[_i], spec);
+        arb_mul_ui(t, r1->error, (ulong) J[k], 64);
+        ck_assert_msg(!arb_gt(rj->error, t), "%s %s: above J E(ebit)", FAMS[_i], spec);
+        if (k > 0)
+            ck_assert_msg(!arb_lt(rj->error, rp->error), "%s %s: below ebits:%d", FAMS[_i],
+                          spec, J[k - 1]);
+        arb_swap(rp->error, rj->error);
+        embz_target_clear(q);
+    }
+    embz_error_result_clear(r1); embz_error_result_clear(rj); embz_error_result_clear(rp);
+    embz_family_clear(f);
+    fmpz_clear(n);
+    arb_clear(t);
+}
+END_TEST
+
 /* ---------------------------------------------------------------------------------------
  * Power families i^a, one ebit [derived, math.md section 5].
  * a > -1: E_n -> 1 - 2^-(a+1). With P_k = zeta(-a) - zeta(-a, k+1) = k^b/b + zeta(-a) + O(k^a)
@@ -1011,6 +1068,8 @@ static Suite *analytic_suite(void)
     tcase_add_test(tc, test_inverse_1e30);
     tcase_add_test(tc, test_inverse_1e100);
     tcase_add_test(tc, test_inverse_1e1000);
+    tcase_add_test(tc, test_inverse_large_d);
+    tcase_add_loop_test(tc, test_large_d_relations, 0, NFAMS);
     tcase_add_test(tc, test_power_limit_m050);
     tcase_add_test(tc, test_power_limit_m025);
     tcase_add_test(tc, test_power_limit_p050);

@@ -1045,5 +1045,7 @@ int embz_error_explicit(embz_error_result_t res, const embz_family_t f, const fm
     }
 out:
     tdata_clear(&T);
+    if (st == EMBZ_OK && !arb_is_finite(res->error))      /* never a nan called certified */
+        st = embz_err_set(err, EMBZ_ERR_LIMIT, "explicit summation found no finite enclosure");
     return st;
 }

@@ -28,6 +28,11 @@
 #define TH_MODEL_TERMS 128     /* smooth threshold models for targets up to this length (each
                                   end of a search interval keeps two counts per entry) */
 #define TH_MODEL_LEN 16        /* their order */
+#define TH_SEARCH_TERMS 1024   /* the threshold search for target vectors up to this length
+                                  (longer ones get the majorization bracket) */
+#define KYFAN_MAX_D 256        /* uniform targets u_d up to this d by the Ky Fan search over
+                                  the d residues of k; larger d by the threshold form, whose
+                                  cost does not grow with d (the one choice between the two) */
 
 typedef struct {
     embz_tail_struct *t;
@@ -1867,6 +1872,42 @@ static int phi_wn(arb_t res, fmpz_t Nlo, fmpz_t Nhi, actx *c, const arb_t V, slo
 }
 
 
+/* The target as the threshold form sees it: its distinct nonzero entries v_j (non-increasing),
+ * v_j standing for mult_j equal entries. A target vector keeps each nonzero entry with
+ * multiplicity 1; the uniform target u_d is the one entry 1/d with multiplicity d, so its
+ * cost does not grow with d: sum_j q_j Phi(V/q_j) = Phi(d V). */
+typedef struct {
+    slong len, alloc;
+    fmpq *v;
+    ulong *mult;
+} th_target;
+
+static void th_target_init(th_target *t, const embz_target_t q)
+{
+    slong len = q->kind == EMBZ_TARGET_UNIFORM ? 1 : q->q->len;
+    t->v = _fmpq_vec_init(len);
+    t->mult = flint_malloc(sizeof(ulong) * (size_t) len);
+    t->len = 0;
+    t->alloc = len;
+    if (q->kind == EMBZ_TARGET_UNIFORM) {
+        fmpq_set_si(t->v, 1, q->d);
+        t->mult[0] = q->d;
+        t->len = 1;
+        return;
+    }
+    for (slong j = 0; j < len; j++) {
+        if (fmpq_is_zero(q->q->p + j)) continue;
+        fmpq_set(t->v + t->len, q->q->p + j);
+        t->mult[t->len++] = 1;
+    }
+}
+
+static void th_target_clear(th_target *t)
+{
+    _fmpq_vec_clear(t->v, t->alloc);
+    flint_free(t->mult);
+}
+
 /* W F at a point with what the bounds below need: P0 = W Phi(V) (for the chord of the smooth
  * models), n = N(V) lo, hi and sum_j N(V/q_j) lo, hi (second-order bound), tn each term's
  * count range, N(V) in [tn[0], tn[1]] and N(V/q_j) in [tn[2j+2], tn[2j+3]] (smooth models;
@@ -1879,12 +1920,12 @@ typedef struct {
     int ok;
 } th_end;
 
-static void th_end_init(th_end *e, const embz_target_t q)
+static void th_end_init(th_end *e, const th_target *q)
 {
     arb_init(e->F);
     arb_init(e->P0);
     for (int k = 0; k < 4; k++) fmpz_init(e->n + k);
-    e->tlen = q->q->len <= TH_MODEL_TERMS ? 2 * q->q->len + 2 : 0;
+    e->tlen = q->len <= TH_MODEL_TERMS ? 2 * q->len + 2 : 0;
     e->tn = e->tlen > 0 ? _fmpz_vec_init(e->tlen) : NULL;
     e->ok = 0;
 }
@@ -1908,7 +1949,7 @@ static void th_end_set(th_end *d, const th_end *e)
 
 /* The upper bound W Phi(V1) - sum_j q_j W Phi(V2/q_j) of W F on [V1, V2] (W F at V when
  * V1 = V2 = V); e (may be NULL, only with V1 = V2) receives the value with its counts. */
-static int threshold_f(arb_t res, th_end *e, actx *c, const embz_target_t q, const arb_t V1,
+static int threshold_f(arb_t res, th_end *e, actx *c, const th_target *q, const arb_t V1,
                        const arb_t V2, slong prec)
 {
     arb_t u, qj, x;
@@ -1924,15 +1965,15 @@ static int threshold_f(arb_t res, th_end *e, actx *c, const embz_target_t q, con
         fmpz_zero(e->n + 3);
         if (e->tn != NULL) { fmpz_set(e->tn, klo); fmpz_set(e->tn + 1, khi); }
     }
-    for (long j = 0; j < q->q->len && st == EMBZ_OK; j++) {
-        if (fmpq_is_zero(q->q->p + j)) continue;
-        arb_set_fmpq(qj, q->q->p + j, prec);
+    for (slong j = 0; j < q->len && st == EMBZ_OK; j++) {
+        arb_set_fmpq(qj, q->v + j, prec);
         arb_div(x, V2, qj, prec);
         st = phi_wn(u, klo, khi, c, x, prec);
+        arb_mul_ui(qj, qj, q->mult[j], prec);
         arb_submul(res, u, qj, prec);
         if (e != NULL) {
-            fmpz_add(e->n + 2, e->n + 2, klo);
-            fmpz_add(e->n + 3, e->n + 3, khi);
+            fmpz_addmul_ui(e->n + 2, klo, q->mult[j]);
+            fmpz_addmul_ui(e->n + 3, khi, q->mult[j]);
             if (e->tn != NULL) {
                 fmpz_set(e->tn + 2 * j + 2, klo);
                 fmpz_set(e->tn + 2 * j + 3, khi);
@@ -1945,7 +1986,7 @@ static int threshold_f(arb_t res, th_end *e, actx *c, const embz_target_t q, con
     return st;
 }
 
-static int th_end_eval(th_end *e, actx *c, const embz_target_t q, const arb_t V, slong prec)
+static int th_end_eval(th_end *e, actx *c, const th_target *q, const arb_t V, slong prec)
 {
     int st = threshold_f(e->F, e, c, q, V, V, prec);
     e->ok = (st == EMBZ_OK);
@@ -1962,7 +2003,7 @@ static int th_end_eval(th_end *e, actx *c, const embz_target_t q, const arb_t V,
  * first-order bound W Phi(A) - sum_j q_j W Phi(B/q_j) keeps a slack of order (B - A) N. Sets
  * U to the smaller upper bound. The values at the ends come from ea, eb when known there
  * (a split point is an end of both halves), else they are computed and kept in them. */
-static int threshold_bound2(arf_t U, actx *c, const embz_target_t q, const arb_t A,
+static int threshold_bound2(arf_t U, actx *c, const th_target *q, const arb_t A,
                             const arb_t B, th_end *ea, th_end *eb, slong prec)
 {
     arb_t w, t;
@@ -2281,7 +2322,7 @@ static int tail_regime(arb_ptr ps, mag_t rho, actx *c, const arb_t Tmin, const a
 
 /* Upper bound U of W F over [A, B] from the smooth model; ea, eb: the values and per-term
  * counts at A and B. EMBZ_ERR_UNSUPPORTED when a term is in neither regime. */
-static int threshold_model(arf_t U, actx *c, const embz_target_t q, const arb_t A,
+static int threshold_model(arf_t U, actx *c, const th_target *q, const arb_t A,
                            const arb_t B, const th_end *ea, const th_end *eb, slong prec)
 {
     if (ea->tn == NULL || !ea->ok || !eb->ok) return EMBZ_ERR_UNSUPPORTED;
@@ -2313,10 +2354,9 @@ static int threshold_model(arf_t U, actx *c, const embz_target_t q, const arb_t 
     arb_sub(ends + 1, ub, u0, prec);
     arb_set(uw, u0);
     arb_add_error(uw, dl);
-    for (slong j = -1; j < q->q->len && st == EMBZ_OK; j++) {
-        /* term j: T = V / q_j with coefficient -q_j; j = -1: T = V, coefficient 1 */
-        if (j >= 0 && fmpq_is_zero(q->q->p + j)) continue;
-        if (j >= 0) arb_set_fmpq(qj, q->q->p + j, prec);
+    for (slong j = -1; j < q->len && st == EMBZ_OK; j++) {
+        /* term j: T = V / q_j with coefficient -mult_j q_j; j = -1: T = V, coefficient 1 */
+        if (j >= 0) arb_set_fmpq(qj, q->v + j, prec);
         else arb_one(qj);
         const fmpz *nmin = ea->tn + 2 * (j + 1), *nmax = eb->tn + 2 * (j + 1);
         arb_log(t, qj, prec);
@@ -2347,6 +2387,7 @@ static int threshold_model(arf_t U, actx *c, const embz_target_t q, const arb_t 
         if (st != EMBZ_OK) break;
         /* add with the term's coefficient */
         if (j >= 0) {
+            arb_mul_ui(qj, qj, q->mult[j], prec);
             arb_neg(qj, qj);
             _arb_vec_scalar_mul(ps, ps, J + 1, qj, prec);
             mag_t qm;
@@ -2372,7 +2413,7 @@ static int threshold_model(arf_t U, actx *c, const embz_target_t q, const arb_t 
 
 /* a point near V where every comparison is decided (V itself, else nudged by 2^-40 relative
  * steps in the given direction); e receives the value with its counts */
-static int threshold_point(arb_t res, th_end *e, actx *c, const embz_target_t q, arb_t V,
+static int threshold_point(arb_t res, th_end *e, actx *c, const th_target *q, arb_t V,
                            int dir, slong prec)
 {
     int st = EMBZ_ERR_PREC;
@@ -2387,7 +2428,7 @@ static int threshold_point(arb_t res, th_end *e, actx *c, const embz_target_t q,
 /* an interval [a, b] of thresholds with its bound U and what is known at its ends */
 typedef struct { arf_t a, b, U; th_end ea, eb; } th_item;
 
-static void th_item_init(th_item *it, const embz_target_t q)
+static void th_item_init(th_item *it, const th_target *q)
 {
     arf_init(it->a); arf_init(it->b); arf_init(it->U);
     th_end_init(&it->ea, q); th_end_init(&it->eb, q);
@@ -2403,7 +2444,7 @@ static void th_item_clear(th_item *it)
  * value: by the second-order bound (it needs the values and counts at both ends, ea and eb),
  * then, while still above the tolerance, by the smooth model. Not on intervals wider than a
  * factor 2^24: neither helps there. Returns the evaluations spent (0 or 1). */
-static int threshold_refine(arb_t f, actx *c, const embz_target_t q, const arb_t A,
+static int threshold_refine(arb_t f, actx *c, const th_target *q, const arb_t A,
                             const arb_t B, th_end *ea, th_end *eb, const arf_t best,
                             const arb_t tol, slong prec)
 {
@@ -2448,7 +2489,7 @@ static void raise_tol(arb_t tol, const arb_t f)
  * threshold t, k = N_p(t) is a maximising Ky Fan index (||p||_(k) = k t + Phi_p(t) there,
  * ||p (x) q||_(k) <= k t + Phi_(p (x) q)(t)), so this is the argmax up to the tolerance (the
  * lower end of the count's range where weights tie with V) */
-static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, slong budget,
+static int threshold_search(arf_t lo, arf_t hi, actx *c, const th_target *q, slong budget,
                             slong prec)
 {
     slong cap = 64, len = 0;
@@ -2469,9 +2510,8 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
         st = pos_val(wmin, c, K, prec);
     }
     fmpz_clear(K);
-    long m = q->q->len;
-    while (m > 1 && fmpq_is_zero(q->q->p + m - 1)) m--;
-    arb_set_fmpq(qm, q->q->p + m - 1, prec);
+    slong m = q->len;
+    arb_set_fmpq(qm, q->v + m - 1, prec);          /* the smallest entry */
     arb_mul(Va, wmin, qm, prec);
     {
         /* [V_lo, V_hi] rounded outwards */
@@ -2491,10 +2531,9 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const embz_target_t q, 
     slong nk = 0, kcap = m <= TH_MODEL_TERMS ? 2 * (m + 1) : 0;
     arb_ptr kink = _arb_vec_init(kcap);          /* exact: midpoints */
     if (st == EMBZ_OK && kcap > 0) {
-        for (long j = -1; j < m; j++) {
-            if (j >= 0 && fmpq_is_zero(q->q->p + j)) continue;
+        for (slong j = -1; j < m; j++) {
             if (j >= 0) {
-                arb_set_fmpq(f, q->q->p + j, prec);
+                arb_set_fmpq(f, q->v + j, prec);
                 arb_mul(f, f, wmin, prec);
             } else {
                 arb_set(f, wmin);
@@ -2758,7 +2797,14 @@ static int vector_target_bounds(embz_error_result_t res, embz_analytic_t an, con
         snprintf(inner, sizeof(inner), "%s", res->detail);
         embz_err_t e2;
         embz_err_clear(&e2);
-        int ts = analytic_run(rl, an, n, q, &e2);
+        /* its cost grows with the number of distinct entries (each evaluation counts the
+         * weights above V/q_j for every j): beyond TH_SEARCH_TERMS the bracket is the result */
+        int ts;
+        if (m > TH_SEARCH_TERMS)
+            ts = embz_err_set(&e2, EMBZ_ERR_LIMIT, "not run for %lu entries, more than %d",
+                              m, TH_SEARCH_TERMS);
+        else
+            ts = analytic_run(rl, an, n, q, &e2);
         int tight = 0, rdec = rl->decided;
         if (ts == EMBZ_OK) {
             arf_t a, b;
@@ -2830,9 +2876,12 @@ out:
 int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
                         const embz_target_t q, embz_err_t *err)
 {
-    if (q->kind != EMBZ_TARGET_UNIFORM)
-        return vector_target_bounds(res, an, n, q, err);
-    return analytic_run(res, an, n, q, err);
+    int st = q->kind != EMBZ_TARGET_UNIFORM ? vector_target_bounds(res, an, n, q, err)
+                                              : analytic_run(res, an, n, q, err);
+    /* every caller gets a finite enclosure or a failure, never nan or [-inf, inf] */
+    if (st == EMBZ_OK && !arb_is_finite(res->error))
+        st = embz_err_set(err, EMBZ_ERR_LIMIT, "the analytic engine found no finite enclosure");
+    return st;
 }
 
 /* The engine for one size: the layout, then the Ky Fan search (uniform targets) or the
@@ -2842,7 +2891,9 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
 {
     const embz_family_struct *f = an->f;
     slong prec = an->prec;
-    int vector = (q->kind != EMBZ_TARGET_UNIFORM);
+    /* the threshold form for target vectors and for uniform targets beyond KYFAN_MAX_D (the
+     * Ky Fan search has d residues to bound: its cost and layout grow with d) */
+    int vector = (q->kind != EMBZ_TARGET_UNIFORM) || q->d > KYFAN_MAX_D;
     slong wp = prec + 32;
     actx c;
     memset(&c, 0, sizeof(c));
@@ -2915,7 +2966,10 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             arb_t x;
             arf_init(tlo); arf_init(thi);
             arb_init(x);
-            st = threshold_search(tlo, thi, &c, q, THRESHOLD_BUDGET, wp);
+            th_target tq;
+            th_target_init(&tq, q);
+            st = threshold_search(tlo, thi, &c, &tq, THRESHOLD_BUDGET, wp);
+            th_target_clear(&tq);
             if (st == EMBZ_OK) {
                 arb_set_arf(x, tlo);
                 arb_div(c.best, x, c.W, wp);
@@ -3006,6 +3060,16 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
                 mag_clear(e);
                 arf_clear(ea);
             }
+            if (!arf_is_finite(lo) || !arf_is_finite(hi)) {
+                /* some interval kept an unbounded model (or no value was proven) when the
+                 * search stopped: no enclosure, and never a number */
+                st = embz_err_set(err, EMBZ_ERR_LIMIT,
+                                  "the analytic engine could not bound E at this size "
+                                  "(%s budget reached with an unbounded interval)",
+                                  vector ? "threshold search" : "branch and bound");
+                arf_clear(lo); arf_clear(hi);
+                goto done;
+            }
             arb_set_interval_arf(res->error, lo, hi, wp);
             /* the side of a decision threshold, from the ends themselves (a wide ball's
              * lower end, with its 30-bit radius, is much coarser) */
@@ -3020,6 +3084,15 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             res->order = c.t->dir;
             res->have_bounds = 0;
             res->estimate = arf_get_d(arb_midref(res->error), ARF_RND_NEAR);
+            if (vector && q->kind == EMBZ_TARGET_UNIFORM)
+                snprintf(res->detail, sizeof(res->detail),
+                         "analytic: %ld explicit terms + Euler-Maclaurin tail (order %ld, weights %s "
+                         "beyond i = %ld), threshold form max_t Phi(t) - Phi(%lu t) by branch and "
+                         "bound over ln t: %ld bounds, %ld series, %ld integrals, arb %ld bits%s",
+                         (long) c.M, (long) c.t->p, c.t->dir > 0 ? "non-increasing" : "non-decreasing",
+                         (long) c.M, q->d, c.evals, c.t->evals, c.t->integrals, (long) prec,
+                         c.search_open ? "; search budget reached, upper end loose" : "");
+            else
             snprintf(res->detail, sizeof(res->detail),
                      "analytic: %ld explicit terms + Euler-Maclaurin tail (order %ld, weights %s "
                      "beyond i = %ld), branch and bound: %ld bounds, %ld series, %ld integrals, arb %ld bits%s",
@@ -3032,6 +3105,7 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
                          ? "weights tie with a threshold: more bits needed"
                          : "the analytic engine could not certify the maximum");
         }
+    done:
         arb_clear(h);
         fmpz_clear(k); fmpz_clear(kmax);
         fmpz_clear(tmp);
