@@ -36,6 +36,21 @@ static void resolve(embz_family_t f, const char *spec, const char *set)
     ck_assert_msg(st == EMBZ_OK, "resolve %s: %s", spec, err.text);
 }
 
+/* what every classification must satisfy: a point estimate of the limit inside its own
+ * interval, and limit 0 for an embezzler (the definition: E_n -> 0) */
+static void check_limit(const embz_classify_t c, const char *spec)
+{
+    if (isfinite(c->limit_value) && isfinite(c->limit_lo))
+        ck_assert_msg(c->limit_lo <= c->limit_value, "%s: limit %.10g below its interval",
+                      spec, c->limit_value);
+    if (isfinite(c->limit_value) && isfinite(c->limit_hi))
+        ck_assert_msg(c->limit_value <= c->limit_hi, "%s: limit %.10g above its interval "
+                      "[%.10g, %.10g]", spec, c->limit_value, c->limit_lo, c->limit_hi);
+    if (c->verdict == EMBZ_VERDICT_EMBEZZLER)
+        ck_assert_msg(c->limit_value == 0, "%s: embezzler with limit %.6g", spec,
+                      c->limit_value);
+}
+
 /* classify with sweeps 10^2 .. 10^e, 10 points */
 static void classify_to(embz_classify_t c, const char *spec, const char *set, ulong e)
 {
@@ -50,6 +65,7 @@ static void classify_to(embz_classify_t c, const char *spec, const char *set, ul
     resolve(f, spec, set);
     int st = embz_classify(c, f, o, NULL, NULL, &err);
     ck_assert_msg(st == EMBZ_OK, "classify %s: %s", spec, err.text);
+    check_limit(c, spec);
     embz_classify_opts_clear(o);
     embz_family_clear(f);
 }
@@ -311,6 +327,30 @@ static double power_limit_increasing(double s)
     return pow(1 - t / 2, s) - pow(1 - t, s);
 }
 
+/* i^-0.9 with the command's default sweep (10^2 .. 10^120, 16 sizes): the fitted limit lay
+ * above the interval it was printed with; the limit is 1 - 2^-0.1 [derived, notes section 5] */
+START_TEST(test_limit_inside_interval)
+{
+    embz_family_t f;
+    embz_classify_opts_t o;
+    embz_classify_t c;
+    embz_err_t err;
+    embz_err_clear(&err);
+    embz_family_init(f);
+    embz_classify_opts_init(o);
+    embz_classify_init(c);
+    resolve(f, "power", "a=-0.9");
+    ck_assert_int_eq(embz_classify(c, f, o, NULL, NULL, &err), EMBZ_OK);
+    check_limit(c, "power a=-0.9");
+    ck_assert_int_eq(c->verdict, EMBZ_VERDICT_NOT_EMBEZZLER);
+    ck_assert_msg(fabs(c->limit_value - (1 - pow(2.0, -0.1))) < 1e-6, "limit %.10g",
+                  c->limit_value);
+    embz_classify_clear(c);
+    embz_classify_opts_clear(o);
+    embz_family_clear(f);
+}
+END_TEST
+
 START_TEST(test_row_power_above)
 {
     /* a > -1: positive limit approached like a power of n. a = -0.5: 1 - 2^-(a+1)
@@ -561,6 +601,7 @@ static Suite *analysis_suite(void)
     tcase_add_test(tc, test_uniform_and_geometric);
     tcase_add_test(tc, test_n_dependent);
     tcase_add_test(tc, test_scan_shards);
+    tcase_add_test(tc, test_limit_inside_interval);
     suite_add_tcase(s, tc);
     return s;
 }

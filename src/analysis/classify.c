@@ -307,6 +307,26 @@ static void analytic_route(embz_classify_t c, const embz_family_t f, slong prec)
 }
 #endif
 
+/* The limit as reported agrees with the verdict and with itself: an embezzler's limit is 0
+ * (the criterion, or the decay law), and a point estimate lies inside its own interval (a
+ * fitted L above the certified E at the largest size had the interval cut there but kept the
+ * value). A non-finite end or value is left NaN for the renderers to word. */
+static void settle_limit(embz_classify_t c)
+{
+    if (c->verdict == EMBZ_VERDICT_EMBEZZLER) {
+        c->limit_value = 0;
+        c->limit_lo = 0;
+        if (!(c->limit_hi >= 0)) c->limit_hi = NAN;
+        return;
+    }
+    if (isfinite(c->limit_lo) && isfinite(c->limit_hi) && c->limit_lo > c->limit_hi)
+        c->limit_lo = c->limit_hi;
+    if (isfinite(c->limit_value)) {
+        if (isfinite(c->limit_hi) && c->limit_value > c->limit_hi) c->limit_value = c->limit_hi;
+        if (isfinite(c->limit_lo) && c->limit_value < c->limit_lo) c->limit_value = c->limit_lo;
+    }
+}
+
 int embz_classify(embz_classify_t c, const embz_family_t f, const embz_classify_opts_t o,
                   embz_progress_fn progress, void *ctx, embz_err_t *err)
 {
@@ -336,5 +356,6 @@ int embz_classify(embz_classify_t c, const embz_family_t f, const embz_classify_
             reason(c, "analytic and numeric routes agree");
         }
     }
+    settle_limit(c);
     return EMBZ_OK;
 }

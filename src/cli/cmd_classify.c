@@ -118,13 +118,24 @@ int cli_cmd_classify(int argc, char **argv)
             embz_buf_printf(&b, "f ~        %s\n", c->asymptotic_form);
         if (c->analytic_rate[0])
             embz_buf_printf(&b, "rate       %s   (predicted, leading order)\n", c->analytic_rate);
-        embz_buf_printf(&b, "limit      %.8g in [%.8g, %.8g]   (%s)\n", c->limit_value,
-                        c->limit_lo, c->limit_hi, c->limit_certified ? "certified"
-                                                                      : "estimate");
-        if (c->law)
+        /* no nan on the screen: what was not computed is said in words */
+        const char *kind = c->limit_certified ? "certified" : "estimate";
+        if (isfinite(c->limit_value) && isfinite(c->limit_lo) && isfinite(c->limit_hi))
+            embz_buf_printf(&b, "limit      %.8g in [%.8g, %.8g]   (%s)\n", c->limit_value,
+                            c->limit_lo, c->limit_hi, kind);
+        else if (isfinite(c->limit_lo) && isfinite(c->limit_hi))
+            embz_buf_printf(&b, "limit      in [%.8g, %.8g], no point estimate   (%s)\n",
+                            c->limit_lo, c->limit_hi, kind);
+        else
+            embz_buf_printf(&b, "limit      not estimated\n");
+        if (c->law && isfinite(c->coeff) && isfinite(c->exponent) && isfinite(c->exponent_lo)
+            && isfinite(c->exponent_hi))
             embz_buf_printf(&b, "law        E ~ %s, C = %.5g, g = %.5g [%.5g, %.5g]   "
                             "(fitted estimate)\n", embz_law_formula(c->law), c->coeff,
                             c->exponent, c->exponent_lo, c->exponent_hi);
+        else if (c->law)
+            embz_buf_printf(&b, "law        E ~ %s, coefficients not resolved by the fit   "
+                            "(fitted estimate)\n", embz_law_formula(c->law));
         embz_buf_printf(&b, "reasons:\n");
         for (slong k = 0; k < c->nreasons; k++)
             embz_buf_printf(&b, "  - %s\n", c->reasons[k]);
