@@ -67,7 +67,7 @@ static int put_decimal(sbuf_t *b, const fmpq_t x)
             ulong z = 0;
             if (!fmpz_is_zero(m))
                 while (fmpz_divisible_si(m, 10)) { fmpz_divexact_ui(m, m, 10); z++; }
-            if (z > 20) {
+            if (z > 20 && z <= EMBZ_NUMBER_MAX_EXP) {   /* an exponent the parser reads */
                 char buf[32];
                 put_fmpz(b, m);
                 snprintf(buf, sizeof(buf), "e+%lu", (unsigned long) z);
@@ -78,7 +78,7 @@ static int put_decimal(sbuf_t *b, const fmpq_t x)
                 fmpz_mul(m, m, t);
                 put_fmpz(b, m);
             }
-        } else if (k > 20) {
+        } else if (k > 20 && k <= EMBZ_NUMBER_MAX_EXP) {
             char buf[32];
             put_fmpz(b, m);
             snprintf(buf, sizeof(buf), "e-%lu", (unsigned long) k);
