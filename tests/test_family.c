@@ -3,6 +3,8 @@
 #include <stdlib.h>
 #include <string.h>
 #include <unistd.h>
+#include <sys/stat.h>
+#include <sys/wait.h>
 #include "embz.h"
 #include "testutil.h"
 
@@ -226,6 +228,96 @@ START_TEST(test_load_file)
 }
 END_TEST
 
+/* A byte-order mark before the first line is not part of its key. */
+START_TEST(test_parse_bom)
+{
+    embz_family_t f;
+    embz_err_t err;
+    embz_family_init(f);
+    ck_assert_int_eq(embz_family_parse_text(f, "\xef\xbb\xbfname = bom\nweight = 1/i\n", "b.fam",
+                                            &err), EMBZ_OK);
+    ck_assert_str_eq(f->name, "bom");
+    check_exact(f, 4, 10, 1, 4);
+    /* elsewhere the same bytes are what they are: an unknown key, shown escaped */
+    ck_assert_int_eq(embz_family_parse_text(f, "name = x\n\xef\xbb\xbfweight = 1/i\n", "b.fam",
+                                            &err), EMBZ_ERR_INPUT);
+    ck_assert_int_eq(err.line, 2);
+    ck_assert_msg(strstr(err.text, "unknown key '\xef\xbb\xbfweight'") != NULL, "%s", err.text);
+    ck_assert_int_eq(embz_family_parse_text(f, "name = x\n\x01key = 1\nweight = 1/i\n", "b.fam",
+                                            &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "unknown key '\\x01key'") != NULL, "%s", err.text);
+    embz_family_clear(f);
+}
+END_TEST
+
+/* A path that cannot be a family file says why: missing, a directory, a device, a symbolic
+ * link loop, no permission; all are input errors (exit code 2), none is read as an
+ * expression. */
+START_TEST(test_file_refusals)
+{
+    embz_family_t f;
+    embz_err_t err;
+    char dir[] = "/tmp/embz_test_famdirXXXXXX";
+    char p[400];
+    embz_family_init(f);
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+
+    snprintf(p, sizeof(p), "%s/sub.fam", dir);
+    ck_assert_int_eq(mkdir(p, 0700), 0);
+    ck_assert_int_eq(embz_family_resolve(f, p, NULL, 0, 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "is a directory") != NULL, "%s", err.text);
+    ck_assert_str_eq(err.file, p);
+    ck_assert_int_eq(embz_family_load_file(f, p, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "is a directory") != NULL, "%s", err.text);
+    rmdir(p);
+    /* a directory named without .fam, which is no expression either */
+    ck_assert_int_eq(embz_family_resolve(f, dir, NULL, 0, 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "is a directory") != NULL, "%s", err.text);
+    ck_assert_int_eq(embz_family_resolve(f, "/dev/null", NULL, 0, 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "not a regular file") != NULL, "%s", err.text);
+    ck_assert_str_eq(err.file, "/dev/null");
+
+    char a[400], b[400];
+    snprintf(a, sizeof(a), "%s/a.fam", dir);
+    snprintf(b, sizeof(b), "%s/b.fam", dir);
+    ck_assert_int_eq(symlink(b, a), 0);
+    ck_assert_int_eq(symlink(a, b), 0);
+    ck_assert_int_eq(embz_family_resolve(f, a, NULL, 0, 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "no such file") == NULL && strstr(err.text, "symbolic")
+                  != NULL, "%s", err.text);
+    unlink(a);
+    unlink(b);
+    ck_assert_int_eq(embz_family_resolve(f, a, NULL, 0, 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "no such file") != NULL, "%s", err.text);
+
+    /* no permission to read: checked as an unprivileged user in a child process (root may
+     * read anything) */
+    snprintf(p, sizeof(p), "%s/locked.fam", dir);
+    FILE *fp = fopen(p, "w");
+    ck_assert_ptr_nonnull(fp);
+    fputs("weight = 1/i\n", fp);
+    fclose(fp);
+    ck_assert_int_eq(chmod(p, 0), 0);
+    ck_assert_int_eq(chmod(dir, 0755), 0);
+    pid_t pid = fork();
+    ck_assert_int_ge(pid, 0);
+    if (pid == 0) {
+        if (geteuid() == 0 && (setgid(65534) != 0 || setuid(65534) != 0)) _exit(90);
+        embz_family_t g;
+        embz_err_t e2;
+        embz_family_init(g);
+        int st = embz_family_resolve(g, p, NULL, 0, 0, &e2);
+        _exit(st == EMBZ_ERR_INPUT && strstr(e2.text, "Permission denied") != NULL ? 0 : 91);
+    }
+    int wst = 0;
+    ck_assert_int_eq(waitpid(pid, &wst, 0), pid);
+    ck_assert_msg(WIFEXITED(wst) && WEXITSTATUS(wst) == 0, "child: %d", WEXITSTATUS(wst));
+    unlink(p);
+    rmdir(dir);
+    embz_family_clear(f);
+}
+END_TEST
+
 /* ---------------------------------------------------------------- the library */
 
 static const char *const shipped[] = {
@@ -387,6 +479,20 @@ START_TEST(test_settings)
     check_exact(f, 9, 10, 9, 1);                  /* 3 * 9^(1/2) */
     ck_assert_int_eq(embz_family_resolve(f, "c*i", NULL, 0, 0, &err), EMBZ_ERR_INPUT);
     ck_assert_int_eq(err.col, 1);                 /* unknown name c */
+    /* an inline expression keeps only the settings it uses as its parameters */
+    embz_setting_t s5[] = { { "b", "7" }, { "c", "2" } };
+    resolve_ok(f, "i^c", s5, 2, 0);
+    ck_assert_int_eq(f->nparams, 1);
+    ck_assert_str_eq(f->param_names[0], "c");
+    check_exact(f, 3, 10, 9, 1);
+    resolve_ok(f, "1/i", s5, 2, 0);
+    ck_assert_int_eq(f->nparams, 0);
+    /* a value beyond the exponent range is called so */
+    embz_setting_t big[] = { { "a", "1e999999" } };
+    ck_assert_int_eq(embz_family_resolve(f, "power", big, 1, 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "out of range") != NULL, "%s", err.text);
+    ck_assert_int_eq(embz_family_resolve(f, "i^a", big, 1, 0, &err), EMBZ_ERR_INPUT);
+    ck_assert_msg(strstr(err.text, "out of range") != NULL, "%s", err.text);
     embz_setting_t bad3[] = { { "pi", "3" } };
     ck_assert_int_eq(embz_family_resolve(f, "pi*i", bad3, 1, 0, &err), EMBZ_ERR_INPUT);
     ck_assert_msg(strstr(err.text, "'pi'") != NULL, "%s", err.text);
@@ -540,6 +646,8 @@ static Suite *family_suite(void)
     tcase_add_test(tc, test_parse_errors);
     tcase_add_test(tc, test_parse_expression_error);
     tcase_add_test(tc, test_load_file);
+    tcase_add_test(tc, test_parse_bom);
+    tcase_add_test(tc, test_file_refusals);
     tcase_add_test(tc, test_library);
     tcase_add_test(tc, test_shipped_evaluate);
     tcase_add_test(tc, test_shipped_values);

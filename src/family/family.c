@@ -70,6 +70,21 @@ int _embz_family_param_name_ok(const char *s)
     return 1;
 }
 
+int _embz_family_bad_value(embz_err_t *err, const char *value, const char *name)
+{
+    char qname[300], qval[300];
+    embz_err_quote(qname, sizeof(qname), name, 64);
+    embz_err_quote(qval, sizeof(qval), value, 64);
+    if (embz_number_out_of_range(value))
+        return embz_err_set(err, EMBZ_ERR_INPUT,
+                            "value '%s' for parameter '%s' is out of range (decimal exponents "
+                            "from -%d to %d)", qval, qname, EMBZ_NUMBER_MAX_EXP10,
+                            EMBZ_NUMBER_MAX_EXP10);
+    return embz_err_set(err, EMBZ_ERR_INPUT,
+                        "bad value '%s' for parameter '%s' (expected an exact decimal such as "
+                        "-0.7, 1e-3 or 2/3)", qval, qname);
+}
+
 long _embz_family_find_param(const embz_family_t f, const char *name)
 {
     for (long k = 0; k < f->nparams; k++)
@@ -105,6 +120,8 @@ int embz_family_apply_settings(embz_family_t f, const embz_setting_t *settings, 
     fmpq_init(v);
     for (long s = 0; s < nsettings; s++) {
         long k = _embz_family_find_param(f, settings[s].name);
+        char qname[300];
+        embz_err_quote(qname, sizeof(qname), settings[s].name, 64);
         if (k < 0) {
             char known[256] = "";
             size_t pos = 0;
@@ -118,16 +135,14 @@ int embz_family_apply_settings(embz_family_t f, const embz_setting_t *settings, 
             if (f->nparams == 0)
                 return embz_err_set(err, EMBZ_ERR_INPUT,
                                     "unknown parameter '%s': family '%s' has no parameters",
-                                    settings[s].name, f->name);
+                                    qname, f->name);
             return embz_err_set(err, EMBZ_ERR_INPUT,
                                 "unknown parameter '%s' (family '%s' has: %s)",
-                                settings[s].name, f->name, known);
+                                qname, f->name, known);
         }
         if (embz_number_parse(v, settings[s].value) != EMBZ_OK) {
             fmpq_clear(v);
-            return embz_err_set(err, EMBZ_ERR_INPUT,
-                                "bad value '%s' for parameter '%s' (expected an exact decimal "
-                                "such as -0.7, 1e-3 or 2/3)", settings[s].value, settings[s].name);
+            return _embz_family_bad_value(err, settings[s].value, settings[s].name);
         }
         fmpq_set(f->param_values + k, v);
     }

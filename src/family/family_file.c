@@ -61,6 +61,10 @@ int embz_family_parse_text(embz_family_t f, const char *text, const char *file_n
     fmpq_init(v);
     embz_family_init(g);
 
+    /* a UTF-8 byte-order mark (some editors write one) is not part of the first line */
+    if ((unsigned char) text[0] == 0xef && (unsigned char) text[1] == 0xbb
+        && (unsigned char) text[2] == 0xbf)
+        text += 3;
     char *copy = _embz_family_strdup(text);
     char *next = copy;
     while (next != NULL) {
@@ -83,24 +87,35 @@ int embz_family_parse_text(embz_family_t f, const char *text, const char *file_n
             }
             *eq = '\0';
             char *pname = trim(rest), *pval = trim(eq + 1);
+            char qname[300];
+            embz_err_quote(qname, sizeof(qname), pname, 64);
             if (!_embz_family_param_name_ok(pname)) {
                 where(err, file_name, lineno);
                 status = embz_err_set(err, EMBZ_ERR_INPUT,
                                       "bad parameter name '%s' (a letter or '_' followed by "
                                       "letters, digits or '_'; not i, n, a constant or a "
-                                      "function name)", pname);
+                                      "function name)", qname);
                 goto done;
             }
             if (_embz_family_find_param(g, pname) >= 0) {
                 where(err, file_name, lineno);
-                status = embz_err_set(err, EMBZ_ERR_INPUT, "duplicate parameter '%s'", pname);
+                status = embz_err_set(err, EMBZ_ERR_INPUT, "duplicate parameter '%s'", qname);
                 goto done;
             }
             if (embz_number_parse(v, pval) != EMBZ_OK) {
+                char qval[300];
+                embz_err_quote(qval, sizeof(qval), pval, 64);
                 where(err, file_name, lineno);
-                status = embz_err_set(err, EMBZ_ERR_INPUT,
-                                      "bad parameter value '%s' for '%s' (expected an exact "
-                                      "decimal such as -0.5, 1e-3 or 2/3)", pval, pname);
+                if (embz_number_out_of_range(pval))
+                    status = embz_err_set(err, EMBZ_ERR_INPUT,
+                                          "parameter value '%s' for '%s' is out of range "
+                                          "(decimal exponents from -%d to %d)", qval, qname,
+                                          EMBZ_NUMBER_MAX_EXP10, EMBZ_NUMBER_MAX_EXP10);
+                else
+                    status = embz_err_set(err, EMBZ_ERR_INPUT,
+                                          "bad parameter value '%s' for '%s' (expected an "
+                                          "exact decimal such as -0.5, 1e-3 or 2/3)", qval,
+                                          qname);
                 goto done;
             }
             _embz_family_add_param(g, pname, v);
@@ -116,6 +131,8 @@ int embz_family_parse_text(embz_family_t f, const char *text, const char *file_n
         }
         *eq = '\0';
         char *key = trim(s), *val = trim(eq + 1);
+        char qkey[300];
+        embz_err_quote(qkey, sizeof(qkey), key, 64);
         int k;
         for (k = 0; k < K_COUNT; k++)
             if (strcmp(key, keys[k]) == 0) break;
@@ -123,13 +140,13 @@ int embz_family_parse_text(embz_family_t f, const char *text, const char *file_n
             where(err, file_name, lineno);
             status = embz_err_set(err, EMBZ_ERR_INPUT,
                                   "unknown key '%s' (known: name, description, weight, "
-                                  "amplitude, param NAME)", key);
+                                  "amplitude, param NAME)", qkey);
             goto done;
         }
         if (seen[k]) {
             where(err, file_name, lineno);
             status = embz_err_set(err, EMBZ_ERR_INPUT,
-                                  "duplicate key '%s' (first given on line %ld)", key, seen[k]);
+                                  "duplicate key '%s' (first given on line %ld)", qkey, seen[k]);
             goto done;
         }
         if ((k == K_WEIGHT && seen[K_AMPL]) || (k == K_AMPL && seen[K_WEIGHT])) {
@@ -141,7 +158,7 @@ int embz_family_parse_text(embz_family_t f, const char *text, const char *file_n
         }
         if (val[0] == '\0' && k != K_DESC) {
             where(err, file_name, lineno);
-            status = embz_err_set(err, EMBZ_ERR_INPUT, "empty value for '%s'", key);
+            status = embz_err_set(err, EMBZ_ERR_INPUT, "empty value for '%s'", qkey);
             goto done;
         }
         seen[k] = lineno;
@@ -195,14 +212,43 @@ done:
     return status;
 }
 
+int _embz_family_open_status(int errnum)
+{
+    /* the file was named by the user: a missing, unreadable or misplaced one is bad input;
+     * only a shortage of the system's resources is a failure of the run */
+    switch (errnum) {
+    case ENOMEM: return EMBZ_ERR_NOMEM;
+    case EMFILE: case ENFILE: case EIO: return EMBZ_ERR_IO;
+    default: return EMBZ_ERR_INPUT;
+    }
+}
+
+int _embz_family_path_error(embz_err_t *err, const char *path, int errnum, int kind)
+{
+    snprintf(err->file, sizeof(err->file), "%s", path);
+    if (kind == -1)
+        return embz_err_set(err, EMBZ_ERR_INPUT,
+                            "cannot open family file: it is a directory, not a file");
+    if (kind == -2)
+        return embz_err_set(err, EMBZ_ERR_INPUT, "cannot open family file: it is not a "
+                            "regular file (a device, pipe or socket)");
+    if (errnum == ENOENT)
+        return embz_err_set(err, EMBZ_ERR_INPUT, "cannot open family file: no such file");
+    return embz_err_set(err, _embz_family_open_status(errnum), "cannot open family file: %s",
+                        strerror(errnum));
+}
+
 int embz_family_load_file(embz_family_t f, const char *path, embz_err_t *err)
 {
     embz_err_clear(err);
     FILE *fp = fopen(path, "rb");
-    if (fp == NULL) {
-        snprintf(err->file, sizeof(err->file), "%s", path);
-        return embz_err_set(err, errno == ENOENT ? EMBZ_ERR_INPUT : EMBZ_ERR_IO,
-                            "cannot open family file: %s", strerror(errno));
+    if (fp == NULL) return _embz_family_path_error(err, path, errno, 0);
+    {
+        struct stat st;
+        if (fstat(fileno(fp), &st) == 0 && !S_ISREG(st.st_mode)) {
+            fclose(fp);
+            return _embz_family_path_error(err, path, 0, S_ISDIR(st.st_mode) ? -1 : -2);
+        }
     }
     size_t cap = 4096, len = 0;
     char *buf = malloc(cap);

@@ -2,6 +2,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <dirent.h>
+#include <errno.h>
 #include <sys/stat.h>
 #include "family_internal.h"
 #include "src/family/family_dirs.h"   /* generated: EMBZ_FAMILY_SOURCE_DIR, EMBZ_FAMILY_DATA_DIR */
@@ -76,6 +77,25 @@ static int ends_with(const char *s, const char *suffix)
     return a >= b && strcmp(s + a - b, suffix) == 0;
 }
 
+/* 1 if the expression (reached from its root) refers to parameter k. */
+static int uses_param(const embz_expr_t e, long k)
+{
+    if (e->root < 0) return 0;
+    char *reach = calloc((size_t) e->len, 1);
+    int found = 0;
+    if (reach == NULL) abort();
+    reach[e->root] = 1;
+    for (long j = e->root; j >= 0 && !found; j--) {
+        if (!reach[j]) continue;
+        const embz_node_t *nd = e->nodes + j;
+        if (nd->a >= 0) reach[nd->a] = 1;
+        if (nd->b >= 0) reach[nd->b] = 1;
+        found = nd->op == EMBZ_OP_PARAM && nd->param == k;
+    }
+    free(reach);
+    return found;
+}
+
 static int resolve_inline(embz_family_t f, const char *spec, const embz_setting_t *settings,
                           long nsettings, embz_err_t *err)
 {
@@ -88,17 +108,16 @@ static int resolve_inline(embz_family_t f, const char *spec, const embz_setting_
     /* the parameters of an inline expression are the names given by the settings */
     for (long s = 0; s < nsettings; s++) {
         if (!_embz_family_param_name_ok(settings[s].name)) {
+            char qname[300];
+            embz_err_quote(qname, sizeof(qname), settings[s].name, 64);
             status = embz_err_set(err, EMBZ_ERR_INPUT,
                                   "bad parameter name '%s' (a letter or '_' followed by letters, "
                                   "digits or '_'; not i, n, a constant or a function name)",
-                                  settings[s].name);
+                                  qname);
             goto done;
         }
         if (embz_number_parse(v, settings[s].value) != EMBZ_OK) {
-            status = embz_err_set(err, EMBZ_ERR_INPUT,
-                                  "bad value '%s' for parameter '%s' (expected an exact decimal "
-                                  "such as -0.7, 1e-3 or 2/3)", settings[s].value,
-                                  settings[s].name);
+            status = _embz_family_bad_value(err, settings[s].value, settings[s].name);
             goto done;
         }
         long k = _embz_family_find_param(g, settings[s].name);
@@ -109,6 +128,30 @@ static int resolve_inline(embz_family_t f, const char *spec, const embz_setting_
     }
     status = embz_expr_parse(g->raw, spec, (const char *const *) g->param_names, g->nparams,
                              err);
+    if (status == EMBZ_OK) {
+        /* only the settings the expression uses become its parameters (the caller decides
+         * whether a setting left over is an error) */
+        long kept = 0;
+        for (long k = 0; k < g->nparams; k++) {
+            if (!uses_param(g->raw, k)) continue;
+            if (kept != k) {
+                free(g->param_names[kept]);
+                g->param_names[kept] = g->param_names[k];
+                g->param_names[k] = NULL;
+                fmpq_swap(g->param_values + kept, g->param_values + k);
+            }
+            kept++;
+        }
+        if (kept < g->nparams) {
+            for (long k = kept; k < g->nparams; k++) {
+                free(g->param_names[k]);
+                fmpq_clear(g->param_values + k);
+            }
+            g->nparams = kept;
+            status = embz_expr_parse(g->raw, spec, (const char *const *) g->param_names,
+                                     g->nparams, err);
+        }
+    }
     if (status != EMBZ_OK) {
         if (looks_like_name(spec)) {
             /* most likely a misspelt library name: say so, keep the expression diagnosis */
@@ -147,8 +190,19 @@ int embz_family_resolve(embz_family_t f, const char *spec,
                             "empty family: give a library name, a file or an expression");
 
     char *path = looks_like_name(spec) ? find_in_library(spec) : NULL;
-    if (path == NULL && is_regular_file(spec))
-        path = _embz_family_strdup(spec);
+    int not_file = 0;         /* an existing path that is no regular file: -1 dir, -2 other */
+    if (path == NULL) {
+        struct stat st;
+        errno = 0;
+        if (stat(spec, &st) == 0) {
+            if (S_ISREG(st.st_mode)) path = _embz_family_strdup(spec);
+            else not_file = S_ISDIR(st.st_mode) ? -1 : -2;
+        } else if (ends_with(spec, ".fam")) {
+            /* a .fam name is no expression: say why the file cannot be had (missing, a
+             * symbolic link loop, no permission on a directory on the way, ...) */
+            return _embz_family_path_error(err, spec, errno, 0);
+        }
+    }
 
     if (path != NULL) {
         status = embz_family_load_file(f, path, err);
@@ -157,11 +211,12 @@ int embz_family_resolve(embz_family_t f, const char *spec,
         status = embz_family_apply_settings(f, settings, nsettings, err);
         if (status != EMBZ_OK) return status;
     } else {
-        if (ends_with(spec, ".fam")) {
-            snprintf(err->file, sizeof(err->file), "%s", spec);
-            return embz_err_set(err, EMBZ_ERR_INPUT, "cannot open family file: no such file");
-        }
         status = resolve_inline(f, spec, settings, nsettings, err);
+        /* a directory or device that is not a valid expression either was meant as a file */
+        if (status != EMBZ_OK && not_file) {
+            embz_err_clear(err);
+            return _embz_family_path_error(err, spec, 0, not_file);
+        }
         if (status != EMBZ_OK) return status;
     }
     if (amplitude && !f->amplitude) {
