@@ -85,6 +85,68 @@ expect_err "infinite" "infinite weight message"
 # a size out of reach of explicit summation is a runtime failure, not an input error
 run error inverse -n 10^40 --method explicit; expect_rc 1 "explicit mode beyond its limit"
 
+# ---------------------------------------------------------------- what is wrong with an input
+# targets: a missing file, a directory, empty entries, out of range, binary bytes
+run error inverse -n 10 --target "$TMP/none.txt"; expect_rc 2 "target file missing"
+expect_err "$TMP/none.txt: no such file" "missing target file is called so"
+run error inverse -n 10 --target "$TMP";  expect_rc 2 "target is a directory"
+expect_err "is a directory" "directory target is called so"
+run error inverse -n 10 --target 0.5,,0.5; expect_rc 2 "empty target entry"
+expect_err "entry 2 is empty" "empty target entry named"
+run error inverse -n 10 --target 0.5,0.5,; expect_rc 2 "trailing separator"
+expect_err "entry 3 is empty" "trailing separator named"
+run error inverse -n 10 --target 0.5,1e999999; expect_rc 2 "target entry out of range"
+expect_err "entry 2 is out of range: '1e999999'" "out of range, not 'not a number'"
+printf '0.5 \001\377\033[2J\n' >"$TMP/bin.txt"
+run error inverse -n 10 --target "$TMP/bin.txt"; expect_rc 2 "binary target file"
+expect_err "'\\x01\\xff\\x1b[2J'" "binary bytes escaped"
+if printf '%s' "$err" | LC_ALL=C grep -q '[^[:print:][:space:]]'; then fail "raw bytes in: $err"; else ok; fi
+# family files: a byte-order mark, a directory, a symbolic link loop, a device, no permission
+printf '\357\273\277name = bom\nweight = 1/i\n' >"$TMP/bom.fam"
+run error "$TMP/bom.fam" -n 10; expect_rc 0 "family file with a byte-order mark"
+expect_out "family     bom" "the first key after the mark is read"
+mkdir "$TMP/dir.fam"
+run error "$TMP/dir.fam" -n 10; expect_rc 2 "directory as a family file"
+expect_err "is a directory" "directory family file called so"
+ln -s "$TMP/loop2.fam" "$TMP/loop1.fam"; ln -s "$TMP/loop1.fam" "$TMP/loop2.fam"
+run error "$TMP/loop1.fam" -n 10; expect_rc 2 "symbolic link loop"
+expect_err "symbolic links" "link loop called so"
+run error /dev/null -n 10; expect_rc 2 "a device as FAMILY"
+expect_err "/dev/null: cannot open family file: it is not a regular file" "device called so"
+run error "$TMP" -n 10; expect_rc 2 "a directory as FAMILY"; expect_err "is a directory" "directory FAMILY"
+printf 'weight = 1/i\n' >"$TMP/locked.fam"; chmod 000 "$TMP/locked.fam"; chmod 755 "$TMP"
+if [ "$(id -u)" -eq 0 ]; then    # root reads anything: run as an unprivileged user
+    setpriv --reuid=65534 --regid=65534 --clear-groups "$EMBZ" error "$TMP/locked.fam" -n 10 \
+        >/dev/null 2>"$TMP/err"; rc=$?; err=$(cat "$TMP/err")
+else
+    run error "$TMP/locked.fam" -n 10
+fi
+expect_rc 2 "unreadable family file is an input error"; expect_err "Permission denied" "unreadable: cause"
+chmod 600 "$TMP/locked.fam"; chmod 700 "$TMP"
+# a family name in Latin-1: the JSON is still valid UTF-8 (the byte as its Latin-1 character)
+printf 'name = caf\351\nweight = 1/i\n' >"$TMP/latin.fam"
+run error "$TMP/latin.fam" -n 10 --json; expect_rc 0 "Latin-1 family name"; json_ok "Latin-1 name JSON"
+pycheck "Latin-1 name as U+00E9" 'import sys, json; d = json.loads(sys.stdin.buffer.read().decode("utf-8")); assert d["family"] == "caf\u00e9", d["family"]'
+# settings that would change nothing
+run error 1/i -n 10 --set b=1; expect_rc 2 "unused --set"
+expect_err "the parameter 'b' given by --set is not used by '1/i'" "unused --set named"
+run error 'i^a' -n 10 --set a=1 --set b=1; expect_rc 2 "one unused --set of two"; expect_err "'b'" "the unused one named"
+run error 'i^a' -n 10 --set a=1; expect_rc 0 "a used --set"
+run error power -n 10 --set a=1e999999; expect_rc 2 "value out of range"; expect_err "out of range" "value out of range"
+run scan power --set a=1 --grid a=0:1:2; expect_rc 2 "--set and --grid of one parameter"
+expect_err "both by --set and by --grid" "--set with --grid named"
+run scan 'i^a' --grid b=0:1:2 --grid a=0:1:2; expect_rc 2 "grid over an unused parameter"
+expect_err "'b' given by --grid" "unused grid parameter named"
+run size inverse --eps 0.1,,0.2; expect_rc 2 "empty goal"; expect_err "goal 2 of --eps '0.1,,0.2' is empty" "empty goal named"
+run size inverse --eps 0.1,; expect_rc 2 "trailing comma in --eps"; expect_err "goal 2" "trailing empty goal named"
+# n = 1 has no size n - 1: no error is shown for it (E_1 = 1/2 for one ebit: K(p1 -> 1/2,1/2))
+run size inverse --eps 0.9; expect_rc 0 "size found at n = 1"
+expect_out "  E at n     0.5   (certified)   E at n-1  not applicable (n = 1 is the smallest size)" "n - 1 line at n = 1"
+run size inverse --eps 0.9 --json; expect_rc 0 "size --json at n = 1"
+pycheck "no error at n - 1 for n = 1" 'import json, sys; g = json.load(sys.stdin)["goals"][0]; assert g["n"] == "1" and g["error_at_n_minus_1"] is None and g["error_at_n"] == ["0.5", "0.5"], g'
+run size inverse --eps 0.1 --json; expect_rc 0 "size --json at n > 1"
+pycheck "error at n - 1 above the goal" 'import json, sys; from fractions import Fraction as F; g = json.load(sys.stdin)["goals"][0]; assert int(g["n"]) > 1 and F(g["error_at_n_minus_1"][0]) > F("0.1") >= F(g["error_at_n"][1]), g'
+
 # ---------------------------------------------------------------- convert
 # Jonathan & Plenio, Phys. Rev. Lett. 83, 3566 (1999): (0.4,0.4,0.1,0.1) cannot be turned
 # into (0.5,0.25,0.25) by LOCC, but can with the catalyst (0.6,0.4).

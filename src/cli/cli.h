@@ -87,6 +87,11 @@ int cli_parse_long(long *res, const char *s, long lo, long hi);
  * message is printed ("embz CMD: ...") and the exit code returned; 0 on success. */
 int cli_load_family(embz_family_t fam, const cli_args_t *a, const char *spec_text,
                     const char *cmd);
+/* Every setting names a parameter of fam (an inline expression keeps only those it uses);
+ * else a message naming the first one that does not and the option opt ("--set") that gave
+ * it, and CLI_EXIT_USAGE. */
+int cli_check_settings_used(const embz_family_struct *fam, const embz_setting_t *v, long len,
+                            const char *opt, const char *cmd);
 /* The --target option (one ebit when absent); message + exit code on failure, 0 on success. */
 int cli_load_target(embz_target_t q, const cli_args_t *a, const char *cmd);
 /* The --prec option (unchanged when absent); usage error on a bad value, 0 on success. */

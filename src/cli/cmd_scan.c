@@ -107,6 +107,14 @@ int cli_cmd_scan(int argc, char **argv)
         }
     }
     if ((code = cli_settings_load(&set, &a, "scan")) != 0) goto done;
+    /* a scanned parameter takes the grid's values: a fixed value for it would be ignored */
+    for (long k = 0; k < naxes; k++)
+        for (long s = 0; s < set.len; s++)
+            if (strcmp(set.v[s].name, axes[k].name) == 0) {
+                code = cli_usage_error(&scan_spec, "parameter '%s' is given both by --set and "
+                                       "by --grid; scan it or fix it, not both", axes[k].name);
+                goto done;
+            }
     /* an inline expression declares its parameters through settings: the grid's names count
      * as settings (with the lower ends) when they are not set otherwise */
     {
@@ -115,10 +123,6 @@ int cli_cmd_scan(int argc, char **argv)
         char **lo_text = calloc((size_t) (naxes + 1), sizeof(char *));
         for (long k = 0; k < nset; k++) all[k] = set.v[k];
         for (long k = 0; k < naxes; k++) {
-            int found = 0;
-            for (long s = 0; s < nset; s++)
-                if (strcmp(set.v[s].name, axes[k].name) == 0) found = 1;
-            if (found) continue;
             lo_text[k] = fmpq_get_str(NULL, 10, axes[k].lo);
             all[nset + extra].name = axes[k].name;
             all[nset + extra].value = lo_text[k];
@@ -126,6 +130,10 @@ int cli_cmd_scan(int argc, char **argv)
         }
         status = embz_family_resolve(fam, a.pos[0], all, nset + extra,
                                      cli_flag(&a, "amplitude"), &err);
+        if (status == EMBZ_OK)
+            code = cli_check_settings_used(fam, all, nset, "--set", "scan");
+        if (status == EMBZ_OK && code == 0)
+            code = cli_check_settings_used(fam, all + nset, extra, "--grid", "scan");
         for (long k = 0; k < naxes; k++) flint_free(lo_text[k]);
         free(lo_text);
         free(all);
@@ -134,6 +142,7 @@ int cli_cmd_scan(int argc, char **argv)
         code = cli_report("scan", status, &err);
         goto done;
     }
+    if (code != 0) goto done;
     embz_err_clear(&err);
     status = embz_scan_run(sc, fam, axes, naxes, shard - 1, nshards, (int) threads, o, &err);
     if (status != EMBZ_OK) {

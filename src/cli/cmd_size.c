@@ -67,10 +67,12 @@ static void json_result(embz_buf_t *b, const char *goal, const embz_size_result_
         embz_buf_json_string(b, ns);
         embz_buf_printf(b, ", \"log10_n\": ");
         cli_buf_json_double(b, l10);
-        embz_buf_printf(b, ", \"qubits\": %ld, \"error_at_n\": [\"%s\", \"%s\"], "
-                           "\"error_at_n_minus_1\": [\"%s\", \"%s\"], \"exhaustive\": %s, "
-                           "\"checked_below\": %ld, \"stay_samples\": %ld",
-                        qb, lo, hi, plo, phi, r->exhaustive ? "true" : "false",
+        embz_buf_printf(b, ", \"qubits\": %ld, \"error_at_n\": [\"%s\", \"%s\"], ", qb, lo, hi);
+        /* n = 1 has no smaller size: no error to show for n - 1 */
+        if (fmpz_is_one(r->n)) embz_buf_printf(b, "\"error_at_n_minus_1\": null");
+        else embz_buf_printf(b, "\"error_at_n_minus_1\": [\"%s\", \"%s\"]", plo, phi);
+        embz_buf_printf(b, ", \"exhaustive\": %s, \"checked_below\": %ld, "
+                           "\"stay_samples\": %ld", r->exhaustive ? "true" : "false",
                         r->checked_below, r->stay_samples);
         {
             char *nl = fmpz_get_str(NULL, 10, r->n_low);
@@ -130,7 +132,10 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
             embz_buf_printf(b, "  resolution the smallest size lies in (%s%s, n]: same qubits\n",
                             fmpz_sizeinbase(r->n_low, 10) > INT_DIGITS ? "~" : "", nl);
             free(nl);
-        } else
+        } else if (fmpz_is_one(r->n))
+            embz_buf_printf(b, "  E at n     %s   (certified)   E at n-1  not applicable "
+                               "(n = 1 is the smallest size)\n", e);
+        else
             embz_buf_printf(b, "  E at n     %s   E at n-1  %s   (certified)\n", e, ep);
         if (r->small_by_bound && !r->exhaustive)
             embz_buf_printf(b, "  small n    every n <= 2048 excluded at once: E_n >= p_1 (1 - q_max) > goal\n");
@@ -231,14 +236,42 @@ int cli_cmd_size(int argc, char **argv)
         embz_buf_printf(&out, "family     %s\ntarget     %s\nmeasure    %s\n\n", fam->name, q->label,
                         purified ? "purified distance P (from bounds on K)" : "conversion distance K");
     }
+    /* the goals, all checked before any is solved: an empty one (",," or a comma at either
+     * end) is refused rather than skipped */
+    {
+        long pos = 1;
+        for (const char *p = goals; ; p++) {
+            if (*p != ',' && *p != '\0') continue;
+            const char *start = p;
+            while (start > goals && start[-1] != ',') start--;
+            int blank = 1;
+            for (const char *c = start; c < p; c++)
+                if (*c != ' ' && *c != '\t') blank = 0;
+            if (blank) {
+                char shown[300];
+                code = cli_usage_error(&size_spec, "goal %ld of --eps '%s' is empty", pos,
+                                       embz_err_quote(shown, sizeof(shown), eps_text, 200));
+                goto done;
+            }
+            pos++;
+            if (*p == '\0') break;
+        }
+    }
     int first = 1;
     for (char *save = NULL, *tok = strtok_r(goals, ",", &save); tok != NULL;
          tok = strtok_r(NULL, ",", &save)) {
         fmpq_t e;
         fmpq_init(e);
         if (embz_number_parse(e, tok) != EMBZ_OK || fmpq_sgn(e) <= 0 || fmpq_cmp_ui(e, 1) >= 0) {
+            char shown[300];
+            embz_err_quote(shown, sizeof(shown), tok, 100);
+            code = embz_number_out_of_range(tok)
+                ? cli_usage_error(&size_spec, "error goal '%s' is out of range (decimal "
+                                  "exponents from -%d to %d)", shown, EMBZ_NUMBER_MAX_EXP10,
+                                  EMBZ_NUMBER_MAX_EXP10)
+                : cli_usage_error(&size_spec, "bad error goal '%s' (a number between 0 and 1)",
+                                  shown);
             fmpq_clear(e);
-            code = cli_usage_error(&size_spec, "bad error goal '%s' (a number between 0 and 1)", tok);
             goto done;
         }
         /* the goals for K: eps itself, and for the purified distance also 1 - sqrt(1 - eps^2) */

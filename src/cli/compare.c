@@ -114,7 +114,9 @@ int cli_compare_load(embz_family_struct *fam, long nfam, const char *const *spec
                 code = cli_report(spec->name, status, &err);
                 goto done;
             }
-            for (long k = 0; k < nset; k++) used[k] = 1;
+            /* it keeps only the settings it uses */
+            for (long k = 0; k < nset; k++)
+                if (has_param(fam + i, settings[k].name)) used[k] = 1;
             continue;
         }
         long nmine = 0;

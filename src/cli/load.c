@@ -35,6 +35,24 @@ void cli_settings_clear(cli_settings_t *s)
     s->len = 0;
 }
 
+int cli_check_settings_used(const embz_family_struct *fam, const embz_setting_t *v, long len,
+                            const char *opt, const char *cmd)
+{
+    for (long k = 0; k < len; k++) {
+        int found = 0;
+        for (long j = 0; j < fam->nparams && !found; j++)
+            found = strcmp(fam->param_names[j], v[k].name) == 0;
+        if (found) continue;
+        char name[300], fname[300];
+        embz_err_quote(name, sizeof(name), v[k].name, 64);
+        embz_err_quote(fname, sizeof(fname), fam->name, 200);
+        fprintf(stderr, "embz %s: the parameter '%s' given by %s is not used by '%s'%s\n",
+                cmd, name, opt, fname, fam->nparams == 0 ? " (it has no parameters)" : "");
+        return CLI_EXIT_USAGE;
+    }
+    return CLI_EXIT_OK;
+}
+
 int cli_load_family(embz_family_t fam, const cli_args_t *a, const char *spec_text,
                     const char *cmd)
 {
@@ -46,6 +64,9 @@ int cli_load_family(embz_family_t fam, const cli_args_t *a, const char *spec_tex
         int status = embz_family_resolve(fam, spec_text, s.v, s.len, cli_flag(a, "amplitude"),
                                          &err);
         if (status != EMBZ_OK) code = cli_report(cmd, status, &err);
+        /* an inline expression takes only the settings it uses: a setting left over (a
+         * typo, or a parameter of another family) would otherwise change nothing */
+        else code = cli_check_settings_used(fam, s.v, s.len, "--set", cmd);
     }
     cli_settings_clear(&s);
     return code;
