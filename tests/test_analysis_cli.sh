@@ -27,6 +27,22 @@ for r in rows[2:]:
 '
 if [ -s "$TMP/err" ]; then fail "sweep: stderr not empty when not a terminal: $err"; else ok; fi
 
+# increasing weights: the tail certified up to 10^300 has a remainder bound above the whole
+# weight of n = 10^14 (it was refused there as 'total weight is 0'); that size is certified
+# on its own. Limit of i^a, a > 0: (1 - r^(a+1)) / (2 - r)^(a+1), r = 2^(-1/a) [math.md 5]
+run sweep power --set a=20 --from 10^14 --to 10^300 --points 2 --no-fit --csv
+expect_rc 0 "sweep of i^20 to 10^300"
+pycheck "i^20: both sizes certified, at the large-n limit" '
+import csv, sys
+from fractions import Fraction as F
+rows = list(csv.DictReader(sys.stdin))
+assert [r["status"] for r in rows] == ["ok", "ok"], rows
+a = 20; r = 2 ** (-1 / a); L = (1 - r ** (a + 1)) / (2 - r) ** (a + 1)
+for x in rows:
+    lo, hi = F(x["error_lo"]), F(x["error_hi"])
+    assert hi - lo < F(1, 10**12) and abs(float(lo) - L) < 1e-9, (x["n"], x["error"], L)
+'
+
 run sweep inverse --to 10^30 --points 8 --json
 expect_rc 0 "sweep json"
 pycheck "sweep json: points, fits with residuals, best law" '

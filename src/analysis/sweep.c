@@ -139,6 +139,18 @@ static int sweep_point(embz_sweep_point_struct *p, embz_error_result_t r, embz_a
     if (analytic_ok) {
         embz_err_clear(&e2);
         ps = embz_analytic_error(r, an, p->n, q, &e2);
+        /* The shared tail is certified up to the largest size, and its Euler-Maclaurin
+         * remainder bound covers that whole range. For increasing weights that bound can
+         * exceed the total weight of a much smaller size (i^20 certified to 10^300: a bound
+         * near 10^302 against a weight sum near 10^292 at n = 10^14), so that size cannot be
+         * told apart from zero weight. It gets an engine of its own, certified up to n. */
+        if (ps != EMBZ_OK && an->have_tail && fmpz_cmp(an->nmax, p->n) > 0) {
+            embz_analytic_t own;
+            embz_analytic_init(own, f, prec);
+            embz_err_clear(&e2);
+            ps = embz_analytic_error(r, own, p->n, q, &e2);
+            embz_analytic_clear(own);
+        }
         /* an enclosure without any certified bit: retry at higher precision with an
          * engine of its own (rare: e.g. increasing weights at huge n) */
         for (slong wp = 2 * prec; ps == EMBZ_OK && !usable(r->error) && wp <= 8 * prec;
