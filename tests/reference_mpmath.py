@@ -172,7 +172,33 @@ def increasing_checks(embz):
         if got is None or not (got[0] - eps <= ref <= got[1] + eps) or got[1] - got[0] > eps:
             print("FAIL: i^%s n=1e%d limit %s, engine %s" % (a, exp, mpmath.nstr(ref, 40), got))
             failures += 1
+    # one ebit: a 60-digit size whose neighbours differ in E by about 1e-63; the search
+    # used to call a size exact that was 6e13 too large (E_(n-1) 2.6e-54 below the goal)
+    cmd = [embz, "size", "1/i", "--eps", "0.005", "--json"]
+    run = subprocess.run(cmd, capture_output=True, text=True)
+    checks += 1
+    try:
+        goal = json.loads(run.stdout)["goals"][0]
+        n = int(goal["n"])
+        exact = goal["resolution"] == "exact" and int(goal["n_low"]) == n - 1
+        with mp.workdps(200):
+            above = ebit_inverse(n - 1) > mpf("0.005")
+            below = ebit_inverse(n) <= mpf("0.005")
+    except (ValueError, KeyError, IndexError) as exc:
+        print("FAIL (%s): %s\n%s%s" % (exc, " ".join(cmd), run.stdout, run.stderr))
+        failures += 1
+    else:
+        if not (exact and above and below):
+            print("FAIL: size n=%d for 1/i, eps 0.005: exact %s, reference E_(n-1) > eps %s, "
+                  "E_n <= eps %s" % (n, exact, above, below))
+            failures += 1
     return checks, failures
+
+
+def ebit_inverse(n):
+    """[derived, notes section 6] E_n(ebit) of 1/i = 1 - (H_s + r/(2 (s+1))) / H_n, n = 2s + r."""
+    s, r = divmod(n, 2)
+    return 1 - (harmonic(s) + mpf(r) / (2 * (s + 1))) / harmonic(n)
 
 
 def main():

@@ -133,20 +133,32 @@ static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *un
     arb_init(E);
     *undecided = 0;
     slong wp = 2 * fmpz_bits(nhi) + 64;
-    /* y = E - eps at the midpoints: only used to choose where to look */
-#define SET_XY(xx, yy, nn, EE) do { arb_set_fmpz(xx, nn); arb_log(xx, xx, wp); \
+    /* enough steps for bisection alone to reach adjacent integers */
+    slong steps = SIZE_MAX_STEPS + 2 * (slong) fmpz_bits(nhi);
+    int yok_lo, yok_hi;
+    /* y = E - eps at the midpoints: only used to choose where to look; yok: E - eps is
+     * resolved by its enclosure (near the crossing it is not, and the secant is noise) */
+#define SET_XY(xx, yy, ok, nn, EE) do { arb_set_fmpz(xx, nn); arb_log(xx, xx, wp); \
+        arb_sub(yy, EE, c->eps, wp); ok = arb_rel_accuracy_bits(yy) >= 4; \
         arb_set_arf(yy, arb_midref(EE)); arb_sub(yy, yy, c->eps, wp); \
         arb_set_arf(yy, arb_midref(yy)); } while (0)
-    SET_XY(xlo, ylo, nlo, Elo);
-    SET_XY(xhi, yhi, nhi, Ehi);
+    SET_XY(xlo, ylo, yok_lo, nlo, Elo);
+    SET_XY(xhi, yhi, yok_hi, nhi, Ehi);
     fmpz_sub(prevw, nhi, nlo);
-    for (int it = 0; it < SIZE_MAX_STEPS; it++) {
+    for (slong it = 0;; it++) {
         fmpz_sub(width, nhi, nlo);
         if (fmpz_cmp_ui(width, 1) <= 0) break;
+        if (it >= steps) {
+            /* not narrowed to adjacent sizes: no exact answer is claimed */
+            *undecided = 1;
+            fmpz_add_ui(und, nlo, 1);
+            break;
+        }
         if (c->qubits_only && same_qubits(nlo, nhi)) break;
         fmpz_add_ui(lo1, nlo, 1);
         fmpz_sub_ui(hi1, nhi, 1);
-        int bisect = stuck >= 2 || !arb_is_positive(ylo) || arb_is_positive(yhi);
+        int bisect = stuck >= 2 || !arb_is_positive(ylo) || arb_is_positive(yhi) || !yok_lo
+                     || !yok_hi;
         if (!bisect) {
             /* x = xlo - ylo (xhi - xlo) / (yhi - ylo) */
             arb_sub(t, xhi, xlo, wp);
@@ -180,13 +192,13 @@ static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *un
         if (sd < 0) {
             fmpz_set(nhi, cand);
             arb_set(Ehi, E);
-            SET_XY(xhi, yhi, nhi, E);
+            SET_XY(xhi, yhi, yok_hi, nhi, E);
             if (last < 0) arb_mul_2exp_si(ylo, ylo, -1);    /* Illinois */
             last = -1;
         } else {
             fmpz_set(nlo, cand);
             arb_set(Elo, E);
-            SET_XY(xlo, ylo, nlo, E);
+            SET_XY(xlo, ylo, yok_lo, nlo, E);
             if (last > 0) arb_mul_2exp_si(yhi, yhi, -1);
             last = 1;
         }
