@@ -82,6 +82,14 @@ expect_err "negative" "negative weight message"
 run error '1/(i-2)^2' -n 100;  expect_rc 2 "infinite weight"; expect_err "i = 2" "infinite weight index"
 expect_err "infinite" "infinite weight message"
 
+# smooth monotone weights whose range defeats the tail certificate: the message names the
+# range (it said "cannot certify that the weight is smooth and monotone")
+run error 'exp(-1e6*i)' -n 10^30; expect_rc 1 "steep decay at 10^30"
+expect_err "the weight falls by a factor of about e^1e+06 per index" "steep decay: the factor per index"
+run error 'pow(2,i)' -n 10^30; expect_rc 1 "exponential growth at 10^30"
+expect_err "grows by a factor of about e^6.9e+29 up to i = 1.000000000e+30 (mass on the last terms" "growth: the factor over the tail"
+if printf '%s' "$err" | grep -q "smooth and monotone"; then fail "growth still called not smooth: $err"; else ok; fi
+
 # a size out of reach of explicit summation is a runtime failure, not an input error
 run error inverse -n 10^40 --method explicit; expect_rc 1 "explicit mode beyond its limit"
 

@@ -3,6 +3,7 @@
 #include <string.h>
 #include <stdlib.h>
 #include "embz/sum.h"
+#include "embz/output.h"
 
 #define EMBZ_TAIL_MAX_ORDER 60   /* largest Euler–Maclaurin order tried */
 #define EMBZ_TAIL_MAX_SPLIT 12   /* bisection depth when certifying a chunk */
@@ -1159,6 +1160,58 @@ static int try_cut(embz_tail_t t, const arf_t ua, const arf_t uend, arb_srcptr g
     return ok;
 }
 
+/* ln w(x) - ln w(y) as a double (an estimate for a message), NaN when either weight has no
+ * positive finite enclosure. */
+static double log_ratio_d(const embz_tail_t t, const fmpz_t x, const fmpz_t y, slong prec)
+{
+    arb_t a, b, v;
+    double r = NAN;
+    arb_init(a); arb_init(b); arb_init(v);
+    arb_set_fmpz(v, x);
+    int ok = embz_expr_eval_arb(a, t->w, v, t->n, prec) == EMBZ_OK && arb_is_positive(a);
+    arb_set_fmpz(v, y);
+    ok = ok && embz_expr_eval_arb(b, t->w, v, t->n, prec) == EMBZ_OK && arb_is_positive(b);
+    if (ok) {
+        arb_log(a, a, prec);
+        arb_log(b, b, prec);
+        arb_sub(v, a, b, prec);
+        if (arb_is_finite(v)) r = arf_get_d(arb_midref(v), ARF_RND_NEAR);
+    }
+    arb_clear(a); arb_clear(b); arb_clear(v);
+    return r;
+}
+
+/* Why a tail of smooth monotone weights may still fail its certificate: the weights span a
+ * range too wide for it. The enclosures over a chunk of u = ln x are only meaningful while
+ * ln w changes little across the chunk, so a weight that falls by a huge factor from one
+ * index to the next (e^(-10^4 i)), or grows by an astronomic one over the tail (e^(i/100) up
+ * to 10^8), defeats them. Fills why (", ..." or "") from estimates of ln w. */
+static void range_reason(char *why, size_t len, const embz_tail_t t, slong M, const fmpz_t end,
+                         slong prec)
+{
+    fmpz_t a, b;
+    fmpz_init_set_si(a, M);
+    fmpz_init_set_si(b, M + 1);
+    why[0] = '\0';
+    /* far out, a weight like 2^i needs the bits of the index itself to have any sign */
+    prec += (slong) fmpz_bits(end) + 16;
+    double step = log_ratio_d(t, b, a, prec);
+    double total = log_ratio_d(t, end, a, prec);
+    if (isfinite(step) && step < -1024.0) {
+        snprintf(why, len, ": the weight falls by a factor of about e^%.2g per index there "
+                 "(mass on the first terms; the certificate needs ln w to change slowly)",
+                 -step);
+    } else if (isfinite(total) && fabs(total) > 262144.0) {
+        char *e = embz_fmpz_string(end, 12);
+        snprintf(why, len, ": the weight %s by a factor of about e^%.2g up to i = %s (mass on "
+                 "the %s terms; the certificate needs ln w to change slowly)",
+                 total > 0 ? "grows" : "falls", fabs(total), e, total > 0 ? "last" : "first");
+        free(e);
+    }
+    fmpz_clear(a);
+    fmpz_clear(b);
+}
+
 int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
                    const fmpz_t end, slong prec, embz_err_t *err)
 {
@@ -1333,8 +1386,15 @@ int embz_tail_init(embz_tail_t t, const embz_expr_t w, const fmpz_t n, slong M,
         if (st != EMBZ_OK && st != EMBZ_ERR_DOMAIN && !cut && try_cut(t, ua, uend, g, prec))
             st = EMBZ_OK;
         if (st != EMBZ_OK) {
-            embz_err_set(err, st == EMBZ_ERR_DOMAIN ? EMBZ_ERR_DOMAIN : EMBZ_ERR_UNSUPPORTED,
-                         "cannot certify that the weight is smooth and monotone for i > %ld", M);
+            char why[400] = "";
+            if (st != EMBZ_ERR_DOMAIN) range_reason(why, sizeof(why), t, M, end, prec);
+            if (why[0])
+                embz_err_set(err, EMBZ_ERR_UNSUPPORTED, "cannot certify the tail beyond i = "
+                             "%ld%s", M, why);
+            else
+                embz_err_set(err, st == EMBZ_ERR_DOMAIN ? EMBZ_ERR_DOMAIN : EMBZ_ERR_UNSUPPORTED,
+                             "cannot certify that the weight is smooth and monotone for i > %ld",
+                             M);
             st = err ? err->code : EMBZ_ERR_UNSUPPORTED;
         } else {
             t->dir = (dir == 0) ? 1 : dir;
