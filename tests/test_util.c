@@ -1,11 +1,16 @@
 /* Tests of src/util: messages with a caret, certified decimal printing, JSON escaping,
- * atomic file writes. The decimal checks compare against MPFR's correctly rounded parsing
+ * output files (atomic replacement, links, modes, refusals, standard output, signals). The decimal checks compare against MPFR's correctly rounded parsing
  * (mpfr_set_str), an independent reference for the value of a printed string. */
 #include <check.h>
 #include <stdlib.h>
 #include <string.h>
 #include <unistd.h>
 #include <dirent.h>
+#include <fcntl.h>
+#include <pthread.h>
+#include <signal.h>
+#include <sys/stat.h>
+#include <sys/wait.h>
 #include "embz.h"
 #include "testutil.h"
 
@@ -226,8 +231,324 @@ START_TEST(test_write_atomic)
 }
 END_TEST
 
-int main(void)
+/* ------------------------------------------------------------------ output files */
+
+static char out_dir[64];
+
+static const char *in_dir(const char *name)
 {
+    static char buf[4][400];
+    static int k;
+    k = (k + 1) % 4;
+    snprintf(buf[k], sizeof(buf[k]), "%s/%s", out_dir, name);
+    return buf[k];
+}
+
+static void put(const char *path, const char *text)
+{
+    FILE *f = fopen(path, "w");
+    ck_assert(f != NULL);
+    fputs(text, f);
+    fclose(f);
+}
+
+static int has_text(const char *path, const char *text)
+{
+    char buf[256] = { 0 };
+    FILE *f = fopen(path, "r");
+    if (f == NULL) return 0;
+    size_t n = fread(buf, 1, sizeof(buf) - 1, f);
+    fclose(f);
+    buf[n] = '\0';
+    return strcmp(buf, text) == 0;
+}
+
+/* entries of the test directory whose name contains ".part-" */
+static int temp_files(void)
+{
+    DIR *d = opendir(out_dir);
+    int count = 0;
+    struct dirent *de;
+    while ((de = readdir(d)) != NULL)
+        count += strstr(de->d_name, ".part-") != NULL;
+    closedir(d);
+    return count;
+}
+
+static void out_setup(void)
+{
+    snprintf(out_dir, sizeof(out_dir), "/tmp/embz-out-XXXXXX");
+    ck_assert(mkdtemp(out_dir) != NULL);
+}
+
+static void out_teardown(void)
+{
+    DIR *d = opendir(out_dir);
+    struct dirent *de;
+    while ((de = readdir(d)) != NULL) {
+        if (de->d_name[0] == '.' && (de->d_name[1] == 0 || !strcmp(de->d_name, "..")))
+            continue;
+        const char *p = in_dir(de->d_name);
+        if (rmdir(p) != 0) unlink(p);
+    }
+    closedir(d);
+    rmdir(out_dir);
+}
+
+START_TEST(test_output_links_and_modes)
+{
+    out_setup();
+    embz_err_t e;
+    struct stat st;
+    /* a symbolic link: its target is replaced, the link stays a link */
+    put(in_dir("real"), "old");
+    ck_assert_int_eq(symlink("real", in_dir("link")), 0);
+    ck_assert_int_eq(embz_write_atomic(in_dir("link"), "new", 3, &e), EMBZ_OK);
+    ck_assert(lstat(in_dir("link"), &st) == 0 && S_ISLNK(st.st_mode));
+    ck_assert(has_text(in_dir("real"), "new"));
+    /* a chain of two relative links through a subdirectory, and a dangling link */
+    mkdir(in_dir("sub"), 0755);
+    ck_assert_int_eq(symlink("../link", in_dir("sub/l2")), 0);
+    ck_assert_int_eq(embz_write_atomic(in_dir("sub/l2"), "chain", 5, &e), EMBZ_OK);
+    ck_assert(has_text(in_dir("real"), "chain"));
+    ck_assert_int_eq(symlink("made", in_dir("dangling")), 0);
+    ck_assert_int_eq(embz_write_atomic(in_dir("dangling"), "x", 1, &e), EMBZ_OK);
+    ck_assert(has_text(in_dir("made"), "x"));
+    /* a loop of links fails without writing */
+    ck_assert_int_eq(symlink("loop2", in_dir("loop1")), 0);
+    ck_assert_int_eq(symlink("loop1", in_dir("loop2")), 0);
+    ck_assert_int_eq(embz_write_atomic(in_dir("loop1"), "x", 1, &e), EMBZ_ERR_IO);
+    /* the permission bits of an existing file are kept: 0600 and 0640 */
+    put(in_dir("private"), "old");
+    chmod(in_dir("private"), 0600);
+    ck_assert_int_eq(embz_write_atomic(in_dir("private"), "new", 3, &e), EMBZ_OK);
+    ck_assert(stat(in_dir("private"), &st) == 0);
+    ck_assert_int_eq(st.st_mode & 07777, 0600);
+    chmod(in_dir("private"), 0640);
+    ck_assert_int_eq(embz_write_atomic(in_dir("private"), "newer", 5, &e), EMBZ_OK);
+    ck_assert(stat(in_dir("private"), &st) == 0);
+    ck_assert_int_eq(st.st_mode & 07777, 0640);
+    ck_assert(has_text(in_dir("private"), "newer"));
+    /* a new file: 0666 less the umask */
+    mode_t mask = umask(022);
+    ck_assert_int_eq(embz_write_atomic(in_dir("fresh"), "x", 1, &e), EMBZ_OK);
+    umask(077);
+    ck_assert_int_eq(embz_write_atomic(in_dir("fresh2"), "x", 1, &e), EMBZ_OK);
+    umask(mask);
+    ck_assert(stat(in_dir("fresh"), &st) == 0);
+    ck_assert_int_eq(st.st_mode & 07777, 0644);
+    ck_assert(stat(in_dir("fresh2"), &st) == 0);
+    ck_assert_int_eq(st.st_mode & 07777, 0600);
+    /* as root: the owner and group of the replaced file are kept */
+    if (geteuid() == 0) {
+        put(in_dir("owned"), "old");
+        ck_assert_int_eq(chown(in_dir("owned"), 65534, 65534), 0);
+        ck_assert_int_eq(embz_write_atomic(in_dir("owned"), "new", 3, &e), EMBZ_OK);
+        ck_assert(stat(in_dir("owned"), &st) == 0);
+        ck_assert_int_eq(st.st_uid, 65534);
+        ck_assert_int_eq(st.st_gid, 65534);
+    }
+    ck_assert_int_eq(temp_files(), 0);
+    out_teardown();
+}
+END_TEST
+
+START_TEST(test_output_refused)
+{
+    out_setup();
+    embz_err_t e;
+    struct stat st;
+    /* several hard links: refused before and at writing, both names keep the old text */
+    put(in_dir("h1"), "old");
+    ck_assert_int_eq(link(in_dir("h1"), in_dir("h2")), 0);
+    embz_err_clear(&e);
+    ck_assert_int_eq(embz_output_check(in_dir("h1"), &e), EMBZ_ERR_INPUT);
+    ck_assert_ptr_nonnull(strstr(e.text, "hard links"));
+    ck_assert_int_eq(embz_write_atomic(in_dir("h1"), "new", 3, &e), EMBZ_ERR_INPUT);
+    ck_assert_ptr_nonnull(strstr(e.text, in_dir("h1")));
+    ck_assert(has_text(in_dir("h1"), "old") && has_text(in_dir("h2"), "old"));
+    ck_assert(stat(in_dir("h1"), &st) == 0 && st.st_nlink == 2);
+    /* a directory, a fifo, a character device, and a link to a directory */
+    mkdir(in_dir("dir"), 0755);
+    ck_assert_int_eq(mkfifo(in_dir("fifo"), 0644), 0);
+    ck_assert_int_eq(symlink("dir", in_dir("dirlink")), 0);
+    const char *refused[] = { in_dir("dir"), in_dir("fifo"), "/dev/null", in_dir("dirlink") };
+    for (int k = 0; k < 4; k++) {
+        embz_err_clear(&e);
+        ck_assert_int_eq(embz_output_check(refused[k], &e), EMBZ_ERR_INPUT);
+        ck_assert_ptr_nonnull(strstr(e.text, refused[k]));
+        ck_assert_ptr_nonnull(strstr(e.text, "not a regular file"));
+        ck_assert_int_eq(embz_write_atomic(refused[k], "x", 1, &e), EMBZ_ERR_INPUT);
+    }
+    ck_assert(lstat(in_dir("fifo"), &st) == 0 && S_ISFIFO(st.st_mode));
+    ck_assert(lstat("/dev/null", &st) == 0 && S_ISCHR(st.st_mode));
+    ck_assert(lstat(in_dir("dirlink"), &st) == 0 && S_ISLNK(st.st_mode));
+#ifdef __linux__
+    /* a link to an open descriptor */
+    ck_assert_int_eq(embz_output_check("/dev/stderr", &e), EMBZ_ERR_INPUT);
+    ck_assert_ptr_nonnull(strstr(e.text, "descriptor"));
+#endif
+    /* what is allowed: a new name, standard output; a missing directory is an I/O error */
+    ck_assert_int_eq(embz_output_check(in_dir("new.txt"), &e), EMBZ_OK);
+    ck_assert_int_eq(embz_output_check("-", &e), EMBZ_OK);
+    ck_assert_int_eq(embz_output_check(in_dir("missing/x"), &e), EMBZ_ERR_IO);
+    ck_assert(embz_output_is_stdout("-") && embz_output_is_stdout("/dev/stdout"));
+    ck_assert(!embz_output_is_stdout("./-") && !embz_output_is_stdout("/dev/stderr"));
+    ck_assert_int_eq(temp_files(), 0);
+    ck_assert_int_eq(access(in_dir("new.txt"), F_OK), -1);
+    out_teardown();
+}
+END_TEST
+
+START_TEST(test_output_stdout)
+{
+    out_setup();
+    /* "-" streams to descriptor 1, after what stdio had buffered */
+    int saved = dup(1);
+    int fd = open(in_dir("captured"), O_WRONLY | O_CREAT | O_TRUNC, 0644);
+    ck_assert(saved >= 0 && fd >= 0);
+    fflush(stdout);
+    dup2(fd, 1);
+    close(fd);
+    embz_err_t e;
+    printf("first ");
+    int st = embz_write_atomic("-", "streamed\n", 9, &e);
+    fflush(stdout);
+    dup2(saved, 1);
+    close(saved);
+    ck_assert_int_eq(st, EMBZ_OK);
+    ck_assert(has_text(in_dir("captured"), "first streamed\n"));
+    /* a write error on standard output: EMBZ_ERR_IO naming it */
+    fd = open("/dev/full", O_WRONLY);
+    if (fd >= 0) {
+        saved = dup(1);
+        dup2(fd, 1);
+        close(fd);
+        st = embz_write_atomic("-", "x", 1, &e);
+        dup2(saved, 1);
+        close(saved);
+        ck_assert_int_eq(st, EMBZ_ERR_IO);
+        ck_assert_ptr_nonnull(strstr(e.text, "standard output"));
+    }
+    out_teardown();
+}
+END_TEST
+
+START_TEST(test_output_failure_keeps_old)
+{
+    out_setup();
+    embz_err_t e;
+    put(in_dir("keep"), "old");
+    /* a write failure (injected) leaves the old file and no temporary file */
+    ck_assert_int_eq(embz_afile_write_all(in_dir("keep"), "new text", 8, 4, &e), EMBZ_ERR_IO);
+    ck_assert_ptr_nonnull(strstr(e.text, in_dir("keep")));
+    ck_assert(has_text(in_dir("keep"), "old"));
+    ck_assert_int_eq(temp_files(), 0);
+    /* an aborted file likewise */
+    embz_afile_t f;
+    ck_assert_int_eq(embz_afile_open(f, in_dir("keep"), &e), EMBZ_OK);
+    ck_assert_int_eq(temp_files(), 1);
+    embz_afile_write(f, "abc", 3);
+    embz_afile_abort(f);
+    ck_assert(has_text(in_dir("keep"), "old"));
+    ck_assert_int_eq(temp_files(), 0);
+    /* the clean-up a signal handler calls removes the file in progress; commit then fails */
+    ck_assert_int_eq(embz_afile_open(f, in_dir("keep"), &e), EMBZ_OK);
+    embz_afile_write(f, "abc", 3);
+    ck_assert_int_eq(temp_files(), 1);
+    embz_afile_remove_pending();
+    ck_assert_int_eq(temp_files(), 0);
+    ck_assert_int_eq(embz_afile_commit(f, &e), EMBZ_ERR_IO);
+    ck_assert(has_text(in_dir("keep"), "old"));
+    /* a target that turned into a directory while the file was written is not replaced */
+    ck_assert_int_eq(embz_afile_open(f, in_dir("late"), &e), EMBZ_OK);
+    embz_afile_write(f, "abc", 3);
+    mkdir(in_dir("late"), 0755);
+    ck_assert_int_eq(embz_afile_commit(f, &e), EMBZ_ERR_INPUT);
+    struct stat st;
+    ck_assert(stat(in_dir("late"), &st) == 0 && S_ISDIR(st.st_mode));
+    ck_assert_int_eq(temp_files(), 0);
+    out_teardown();
+}
+END_TEST
+
+static void *sleeper(void *arg)
+{
+    (void) arg;
+    for (;;) pause();
+    return NULL;
+}
+
+/* The child of test_output_signals, run as "test_util --interrupted-writer SIG OTHER FILE" in a
+ * fresh program (exec): the test runner's own signal handlers are gone, as in a command run
+ * from a shell. It starts writing FILE and stops itself with SIG; with OTHER = 1 the writing
+ * thread blocks SIG, so a second thread takes it. Returns only when the signal failed to end
+ * the process. */
+static int interrupted_writer(int sig, int other_thread, const char *path)
+{
+    if (signal(sig, SIG_DFL) == SIG_ERR)   /* an inherited "ignored" would test nothing */
+        return 3;
+    pthread_t t;
+    if (other_thread && pthread_create(&t, NULL, sleeper, NULL) != 0)
+        return 4;
+    embz_afile_t f;
+    embz_err_t e;
+    if (embz_afile_open(f, path, &e) != EMBZ_OK)
+        return 5;
+    embz_afile_write(f, "partial", 7);
+    if (other_thread) {
+        sigset_t set;
+        sigemptyset(&set);
+        sigaddset(&set, sig);
+        pthread_sigmask(SIG_BLOCK, &set, NULL);
+        kill(getpid(), sig);
+        sleep(10);
+        return 6;
+    }
+    raise(sig);
+    return 7;
+}
+
+/* Runs interrupted_writer in a child; it must die by sig and leave the old file and no
+ * temporary file. */
+static void interrupted_child(int sig, int other_thread)
+{
+    char sig_text[16], other_text[4];
+    snprintf(sig_text, sizeof(sig_text), "%d", sig);
+    snprintf(other_text, sizeof(other_text), "%d", other_thread);
+    const char *path = in_dir("keep");
+    pid_t pid = fork();
+    ck_assert(pid >= 0);
+    if (pid == 0) {
+        execl("/proc/self/exe", "test_util", "--interrupted-writer", sig_text, other_text, path,
+              (char *) NULL);
+        _exit(2);
+    }
+    int status;
+    ck_assert_int_eq(waitpid(pid, &status, 0), pid);
+    ck_assert_msg(WIFSIGNALED(status) && WTERMSIG(status) == sig,
+                  "child status %d, expected death by signal %d", status, sig);
+    ck_assert(has_text(in_dir("keep"), "old"));
+    ck_assert_int_eq(temp_files(), 0);
+}
+
+START_TEST(test_output_signals)
+{
+    out_setup();
+    put(in_dir("keep"), "old");
+    int sigs[] = { SIGINT, SIGTERM, SIGHUP };
+    for (int k = 0; k < 3; k++) {
+        interrupted_child(sigs[k], 0);
+        interrupted_child(sigs[k], 1);
+    }
+    out_teardown();
+}
+END_TEST
+
+int main(int argc, char **argv)
+{
+    if (argc == 5 && strcmp(argv[1], "--interrupted-writer") == 0)
+        return interrupted_writer(atoi(argv[2]), atoi(argv[3]), argv[4]);
     Suite *s = suite_create("util");
     TCase *tc = tcase_create("core");
     tcase_add_test(tc, test_bounds_enclose);
@@ -239,6 +560,11 @@ int main(void)
     tcase_add_test(tc, test_err_quote);
     tcase_add_test(tc, test_caret);
     tcase_add_test(tc, test_write_atomic);
+    tcase_add_test(tc, test_output_links_and_modes);
+    tcase_add_test(tc, test_output_refused);
+    tcase_add_test(tc, test_output_stdout);
+    tcase_add_test(tc, test_output_failure_keeps_old);
+    tcase_add_test(tc, test_output_signals);
     suite_add_tcase(s, tc);
     return tu_run_suite(s);
 }

@@ -9,6 +9,7 @@
 #include <stddef.h>
 #include "embz/flint.h"
 #include "embz/err.h"
+#include "embz/output.h"
 
 /* ------------------------------------------------------------------ colours */
 
@@ -120,6 +121,10 @@ void embz_plot_set_cell(embz_plot_t fig, slong panel, slong ix, slong iy, int ca
 /* Write the figure; the format comes from the extension of path (.svg, .pdf, .png, any case).
  * EMBZ_ERR_INPUT for an unknown extension, EMBZ_ERR_IO when the file cannot be written. */
 int embz_plot_write(const embz_plot_t fig, const char *path, embz_err_t *err);
+/* The same in the named format ("svg", "pdf" or "png", any case; NULL: from the extension),
+ * for names that have none, such as "-" (standard output). EMBZ_ERR_INPUT for another name. */
+int embz_plot_write_format(const embz_plot_t fig, const char *path, const char *format,
+                           embz_err_t *err);
 /* The figure as SVG text for inlining in HTML: no XML declaration, ids prefixed with
  * id_prefix (so several figures can share one document), width 100% with the aspect ratio
  * kept. *svg is malloc'ed. */
@@ -133,30 +138,7 @@ void embz_plot_size(double *width, double *height, const embz_plot_t fig);
  * real leaks. Drawing afterwards still works (the caches are rebuilt). */
 void embz_render_release_caches(void);
 
-/* ------------------------------------------------------------------ atomic files */
-
-/* A file being written: bytes go to a temporary file next to path; commit renames it into
- * place, abort removes it. Termination signals (INT, TERM, HUP, QUIT) are held back between
- * open and commit/abort, so an interrupted run never leaves the temporary file behind. */
-typedef struct {
-    int fd;
-    char *path, *tmp;
-    size_t written, fail_after;
-    int failed;              /* a write failed: commit will refuse */
-    int saved_errno;
-    int have_mask;
-    unsigned char mask[256]; /* the caller's signal mask (a sigset_t) */
-} embz_afile_struct;
-typedef embz_afile_struct embz_afile_t[1];
-
-int embz_afile_open(embz_afile_t f, const char *path, embz_err_t *err);
-/* Returns 0 on success, -1 after a failure (the failure is reported by commit). */
-int embz_afile_write(embz_afile_t f, const void *data, size_t len);
-int embz_afile_commit(embz_afile_t f, embz_err_t *err);
-void embz_afile_abort(embz_afile_t f);
-/* data to path through an embz_afile_t (fail_after as above, 0: never). */
-int embz_afile_write_all(const char *path, const char *data, size_t len, size_t fail_after,
-                         embz_err_t *err);
+/* Files are written through embz_afile_t (embz/output.h). */
 
 /* ------------------------------------------------------------------ reports */
 

@@ -227,8 +227,10 @@ void cli_compare_text(embz_buf_t *b, const cli_compare_row_t *rows, const long *
 /* Format from --format or the extension of path (-1 when neither says). */
 int cli_compare_format(const char *format_opt, const char *path);
 
-/* The directory of the output file exists and is writable; message + exit code 1 otherwise
- * (checked before any computation, so that a typo does not cost a long run). */
+/* The output can be written (embz_output_check: "-" and /dev/stdout are standard output, other
+ * names are followed through symbolic links): 0, or the message and exit code 2 for a refused
+ * output (not a regular file, several hard links), 1 for a missing or unwritable directory.
+ * Checked before any computation, so that a typo does not cost a long run. */
 int cli_check_output(const char *path, const char *cmd);
 
 /* ---- subcommands ---- */

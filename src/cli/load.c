@@ -127,17 +127,10 @@ int cli_load_range(fmpz_t from, fmpz_t to, long *points, long min_points, long m
 
 int cli_check_output(const char *path, const char *cmd)
 {
-    /* the directory the file goes to must exist and be writable: said before any work */
-    size_t l = strlen(path);
-    char *dir = malloc(l + 2);
-    memcpy(dir, path, l + 1);
-    char *slash = strrchr(dir, '/');
-    if (slash == NULL) strcpy(dir, ".");
-    else if (slash == dir) dir[1] = '\0';
-    else *slash = '\0';
-    int ok = access(dir, W_OK | X_OK) == 0;
-    if (!ok) fprintf(stderr, "embz %s: cannot write %s: %s: %s\n", cmd, path, dir,
-                     strerror(errno));
-    free(dir);
-    return ok ? CLI_EXIT_OK : CLI_EXIT_RUNTIME;
+    /* said before any work: a refused output (not a regular file, several hard links) or a
+     * directory that is missing or not writable */
+    embz_err_t err;
+    embz_err_clear(&err);
+    int st = embz_output_check(path, &err);
+    return st == EMBZ_OK ? CLI_EXIT_OK : cli_report(cmd, st, &err);
 }

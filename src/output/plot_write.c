@@ -44,9 +44,27 @@ static int cairo_failed(cairo_status_t st, const char *path, embz_err_t *err)
  * encode it. Returns EMBZ_OK or the error; the file is committed only on success. */
 int embz_plot_write(const embz_plot_t fig, const char *path, embz_err_t *err)
 {
+    return embz_plot_write_format(fig, path, NULL, err);
+}
+
+int embz_plot_write_format(const embz_plot_t fig, const char *path, const char *format,
+                           embz_err_t *err)
+{
     char ext[16];
-    embz_path_ext(ext, sizeof(ext), path);
+    if (format != NULL) {
+        size_t i = 0;
+        for (; format[i] && i + 1 < sizeof(ext); i++)
+            ext[i] = (char) tolower((unsigned char) format[i]);
+        ext[i] = '\0';
+        if (format[i] != '\0')
+            ext[0] = '\0';
+    } else {
+        embz_path_ext(ext, sizeof(ext), path);
+    }
     int kind = !strcmp(ext, "svg") ? 0 : !strcmp(ext, "pdf") ? 1 : !strcmp(ext, "png") ? 2 : -1;
+    if (kind < 0 && format != NULL)
+        return embz_err_set(err, EMBZ_ERR_INPUT, "unknown figure format '%s' (svg, pdf or png)",
+                            format);
     if (kind < 0)
         return embz_err_set(err, EMBZ_ERR_INPUT,
                             "cannot tell the format of %s: the name must end in .svg, .pdf or "
@@ -88,9 +106,9 @@ int embz_plot_write(const embz_plot_t fig, const char *path, embz_err_t *err)
     if (cst == CAIRO_STATUS_SUCCESS)
         cst = cairo_surface_status(surf);
     cairo_surface_destroy(surf);
-    if (cst != CAIRO_STATUS_SUCCESS || f->failed) {
-        if (f->failed)
-            cst = CAIRO_STATUS_WRITE_ERROR;
+    if (f->failed)   /* commit refuses and names the reason (e.g. no space left) */
+        return embz_afile_commit(f, err);
+    if (cst != CAIRO_STATUS_SUCCESS) {
         embz_afile_abort(f);
         return cairo_failed(cst, path, err);
     }

@@ -383,8 +383,10 @@ int embz_report_pdf_write(const embz_report_struct *r, const char *path, embz_er
     if (cst == CAIRO_STATUS_SUCCESS)
         cst = cairo_surface_status(surf);
     cairo_surface_destroy(surf);
-    if (cst != CAIRO_STATUS_SUCCESS || f->failed) {
-        int io = f->failed || cst == CAIRO_STATUS_WRITE_ERROR;
+    if (f->failed)   /* commit refuses and names the reason (e.g. no space left) */
+        return embz_afile_commit(f, err);
+    if (cst != CAIRO_STATUS_SUCCESS) {
+        int io = cst == CAIRO_STATUS_WRITE_ERROR;
         embz_afile_abort(f);
         if (io)
             return embz_err_set(err, EMBZ_ERR_IO, "cannot write %s", path);

@@ -173,39 +173,3 @@ void embz_buf_json_string(embz_buf_t *b, const char *text)
     }
     embz_buf_printf(b, "\"");
 }
-
-int embz_write_atomic(const char *path, const char *data, size_t len, embz_err_t *err)
-{
-    size_t n = strlen(path) + 32;
-    char *tmp = malloc(n);
-    snprintf(tmp, n, "%s.tmp.XXXXXX", path);
-    int fd = mkstemp(tmp);
-    if (fd < 0) {
-        int e = errno;
-        free(tmp);
-        return embz_err_set(err, EMBZ_ERR_IO, "cannot write %s: %s", path, strerror(e));
-    }
-    size_t off = 0;
-    while (off < len) {
-        ssize_t w = write(fd, data + off, len - off);
-        if (w < 0) {
-            if (errno == EINTR) continue;
-            int e = errno;
-            close(fd); unlink(tmp); free(tmp);
-            return embz_err_set(err, EMBZ_ERR_IO, "cannot write %s: %s", path, strerror(e));
-        }
-        off += (size_t) w;
-    }
-    if (fsync(fd) != 0 || close(fd) != 0) {
-        int e = errno;
-        unlink(tmp); free(tmp);
-        return embz_err_set(err, EMBZ_ERR_IO, "cannot write %s: %s", path, strerror(e));
-    }
-    if (rename(tmp, path) != 0) {
-        int e = errno;
-        unlink(tmp); free(tmp);
-        return embz_err_set(err, EMBZ_ERR_IO, "cannot rename into %s: %s", path, strerror(e));
-    }
-    free(tmp);
-    return EMBZ_OK;
-}
