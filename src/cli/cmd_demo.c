@@ -10,7 +10,7 @@
 #include "cli.h"
 
 static const cli_opt_t demo_opts[] = {
-    { "output", 'o', CLI_VALUE, "FILE", "the report (default embz-demo.html)" },
+    { "output", 'o', CLI_VALUE, "FILE", "the report (default embz-demo.html; - for stdout)" },
     { "format", 'f', CLI_VALUE, "F", "html, md, tex or pdf (default: from the extension of FILE)" },
     { "threads", 'j', CLI_VALUE, "T", "families computed at once (default: the processors)" },
     { "quiet", 'q', CLI_FLAG, NULL, "no progress lines on stderr" },
@@ -26,7 +26,10 @@ static const cli_spec_t demo_spec = {
     "its amplitudes, the same state). Per family: a short one-ebit classification (10 sizes\n"
     "from 10^2 to 10^60 at 64 bits), certified errors at n = 10^30 and 10^100, and the\n"
     "qubit-resolution size search for the goal 1e-3 (up to n = 2^3072). Families run in\n"
-    "parallel when built with OpenMP. Takes well under a minute on two cores.\n",
+    "parallel when built with OpenMP. Takes well under a minute on two cores.\n"
+    "Output: -o - (or /dev/stdout) streams the report to standard output (html unless\n"
+    "--format says otherwise); the table then goes to standard error. Any other FILE is\n"
+    "written as 'embz report --help' describes (atomically, links followed, mode kept).\n",
     demo_opts, 0, 0
 };
 
@@ -104,7 +107,8 @@ int cli_cmd_demo(int argc, char **argv)
     const char *out = cli_value(&a, "output");
     const char *fmt_opt = cli_value(&a, "format");
     int format = fmt_opt ? embz_report_format_from_name(fmt_opt)
-               : out ? cli_compare_format(NULL, out) : EMBZ_REPORT_HTML;
+               : out && !embz_output_is_stdout(out) ? cli_compare_format(NULL, out)
+               : EMBZ_REPORT_HTML;
     if (format < 0) {
         code = cli_usage_error(&demo_spec, fmt_opt ? "unknown format '%s' (html, md, tex or pdf)"
                                                    : "cannot tell the format from '%s'",
@@ -182,8 +186,10 @@ int cli_cmd_demo(int argc, char **argv)
             "Errors: certified digits only. Qubits: size search at qubit resolution.\n"
             "'never': the one-ebit error tends to a limit above 1e-3 (derived formula);\n"
             "'not by 10^924': the search, which ends at n = 2^3072, found no size.\n");
-        embz_buf_printf(&b, "\nReport: %s\n", out);
-        fputs(b.s, stdout);
+        /* with the report on standard output, the table goes to standard error */
+        int to_stdout = embz_output_is_stdout(out);
+        embz_buf_printf(&b, "\nReport: %s\n", to_stdout ? "standard output" : out);
+        fputs(b.s, to_stdout ? stderr : stdout);
         embz_buf_clear(&b);
     }
 

@@ -7,7 +7,8 @@
 #include "cli.h"
 
 static const cli_opt_t plot_opts[] = {
-    { "output", 'o', CLI_VALUE, "FILE", "the figure: .svg, .pdf or .png (required)" },
+    { "output", 'o', CLI_VALUE, "FILE", "the figure: .svg, .pdf or .png, or - for stdout (required)" },
+    { "format", 'f', CLI_VALUE, "F", "svg, pdf or png (default: from the extension of FILE; svg for -)" },
     { "from", 0, CLI_VALUE, "A", "smallest size n (default 10)" },
     { "to", 0, CLI_VALUE, "B", "largest size n (default 10^6)" },
     { "points", 'k', CLI_VALUE, "K", "number of log-spaced sizes (default 12)" },
@@ -28,7 +29,10 @@ static const cli_spec_t plot_spec = {
     "enough to see. Sizes above 10^5 use the analytic engine (one per family, reused for\n"
     "all sizes). --weights adds the normalised weights w(x)/w(1) (with n = B when the\n"
     "weight depends on n) against the envelopes x^(-1-eps) and x^(-1+eps).\n"
-    "Files are written atomically: an interrupted run leaves no partial file.\n",
+    "Output: -o - (or /dev/stdout) streams the figure to standard output (svg unless\n"
+    "--format says otherwise). Any other FILE is written as 'embz report --help' describes\n"
+    "(atomically, links followed, mode kept): an interrupted run leaves no partial or\n"
+    "temporary file.\n",
     plot_opts, 1, 16
 };
 
@@ -120,6 +124,7 @@ int cli_cmd_plot(int argc, char **argv)
     embz_err_t err;
     embz_err_clear(&err);
     const char *out = cli_value(&a, "output");
+    const char *format = cli_value(&a, "format");
     const char *eps_text = cli_value(&a, "eps") ? cli_value(&a, "eps") : "0.1";
     long points = 12, prec = 64;
     double eps = 0.1;
@@ -141,11 +146,19 @@ int cli_cmd_plot(int argc, char **argv)
         code = cli_usage_error(&plot_spec, "the output file is required: -o FILE");
         goto done;
     }
-    {
+    if (format != NULL) {
+        if (strcasecmp(format, "svg") && strcasecmp(format, "pdf") && strcasecmp(format, "png")) {
+            code = cli_usage_error(&plot_spec, "unknown format '%s' (svg, pdf or png)", format);
+            goto done;
+        }
+    } else if (embz_output_is_stdout(out)) {
+        format = "svg";
+    } else {
         char *ext = strrchr(out, '.');
         if (ext == NULL || (strcasecmp(ext, ".svg") && strcasecmp(ext, ".pdf")
                             && strcasecmp(ext, ".png"))) {
-            code = cli_usage_error(&plot_spec, "the output file must end in .svg, .pdf or .png");
+            code = cli_usage_error(&plot_spec, "the output file must end in .svg, .pdf or .png "
+                                   "(or give --format)");
             goto done;
         }
     }
@@ -283,12 +296,13 @@ int cli_cmd_plot(int argc, char **argv)
     }
 
     embz_err_clear(&err);
-    status = embz_plot_write(fig, out, &err);
+    status = embz_plot_write_format(fig, out, format, &err);
     if (status != EMBZ_OK) {
         code = cli_report("plot", status, &err);
         goto done;
     }
-    fprintf(stderr, "embz plot: wrote %s (%ld %s, %ld sizes each%s)\n", out, nfam,
+    fprintf(stderr, "embz plot: wrote %s (%ld %s, %ld sizes each%s)\n",
+            embz_output_is_stdout(out) ? "standard output" : out, nfam,
             nfam == 1 ? "family" : "families", (long) ns, skipped ? ", some left out" : "");
 
 done:

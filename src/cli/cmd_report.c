@@ -9,7 +9,7 @@
 #include "cli.h"
 
 static const cli_opt_t report_opts[] = {
-    { "output", 'o', CLI_VALUE, "FILE", "the document (default embz-report.html)" },
+    { "output", 'o', CLI_VALUE, "FILE", "the document (default embz-report.html; - for stdout)" },
     { "format", 'f', CLI_VALUE, "F", "html, md, tex or pdf (default: from the extension of FILE)" },
     { "eps", 'e', CLI_VALUE, "E[,E2,...]", "error goals for the size columns (default 0.01,1e-3)" },
     { "target", 't', CLI_VALUE, "T", "target state: ebit (default), ebits:J, uniform:D, ..." },
@@ -36,9 +36,16 @@ static const cli_spec_t report_spec = {
     "Formats: html (one self-contained file, figures as inline SVG), md (Markdown), tex (a\n"
     "LaTeX table with booktabs rules) and pdf. Every error value is certified; laws,\n"
     "exponents and fitted limits are estimates and say so. The size columns use the\n"
-    "qubit-resolution search (see 'embz size --qubits'). The file is written atomically:\n"
-    "an interrupted run leaves no partial file. --grid NAME=LO:HI:COUNT (once or twice)\n"
-    "classifies every family that has the parameter(s) over the grid, as 'embz scan' does.\n",
+    "qubit-resolution search (see 'embz size --qubits'). --grid NAME=LO:HI:COUNT (once or\n"
+    "twice) classifies every family that has the parameter(s) over the grid, as 'embz scan'\n"
+    "does.\n"
+    "Output: -o - (or /dev/stdout) streams the document to standard output (html unless\n"
+    "--format says otherwise) and the file name is not printed. Any other FILE is written\n"
+    "atomically: a temporary file beside it is renamed over it when complete, so an\n"
+    "interrupted or failed run leaves the old file as it was and no partial or temporary\n"
+    "file. A symbolic link is followed and its target replaced (the link stays); an existing\n"
+    "file keeps its permissions. Refused with exit 2 before any work: directories, devices,\n"
+    "fifos and other non-regular files, and files with more than one hard link.\n",
     report_opts, 1, 64
 };
 
@@ -200,7 +207,8 @@ int cli_cmd_report(int argc, char **argv)
         goto done;
     }
     if (fmt_opt == NULL) {
-        format = out ? cli_compare_format(NULL, out) : EMBZ_REPORT_HTML;
+        format = out && !embz_output_is_stdout(out) ? cli_compare_format(NULL, out)
+                                                     : EMBZ_REPORT_HTML;
         if (format < 0) {
             code = cli_usage_error(&report_spec, "cannot tell the format from '%s': give "
                                    "--format html|md|tex|pdf or end the name in one of those",
@@ -341,7 +349,7 @@ int cli_cmd_report(int argc, char **argv)
         code = cli_report("report", status, &err);
         goto done;
     }
-    printf("%s\n", out);
+    if (!embz_output_is_stdout(out)) printf("%s\n", out);   /* else stdout holds the document */
 
 done:
     embz_report_clear(rep);
