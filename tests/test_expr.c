@@ -1291,6 +1291,73 @@ START_TEST(test_acb)
 }
 END_TEST
 
+/* Constant folding (embz_expr_fold, also done by embz_expr_bind): a subtree whose value is an exact rational independent of i and n becomes
+ * one number (exact rational arithmetic, FLINT's fmpq, as the reference); irrational or
+ * undefined constants stay for the evaluators. */
+START_TEST(test_fold_constants)
+{
+    static const struct { const char *text, *value; } tab[] = {
+        { "floor(10)", "10" }, { "(3-1)^-2", "1/4" }, { "min(1/3, 1/2) + abs(-2)", "7/3" },
+        { "-(2/6)", "-1/3" }, { "max(0.5, 0.25) * 4", "2" }, { "floor(-7/2)", "-4" },
+        { "2^63", "9223372036854775808" },
+    };
+    for (size_t k = 0; k < sizeof(tab) / sizeof(tab[0]); k++) {
+        embz_expr_t e;
+        fmpq_t want;
+        embz_expr_init(e);
+        fmpq_init(want);
+        parse_ok(e, tab[k].text);
+        embz_expr_fold(e);
+        ck_assert_int_eq(fmpq_set_str(want, tab[k].value, 10), 0);
+        ck_assert_msg(e->root >= 0 && e->nodes[e->root].op == EMBZ_OP_NUM && e->len == 1,
+                      "'%s' not folded to one number", tab[k].text);
+        ck_assert_msg(fmpq_equal(e->nodes[e->root].num, want), "'%s' folded to the wrong value",
+                      tab[k].text);
+        fmpq_clear(want);
+        embz_expr_clear(e);
+    }
+    /* not folded: irrational, undefined, too large a power; parameters until bound */
+    static const char *keep[] = { "log(2)", "1/0", "2^64", "sqrt(4)", "a + 1" };
+    for (size_t k = 0; k < sizeof(keep) / sizeof(keep[0]); k++) {
+        embz_expr_t e;
+        embz_expr_init(e);
+        parse_ok(e, keep[k]);
+        embz_expr_fold(e);
+        ck_assert_msg(e->nodes[e->root].op != EMBZ_OP_NUM, "'%s' folded", keep[k]);
+        embz_expr_clear(e);
+    }
+    /* floor of a constant inside a weight: no FLOOR node left, same values as the plain form */
+    embz_expr_t e, g;
+    arb_t x, y;
+    embz_expr_init(e); embz_expr_init(g);
+    arb_init(x); arb_init(y);
+    parse_ok(e, "1/(i*log(i+1))*floor(10)");
+    embz_expr_fold(e);
+    parse_ok(g, "10/(i*log(i+1))");
+    for (long k = 0; k < e->len; k++) ck_assert_int_ne(e->nodes[k].op, EMBZ_OP_FLOOR);
+    for (slong i = 1; i < 50; i += 7) {
+        ck_assert_int_eq(eval_at(x, e, i, 100, 128), EMBZ_OK);
+        ck_assert_int_eq(eval_at(y, g, i, 100, 128), EMBZ_OK);
+        ck_assert(arb_overlaps(x, y));
+    }
+    /* after binding a = 1/2: a + 1 is the number 3/2 */
+    embz_expr_t b;
+    fmpq vals[2];
+    embz_expr_init(b);
+    fmpq_init(vals); fmpq_init(vals + 1);
+    fmpq_set_si(vals, 1, 2);
+    parse_ok(b, "i^(a + 1)");
+    embz_expr_bind(b, vals);
+    ck_assert_int_eq(b->nodes[b->nodes[b->root].b].op, EMBZ_OP_NUM);
+    fmpq_set_si(vals + 1, 3, 2);
+    ck_assert(fmpq_equal(b->nodes[b->nodes[b->root].b].num, vals + 1));
+    fmpq_clear(vals); fmpq_clear(vals + 1);
+    embz_expr_clear(b);
+    embz_expr_clear(e); embz_expr_clear(g);
+    arb_clear(x); arb_clear(y);
+}
+END_TEST
+
 static Suite *expr_suite(void)
 {
     Suite *s = suite_create("expr");
@@ -1309,6 +1376,7 @@ static Suite *expr_suite(void)
     tcase_add_test(tc, test_series_random);
     tcase_add_test(tc, test_acb);
     tcase_add_test(tc, test_log_split);
+    tcase_add_test(tc, test_fold_constants);
     suite_add_tcase(s, tc);
     return s;
 }

@@ -59,8 +59,14 @@ void embz_expr_set(embz_expr_t dst, const embz_expr_t src);
 int embz_expr_parse(embz_expr_t e, const char *text,
                     const char *const *params, long nparams, embz_err_t *err);
 
-/* Replace every parameter node by its exact value (values[k] for params[k]). */
+/* Replace every parameter node by its exact value (values[k] for params[k]), then fold
+ * constants (embz_expr_fold). */
 void embz_expr_bind(embz_expr_t e, const fmpq *values);
+/* Replace each subtree whose value is an exact rational independent of i and n (numbers
+ * combined by + - * /, integer powers up to 63, abs, floor, min, max) by that number, and drop
+ * the nodes no longer reached. The parser keeps the tree of the text; families fold their
+ * bound weight, so floor(10) costs nothing and does not look non-smooth to the engine. */
+void embz_expr_fold(embz_expr_t e);
 
 /* phi(u) = w(e^u) e^u as a new expression in which the variable i stands for u; products and
  * powers of e^u are merged exactly (w = 1/i gives the constant 1). Parameters must be bound.

@@ -70,6 +70,63 @@ void embz_expr_set(embz_expr_t dst, const embz_expr_t src)
     }
 }
 
+/* largest |exponent| and result size of an integer power folded exactly */
+#define FOLD_MAX_POW 63      /* exponents of at most 6 bits */
+#define FOLD_MAX_BITS 4096
+
+/* Replace every subtree whose value is an exact rational independent of i and n by a number:
+ * + - * /, integer powers, abs, floor, min and max of numbers. floor(10) or (3 - 1) then cost
+ * nothing and no longer look non-smooth to the engine (floor of a constant is a constant).
+ * Division by zero and irrational operations stay for the evaluators to handle. */
+void embz_expr_fold(embz_expr_t e)
+{
+    int folded = 0;
+    for (long k = 0; k < e->len; k++) {
+        embz_node_t *nd = e->nodes + k;
+        int ar = _embz_op_arity(nd->op);
+        if (nd->op == EMBZ_OP_NUM || ar == 0) continue;
+        const embz_node_t *A = e->nodes + nd->a, *B = ar == 2 ? e->nodes + nd->b : NULL;
+        if (A->op != EMBZ_OP_NUM || (B != NULL && B->op != EMBZ_OP_NUM)) continue;
+        const fmpq *a = A->num, *b = B != NULL ? B->num : NULL;
+        fmpq_t r;
+        fmpq_init(r);
+        int ok = 1;
+        switch (nd->op) {
+        case EMBZ_OP_NEG: fmpq_neg(r, a); break;
+        case EMBZ_OP_ADD: fmpq_add(r, a, b); break;
+        case EMBZ_OP_SUB: fmpq_sub(r, a, b); break;
+        case EMBZ_OP_MUL: fmpq_mul(r, a, b); break;
+        case EMBZ_OP_DIV:
+            if (fmpq_is_zero(b)) ok = 0;
+            else fmpq_div(r, a, b);
+            break;
+        case EMBZ_OP_POW:
+            ok = fmpz_is_one(fmpq_denref(b)) && fmpz_bits(fmpq_numref(b)) <= 6
+                 && !(fmpq_is_zero(a) && fmpz_sgn(fmpq_numref(b)) <= 0)
+                 && (fmpz_bits(fmpq_numref(a)) + fmpz_bits(fmpq_denref(a))) * FOLD_MAX_POW
+                    <= FOLD_MAX_BITS;
+            if (ok) fmpq_pow_si(r, a, fmpz_get_si(fmpq_numref(b)));
+            break;
+        case EMBZ_OP_ABS: fmpq_abs(r, a); break;
+        case EMBZ_OP_FLOOR:
+            fmpz_fdiv_q(fmpq_numref(r), fmpq_numref(a), fmpq_denref(a));
+            fmpz_one(fmpq_denref(r));
+            break;
+        case EMBZ_OP_MIN: fmpq_set(r, fmpq_cmp(a, b) <= 0 ? a : b); break;
+        case EMBZ_OP_MAX: fmpq_set(r, fmpq_cmp(a, b) >= 0 ? a : b); break;
+        default: ok = 0;        /* log, exp, sqrt, ...: irrational in general */
+        }
+        if (ok) {
+            fmpq_swap(nd->num, r);
+            nd->op = EMBZ_OP_NUM;
+            nd->a = nd->b = -1;
+            folded = 1;
+        }
+        fmpq_clear(r);
+    }
+    if (folded) _embz_expr_prune(e);
+}
+
 void embz_expr_bind(embz_expr_t e, const fmpq *values)
 {
     for (long k = 0; k < e->len; k++) {
@@ -80,6 +137,7 @@ void embz_expr_bind(embz_expr_t e, const fmpq *values)
             nd->param = -1;
         }
     }
+    embz_expr_fold(e);
 }
 
 /* The square of the subtree at k as a new node, pushing the square inside products, quotients,

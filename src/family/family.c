@@ -109,6 +109,8 @@ void embz_family_bind(embz_family_t f)
     embz_expr_set(f->weight, f->raw);
     if (f->nparams > 0)
         embz_expr_bind(f->weight, f->param_values);
+    else
+        embz_expr_fold(f->weight);      /* bind folds too */
     if (f->amplitude)
         embz_expr_square(f->weight);
 }
