@@ -854,6 +854,41 @@ END_TEST
 /* The smallest sizes of the correctness range, n = 10^3: the analytic engine takes them (a tail
  * of at least 2 (d (M + 2) + 1) d entries) and agrees with exact sums, tight, for every shipped
  * smooth family and several targets. */
+/* Weights that use n and vanish at i = n: n - i at 10^120 was refused as "negative or
+ * undefined" because n, rounded to the working precision, made w(n) a ball across 0. The
+ * sorted weights are 1, 2, ..., n-1 (and a 0): the increasing power a = 1, whose one-ebit
+ * limit is (1 - r^2)/(2 - r)^2 = 1/3 with r = 1/2 [derived, docs/analysis.md]; at 10^120
+ * the finite-size correction is O(1/n). */
+START_TEST(test_weight_zero_at_n)
+{
+    embz_family_t f;
+    embz_target_t q;
+    embz_error_result_t res;
+    embz_err_t err;
+    fmpz_t n;
+    arb_t third;
+    fmpz_init(n);
+    arb_init(third);
+    ten_pow(n, 120);
+    resolve(f, "n-i", NULL, NULL);
+    target(q, "ebit");
+    embz_error_result_init(res);
+    embz_err_clear(&err);
+    ck_assert_msg(embz_error_analytic(res, f, n, q, 128, &err) == EMBZ_OK, "%s", err.text);
+    arb_set_ui(third, 1);
+    arb_div_ui(third, third, 3, 128);
+    mag_set_ui_2exp_si(arb_radref(third), 1, -300);
+    arb_add_error_2exp_si(third, -100);
+    ck_assert_msg(arb_overlaps(res->error, third) && arb_rel_accuracy_bits(res->error) > 60,
+                  "n - i at 10^120 is not 1/3");
+    embz_error_result_clear(res);
+    embz_target_clear(q);
+    embz_family_clear(f);
+    fmpz_clear(n);
+    arb_clear(third);
+}
+END_TEST
+
 START_TEST(test_small_sizes)
 {
     static const char *const fams[] = { "inverse", "power", "logpower", "iterlog", "nearmiss",
@@ -1078,6 +1113,7 @@ static Suite *analytic_suite(void)
     tcase_add_test(tc, test_two_precisions);
     tcase_add_test(tc, test_uniform_half);
     tcase_add_test(tc, test_small_sizes);
+    tcase_add_test(tc, test_weight_zero_at_n);
     tcase_add_test(tc, test_insertion_beyond_prec);
     tcase_add_test(tc, test_vector_target_bounds);
     tcase_add_test(tc, test_vector_target_threshold);

@@ -2947,6 +2947,15 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             }
             st = setup(&c, M, 0, wp, err);
             have_tail = 1;
+            if (st == EMBZ_ERR_DOMAIN && wp < prec + 32 + (slong) fmpz_bits(n)) {
+                /* a weight that uses n may only look negative or undefined because n was
+                 * rounded (n - i at i = n): once more with the bits of n */
+                wp = prec + 32 + (slong) fmpz_bits(n);
+                c.prec = wp;
+                M /= 4;
+                attempt--;
+                continue;
+            }
             if (st == EMBZ_OK || st == EMBZ_ERR_DOMAIN) break;
         }
     }
