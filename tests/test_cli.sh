@@ -355,5 +355,13 @@ run report inverse -o /nonexistent-embz-dir/r.html; expect_rc 1 "report to a mis
 expect_err "cannot write /nonexistent-embz-dir/r.html" "report names the file"
 run plot inverse -o /nonexistent-embz-dir/p.svg; expect_rc 1 "plot to a missing directory"
 
+# ---- weights whose sum leaves double range: E is scale-invariant, so the explicit pass
+# rescales the weight (i^50 at n = 100 overflowed: 'overflows double range')
+run error 'i^50' -n 100; expect_rc 0 "i^50 at n = 100"
+a=$(printf '%s' "$out" | grep '^enclosure')
+run error '(i/100)^50' -n 100; expect_rc 0 "(i/100)^50 at n = 100"
+b=$(printf '%s' "$out" | grep '^enclosure')
+if [ -n "$a" ] && [ "$a" = "$b" ]; then ok; else fail "i^50 and (i/100)^50 differ: '$a' '$b'"; fi
+
 echo "$((checks - fails)) passed, $fails failed"
 [ "$fails" -eq 0 ]

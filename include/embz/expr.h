@@ -67,6 +67,8 @@ void embz_expr_bind(embz_expr_t e, const fmpq *values);
  * the nodes no longer reached. The parser keeps the tree of the text; families fold their
  * bound weight, so floor(10) costs nothing and does not look non-smooth to the engine. */
 void embz_expr_fold(embz_expr_t e);
+/* e := e * 2^k (a new root; the value scaled exactly). */
+int embz_expr_scale_2exp(embz_expr_t e, slong k);
 
 /* phi(u) = w(e^u) e^u as a new expression in which the variable i stands for u; products and
  * powers of e^u are merged exactly (w = 1/i gives the constant 1). Parameters must be bound.

@@ -127,6 +127,20 @@ void embz_expr_fold(embz_expr_t e)
     if (folded) _embz_expr_prune(e);
 }
 
+int embz_expr_scale_2exp(embz_expr_t e, slong k)
+{
+    if (e->root < 0) return EMBZ_ERR_INPUT;
+    int c = _embz_expr_push(e, EMBZ_OP_NUM, -1, -1, 0);
+    if (c < 0) return EMBZ_ERR_NOMEM;
+    fmpq_one(e->nodes[c].num);
+    if (k >= 0) fmpz_mul_2exp(fmpq_numref(e->nodes[c].num), fmpq_numref(e->nodes[c].num), (ulong) k);
+    else fmpz_mul_2exp(fmpq_denref(e->nodes[c].num), fmpq_denref(e->nodes[c].num), (ulong) -k);
+    int r = _embz_expr_push(e, EMBZ_OP_MUL, e->root, c, 0);
+    if (r < 0) return EMBZ_ERR_NOMEM;
+    e->root = r;
+    return EMBZ_OK;
+}
+
 void embz_expr_bind(embz_expr_t e, const fmpq *values)
 {
     for (long k = 0; k < e->len; k++) {

@@ -959,8 +959,47 @@ int embz_error_explicit_estimate(double *E, slong *argk, int *order, const embz_
     return EMBZ_OK;
 }
 
+/* 2^k with k bringing the larger of w(1), w(n) near 1; 0 when neither is a positive finite
+ * ball at this precision */
+static int scale_exponent(slong *k, const embz_family_t f, const fmpz_t n, slong prec)
+{
+    arb_t w;
+    embz_err_t e;
+    fmpz_t i;
+    arb_init(w);
+    fmpz_init(i);
+    slong best = WORD_MIN;
+    for (int end = 0; end < 2; end++) {
+        if (end == 0) fmpz_one(i);
+        else fmpz_set(i, n);
+        embz_err_clear(&e);
+        if (embz_family_weight_arb(w, f, i, n, prec, &e) != EMBZ_OK || !arb_is_positive(w)
+            || !arb_is_finite(w))
+            continue;
+        fmpz_t ex;
+        fmpz_init(ex);
+        arf_frexp(arb_midref(w), ex, arb_midref(w));
+        if (fmpz_fits_si(ex) && fmpz_get_si(ex) > best) best = fmpz_get_si(ex);
+        fmpz_clear(ex);
+    }
+    arb_clear(w);
+    fmpz_clear(i);
+    if (best == WORD_MIN || best > WORD_MAX / 4 || best < WORD_MIN / 4) return 0;
+    *k = -best;
+    return 1;
+}
+
+static int explicit_run(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
+                        const embz_target_t q, slong prec, int rescaled, embz_err_t *err);
+
 int embz_error_explicit(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
                         const embz_target_t q, slong prec, embz_err_t *err)
+{
+    return explicit_run(res, f, n, q, prec, 0, err);
+}
+
+static int explicit_run(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
+                        const embz_target_t q, slong prec, int rescaled, embz_err_t *err)
 {
     slong nn, bad = 0;
     tdata_t T;
@@ -977,11 +1016,31 @@ int embz_error_explicit(embz_error_result_t res, const embz_family_t f, const fm
     /* 1. estimate */
     st = estimate_pass(&R, &order, &bad, f, nn, &T, err);
     if (st != EMBZ_OK) goto out;
+    int unscaled = 0;      /* a weight or the sum outside double range, all finite in arb */
     if (bad) {
         st = bad_weight_error(f, bad, n, prec, err);
-        goto out;
+        if (st != EMBZ_ERR_UNSUPPORTED || rescaled) goto out;
+        unscaled = 1;
     }
-    if (!(R.W > 0.0) || !(R.W <= 1e300)) {
+    if (unscaled || !(R.W > 0.0) || !(R.W <= 1e300)) {
+        /* the double pass left its range: E does not change when every weight is scaled by
+         * one factor, so once more with the largest end weight brought near 1 */
+        slong k;
+        if (!rescaled && scale_exponent(&k, f, n, prec)) {
+            embz_family_struct g = *f;          /* shallow: only the weight differs */
+            embz_expr_t sw;
+            embz_expr_init(sw);
+            embz_expr_set(sw, f->weight);
+            if (embz_expr_scale_2exp(sw, k) == EMBZ_OK) {
+                g.weight[0] = sw[0];
+                tdata_clear(&T);
+                st = explicit_run(res, &g, n, q, prec, 1, err);
+                embz_expr_clear(sw);
+                return st;
+            }
+            embz_expr_clear(sw);
+        }
+        if (unscaled) goto out;
         st = embz_err_set(err, R.W > 0.0 ? EMBZ_ERR_UNSUPPORTED : EMBZ_ERR_DOMAIN,
                           R.W > 0.0 ? "the sum of the weights overflows double range"
                                     : "all weights are zero (or below double range)");
