@@ -618,6 +618,16 @@ START_TEST(test_size_parse)
     ck_assert_int_eq(embz_size_parse(n, "10^10000", &err), EMBZ_OK);
     fmpz_ui_pow_ui(w, 10, 10000);
     ck_assert(fmpz_equal(n, w));
+    /* the largest accepted size, about 10^400000 (the engine's reach), and beyond it */
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_size_parse(n, "10^400000", &err), EMBZ_OK);
+    static const char *huge[] = { "10^500000", "1e999999", "10^401000", "2^1400000",
+                                  "10^200000*10^201000" };
+    for (size_t k = 0; k < sizeof(huge) / sizeof(huge[0]); k++) {
+        embz_err_clear(&err);
+        ck_assert_msg(embz_size_parse(n, huge[k], &err) == EMBZ_ERR_INPUT, "%s", huge[k]);
+        ck_assert_msg(strstr(err.text, "10^400000") != NULL, "%s: %s", huge[k], err.text);
+    }
     const char *bad[] = { "0", "-5", "abc", "1/2", "1.5", "1e-3", "2^", "", "10^", "0^5", "3*",
                           "2^3^2", "1e9999999", "10^(10^4)", "1,000", NULL };
     for (int k = 0; bad[k] != NULL; k++) {

@@ -3,9 +3,13 @@
 #include <string.h>
 #include "embz/measure.h"
 
-/* Results above 2^EMBZ_SIZE_MAX_BITS are refused (about 10^1200000). */
-#define EMBZ_SIZE_MAX_BITS 4000000
-#define EMBZ_SIZE_MAX_EXP10 1200000
+/* Results above 2^EMBZ_SIZE_MAX_BITS (about 10^400000) are refused up front: beyond, the
+ * analytic engine's branch and bound cannot bound E at the default precision (10^500000
+ * failed after seconds; 10^400000 gives a few digits in 3 s). */
+#define EMBZ_SIZE_MAX_BITS 1330000
+#define EMBZ_SIZE_MAX_EXP10 400000
+#define TOO_LARGE "too large: sizes up to about 10^400000 are accepted (beyond, E cannot be " \
+                  "certified)"
 
 typedef struct { const char *s; long pos; embz_err_t *err; } sp_t;
 
@@ -60,14 +64,14 @@ static int number(fmpz_t res, sp_t *P)
         if (!isdigit((unsigned char) P->s[P->pos])) return fail(P, "expected an exponent after 'e'");
         while (isdigit((unsigned char) P->s[P->pos])) {
             ex = 10 * ex + (P->s[P->pos] - '0');
-            if (ex > EMBZ_SIZE_MAX_EXP10) return fail(P, "exponent too large");
+            if (ex > EMBZ_SIZE_MAX_EXP10) return fail(P, TOO_LARGE);
             P->pos++;
         }
         if (neg) ex = -ex;
     }
     ex -= frac;
     if (ex >= 0) {
-        if (!fmpz_is_zero(res) && ex > EMBZ_SIZE_MAX_EXP10) return fail(P, "too large");
+        if (!fmpz_is_zero(res) && ex > EMBZ_SIZE_MAX_EXP10) return fail(P, TOO_LARGE);
         fmpz_t t;
         fmpz_init(t);
         fmpz_ui_pow_ui(t, 10, (ulong) ex);
@@ -107,7 +111,7 @@ static int term(fmpz_t res, sp_t *P)
             if (fmpz_cmp_ui(e, EMBZ_SIZE_MAX_BITS) > 0 ||
                 (double) fmpz_bits(res) * fmpz_get_d(e) > 2.0 * EMBZ_SIZE_MAX_BITS) {
                 fmpz_clear(e);
-                return fail(P, "too large");
+                return fail(P, TOO_LARGE);
             }
             fmpz_pow_ui(res, res, fmpz_get_ui(e));
         }
@@ -130,7 +134,7 @@ int embz_size_parse(fmpz_t n, const char *s, embz_err_t *err)
         st = term(t, &P);
         if (st == EMBZ_OK) {
             fmpz_mul(v, v, t);
-            if (fmpz_bits(v) > EMBZ_SIZE_MAX_BITS) st = fail(&P, "too large");
+            if (fmpz_bits(v) > EMBZ_SIZE_MAX_BITS) st = fail(&P, TOO_LARGE);
         }
     }
     if (st == EMBZ_OK && P.s[P.pos] != '\0') {
@@ -139,7 +143,7 @@ int embz_size_parse(fmpz_t n, const char *s, embz_err_t *err)
     }
     /* these two concern the whole value: no caret */
     if (st == EMBZ_OK && fmpz_bits(v) > EMBZ_SIZE_MAX_BITS) {
-        st = fail(&P, "too large");
+        st = fail(&P, TOO_LARGE);
         if (err != NULL) err->col = 0;
     }
     if (st == EMBZ_OK && fmpz_sgn(v) < 1) {
