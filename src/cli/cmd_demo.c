@@ -106,6 +106,9 @@ int cli_cmd_demo(int argc, char **argv)
 
     const char *out = cli_value(&a, "output");
     const char *fmt_opt = cli_value(&a, "format");
+    /* a directory or device is named as such before its name is read for a format */
+    if (out != NULL && !embz_output_is_stdout(out) && (code = cli_check_output(out, "demo")) != 0)
+        goto done;
     int format = fmt_opt ? embz_report_format_from_name(fmt_opt)
                : out && !embz_output_is_stdout(out) ? cli_compare_format(NULL, out)
                : EMBZ_REPORT_HTML;

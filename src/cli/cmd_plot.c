@@ -153,6 +153,8 @@ int cli_cmd_plot(int argc, char **argv)
         }
     } else if (embz_output_is_stdout(out)) {
         format = "svg";
+    } else if ((code = cli_check_output(out, "plot")) != 0) {
+        goto done;        /* a directory or device is named as such, not as a bad extension */
     } else {
         char *ext = strrchr(out, '.');
         if (ext == NULL || (strcasecmp(ext, ".svg") && strcasecmp(ext, ".pdf")

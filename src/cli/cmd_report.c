@@ -206,6 +206,10 @@ int cli_cmd_report(int argc, char **argv)
         code = cli_usage_error(&report_spec, "unknown format '%s' (html, md, tex or pdf)", fmt_opt);
         goto done;
     }
+    /* a directory or device is named as such before its name is read for a format */
+    if (out != NULL && !embz_output_is_stdout(out)
+        && (code = cli_check_output(out, "report")) != 0)
+        goto done;
     if (fmt_opt == NULL) {
         format = out && !embz_output_is_stdout(out) ? cli_compare_format(NULL, out)
                                                      : EMBZ_REPORT_HTML;
