@@ -100,6 +100,11 @@ int cli_compare_load(embz_family_struct *fam, long nfam, const char *const *spec
             code = cli_report(spec->name, status, &err);
             goto done;
         }
+        for (long j = 0; j < k; j++)
+            if (strcmp(settings[j].name, settings[k].name) == 0) {
+                code = cli_usage_error(spec, "parameter '%s' is set twice", settings[k].name);
+                goto done;
+            }
     }
     for (long i = 0; i < nfam; i++) {
         embz_err_clear(&err);
