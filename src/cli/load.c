@@ -21,6 +21,13 @@ int cli_settings_load(cli_settings_t *s, const cli_args_t *a, const char *cmd)
         s->copies[k] = cli_strdup(sets[k]);
         int status = embz_setting_split(&s->v[k], s->copies[k], &err);
         if (status != EMBZ_OK) return cli_report(cmd, status, &err);
+        /* on the command line a parameter given twice is a slip, not "the last one wins"
+         * (the library's rule for settings lists) */
+        for (long j = 0; j < k; j++)
+            if (strcmp(s->v[j].name, s->v[k].name) == 0) {
+                embz_err_set(&err, EMBZ_ERR_INPUT, "parameter '%s' is set twice", s->v[k].name);
+                return cli_report(cmd, EMBZ_ERR_INPUT, &err);
+            }
     }
     return CLI_EXIT_OK;
 }

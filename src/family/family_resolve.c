@@ -188,15 +188,6 @@ int embz_family_resolve(embz_family_t f, const char *spec,
     if (spec == NULL || spec[0] == '\0')
         return embz_err_set(err, EMBZ_ERR_INPUT,
                             "empty family: give a library name, a file or an expression");
-    /* a parameter set twice is a mistake, not "the last one wins" */
-    for (long k = 0; k < nsettings; k++)
-        for (long j = 0; j < k; j++)
-            if (strcmp(settings[j].name, settings[k].name) == 0) {
-                char qname[300];
-                embz_err_quote(qname, sizeof(qname), settings[k].name, 64);
-                return embz_err_set(err, EMBZ_ERR_INPUT, "parameter '%s' is set twice",
-                                    qname);
-            }
 
     char *path = looks_like_name(spec) ? find_in_library(spec) : NULL;
     int not_file = 0;         /* an existing path that is no regular file: -1 dir, -2 other */
