@@ -49,7 +49,8 @@ static const cli_spec_t report_spec = {
     report_opts, 1, 64
 };
 
-/* Split "a,b,c" into malloc'ed pieces (in *buf); returns the count. */
+/* Split "a,b,c" into pieces (in *buf); returns the count, or -(position) of the first empty
+ * (or blank) entry, which is refused rather than skipped. */
 static long split_list(char ***items, char **buf, const char *text)
 {
     *buf = malloc(strlen(text) + 1);
@@ -58,10 +59,14 @@ static long split_list(char ***items, char **buf, const char *text)
     for (const char *p = text; *p; p++) n += *p == ',';
     *items = calloc((size_t) n, sizeof(char *));
     long k = 0;
-    char *save = NULL;
-    for (char *t = strtok_r(*buf, ",", &save); t != NULL; t = strtok_r(NULL, ",", &save))
-        (*items)[k++] = t;
-    return k;
+    for (char *t = *buf;; k++) {
+        char *c = strchr(t, ',');
+        if (c != NULL) *c = '\0';
+        (*items)[k] = t;
+        if (t[strspn(t, " \t")] == '\0') return -(k + 1);
+        if (c == NULL) return k + 1;
+        t = c + 1;
+    }
 }
 
 static int default_threads(void)
@@ -265,6 +270,11 @@ int cli_cmd_report(int argc, char **argv)
     }
     ngoals = split_list(&goals, &goals_buf, cli_value(&a, "eps") ? cli_value(&a, "eps")
                                                                   : "0.01,1e-3");
+    if (ngoals < 0) {
+        code = cli_usage_error(&report_spec, "goal %ld of --eps is empty", -ngoals);
+        ngoals = 0;
+        goto done;
+    }
     for (long j = 0; j < ngoals; j++) {
         fmpq_t e;
         fmpq_init(e);
@@ -279,6 +289,11 @@ int cli_cmd_report(int argc, char **argv)
     }
     nsizes = split_list(&sizes_text, &sizes_buf, cli_value(&a, "sizes")
                         ? cli_value(&a, "sizes") : "10^6,10^30,10^100");
+    if (nsizes < 0) {
+        code = cli_usage_error(&report_spec, "size %ld of --sizes is empty", -nsizes);
+        nsizes = 0;
+        goto done;
+    }
     sizes = _fmpz_vec_init(nsizes > 0 ? nsizes : 1);
     for (long j = 0; j < nsizes; j++) {
         embz_err_clear(&err);
