@@ -8,7 +8,7 @@ static const cli_opt_t error_opts[] = {
     { "size", 'n', CLI_VALUE, "N", "size n of the state: 1000, 1e6, 10^6, 2^20 (required)" },
     { "target", 't', CLI_VALUE, "T",
       "target state: ebit (default), ebits:J, uniform:D, or a list/file of numbers" },
-    { "prec", 'p', CLI_VALUE, "BITS", "working precision of the ball arithmetic (default 128)" },
+    { "prec", 'p', CLI_VALUE, "BITS", "working precision of the ball arithmetic (default 128; more bits show more certified digits)" },
     { "method", 'm', CLI_VALUE, "M", "auto (default), explicit or analytic" },
     { "measure", 0, CLI_VALUE, "M",
       "k (default: the distance K), fidelity, purified or overlap" },
@@ -35,9 +35,15 @@ static const cli_spec_t error_spec = {
 };
 
 #define DEFAULT_PREC 128
-#define JSON_DIGITS 45
+#define JSON_DIGITS_DEFAULT 45
 #define TABLE_DIGITS 20
-#define CERT_DIGITS 30
+#define CERT_DIGITS_DEFAULT 30
+/* digits shown: the defaults at the default precision, and about as many more as the extra
+ * bits carry above it (only certified digits are ever printed), so that --prec 1000 shows
+ * the hundred digits it buys instead of the same 30 */
+static long cert_digits = CERT_DIGITS_DEFAULT, json_digits = JSON_DIGITS_DEFAULT;
+#define CERT_DIGITS cert_digits
+#define JSON_DIGITS json_digits
 #define TABLE_INT_DIGITS 60
 
 static const char *method_name(int m)
@@ -359,6 +365,10 @@ int cli_cmd_error(int argc, char **argv)
         goto done;
     }
     if ((code = cli_load_prec(&prec, &a, &error_spec)) != 0) goto done;
+    if (prec > DEFAULT_PREC) {
+        cert_digits = CERT_DIGITS_DEFAULT + (long) ((prec - DEFAULT_PREC) * 0.30103);
+        json_digits = JSON_DIGITS_DEFAULT + (long) ((prec - DEFAULT_PREC) * 0.30103);
+    }
     if (method_text != NULL) {
         if (strcmp(method_text, "auto") == 0) method = EMBZ_METHOD_AUTO;
         else if (strcmp(method_text, "explicit") == 0) method = EMBZ_METHOD_EXPLICIT;
