@@ -52,8 +52,13 @@ static int put_decimal(sbuf_t *b, const fmpq_t x)
     int ok = 0;
     fmpz_init(q); fmpz_init(m); fmpz_init(t);
     fmpz_set(q, fmpq_denref(x));
-    while (fmpz_is_even(q)) { fmpz_fdiv_q_2exp(q, q, 1); a2++; }
-    while (fmpz_divisible_si(q, 5)) { fmpz_divexact_ui(q, q, 5); a5++; }
+    /* each factor removed in one step (one at a time was quadratic in the exponent) */
+    fmpz_t five;
+    fmpz_init_set_ui(five, 5);
+    a2 = fmpz_is_zero(q) ? 0 : fmpz_val2(q);
+    fmpz_fdiv_q_2exp(q, q, a2);
+    a5 = fmpz_remove(q, q, five);
+    fmpz_clear(five);
     if (fmpz_is_one(q)) {
         ok = 1;
         k = a2 > a5 ? a2 : a5;
@@ -65,8 +70,12 @@ static int put_decimal(sbuf_t *b, const fmpq_t x)
         if (k == 0) {
             /* integer: strip long runs of trailing zeros into an exponent */
             ulong z = 0;
-            if (!fmpz_is_zero(m))
-                while (fmpz_divisible_si(m, 10)) { fmpz_divexact_ui(m, m, 10); z++; }
+            if (!fmpz_is_zero(m)) {
+                fmpz_t ten;
+                fmpz_init_set_ui(ten, 10);
+                z = fmpz_remove(m, m, ten);
+                fmpz_clear(ten);
+            }
             if (z > 20 && z <= EMBZ_NUMBER_MAX_EXP) {   /* an exponent the parser reads */
                 char buf[32];
                 put_fmpz(b, m);
