@@ -881,6 +881,30 @@ START_TEST(test_weight_zero_at_n)
     arb_add_error_2exp_si(third, -100);
     ck_assert_msg(arb_overlaps(res->error, third) && arb_rel_accuracy_bits(res->error) > 60,
                   "n - i at 10^120 is not 1/3");
+    embz_family_clear(f);
+    /* 1/(i + n/10) at 10^70: nearly equal weights (relative spread 10 i/n) that the default
+     * precision did not order; the limit is max_x G(x) - G(x/2) with the profile
+     * G(x) = ln(1 + 10 x)/ln 11 on [0, 1], i.e. ln(11/6)/ln(11) at x = 1 [derived: G(x) -
+     * G(x/2) = ln((x + 1/10)/(x/2 + 1/10))/ln 11 increases up to x = 1, and 1 - G(x/2) falls
+     * beyond], with an O(1/n) finite-size correction */
+    resolve(f, "1/(i+n/10)", NULL, NULL);
+    ten_pow(n, 70);
+    embz_err_clear(&err);
+    ck_assert_msg(embz_error_analytic(res, f, n, q, 128, &err) == EMBZ_OK, "%s", err.text);
+    arb_set_ui(third, 11);
+    arb_div_ui(third, third, 6, 192);
+    arb_log(third, third, 192);
+    {
+        arb_t l11;
+        arb_init(l11);
+        arb_set_ui(l11, 11);
+        arb_log(l11, l11, 192);
+        arb_div(third, third, l11, 192);
+        arb_clear(l11);
+    }
+    arb_add_error_2exp_si(third, -180);
+    ck_assert_msg(arb_overlaps(res->error, third) && arb_rel_accuracy_bits(res->error) > 60,
+                  "1/(i+n/10) at 10^70 is not ln(11/6)/ln(11)");
     embz_error_result_clear(res);
     embz_target_clear(q);
     embz_family_clear(f);

@@ -1702,7 +1702,8 @@ static int setup(actx *c, slong M, int shared, slong prec, embz_err_t *err)
             if (cst != EMBZ_OK)
                 st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
                                   "the weight at i = %ld cannot be placed among the tail "
-                                  "weights at this precision", i + 1);
+                                  "weights at this precision (more bits, --prec, may help)",
+                                  i + 1);
             if (st != EMBZ_OK) break;
             arb_set(c->ins_val + c->nins, head + i);
             fmpz_set(cnt + c->nins, lo);
@@ -2947,9 +2948,15 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             }
             st = setup(&c, M, 0, wp, err);
             have_tail = 1;
-            if (st == EMBZ_ERR_DOMAIN && wp < prec + 32 + (slong) fmpz_bits(n)) {
+            if ((st == EMBZ_ERR_DOMAIN
+                 || (st == EMBZ_ERR_UNSUPPORTED && (slong) fmpz_bits(n) > prec - 16
+                     && (slong) fmpz_bits(n) <= 8 * prec))
+                && wp < prec + 32 + (slong) fmpz_bits(n)) {
                 /* a weight that uses n may only look negative or undefined because n was
-                 * rounded (n - i at i = n): once more with the bits of n */
+                 * rounded (n - i at i = n), or its weights differ by less than the precision
+                 * resolves (1/(i + n/10) at 10^70: the head cannot be placed among the tail
+                 * weights): once more with the bits of n (for the second kind only up to
+                 * 8 prec bits of n: 10^300 costs 20 s at 128 bits, 10^1000 over ten minutes) */
                 wp = prec + 32 + (slong) fmpz_bits(n);
                 c.prec = wp;
                 M /= 4;
