@@ -192,6 +192,10 @@ check "demo wrote the html" grep -q "<table" "$T/demo/embz-demo.html"
 check "demo leaves no temporary file" no_temp "$T/demo"
 
 # `embz report` with the defaults: HTML, escaping, Chromium screenshot
+# a size without an enclosure: '–' in the table, and the notes say why
+check "report of an uncertified size" "$EMBZ" report '1/(i+n/10)' --sizes 10^1000 --points 6 \
+    --to 10^20 --eps 0.3 -o "$T/nc.md"
+check "the notes name the reason" grep -q "E at n = 10^1000: not certified (the weight" "$T/nc.md"
 check "report with the defaults" "$EMBZ" report inverse -o "$T/r.html" --format html -q
 if [ -s "$T/r.html" ]; then
     check "report html" grep -q "<table" "$T/r.html"

@@ -195,6 +195,7 @@ typedef struct {
     int tfit_ok;
     arb_struct *err_at;          /* opts.nsizes enclosures */
     int *err_status;
+    char **err_why;              /* opts.nsizes: why a size has no enclosure (or NULL) */
     embz_size_result_struct *need;   /* opts.ngoals results (qubit resolution) */
     int *need_status;
     int *never;                  /* goal below the certified one-ebit limit */

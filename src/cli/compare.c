@@ -183,6 +183,7 @@ static void row_init(cli_compare_row_t *r, embz_family_struct *f, const cli_comp
     }
     for (slong j = 0; j < o->nsizes; j++) r->err_status[j] = -1;
     r->error_text = calloc((size_t) o->nsizes + 1, sizeof(char *));
+    r->err_why = calloc((size_t) o->nsizes + 1, sizeof(char *));
     r->need_n_text = calloc((size_t) o->ngoals + 1, sizeof(char *));
     r->need_q_text = calloc((size_t) o->ngoals + 1, sizeof(char *));
 }
@@ -211,6 +212,7 @@ void cli_compare_rows_clear(cli_compare_row_t *rows, long nfam, const cli_compar
         free(r->never);
         free(r->verdict); free(r->law); free(r->exponent); free(r->limit_text);
         free_strings(r->error_text, o->nsizes);
+        free_strings(r->err_why, o->nsizes);
         free_strings(r->need_n_text, o->ngoals);
         free_strings(r->need_q_text, o->ngoals);
         free(r->why);
@@ -304,6 +306,7 @@ static void compute_row(cli_compare_row_t *r, const cli_compare_opts_t *o)
             }
             r->err_status[j] = status;
             if (status == EMBZ_OK) arb_set(r->err_at + j, res->error);
+            else r->err_why[j] = sdup(err.text[0] ? err.text : "no enclosure");
             embz_error_result_clear(res);
             if (status == EMBZ_ERR_DOMAIN) {
                 embz_analytic_clear(eng);
@@ -571,6 +574,11 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
             free(e);
         }
     }
+    /* a size without an enclosure shows '–' in the table: the reason belongs here */
+    for (slong j = 0; j < o->nsizes; j++)
+        if (r->err_status[j] != EMBZ_OK && r->err_why[j] != NULL)
+            embz_buf_printf(&nb, "\n\nE at n = %s: not certified (%s).", o->size_text[j],
+                            r->err_why[j]);
     embz_buf_printf(&nb, "\n\nClassification (one ebit, sizes swept as set for this document):");
     for (slong k = 0; k < c->nreasons; k++)
         embz_buf_printf(&nb, "\n\n\xe2\x80\xa2 %s", c->reasons[k]);
