@@ -1294,6 +1294,49 @@ END_TEST
 /* Constant folding (embz_expr_fold, also done by embz_expr_bind): a subtree whose value is an exact rational independent of i and n becomes
  * one number (exact rational arithmetic, FLINT's fmpq, as the reference); irrational or
  * undefined constants stay for the evaluators. */
+/* Exact evaluation (FLINT's rationals as the reference): rational where the value is, refused
+ * where it is not */
+START_TEST(test_eval_fmpq)
+{
+    static const struct { const char *text; long i, n; const char *value; } tab[] = {
+        { "1/i", 3, 10, "1/3" }, { "(n-i)^2/n", 4, 10, "18/5" }, { "i^-2 + abs(1-i)", 2, 5, "5/4" },
+        { "floor(n/i)*min(i, 2)", 3, 10, "6" }, { "max(0.5, 1/i)", 4, 4, "1/2" },
+    };
+    for (size_t k = 0; k < sizeof(tab) / sizeof(tab[0]); k++) {
+        embz_expr_t e;
+        fmpq_t v, want;
+        fmpz_t i, n;
+        embz_expr_init(e);
+        fmpq_init(v); fmpq_init(want);
+        fmpz_init_set_si(i, tab[k].i); fmpz_init_set_si(n, tab[k].n);
+        parse_ok(e, tab[k].text);
+        ck_assert_int_eq(embz_expr_eval_fmpq(v, e, i, n), EMBZ_OK);
+        ck_assert_int_eq(fmpq_set_str(want, tab[k].value, 10), 0);
+        ck_assert_msg(fmpq_equal(v, want), "%s", tab[k].text);
+        fmpq_clear(v); fmpq_clear(want);
+        fmpz_clear(i); fmpz_clear(n);
+        embz_expr_clear(e);
+    }
+    static const struct { const char *text; int st; } no[] = {
+        { "log(i)", EMBZ_ERR_UNSUPPORTED }, { "i^0.5", EMBZ_ERR_UNSUPPORTED },
+        { "1/(i-2)", EMBZ_ERR_DOMAIN }, { "pi*i", EMBZ_ERR_UNSUPPORTED },
+    };
+    for (size_t k = 0; k < sizeof(no) / sizeof(no[0]); k++) {
+        embz_expr_t e;
+        fmpq_t v;
+        fmpz_t i;
+        embz_expr_init(e);
+        fmpq_init(v);
+        fmpz_init_set_si(i, 2);
+        parse_ok(e, no[k].text);
+        ck_assert_int_eq(embz_expr_eval_fmpq(v, e, i, i), no[k].st);
+        fmpq_clear(v);
+        fmpz_clear(i);
+        embz_expr_clear(e);
+    }
+}
+END_TEST
+
 START_TEST(test_fold_constants)
 {
     static const struct { const char *text, *value; } tab[] = {
@@ -1377,6 +1420,7 @@ static Suite *expr_suite(void)
     tcase_add_test(tc, test_acb);
     tcase_add_test(tc, test_log_split);
     tcase_add_test(tc, test_fold_constants);
+    tcase_add_test(tc, test_eval_fmpq);
     suite_add_tcase(s, tc);
     return s;
 }

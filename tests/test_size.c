@@ -268,6 +268,49 @@ START_TEST(test_power_never)
 }
 END_TEST
 
+/* Exact ties: a goal equal to E_n itself. The enclosures straddle it at every precision; the
+ * exact goal decides it in rational arithmetic. 1/i: E_4 = 1 - H_2/H_4 = 7/25 (closed form
+ * of notes section 6, FLINT's harmonic numbers), so eps = 0.28 is reached first at n = 4;
+ * every goal E_n for n = 2..40 (ebit, uniform:3) must give exactly that smallest n. Weights
+ * i with target (0.7, 0.3): E_1 = K(1 -> (0.7, 0.3)) = 0.3. */
+START_TEST(test_exact_ties)
+{
+    embz_family_t f;
+    embz_target_t q;
+    embz_size_result_t r;
+    embz_err_t err;
+    fmpq_t eps;
+    fmpq_init(eps);
+    family(f, "1/i");
+    for (ulong d = 2; d <= 3; d++) {
+        target_uniform(q, d);
+        for (ulong n = 2; n <= 40; n += (n < 8 ? 1 : 7)) {
+            inverse_error_exact(eps, n, d);
+            ulong want = inverse_smallest(eps, d, n);
+            embz_size_result_init(r);
+            embz_err_clear(&err);
+            ck_assert_int_eq(embz_size_solve_exact_goal(r, f, eps, q, 128, 0, &err), EMBZ_OK);
+            ck_assert_msg(r->status == EMBZ_SIZE_FOUND && fmpz_equal_ui(r->n, want),
+                          "d=%lu goal E_%lu: status %d", d, n, r->status);
+            embz_size_result_clear(r);
+        }
+        embz_target_clear(q);
+    }
+    embz_family_clear(f);
+    family(f, "i");
+    embz_target_init(q);
+    ck_assert_int_eq(embz_target_parse(q, "0.7,0.3", 0, &err), EMBZ_OK);
+    fmpq_set_si(eps, 3, 10);
+    embz_size_result_init(r);
+    ck_assert_int_eq(embz_size_solve_exact_goal(r, f, eps, q, 128, 0, &err), EMBZ_OK);
+    ck_assert_msg(r->status == EMBZ_SIZE_FOUND && fmpz_is_one(r->n), "i, 0.7,0.3, 3/10");
+    embz_size_result_clear(r);
+    embz_target_clear(q);
+    embz_family_clear(f);
+    fmpq_clear(eps);
+}
+END_TEST
+
 START_TEST(test_bad_goal)
 {
     embz_family_t f;
@@ -299,6 +342,7 @@ int main(void)
     tcase_add_test(tc, test_inverse_large_and_qubits);
     tcase_add_test(tc, test_power_never);
     tcase_add_test(tc, test_bad_goal);
+    tcase_add_test(tc, test_exact_ties);
     suite_add_tcase(s, tc);
     return tu_run_suite(s);
 }

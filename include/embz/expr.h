@@ -111,6 +111,12 @@ char *embz_expr_to_string(const embz_expr_t e);
  * columns are ignored). */
 int embz_expr_equal(const embz_expr_t x, const embz_expr_t y);
 
+/* Exact value at integers i, n when the expression is rational there (numbers, i, n,
+ * + - * /, integer powers up to 255, abs, floor, min, max; parameters once bound).
+ * EMBZ_ERR_UNSUPPORTED for anything else (constants, log, sqrt, ...), EMBZ_ERR_DOMAIN for a
+ * division by zero or 0 to a power <= 0. */
+int embz_expr_eval_fmpq(fmpq_t res, const embz_expr_t e, const fmpz_t i, const fmpz_t n);
+
 /* Double evaluation (fast path, not certified). Returns NaN when undefined (log of
  * non-positive, etc.), when any intermediate value is not finite (overflow included), and
  * for unbound parameters. */

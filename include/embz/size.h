@@ -52,4 +52,12 @@ int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t e
 int embz_size_solve_qubits(embz_size_result_t res, const embz_family_t f, const arb_t eps,
                            const embz_target_t q, slong prec, embz_err_t *err);
 
+/* Either search (qubits_only selects) for an exact rational goal: where an enclosure still
+ * straddles eps at the highest precision, a small size (n <= 4096, n entries times the
+ * target's at most 65536) whose weights are rational at the integers (embz_expr_eval_fmpq)
+ * is decided exactly, so that E_n = eps exactly counts as reaching the goal. */
+int embz_size_solve_exact_goal(embz_size_result_t res, const embz_family_t f, const fmpq_t eps,
+                               const embz_target_t q, slong prec, int qubits_only,
+                               embz_err_t *err);
+
 #endif

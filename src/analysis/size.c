@@ -20,10 +20,61 @@ typedef struct {
     slong prec;
     arb_t eps;
     embz_analytic_t an[SIZE_PREC_STEPS];
-    int used_explicit, used_analytic;
+    int used_explicit, used_analytic, used_exact;
     int qubits_only;
     long evals;
+    int have_qeps;       /* the goal as an exact rational (qeps), for exact ties */
+    fmpq_t qeps;
 } sctx;
+
+/* Exact E_n for small n when every weight is rational (embz_expr_eval_fmpq) and the target
+ * with n entries is small: K(p -> p (x) q) in FLINT's rationals. Returns 0 when not
+ * applicable. */
+#define SIZE_EXACT_MAX_N 4096
+#define SIZE_EXACT_MAX_ENTRIES 65536
+static int exact_error(fmpq_t E, const sctx *c, const fmpz_t n)
+{
+    if (fmpz_cmp_si(n, SIZE_EXACT_MAX_N) > 0) return 0;
+    slong nn = fmpz_get_si(n);
+    slong m = c->q->kind == EMBZ_TARGET_UNIFORM ? (slong) c->q->d : c->q->q->len;
+    if (c->q->kind == EMBZ_TARGET_UNIFORM && c->q->d > SIZE_EXACT_MAX_ENTRIES) return 0;
+    if (nn * m > SIZE_EXACT_MAX_ENTRIES) return 0;
+    embz_qvec_t p, r;
+    embz_qvec_init(p); embz_qvec_init(r);
+    p->p = _fmpq_vec_init(nn);
+    p->len = nn;
+    fmpq_t W;
+    fmpz_t i;
+    fmpq_init(W);
+    fmpz_init(i);
+    int ok = 1;
+    for (slong k = 0; k < nn && ok; k++) {
+        fmpz_set_si(i, k + 1);
+        ok = embz_expr_eval_fmpq(p->p + k, c->f->weight, i, n) == EMBZ_OK
+             && fmpq_sgn(p->p + k) >= 0;
+        if (ok) fmpq_add(W, W, p->p + k);
+    }
+    ok = ok && fmpq_sgn(W) > 0;
+    if (ok) {
+        for (slong k = 0; k < nn; k++) fmpq_div(p->p + k, p->p + k, W);
+        r->p = _fmpq_vec_init(nn * m);
+        r->len = nn * m;
+        fmpq_t qj;
+        fmpq_init(qj);
+        for (slong j = 0; j < m; j++) {
+            if (c->q->kind == EMBZ_TARGET_UNIFORM) fmpq_set_si(qj, 1, c->q->d);
+            else fmpq_set(qj, c->q->q->p + j);
+            for (slong k = 0; k < nn; k++) fmpq_mul(r->p + j * nn + k, p->p + k, qj);
+        }
+        fmpq_clear(qj);
+        long argk;
+        embz_qvec_distance(E, &argk, p, r);
+    }
+    embz_qvec_clear(p); embz_qvec_clear(r);
+    fmpq_clear(W);
+    fmpz_clear(i);
+    return ok;
+}
 
 void embz_size_result_init(embz_size_result_t r)
 {
@@ -90,6 +141,17 @@ static int side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
          * enclosure's upper end was left at the trivial 1 */
         if (res->decided > 0) { *sd = 1; break; }
         if (res->decided < 0) { *sd = -1; break; }
+    }
+    if (st == EMBZ_OK && *sd == 0 && c->have_qeps) {
+        /* undecided at every precision: an exact tie is decided in exact arithmetic */
+        fmpq_t Eq;
+        fmpq_init(Eq);
+        if (exact_error(Eq, c, n)) {
+            *sd = fmpq_cmp(Eq, c->qeps) <= 0 ? -1 : 1;
+            arb_set_fmpq(E, Eq, c->prec);
+            c->used_exact = 1;
+        }
+        fmpq_clear(Eq);
     }
     embz_error_result_clear(res);
     return st;
@@ -248,7 +310,8 @@ static int small_sizes_excluded(sctx *c, slong N)
 }
 
 static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
-                      const embz_target_t q, slong prec, int qubits_only, embz_err_t *err);
+                      const fmpq *qeps, const embz_target_t q, slong prec,
+                      int qubits_only, embz_err_t *err);
 
 /* Full enclosures (no decision mode) at the sizes the result reports. */
 static int final_enclosures(embz_size_result_t res, sctx *c, embz_err_t *err)
@@ -270,20 +333,35 @@ static int final_enclosures(embz_size_result_t res, sctx *c, embz_err_t *err)
 int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
                     const embz_target_t q, slong prec, embz_err_t *err)
 {
-    return size_solve(res, f, eps, q, prec, 0, err);
+    return size_solve(res, f, eps, NULL, q, prec, 0, err);
 }
 
 int embz_size_solve_qubits(embz_size_result_t res, const embz_family_t f, const arb_t eps,
                            const embz_target_t q, slong prec, embz_err_t *err)
 {
-    return size_solve(res, f, eps, q, prec, 1, err);
+    return size_solve(res, f, eps, NULL, q, prec, 1, err);
+}
+
+int embz_size_solve_exact_goal(embz_size_result_t res, const embz_family_t f, const fmpq_t eps,
+                               const embz_target_t q, slong prec, int qubits_only,
+                               embz_err_t *err)
+{
+    arb_t e;
+    arb_init(e);
+    arb_set_fmpq(e, eps, 4 * prec);
+    int st = size_solve(res, f, e, eps, q, prec, qubits_only, err);
+    arb_clear(e);
+    return st;
 }
 
 static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
-                      const embz_target_t q, slong prec, int qubits_only, embz_err_t *err)
+                      const fmpq *qeps, const embz_target_t q, slong prec,
+                      int qubits_only, embz_err_t *err)
 {
     sctx c;
     memset(&c, 0, sizeof(c));
+    fmpq_init(c.qeps);
+    if (qeps != NULL) { fmpq_set(c.qeps, qeps); c.have_qeps = 1; }
     c.qubits_only = qubits_only;
     res->qubits_only = qubits_only;
     c.f = f;
@@ -457,10 +535,12 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
         st = final_enclosures(res, &c, err);
 done:
     res->evaluations = c.evals;
-    snprintf(res->method, sizeof(res->method), "%s%s%s",
+    snprintf(res->method, sizeof(res->method), "%s%s%s%s",
              c.used_explicit ? "explicit" : "",
              (c.used_explicit && c.used_analytic) ? " and " : "",
-             c.used_analytic ? "analytic (decision mode)" : "");
+             c.used_analytic ? "analytic (decision mode)" : "",
+             c.used_exact ? "; an exact tie decided in rational arithmetic" : "");
+    fmpq_clear(c.qeps);
     for (int s = 0; s < SIZE_PREC_STEPS; s++) embz_analytic_clear(c.an[s]);
     arb_clear(c.eps);
     fmpz_clear(n); fmpz_clear(nlo); fmpz_clear(nhi); fmpz_clear(m);

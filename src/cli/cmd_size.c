@@ -292,20 +292,24 @@ int cli_cmd_size(int argc, char **argv)
             arb_set_arf(g[1], lo);
             arf_clear(lo);
         }
-        fmpq_clear(e);
         for (int part = 0; part < (purified ? 2 : 1); part++) {
             embz_size_result_t r;
             embz_err_t err;
             char reason[300];
             embz_err_clear(&err);
             embz_size_result_init(r);
-            int status = cli_flag(&a, "qubits")
+            /* K's goal is the exact decimal (ties at small n decided exactly); the purified
+             * distance's derived goal is a ball */
+            int status = part == 0
+                ? embz_size_solve_exact_goal(r, fam, e, q, prec, cli_flag(&a, "qubits"), &err)
+                : cli_flag(&a, "qubits")
                 ? embz_size_solve_qubits(r, fam, g[part], q, prec, &err)
                 : embz_size_solve(r, fam, g[part], q, prec, &err);
             if (status != EMBZ_OK) {
                 code = cli_report("size", status, &err);
                 embz_size_result_clear(r);
                 arb_clear(g[0]); arb_clear(g[1]);
+                fmpq_clear(e);
                 goto done;
             }
             char label[128];
@@ -339,6 +343,7 @@ int cli_cmd_size(int argc, char **argv)
             embz_size_result_clear(r);
         }
         arb_clear(g[0]); arb_clear(g[1]);
+        fmpq_clear(e);
     }
     if (json) embz_buf_printf(&out, "]}\n");
     fputs(out.s, stdout);
