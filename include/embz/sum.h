@@ -128,6 +128,8 @@ typedef struct {
     int have_decide;
     arf_t decide, decide_lo;       /* decision threshold: the upper and lower ends of its ball
                                       (see embz_analytic_set_decision) */
+    const volatile int *cancel;    /* borrowed, may be NULL: the search stops when nonzero */
+    double deadline;               /* CLOCK_MONOTONIC seconds; 0: none */
 } embz_analytic_struct;
 typedef embz_analytic_struct embz_analytic_t[1];
 
@@ -140,6 +142,12 @@ int embz_analytic_prepare(embz_analytic_t a, const fmpz_t nmax, embz_err_t *err)
  * Used by size searches that only need the side of an error goal. */
 void embz_analytic_set_decision(embz_analytic_t a, const arb_t threshold);
 void embz_analytic_clear_decision(embz_analytic_t a);
+/* Limits for callers that must be able to stop a computation (a notebook, a long scan): the
+ * searches check *cancel (when cancel is not NULL) and the clock (when seconds > 0, counted
+ * from this call) between steps, and an evaluation stopped that way fails with
+ * EMBZ_ERR_LIMIT ("stopped: ...") instead of returning a wider enclosure. The object stays
+ * usable; call again with NULL, 0 to lift the limits. */
+void embz_analytic_set_limits(embz_analytic_t a, const volatile int *cancel, double seconds);
 /* E_n(q) for a uniform target (embz_error_analytic is init + this + clear). */
 int embz_analytic_error(embz_error_result_t res, embz_analytic_t a, const fmpz_t n,
                         const embz_target_t q, embz_err_t *err);

@@ -71,7 +71,27 @@ typedef struct {
     arf_t tol;           /* intervals whose bound is within tol of the best value are settled */
     long evals;
     slong prec;
+    const volatile int *cancel; /* limits of the caller (embz_analytic_set_limits) */
+    double deadline;
+    int stopped;                /* 1 cancelled, 2 past the deadline */
 } actx;
+
+#include <time.h>
+static double mono_seconds(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
+}
+
+/* 1 when the caller's limits say stop (and c->stopped says why) */
+static int should_stop(actx *c)
+{
+    if (c->stopped) return 1;
+    if (c->cancel != NULL && *c->cancel) c->stopped = 1;
+    else if (c->deadline > 0 && mono_seconds() > c->deadline) c->stopped = 2;
+    return c->stopped != 0;
+}
 
 /* ---------- tail positions (1-based, real balls) ---------- */
 
@@ -1447,6 +1467,7 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
             fmpz_set(stk, Slo); fmpz_set(stk + 1, Shi); top = 1;
         }
         while (st == EMBZ_OK && top > 0) {
+            if (should_stop(c)) { st = EMBZ_ERR_LIMIT; break; }
             if (c->decide != NULL && arb_is_finite(c->best)) {
                 /* decision mode: a proven value above the threshold settles it */
                 arb_get_lbound_arf(blo, c->best, prec);
@@ -1528,6 +1549,7 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
     }
     /* best first: always refine the interval with the largest bound */
     while (st == EMBZ_OK && hp.len > 0) {
+        if (should_stop(c)) { st = EMBZ_ERR_LIMIT; break; }
         arb_get_ubound_arf(bhi, c->best, prec);
         arf_sub(gap, hp.v[0].U, bhi, prec, ARF_RND_UP);
         if (arf_cmp(gap, tol) <= 0 || c->evals > BB_BUDGET) break;
@@ -2590,6 +2612,7 @@ static int threshold_search(arf_t lo, arf_t hi, actx *c, const th_target *q, slo
     }
     slong evals = 0;
     while (st == EMBZ_OK && len > 0) {
+        if (should_stop(c)) { st = EMBZ_ERR_LIMIT; break; }
         /* the item with the largest bound */
         slong top = 0;
         for (slong i = 1; i < len; i++) if (arf_cmp(h[i].U, h[top].U) > 0) top = i;
@@ -2714,6 +2737,12 @@ void embz_analytic_set_decision(embz_analytic_t a, const arb_t threshold)
     arb_get_lbound_arf(a->decide_lo, threshold, 4 * a->prec);
 }
 
+void embz_analytic_set_limits(embz_analytic_t a, const volatile int *cancel, double seconds)
+{
+    a->cancel = cancel;
+    a->deadline = seconds > 0 ? mono_seconds() + seconds : 0;
+}
+
 void embz_analytic_clear_decision(embz_analytic_t a)
 {
     if (a->have_decide) { arf_clear(a->decide); arf_clear(a->decide_lo); }
@@ -2806,6 +2835,13 @@ static int vector_target_bounds(embz_error_result_t res, embz_analytic_t an, con
                               m, TH_SEARCH_TERMS);
         else
             ts = analytic_run(rl, an, n, q, &e2);
+        if (ts != EMBZ_OK && ((an->cancel != NULL && *an->cancel)
+                              || (an->deadline > 0 && mono_seconds() > an->deadline))) {
+            /* stopped by the caller's limits: a failure, not the bracket alone */
+            if (err != NULL) *err = e2;
+            st = ts;
+            goto out;
+        }
         int tight = 0, rdec = rl->decided;
         if (ts == EMBZ_OK) {
             arf_t a, b;
@@ -2905,6 +2941,8 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
     c.prec = wp;
     c.decide = an->have_decide ? an->decide : NULL;
     c.decide_lo = an->have_decide ? an->decide_lo : NULL;
+    c.cancel = an->cancel;
+    c.deadline = an->deadline;
     fmpz_init_set(c.n, n);
     fmpz_init_set(c.ntrue, n);
     fmpz_init(c.L);
@@ -3116,6 +3154,9 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
                      (long) c.M, c.evals, c.t->evals, c.t->integrals, (long) prec,
                      c.search_open ? "; search budget reached" : "");
             arf_clear(lo); arf_clear(hi);
+        } else if (c.stopped) {
+            embz_err_set(err, EMBZ_ERR_LIMIT, "stopped: %s", c.stopped == 1
+                         ? "cancelled by the caller" : "the time limit was reached");
         } else {
             embz_err_set(err, st, vector && st == EMBZ_ERR_PREC
                          ? "weights tie with a threshold: more bits needed"
