@@ -524,14 +524,14 @@ START_TEST(test_scan_shards)
     ck_assert_int_eq(embz_grid_axis_parse(&ax, "a=-1.5:-0.5:5", &err), EMBZ_OK);
     embz_scan_t full;
     embz_scan_init(full);
-    ck_assert_int_eq(embz_scan_run(full, f, &ax, 1, 0, 1, 2, o, &err), EMBZ_OK);
+    ck_assert_int_eq(embz_scan_run(full, f, &ax, 1, 0, 1, 2, o, NULL, NULL, &err), EMBZ_OK);
     ck_assert_int_eq(full->len, 5);
     ck_assert_int_eq(full->total, 5);
     slong next = 0;
     for (slong sh = 0; sh < 3; sh++) {
         embz_scan_t part;
         embz_scan_init(part);
-        ck_assert_int_eq(embz_scan_run(part, f, &ax, 1, sh, 3, 1, o, &err), EMBZ_OK);
+        ck_assert_int_eq(embz_scan_run(part, f, &ax, 1, sh, 3, 1, o, NULL, NULL, &err), EMBZ_OK);
         for (slong r = 0; r < part->len; r++, next++) {
             ck_assert_int_eq(part->rows[r].index, next);
             ck_assert(fmpq_equal(part->rows[r].values, full->rows[next].values));
@@ -550,7 +550,7 @@ START_TEST(test_scan_shards)
     /* unknown parameter */
     embz_grid_axis_struct bad;
     ck_assert_int_eq(embz_grid_axis_parse(&bad, "zz=0:1:3", &err), EMBZ_OK);
-    ck_assert_int_eq(embz_scan_run(full, f, &bad, 1, 0, 1, 1, o, &err), EMBZ_ERR_INPUT);
+    ck_assert_int_eq(embz_scan_run(full, f, &bad, 1, 0, 1, 1, o, NULL, NULL, &err), EMBZ_ERR_INPUT);
     embz_grid_axis_clear(&bad);
     ck_assert_int_eq(embz_grid_axis_parse(&bad, "a=0:1", &err), EMBZ_ERR_INPUT);
     embz_grid_axis_clear(&bad);

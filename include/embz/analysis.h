@@ -202,6 +202,7 @@ void embz_scan_clear(embz_scan_t s);
  * or EMBZ_ERR_INPUT for a bad grid (unknown parameter name, empty). */
 int embz_scan_run(embz_scan_t s, const embz_family_t f, const embz_grid_axis_struct *axes,
                   slong naxes, slong shard, slong nshards, int threads,
-                  const embz_classify_opts_t o, embz_err_t *err);
+                  const embz_classify_opts_t o, embz_progress_fn progress, void *ctx,
+                  embz_err_t *err);
 
 #endif

@@ -128,7 +128,8 @@ static void classify_opts_copy(embz_classify_opts_t d, const embz_classify_opts_
 
 int embz_scan_run(embz_scan_t s, const embz_family_t f, const embz_grid_axis_struct *axes,
                   slong naxes, slong shard, slong nshards, int threads,
-                  const embz_classify_opts_t o, embz_err_t *err)
+                  const embz_classify_opts_t o, embz_progress_fn progress, void *ctx,
+                  embz_err_t *err)
 {
     embz_scan_clear(s);
     if (naxes < 1) return embz_err_set(err, EMBZ_ERR_INPUT, "the grid has no axis");
@@ -185,7 +186,7 @@ int embz_scan_run(embz_scan_t s, const embz_family_t f, const embz_grid_axis_str
         row->status = EMBZ_ERR_UNSUPPORTED;
     }
 
-    slong len = s->len;
+    slong len = s->len, done = 0;
 #ifdef _OPENMP
 #pragma omp parallel for schedule(dynamic, 1) num_threads(threads > 0 ? threads : 1)
 #else
@@ -208,6 +209,12 @@ int embz_scan_run(embz_scan_t s, const embz_family_t f, const embz_grid_axis_str
         embz_fitset_clear(row->c->fits);
         embz_classify_opts_clear(oo);
         embz_family_clear(g);
+        if (progress != NULL) {
+#ifdef _OPENMP
+#pragma omp critical(embz_scan_progress)
+#endif
+            progress(ctx, ++done, len);
+        }
     }
     free(pidx);
     return EMBZ_OK;

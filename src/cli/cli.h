@@ -135,6 +135,7 @@ typedef struct {
     double t0;
     int shown;                   /* the bar has been drawn */
     int clear_when_done;         /* erase the bar when done == total */
+    const char *unit;            /* what is counted ("sizes" unless set after start) */
 } cli_progress_t;
 /* Starts the clock; returns cli_progress_cb when stderr is a terminal, else NULL. */
 embz_progress_fn cli_progress_start(cli_progress_t *p, int clear_when_done);

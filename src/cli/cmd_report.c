@@ -116,7 +116,7 @@ static int grid_maps(embz_plot_t fig, slong *npanels, embz_family_struct *fam, l
         embz_err_t err;
         embz_err_clear(&err);
         embz_scan_init(sc);
-        int st = embz_scan_run(sc, fam + i, axes, naxes, 0, 1, o->threads, co, &err);
+        int st = embz_scan_run(sc, fam + i, axes, naxes, 0, 1, o->threads, co, NULL, NULL, &err);
         if (st != EMBZ_OK) {
             code = cli_report("report", st, &err);
             embz_scan_clear(sc);

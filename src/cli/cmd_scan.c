@@ -144,7 +144,12 @@ int cli_cmd_scan(int argc, char **argv)
     }
     if (code != 0) goto done;
     embz_err_clear(&err);
-    status = embz_scan_run(sc, fam, axes, naxes, shard - 1, nshards, (int) threads, o, &err);
+    cli_progress_t prog;
+    embz_progress_fn show = cli_progress_start(&prog, 0);
+    prog.unit = "grid points";
+    status = embz_scan_run(sc, fam, axes, naxes, shard - 1, nshards, (int) threads, o, show,
+                           &prog, &err);
+    cli_progress_end(&prog);
     if (status != EMBZ_OK) {
         code = cli_report("scan", status, &err);
         goto done;

@@ -5,7 +5,7 @@
 #include "cli.h"
 
 #define BAR_WIDTH 30
-#define CLEAR_WIDTH 70
+#define CLEAR_WIDTH 100
 
 double cli_now(void)
 {
@@ -19,6 +19,7 @@ embz_progress_fn cli_progress_start(cli_progress_t *p, int clear_when_done)
     p->t0 = cli_now();
     p->shown = 0;
     p->clear_when_done = clear_when_done;
+    p->unit = "sizes";
     return isatty(fileno(stderr)) ? cli_progress_cb : NULL;
 }
 
@@ -32,7 +33,13 @@ void cli_progress_cb(void *ctx, slong done, slong total)
     char bar[BAR_WIDTH + 1];
     for (int k = 0; k < BAR_WIDTH; k++) bar[k] = k < fill ? '#' : '.';
     bar[BAR_WIDTH] = '\0';
-    fprintf(stderr, "\r[%s] %ld/%ld sizes, %.1f s", bar, (long) done, (long) total, el);
+    /* the time left, extrapolated from the pace so far, is an estimate and says so */
+    if (done > 0 && done < total)
+        fprintf(stderr, "\r[%s] %ld/%ld %s, %.1f s, about %.0f s left (estimate)  ", bar,
+                (long) done, (long) total, p->unit, el, el * (double) (total - done) / (double) done);
+    else
+        fprintf(stderr, "\r[%s] %ld/%ld %s, %.1f s%*s", bar, (long) done, (long) total, p->unit,
+                el, 28, "");
     if (p->clear_when_done && done == total) fprintf(stderr, "\r%*s\r", CLEAR_WIDTH, "");
     fflush(stderr);
 }
