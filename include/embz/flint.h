@@ -1,13 +1,19 @@
 /* The one place that knows where FLINT and arb live.
  * FLINT 2.9 (Debian 12): arb is libflint-arb with top-level headers (arb.h, acb.h, ...).
- * FLINT 3: arb is merged into FLINT (<flint/arb.h>). meson sets EMBZ_FLINT3. */
+ * FLINT 3: arb is merged into FLINT (<flint/arb.h>). The header itself finds out which one
+ * is installed (so that it needs no generated file and works the same in the source tree and
+ * in an installed prefix); EMBZ_FLINT3 may also be defined by hand. */
 #ifndef EMBZ_FLINT_H
 #define EMBZ_FLINT_H
 
 #include <stdio.h>
 #include <gmp.h>
 #include <mpfr.h>
-#include "embz_config.h"
+#if !defined(EMBZ_FLINT3) && defined(__has_include)
+#if __has_include(<flint/arb.h>)
+#define EMBZ_FLINT3 1
+#endif
+#endif
 
 #ifdef EMBZ_FLINT3
 #include <flint/flint.h>

@@ -1,0 +1,45 @@
+#!/bin/bash
+# The installed library: `meson install` into a temporary folder, then examples/certified_error.c
+# is compiled against that prefix with pkg-config alone and must print the same certified E as
+# `embz error` for the same weight.
+# $1 build dir, $2 source dir, $3 embz binary, $4 b_sanitize of the build.
+set -u
+BUILD=$1 SRC=$2 EMBZ=$3 SAN=${4:-none}
+if [ "$SAN" != "none" ]; then
+    echo "sanitizer build: the example is not built against an instrumented library"
+    exit 77
+fi
+command -v pkg-config >/dev/null || { echo "pkg-config absent"; exit 77; }
+D=$(mktemp -d)
+trap 'rm -rf "$D"' EXIT
+fail=0
+if ! meson install -C "$BUILD" --destdir "$D/root" --quiet >"$D/install.log" 2>&1; then
+    cat "$D/install.log"; echo "FAIL meson install"; exit 1
+fi
+pc=$(find "$D/root" -name embz.pc | head -1)
+[ -n "$pc" ] || { echo "FAIL no embz.pc installed"; exit 1; }
+prefix=$(sed -n 's/^prefix=//p' "$pc")
+mkdir "$D/pc"
+sed "s|^prefix=.*|prefix=$D/root$prefix|" "$pc" >"$D/pc/embz.pc"
+for f in include/embz.h include/embz/flint.h include/embz/measure.h; do
+    [ -f "$D/root$prefix/$f" ] || { echo "FAIL $f not installed"; fail=1; }
+done
+[ -n "$(find "$D/root" -name 'libembz.so*' | head -1)" ] || { echo "FAIL no shared library"; fail=1; }
+[ -n "$(find "$D/root" -name 'libembz.a' | head -1)" ] || { echo "FAIL no static library"; fail=1; }
+[ -n "$(find "$D/root" -name 'embz.1*' | head -1)" ] || { echo "FAIL no man page"; fail=1; }
+[ -n "$(find "$D/root" -path '*embz/families/inverse.fam' | head -1)" ] || { echo "FAIL no family library"; fail=1; }
+flags=$(PKG_CONFIG_PATH="$D/pc" pkg-config --cflags --libs embz) || { echo "FAIL pkg-config"; exit 1; }
+case "$flags" in *"$BUILD"*|*"$SRC"*) echo "FAIL pkg-config points into the build or source tree: $flags"; fail=1;; esac
+if ! cc -std=c11 -o "$D/example" "$SRC/examples/certified_error.c" $flags 2>"$D/cc.log"; then
+    cat "$D/cc.log"; echo "FAIL the example does not compile against the installed prefix"; exit 1
+fi
+libdir=$(dirname "$(find "$D/root" -name 'libembz.so' | head -1)")
+out=$(LD_LIBRARY_PATH="$libdir" "$D/example" '1/(i*log(i+1))') || { echo "FAIL example run"; exit 1; }
+echo "$out"
+want=$("$EMBZ" error '1/(i*log(i+1))' -n 10^30 | sed -n 's/^error *\([0-9.e-]*\) .*/\1/p')
+case "$out" in
+    *": $want (certified digits)") echo "ok   example agrees with embz error ($want)";;
+    *) echo "FAIL example says '$out', embz error says '$want'"; fail=1;;
+esac
+[ "$fail" = 0 ] && echo "1 passed, 0 failed" || echo "0 passed, 1 failed"
+exit $fail
