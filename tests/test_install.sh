@@ -2,7 +2,8 @@
 # The installed library: `meson install` into a temporary folder, then examples/certified_error.c
 # is compiled against that prefix with pkg-config alone and must print the same certified E as
 # `embz error` for the same weight.
-# $1 build dir, $2 source dir, $3 embz binary, $4 b_sanitize of the build.
+# $1 build dir, $2 source dir, $3 embz binary, $4 b_sanitize of the build ('fuzzer' for a
+# -Dfuzz=true build, whose library is instrumented by hand).
 set -u
 BUILD=$1 SRC=$2 EMBZ=$3 SAN=${4:-none}
 if [ "$SAN" != "none" ]; then
