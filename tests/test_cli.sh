@@ -363,5 +363,17 @@ run error '(i/100)^50' -n 100; expect_rc 0 "(i/100)^50 at n = 100"
 b=$(printf '%s' "$out" | grep '^enclosure')
 if [ -n "$a" ] && [ "$a" = "$b" ]; then ok; else fail "i^50 and (i/100)^50 differ: '$a' '$b'"; fi
 
+# constants outside double range inside the weight (1e-400/i, 1e400/i underflowed or
+# overflowed in the double pass: 'all weights are zero', exit 2): estimates from ball values,
+# and the same enclosure as 1/i (E does not change under a common factor)
+run error '1/i' -n 100; a=$(printf '%s' "$out" | grep '^enclosure')
+for w in '1e-400/i' '1e400/i'; do
+    run error "$w" -n 100; expect_rc 0 "$w at n = 100"
+    b=$(printf '%s' "$out" | grep '^enclosure')
+    if [ -n "$a" ] && [ "$a" = "$b" ]; then ok; else fail "$w and 1/i differ: '$a' '$b'"; fi
+done
+run error 'exp(-1000*i)' -n 10; expect_rc 0 "exp(-1000 i) at n = 10"
+expect_out "0.49999999999999999999, 0.50000000000000000001" "exp(-1000 i): E = p_1/2 to 1e-400"
+
 echo "$((checks - fails)) passed, $fails failed"
 [ "$fails" -eq 0 ]

@@ -959,6 +959,64 @@ int embz_error_explicit_estimate(double *E, slong *argk, int *order, const embz_
     return EMBZ_OK;
 }
 
+/* The estimate pass from ball values (for weights whose double evaluation fails even after
+ * scaling): every weight in arb at 64 bits, scaled by 2^k with k bringing the largest near 1,
+ * rounded to double, stored and sorted (n <= EMBZ_EXPLICIT_SORTED_MAX_N). Two passes over the
+ * weights (the largest exponent, then the values) keep the memory at n doubles. */
+static int arb_estimate_pass(dres_t *R, slong *k, const embz_family_t f, slong n,
+                             const tdata_t *T, embz_err_t *err)
+{
+    if (n > EMBZ_EXPLICIT_SORTED_MAX_N)
+        return embz_err_set(err, EMBZ_ERR_LIMIT, "weights outside double range are limited "
+                            "to n <= %ld in explicit mode", (long) EMBZ_EXPLICIT_SORTED_MAX_N);
+    double *arr = malloc((size_t) n * sizeof(double));
+    if (arr == NULL) return embz_err_set(err, EMBZ_ERR_NOMEM, "out of memory (n = %ld)", (long) n);
+    arb_t w;
+    fmpz_t i, nz, ex, top;
+    arb_init(w);
+    fmpz_init(i); fmpz_init(nz); fmpz_init(ex); fmpz_init(top);
+    fmpz_set_si(nz, n);
+    int st = EMBZ_OK, have = 0;
+    for (int pass = 0; pass < 2 && st == EMBZ_OK; pass++) {
+        for (slong j = 1; j <= n && st == EMBZ_OK; j++) {
+            fmpz_set_si(i, j);
+            st = embz_family_weight_arb(w, f, i, nz, 64, err);
+            if (st != EMBZ_OK) break;
+            if (pass == 0) {
+                if (arf_is_zero(arb_midref(w))) continue;
+                fmpz_set(ex, ARF_EXPREF(arb_midref(w)));
+                if (!have || fmpz_cmp(ex, top) > 0) fmpz_set(top, ex);
+                have = 1;
+            } else {
+                arf_t m;
+                arf_init(m);
+                arf_mul_2exp_si(m, arb_midref(w), *k);
+                arr[j - 1] = arf_get_d(m, ARF_RND_NEAR);
+                arf_clear(m);
+                if (!(arr[j - 1] >= 0.0)) arr[j - 1] = 0.0;
+            }
+        }
+        if (pass == 0) {
+            if (!have || fmpz_bits(top) > 60)
+                st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED, "the weights have no usable size");
+            else
+                *k = -fmpz_get_si(top);
+        }
+    }
+    if (st == EMBZ_OK) {
+        dsrc_t src;
+        qsort(arr, (size_t) n, sizeof(double), dcmp_desc);
+        dsrc_init(&src, f, n);
+        src.arr = arr;
+        dstream(R, &src, T, 0);
+        dsrc_clear(&src);
+    }
+    free(arr);
+    arb_clear(w);
+    fmpz_clear(i); fmpz_clear(nz); fmpz_clear(ex); fmpz_clear(top);
+    return st;
+}
+
 /* 2^k with k bringing the larger of w(1), w(n) near 1; 0 when neither is a positive finite
  * ball at this precision */
 static int scale_exponent(slong *k, const embz_family_t f, const fmpz_t n, slong prec)
@@ -1017,10 +1075,30 @@ static int explicit_run(embz_error_result_t res, const embz_family_t f, const fm
     st = estimate_pass(&R, &order, &bad, f, nn, &T, err);
     if (st != EMBZ_OK) goto out;
     int unscaled = 0;      /* a weight or the sum outside double range, all finite in arb */
+    slong wshift = 0;      /* the estimates are of the weights times 2^wshift */
+    int ball_estimates = 0;
     if (bad) {
         st = bad_weight_error(f, bad, n, prec, err);
-        if (st != EMBZ_ERR_UNSUPPORTED || rescaled) goto out;
+        if (st != EMBZ_ERR_UNSUPPORTED) goto out;
         unscaled = 1;
+    }
+    if ((unscaled || !(R.W > 0.0) || !(R.W <= 1e300)) && rescaled) {
+        /* even scaled, the double pass fails (constants such as 1e-400 underflow inside the
+         * expression): estimates from ball values, scaled, stored and sorted */
+        embz_err_t e2;
+        embz_err_clear(&e2);
+        memset(&R, 0, sizeof(R));
+        int as = arb_estimate_pass(&R, &wshift, f, nn, &T, &e2);
+        if (as == EMBZ_OK && R.W > 0.0 && R.W <= 1e300) {
+            order = 0;
+            unscaled = 0;
+            ball_estimates = 1;
+            embz_err_clear(err);
+            st = EMBZ_OK;
+        } else {
+            if (as == EMBZ_ERR_DOMAIN || as == EMBZ_ERR_NOMEM) { st = as; *err = e2; }
+            goto out;
+        }
     }
     if (unscaled || !(R.W > 0.0) || !(R.W <= 1e300)) {
         /* the double pass left its range: E does not change when every weight is scaled by
@@ -1052,6 +1130,7 @@ static int explicit_run(embz_error_result_t res, const embz_family_t f, const fm
     int eq, ew;
     frexp((double) T.Q, &eq);
     frexp(R.W * (1.0 + 1e-6), &ew);
+    ew -= (int) wshift;                 /* the exponent of the true total */
     int mode = order;
     for (int attempt = 0; attempt < 4; attempt++) {
         slong F = EMBZ_FIX_BITS - eq - ew - 8 * attempt;
@@ -1097,6 +1176,7 @@ static int explicit_run(embz_error_result_t res, const embz_family_t f, const fm
                  "explicit, %s, arb %ld bits, exact fixed-point sums in units of 2^%ld",
                  mode > 0 ? "streaming (weights non-increasing)"
                  : mode < 0 ? "streaming (weights non-decreasing)"
+                 : ball_estimates ? "stored and sorted (weights outside double range)"
                  : "stored and sorted (weights not monotone)",
                  (long) prec, (long) -F);
         xsrc_clear(&src);
