@@ -1691,7 +1691,15 @@ static int setup(actx *c, slong M, int shared, slong prec, embz_err_t *err)
     if (c->t->dir > 0) { arb_set(tmax, v); arb_set(tmin, x); }
     else { arb_set(tmax, x); arb_set(tmin, v); }
     if (!arb_is_nonnegative(tmin)) {
-        st = embz_err_set(err, EMBZ_ERR_DOMAIN, "weight is negative or undefined in the tail");
+        /* say which: a value certainly below 0, or one whose sign this precision cannot tell */
+        char at[32];
+        if (c->t->dir > 0) snprintf(at, sizeof(at), "n");
+        else snprintf(at, sizeof(at), "%ld", (long) M + 1);
+        st = embz_err_set(err, EMBZ_ERR_DOMAIN, arb_is_negative(tmin)
+                          ? "weight is negative in the tail (at i = %s)"
+                          : !arb_is_finite(tmin) ? "weight is undefined in the tail (at i = %s)"
+                          : "the sign of the weight at i = %s cannot be told at this precision "
+                            "(more bits, --prec, may help)", at);
         goto out;
     }
     c->a = c->b = 0;
