@@ -5,6 +5,36 @@
 
 #define EVAL_Q_MAX_POW_BITS 8       /* integer exponents up to 255 */
 
+int _embz_expr_op_fmpq(fmpq_t r, int op, const fmpq_t a, const fmpq_t b, slong max_pow_bits)
+{
+    switch (op) {
+    case EMBZ_OP_NEG: fmpq_neg(r, a); return EMBZ_OK;
+    case EMBZ_OP_ADD: fmpq_add(r, a, b); return EMBZ_OK;
+    case EMBZ_OP_SUB: fmpq_sub(r, a, b); return EMBZ_OK;
+    case EMBZ_OP_MUL: fmpq_mul(r, a, b); return EMBZ_OK;
+    case EMBZ_OP_DIV:
+        if (fmpq_is_zero(b)) return EMBZ_ERR_DOMAIN;
+        fmpq_div(r, a, b);
+        return EMBZ_OK;
+    case EMBZ_OP_POW:
+        /* integer exponents only (x^(1/2) is irrational in general) */
+        if (!fmpz_is_one(fmpq_denref(b)) || (slong) fmpz_bits(fmpq_numref(b)) > max_pow_bits)
+            return EMBZ_ERR_UNSUPPORTED;
+        if (fmpq_is_zero(a) && fmpz_sgn(fmpq_numref(b)) <= 0) return EMBZ_ERR_DOMAIN;
+        fmpq_pow_si(r, a, fmpz_get_si(fmpq_numref(b)));
+        return EMBZ_OK;
+    case EMBZ_OP_ABS: fmpq_abs(r, a); return EMBZ_OK;
+    case EMBZ_OP_FLOOR:
+        fmpz_fdiv_q(fmpq_numref(r), fmpq_numref(a), fmpq_denref(a));
+        fmpz_one(fmpq_denref(r));
+        return EMBZ_OK;
+    case EMBZ_OP_MIN: fmpq_set(r, fmpq_cmp(a, b) <= 0 ? a : b); return EMBZ_OK;
+    case EMBZ_OP_MAX: fmpq_set(r, fmpq_cmp(a, b) >= 0 ? a : b); return EMBZ_OK;
+    default:
+        return EMBZ_ERR_UNSUPPORTED;       /* constants, log, exp, sqrt, ...: not rational */
+    }
+}
+
 int embz_expr_eval_fmpq(fmpq_t res, const embz_expr_t e, const fmpz_t i, const fmpz_t n)
 {
     if (e->root < 0) return EMBZ_ERR_INPUT;
@@ -18,32 +48,7 @@ int embz_expr_eval_fmpq(fmpq_t res, const embz_expr_t e, const fmpz_t i, const f
         case EMBZ_OP_NUM: fmpq_set(r, nd->num); break;
         case EMBZ_OP_I: fmpz_set(fmpq_numref(r), i); fmpz_one(fmpq_denref(r)); break;
         case EMBZ_OP_N: fmpz_set(fmpq_numref(r), n); fmpz_one(fmpq_denref(r)); break;
-        case EMBZ_OP_NEG: fmpq_neg(r, a); break;
-        case EMBZ_OP_ADD: fmpq_add(r, a, b); break;
-        case EMBZ_OP_SUB: fmpq_sub(r, a, b); break;
-        case EMBZ_OP_MUL: fmpq_mul(r, a, b); break;
-        case EMBZ_OP_DIV:
-            if (fmpq_is_zero(b)) st = EMBZ_ERR_DOMAIN;
-            else fmpq_div(r, a, b);
-            break;
-        case EMBZ_OP_POW:
-            /* integer exponents only (x^(1/2) is irrational in general) */
-            if (!fmpz_is_one(fmpq_denref(b)) || fmpz_bits(fmpq_numref(b)) > EVAL_Q_MAX_POW_BITS)
-                st = EMBZ_ERR_UNSUPPORTED;
-            else if (fmpq_is_zero(a) && fmpz_sgn(fmpq_numref(b)) <= 0)
-                st = EMBZ_ERR_DOMAIN;
-            else
-                fmpq_pow_si(r, a, fmpz_get_si(fmpq_numref(b)));
-            break;
-        case EMBZ_OP_ABS: fmpq_abs(r, a); break;
-        case EMBZ_OP_FLOOR:
-            fmpz_fdiv_q(fmpq_numref(r), fmpq_numref(a), fmpq_denref(a));
-            fmpz_one(fmpq_denref(r));
-            break;
-        case EMBZ_OP_MIN: fmpq_set(r, fmpq_cmp(a, b) <= 0 ? a : b); break;
-        case EMBZ_OP_MAX: fmpq_set(r, fmpq_cmp(a, b) >= 0 ? a : b); break;
-        default:
-            st = EMBZ_ERR_UNSUPPORTED;    /* constants, log, exp, sqrt, ...: not rational */
+        default: st = _embz_expr_op_fmpq(r, nd->op, a, b, EVAL_Q_MAX_POW_BITS);
         }
     }
     if (st == EMBZ_OK) fmpq_set(res, v + e->root);

@@ -90,32 +90,11 @@ void embz_expr_fold(embz_expr_t e)
         const fmpq *a = A->num, *b = B != NULL ? B->num : NULL;
         fmpq_t r;
         fmpq_init(r);
-        int ok = 1;
-        switch (nd->op) {
-        case EMBZ_OP_NEG: fmpq_neg(r, a); break;
-        case EMBZ_OP_ADD: fmpq_add(r, a, b); break;
-        case EMBZ_OP_SUB: fmpq_sub(r, a, b); break;
-        case EMBZ_OP_MUL: fmpq_mul(r, a, b); break;
-        case EMBZ_OP_DIV:
-            if (fmpq_is_zero(b)) ok = 0;
-            else fmpq_div(r, a, b);
-            break;
-        case EMBZ_OP_POW:
-            ok = fmpz_is_one(fmpq_denref(b)) && fmpz_bits(fmpq_numref(b)) <= 6
-                 && !(fmpq_is_zero(a) && fmpz_sgn(fmpq_numref(b)) <= 0)
-                 && (fmpz_bits(fmpq_numref(a)) + fmpz_bits(fmpq_denref(a))) * FOLD_MAX_POW
-                    <= FOLD_MAX_BITS;
-            if (ok) fmpq_pow_si(r, a, fmpz_get_si(fmpq_numref(b)));
-            break;
-        case EMBZ_OP_ABS: fmpq_abs(r, a); break;
-        case EMBZ_OP_FLOOR:
-            fmpz_fdiv_q(fmpq_numref(r), fmpq_numref(a), fmpq_denref(a));
-            fmpz_one(fmpq_denref(r));
-            break;
-        case EMBZ_OP_MIN: fmpq_set(r, fmpq_cmp(a, b) <= 0 ? a : b); break;
-        case EMBZ_OP_MAX: fmpq_set(r, fmpq_cmp(a, b) >= 0 ? a : b); break;
-        default: ok = 0;        /* log, exp, sqrt, ...: irrational in general */
-        }
+        /* integer powers only of small enough numbers: no result of more than FOLD_MAX_BITS */
+        int ok = !(nd->op == EMBZ_OP_POW
+                   && (fmpz_bits(fmpq_numref(a)) + fmpz_bits(fmpq_denref(a))) * FOLD_MAX_POW
+                      > FOLD_MAX_BITS)
+                 && _embz_expr_op_fmpq(r, nd->op, a, b, 6) == EMBZ_OK;
         if (ok) {
             fmpq_swap(nd->num, r);
             nd->op = EMBZ_OP_NUM;

@@ -11,6 +11,11 @@ int _embz_expr_push(embz_expr_t e, int op, int a, int b, long col);
  * keeping the order. */
 void _embz_expr_prune(embz_expr_t e);
 
+/* One operation on exact rationals (neg, + - * /, integer powers with an exponent of at most
+ * max_pow_bits bits, abs, floor, min, max): EMBZ_OK, EMBZ_ERR_DOMAIN (division by zero, 0 to
+ * a power <= 0) or EMBZ_ERR_UNSUPPORTED (not rational in general). */
+int _embz_expr_op_fmpq(fmpq_t r, int op, const fmpq_t a, const fmpq_t b, slong max_pow_bits);
+
 /* Number of children of op (0, 1 or 2). */
 int _embz_op_arity(int op);
 
