@@ -84,12 +84,18 @@ static double mono_seconds(void)
     return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
 }
 
+/* 0: go on; 1: cancelled; 2: past the deadline */
+static int limits_reached(const volatile int *cancel, double deadline)
+{
+    if (cancel != NULL && *cancel) return 1;
+    if (deadline > 0 && mono_seconds() > deadline) return 2;
+    return 0;
+}
+
 /* 1 when the caller's limits say stop (and c->stopped says why) */
 static int should_stop(actx *c)
 {
-    if (c->stopped) return 1;
-    if (c->cancel != NULL && *c->cancel) c->stopped = 1;
-    else if (c->deadline > 0 && mono_seconds() > c->deadline) c->stopped = 2;
+    if (!c->stopped) c->stopped = limits_reached(c->cancel, c->deadline);
     return c->stopped != 0;
 }
 
@@ -2843,8 +2849,7 @@ static int vector_target_bounds(embz_error_result_t res, embz_analytic_t an, con
                               m, TH_SEARCH_TERMS);
         else
             ts = analytic_run(rl, an, n, q, &e2);
-        if (ts != EMBZ_OK && ((an->cancel != NULL && *an->cancel)
-                              || (an->deadline > 0 && mono_seconds() > an->deadline))) {
+        if (ts != EMBZ_OK && limits_reached(an->cancel, an->deadline)) {
             /* stopped by the caller's limits: a failure, not the bracket alone */
             if (err != NULL) *err = e2;
             st = ts;
@@ -2930,7 +2935,7 @@ int embz_analytic_error(embz_error_result_t res, embz_analytic_t an, const fmpz_
 }
 
 /* The engine for one size: the layout, then the Ky Fan search (uniform targets) or the
- * threshold search (a target vector). */
+ * threshold search (a target vector, or a uniform target beyond KYFAN_MAX_D). */
 static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
                         const embz_target_t q, embz_err_t *err)
 {
@@ -2938,14 +2943,14 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
     slong prec = an->prec;
     /* the threshold form for target vectors and for uniform targets beyond KYFAN_MAX_D (the
      * Ky Fan search has d residues to bound: its cost and layout grow with d) */
-    int vector = (q->kind != EMBZ_TARGET_UNIFORM) || q->d > KYFAN_MAX_D;
+    int thform = (q->kind != EMBZ_TARGET_UNIFORM) || q->d > KYFAN_MAX_D;
     slong wp = prec + 32;
     actx c;
     memset(&c, 0, sizeof(c));
     embz_tail_t tail;
     c.t = tail;
     c.f = f;
-    c.d = vector ? 1 : q->d;
+    c.d = thform ? 1 : q->d;
     c.prec = wp;
     c.decide = an->have_decide ? an->decide : NULL;
     c.decide_lo = an->have_decide ? an->decide_lo : NULL;
@@ -3022,8 +3027,8 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
         fmpz_init(k); fmpz_init(kmax); fmpz_init(tmp);
         arf_init(tol);
         arf_zero(c.upper);
-        if (vector) {
-            /* a target vector: the threshold form (the result is [proven value, bound]) */
+        if (thform) {
+            /* the threshold form (the result is [proven value, bound]) */
             arf_t tlo, thi;
             arb_t x;
             arf_init(tlo); arf_init(thi);
@@ -3128,7 +3133,7 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
                 st = embz_err_set(err, EMBZ_ERR_LIMIT,
                                   "the analytic engine could not bound E at this size "
                                   "(%s budget reached with an unbounded interval)",
-                                  vector ? "threshold search" : "branch and bound");
+                                  thform ? "threshold search" : "branch and bound");
                 arf_clear(lo); arf_clear(hi);
                 goto done;
             }
@@ -3146,7 +3151,7 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             res->order = c.t->dir;
             res->have_bounds = 0;
             res->estimate = arf_get_d(arb_midref(res->error), ARF_RND_NEAR);
-            if (vector && q->kind == EMBZ_TARGET_UNIFORM)
+            if (thform && q->kind == EMBZ_TARGET_UNIFORM)
                 snprintf(res->detail, sizeof(res->detail),
                          "analytic: %ld explicit terms + Euler-Maclaurin tail (order %ld, weights %s "
                          "beyond i = %ld), threshold form max_t Phi(t) - Phi(%lu t) by branch and "
@@ -3166,7 +3171,7 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             embz_err_set(err, EMBZ_ERR_LIMIT, "stopped: %s", c.stopped == 1
                          ? "cancelled by the caller" : "the time limit was reached");
         } else {
-            embz_err_set(err, st, vector && st == EMBZ_ERR_PREC
+            embz_err_set(err, st, thform && st == EMBZ_ERR_PREC
                          ? "weights tie with a threshold: more bits needed"
                          : "the analytic engine could not certify the maximum");
         }
