@@ -8,7 +8,7 @@
 #include "embz/family.h"
 #include "embz/vec.h"
 #include "embz/measure.h"
-#include "embz/sum.h"
+#include "embz/error.h"
 #include "embz/fidelity.h"
 #include "embz/output.h"
 #include "embz/analysis.h"

@@ -10,6 +10,7 @@
 #include "embz/family.h"
 #include "embz/vec.h"
 #include "embz/measure.h"
+#include "embz/error.h"
 
 /* ------------------------------------------------------------------ sweep */
 

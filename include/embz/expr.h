@@ -84,6 +84,10 @@ int embz_expr_log_split(embz_expr_t core, embz_expr_t rate, const embz_expr_t w)
 /* Wrap: e <- e^2 (used for amplitude families). */
 void embz_expr_square(embz_expr_t e);
 
+/* Sizes n >= 1: parse "1000", "1e6", "10^6", "2^20" ("10^10000" is accepted, "10^(10^4)"
+ * is not). */
+int embz_size_parse(fmpz_t n, const char *s, embz_err_t *err);
+
 /* Exact decimal / integer / exponent number "1", "-0.75", "1e-3", "2.5E+4" -> rational.
  * Returns EMBZ_OK or EMBZ_ERR_INPUT. Also accepts "p/q". */
 int embz_number_parse(fmpq_t res, const char *s);

@@ -14,6 +14,7 @@
 #include "embz/vec.h"
 #include "embz/family.h"
 #include "embz/measure.h"
+#include "embz/error.h"
 
 /* What "error" means for a family. */
 typedef enum {

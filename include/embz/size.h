@@ -3,6 +3,7 @@
 #define EMBZ_SIZE_H
 
 #include "embz/measure.h"
+#include "embz/error.h"
 
 typedef enum {
     EMBZ_SIZE_FOUND = 0,      /* n found: E_n <= eps certified, E_(n-1) > eps certified */

@@ -8,9 +8,10 @@
  * eps) is checked on samples and reported as such. */
 #include <string.h>
 #include "embz/size.h"
-#include "embz/sum.h"
+#include "embz/error.h"
+#include "sum/sum.h"
 
-#define SIZE_ANALYTIC_FROM 4096   /* explicit below, analytic engine from here */
+#define SIZE_EXPLICIT_UP_TO 4096 /* explicit summation up to here, the analytic engine beyond */
 #define SIZE_PREC_STEPS 3         /* prec, 2 prec, 4 prec */
 #define SIZE_MAX_STEPS 400
 
@@ -19,7 +20,9 @@ typedef struct {
     const embz_target_struct *q;
     slong prec;
     arb_t eps;
-    embz_analytic_t an[SIZE_PREC_STEPS];
+    embz_eval_t ev;      /* the size search's policy (size_eval_opts) */
+    embz_eval_work_t work;
+    int decision;        /* the engine may stop once the side is settled */
     int used_explicit, used_analytic, used_exact;
     int qubits_only;
     long evals;
@@ -105,43 +108,30 @@ void embz_size_result_clear(embz_size_result_t r)
     fmpz_clear(r->n_low);
 }
 
+/* The size search's policy: explicit summation up to SIZE_EXPLICIT_UP_TO, the analytic
+ * engine beyond (in decision mode, reused across sizes, one per precision), explicit
+ * summation within its limits when the engine fails or leaves a target vector's side open,
+ * and SIZE_PREC_STEPS precisions while the side is undecided. */
+static void size_eval_opts(embz_eval_opts_t o)
+{
+    embz_eval_opts_init(o);
+    o->explicit_up_to = SIZE_EXPLICIT_UP_TO;
+    o->fallback = EMBZ_FALLBACK_FAILED;
+    o->goal_steps = SIZE_PREC_STEPS;
+    o->goal_explicit = 1;
+}
+
 /* Which side of eps E_n lies on: -1 (E_n <= eps), +1 (E_n > eps), 0 undecided even at the
  * highest precision tried. E receives the last enclosure. Returns a status. */
 static int side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
 {
     embz_error_result_t res;
     embz_error_result_init(res);
-    int st = EMBZ_OK;
-    *sd = 0;
-    for (int step = 0; step < SIZE_PREC_STEPS; step++) {
-        slong p = c->prec << step;
-        st = EMBZ_ERR_UNSUPPORTED;
-        res->decided = 0;
-        if (fmpz_cmp_si(n, SIZE_ANALYTIC_FROM) > 0) {
-            st = embz_analytic_error(res, c->an[step], n, c->q, err);
-            if (st == EMBZ_OK) c->used_analytic = 1;
-            /* a general target whose enclosure does not decide the side (the threshold
-             * search at its budget): exact sums where they reach, before more bits */
-            if (st == EMBZ_OK && c->q->kind != EMBZ_TARGET_UNIFORM && res->decided == 0
-                && !arb_le(res->error, c->eps) && !arb_gt(res->error, c->eps)
-                && fmpz_cmp_si(n, EMBZ_EXPLICIT_MAX_N) <= 0)
-                st = EMBZ_ERR_UNSUPPORTED;
-        }
-        if (st != EMBZ_OK && st != EMBZ_ERR_DOMAIN && fmpz_cmp_si(n, EMBZ_EXPLICIT_MAX_N) <= 0) {
-            embz_err_clear(err);
-            st = embz_error_explicit(res, c->f, n, c->q, p, err);
-            if (st == EMBZ_OK) c->used_explicit = 1;
-        }
-        c->evals++;
-        if (st != EMBZ_OK) break;
-        arb_set(E, res->error);
-        if (arb_le(E, c->eps)) { *sd = -1; break; }
-        if (arb_gt(E, c->eps)) { *sd = 1; break; }
-        /* decision mode: a proven value above the goal's whole ball settled it, and the
-         * enclosure's upper end was left at the trivial 1 */
-        if (res->decided > 0) { *sd = 1; break; }
-        if (res->decided < 0) { *sd = -1; break; }
-    }
+    int st = embz_eval_side(sd, res, c->ev, c->work, n, c->q, c->eps, c->decision, err);
+    if (res->used & (1 << EMBZ_METHOD_ANALYTIC)) c->used_analytic = 1;
+    if (res->used & (1 << EMBZ_METHOD_EXPLICIT)) c->used_explicit = 1;
+    c->evals += res->steps;
+    if (st == EMBZ_OK) arb_set(E, res->error);
     if (st == EMBZ_OK && *sd == 0 && c->have_qeps) {
         /* undecided at every precision: an exact tie is decided in exact arithmetic */
         fmpq_t Eq;
@@ -317,7 +307,7 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
 static int final_enclosures(embz_size_result_t res, sctx *c, embz_err_t *err)
 {
     int st = EMBZ_OK, sd;
-    for (int s = 0; s < SIZE_PREC_STEPS; s++) embz_analytic_clear_decision(c->an[s]);
+    c->decision = 0;
     if (res->status == EMBZ_SIZE_FOUND) {
         st = side(&sd, res->err_n, c, res->n, err);
         if (fmpz_is_zero(res->n_low)) fmpz_sub_ui(res->n_low, res->n, 1);
@@ -326,7 +316,7 @@ static int final_enclosures(embz_size_result_t res, sctx *c, embz_err_t *err)
     } else {
         st = side(&sd, res->err_largest, c, res->largest, err);
     }
-    for (int s = 0; s < SIZE_PREC_STEPS; s++) embz_analytic_set_decision(c->an[s], c->eps);
+    c->decision = 1;
     return st;
 }
 
@@ -369,10 +359,11 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
     c.prec = prec;
     arb_init(c.eps);
     arb_set(c.eps, eps);
-    for (int s = 0; s < SIZE_PREC_STEPS; s++) {
-        embz_analytic_init(c.an[s], f, prec << s);
-        embz_analytic_set_decision(c.an[s], eps);
-    }
+    embz_eval_opts_t eo;
+    size_eval_opts(eo);
+    embz_eval_init(c.ev, f, eo, prec);
+    embz_eval_work_init(c.work);
+    c.decision = 1;
     fmpz_t n, nlo, nhi, m;
     arb_t E, Elo, Ehi;
     fmpz_init(n); fmpz_init(nlo); fmpz_init(nhi); fmpz_init(m);
@@ -541,7 +532,8 @@ done:
              c.used_analytic ? "analytic (decision mode)" : "",
              c.used_exact ? "; an exact tie decided in rational arithmetic" : "");
     fmpq_clear(c.qeps);
-    for (int s = 0; s < SIZE_PREC_STEPS; s++) embz_analytic_clear(c.an[s]);
+    embz_eval_work_clear(c.work);
+    embz_eval_clear(c.ev);
     arb_clear(c.eps);
     fmpz_clear(n); fmpz_clear(nlo); fmpz_clear(nhi); fmpz_clear(m);
     arb_clear(E); arb_clear(Elo); arb_clear(Ehi);

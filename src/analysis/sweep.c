@@ -5,7 +5,7 @@
 #include <math.h>
 #include <time.h>
 #include "embz/analysis.h"
-#include "embz/sum.h"
+#include "embz/error.h"
 #include "embz/output.h"
 #ifdef _OPENMP
 #include <omp.h>
@@ -108,11 +108,6 @@ int embz_sweep_sizes(fmpz *sizes, slong *len, const fmpz_t a, const fmpz_t b, sl
     return EMBZ_OK;
 }
 
-/* a finite enclosure with at least a few correct bits */
-static int usable(const arb_t x)
-{
-    return arb_is_finite(x) && arb_rel_accuracy_bits(x) >= 8;
-}
 
 static void take_result(embz_sweep_point_struct *p, const embz_error_result_t r)
 {
@@ -127,65 +122,36 @@ static void take_result(embz_sweep_point_struct *p, const embz_error_result_t r)
     snprintf(p->note, sizeof(p->note), "%s", r->detail);
 }
 
-/* One size of a sweep: the analytic engine (retrying at higher precision when its enclosure
- * carries no certified bit), else explicit mode within its limits. Fills p (status, result or
+/* One size of a sweep under the sweep's policy (see sweep_opts): fills p (status, result or
  * note) and, on failure, why. */
-static int sweep_point(embz_sweep_point_struct *p, embz_error_result_t r, embz_analytic_t an,
-                       const embz_family_t f, const embz_target_t q, slong prec,
-                       int analytic_ok, const char *prep_reason, char *why)
+static int sweep_point(embz_sweep_point_struct *p, embz_error_result_t r, const embz_eval_t ev,
+                       embz_eval_work_t w, const embz_target_t q, char *why)
 {
     embz_err_t e2;
-    int ps = EMBZ_ERR_UNSUPPORTED;
-    if (analytic_ok) {
-        embz_err_clear(&e2);
-        ps = embz_analytic_error(r, an, p->n, q, &e2);
-        /* The shared tail is certified up to the largest size, and its Euler-Maclaurin
-         * remainder bound covers that whole range. For increasing weights that bound can
-         * exceed the total weight of a much smaller size (i^20 certified to 10^300: a bound
-         * near 10^302 against a weight sum near 10^292 at n = 10^14), so that size cannot be
-         * told apart from zero weight. It gets an engine of its own, certified up to n. */
-        if (ps != EMBZ_OK && an->have_tail && fmpz_cmp(an->nmax, p->n) > 0) {
-            embz_analytic_t own;
-            embz_analytic_init(own, f, prec);
-            embz_err_clear(&e2);
-            ps = embz_analytic_error(r, own, p->n, q, &e2);
-            embz_analytic_clear(own);
-        }
-        /* an enclosure without any certified bit: retry at higher precision with an
-         * engine of its own (rare: e.g. increasing weights at huge n) */
-        for (slong wp = 2 * prec; ps == EMBZ_OK && !usable(r->error) && wp <= 8 * prec;
-             wp *= 2) {
-            embz_analytic_t hi;
-            embz_analytic_init(hi, f, wp);
-            embz_err_clear(&e2);
-            ps = embz_analytic_error(r, hi, p->n, q, &e2);
-            embz_analytic_clear(hi);
-        }
-        if (ps == EMBZ_OK && !usable(r->error)) {
-            ps = EMBZ_ERR_PREC;
-            snprintf(e2.text, sizeof(e2.text), "no certified digit up to %ld bits",
-                     (long) (8 * prec));
-        }
-        if (ps == EMBZ_OK) r->method = EMBZ_METHOD_ANALYTIC;
-        else snprintf(why, 200, "%.190s", e2.text);
-    } else if (prep_reason[0]) {
-        snprintf(why, 200, "%.190s", prep_reason);
-    }
-    if (ps != EMBZ_OK && ps != EMBZ_ERR_DOMAIN && fmpz_cmp_si(p->n, EMBZ_EXPLICIT_MAX_N) <= 0) {
-        embz_err_clear(&e2);
-        ps = embz_error_explicit(r, f, p->n, q, prec, &e2);
-        if (ps == EMBZ_OK && !usable(r->error)) {
-            ps = EMBZ_ERR_PREC;
-            snprintf(e2.text, sizeof(e2.text), "no certified digit at %ld bits", (long) prec);
-        }
-        if (ps == EMBZ_OK) r->method = EMBZ_METHOD_EXPLICIT;
-        else snprintf(why, 200, "%.190s", e2.text);
-    }
+    embz_err_clear(&e2);
+    int ps = embz_eval_error(r, ev, w, p->n, q, &e2);
+    if (ps == EMBZ_OK)
+        r->method = (r->used & (1 << EMBZ_METHOD_EXPLICIT)) ? EMBZ_METHOD_EXPLICIT
+                                                            : EMBZ_METHOD_ANALYTIC;
+    else snprintf(why, 200, "%.190s", e2.text);
     p->status = ps;
     if (ps == EMBZ_OK) take_result(p, r);
     else snprintf(p->note, sizeof(p->note), "skipped: %s",
                   why[0] ? why : "no method handles this size");
     return ps;
+}
+
+/* The sweep's policy: the analytic engine at every size, its tail certified once for the
+ * largest size; a size where that fails gets an engine certified up to itself; an enclosure
+ * without a certified bit is retried at 2x, 4x and 8x the precision; explicit summation
+ * within its limits when the engine fails. */
+static void sweep_opts(embz_eval_opts_t o)
+{
+    embz_eval_opts_init(o);
+    o->explicit_up_to = -1;
+    o->own_engine = 1;
+    o->digit_steps = 4;
+    o->fallback = EMBZ_FALLBACK_FAILED;
 }
 
 int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const fmpz_t b,
@@ -212,9 +178,8 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
     _fmpz_vec_clear(sizes, k);
 
     /* Sizes are independent: they are shared out among OpenMP threads (dynamic schedule,
-     * largest first), each with an analytic engine of its own, its tail certified once for
-     * the largest size. A weight found invalid stops every thread. */
-    int analytic_ok = 1;          /* every target: target vectors by the threshold search */
+     * largest first), each with a workspace of its own, its tail certified once for the
+     * largest size. A weight found invalid stops every thread. */
     int nthreads = 1;
 #ifdef _OPENMP
     /* not from inside another parallel region (a scan): threads created there would end
@@ -225,26 +190,26 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
     if (nthreads < 1) nthreads = 1;
     int stop = 0, fail_domain = 0;
     slong done = 0, domain_at = -1;
-    char prep_reason[200] = "";
     char domain_why[200] = "";
-    /* one engine per thread; the first is prepared up front, which also decides whether the
-     * analytic engine applies at all */
-    embz_analytic_struct *eng = flint_malloc((size_t) nthreads * sizeof(embz_analytic_struct));
+    embz_eval_opts_t eo;
+    embz_eval_t ev;
+    sweep_opts(eo);
+    embz_eval_init(ev, f, eo, prec);
+    /* one workspace per thread; the first is prepared up front, which also decides whether
+     * the analytic engine applies at all */
+    embz_eval_work_struct *work = flint_malloc((size_t) nthreads * sizeof(embz_eval_work_struct));
     char *used = flint_calloc((size_t) nthreads, 1);
-    for (int i = 0; i < nthreads; i++) embz_analytic_init(eng + i, f, prec);
-    if (analytic_ok) {
+    for (int i = 0; i < nthreads; i++) embz_eval_work_init(work + i);
+    {
         embz_err_t e2;
         embz_err_clear(&e2);
-        int ps = embz_analytic_prepare(eng, s->pts[len - 1].n, &e2);
+        int ps = embz_eval_prepare(ev, work, s->pts[len - 1].n, &e2);
         if (ps != EMBZ_OK) {
-            analytic_ok = 0;
-            snprintf(prep_reason, sizeof(prep_reason), "%.190s", e2.text);
-            if (ps == EMBZ_ERR_DOMAIN) {
-                for (int i = 0; i < nthreads; i++) embz_analytic_clear(eng + i);
-                flint_free(eng);
-                flint_free(used);
-                return embz_err_set(err, ps, "%s", e2.text);
-            }
+            for (int i = 0; i < nthreads; i++) embz_eval_work_clear(work + i);
+            flint_free(work);
+            flint_free(used);
+            embz_eval_clear(ev);
+            return embz_err_set(err, ps, "%s", e2.text);
         }
     }
 #ifdef _OPENMP
@@ -255,14 +220,9 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
 #ifdef _OPENMP
         tid = omp_get_thread_num();
 #endif
-        embz_analytic_struct *an = eng + tid;
+        embz_eval_work_struct *wk = work + tid;
         embz_error_result_t r;
-        embz_err_t e2;
         embz_error_result_init(r);
-        if (analytic_ok && tid > 0) {
-            embz_err_clear(&e2);
-            embz_analytic_prepare(an, s->pts[len - 1].n, &e2);   /* succeeded for eng[0] */
-        }
 #ifdef _OPENMP
 #pragma omp for schedule(dynamic, 1)
 #endif
@@ -277,7 +237,7 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
             embz_sweep_point_struct *p = s->pts + j;
             char why[200] = "";
             double t0 = now_seconds();
-            int ps = sweep_point(p, r, an, f, q, prec, analytic_ok, prep_reason, why);
+            int ps = sweep_point(p, r, ev, wk, q, why);
             p->seconds = now_seconds() - t0;
 #ifdef _OPENMP
 #pragma omp critical(embz_sweep)
@@ -299,13 +259,14 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
             }
         }
         embz_error_result_clear(r);
-        embz_analytic_clear(an);   /* in the thread that used it (its FLINT caches) */
+        embz_eval_work_clear(wk);   /* in the thread that used it (its FLINT caches) */
         used[tid] = 1;
     }
     for (int i = 0; i < nthreads; i++)       /* a team may come out smaller than asked */
-        if (!used[i]) embz_analytic_clear(eng + i);
-    flint_free(eng);
+        if (!used[i]) embz_eval_work_clear(work + i);
+    flint_free(work);
     flint_free(used);
+    embz_eval_clear(ev);
     if (fail_domain) {
         /* the weight itself is invalid: no point in going on */
         char *ns = embz_fmpz_string(s->pts[domain_at].n, 30);

@@ -228,6 +228,8 @@ void cli_compare_text(embz_buf_t *b, const cli_compare_row_t *rows, const long *
                       long nfam, const cli_compare_opts_t *o);
 /* Format from --format or the extension of path (-1 when neither says). */
 int cli_compare_format(const char *format_opt, const char *path);
+/* The policy for errors at chosen sizes, shared by report, demo and plot. */
+void cli_sizes_eval_opts(embz_eval_opts_t o);
 
 /* The output can be written (embz_output_check: "-" and /dev/stdout are standard output, other
  * names are followed through symbolic links): 0, or the message and exit code 2 for a refused

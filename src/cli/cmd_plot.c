@@ -36,7 +36,6 @@ static const cli_spec_t plot_spec = {
     plot_opts, 1, 16
 };
 
-#define EXPLICIT_UP_TO 100000
 
 /* log10 of the ball's lower end, midpoint and upper end (doubles, for drawing). */
 static void arb_log10_d(double *lo, double *mid, double *hi, const arb_t x)
@@ -195,19 +194,17 @@ int cli_cmd_plot(int argc, char **argv)
     for (long i = 0; i < nfam; i++) {
         char *label = cli_family_label(fam + i);
         slong s = embz_plot_add_series(fig, pe, label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE, -1000);
-        embz_analytic_t eng;
-        embz_analytic_init(eng, fam + i, prec);
+        embz_eval_opts_t eo;
+        embz_eval_t ev;
+        embz_eval_work_t wk;
+        cli_sizes_eval_opts(eo);
+        embz_eval_init(ev, fam + i, eo, prec);
+        embz_eval_work_init(wk);
         for (slong j = 0; j < ns; j++) {
             embz_error_result_t res;
             embz_error_result_init(res);
             embz_err_clear(&err);
-            status = -1;
-            if (fmpz_cmp_ui(sizes + j, EXPLICIT_UP_TO) > 0)
-                status = embz_analytic_error(res, eng, sizes + j, q, &err);
-            if (status != EMBZ_OK) {
-                embz_err_clear(&err);
-                status = embz_error(res, fam + i, sizes + j, q, EMBZ_METHOD_AUTO, prec, &err);
-            }
+            status = embz_eval_error(res, ev, wk, sizes + j, q, &err);
             if (status == EMBZ_OK) {
                 double lo, mid, hi;
                 arb_log10_d(&lo, &mid, &hi, res->error);
@@ -220,7 +217,8 @@ int cli_cmd_plot(int argc, char **argv)
                 skipped++;
                 if (status == EMBZ_ERR_DOMAIN) {
                     embz_error_result_clear(res);
-                    embz_analytic_clear(eng);
+                    embz_eval_work_clear(wk);
+                    embz_eval_clear(ev);
                     free(label);
                     code = cli_exit_code(status);
                     goto done;
@@ -228,7 +226,8 @@ int cli_cmd_plot(int argc, char **argv)
             }
             embz_error_result_clear(res);
         }
-        embz_analytic_clear(eng);
+        embz_eval_work_clear(wk);
+        embz_eval_clear(ev);
         free(label);
     }
 

@@ -15,7 +15,6 @@
 #endif
 #include "cli.h"
 
-#define EXPLICIT_UP_TO 100000
 
 static char *sdup(const char *s)
 {
@@ -236,6 +235,16 @@ static int goal_arb(arb_t g, const char *text, slong prec)
     return ok;
 }
 
+/* The policy for errors at chosen sizes (report, demo, plot): explicit summation up to 10^5,
+ * beyond it the analytic engine reused across the sizes, and after any failure of that the
+ * default policy (embz_error) once more. */
+void cli_sizes_eval_opts(embz_eval_opts_t o)
+{
+    embz_eval_opts_init(o);
+    o->explicit_up_to = 100000;
+    o->fallback = EMBZ_FALLBACK_AGAIN;
+}
+
 /* One family, start to end; only this row's objects are touched (safe in parallel). */
 static void compute_row(cli_compare_row_t *r, const cli_compare_opts_t *o)
 {
@@ -288,32 +297,28 @@ static void compute_row(cli_compare_row_t *r, const cli_compare_opts_t *o)
         embz_err_clear(&err);
     }
 
-    /* 3. certified errors at the chosen sizes, one analytic engine for all of them */
+    /* 3. certified errors at the chosen sizes, one workspace for all of them */
     {
-        embz_analytic_t eng;
-        embz_analytic_init(eng, r->fam, o->prec);
+        embz_eval_opts_t eo;
+        embz_eval_t ev;
+        embz_eval_work_t wk;
+        cli_sizes_eval_opts(eo);
+        embz_eval_init(ev, r->fam, eo, o->prec);
+        embz_eval_work_init(wk);
         for (slong j = 0; j < o->nsizes; j++) {
             embz_error_result_t res;
             embz_error_result_init(res);
             embz_err_clear(&err);
-            status = -1;
-            if (fmpz_cmp_ui(o->sizes + j, EXPLICIT_UP_TO) > 0)
-                status = embz_analytic_error(res, eng, o->sizes + j, q, &err);
-            if (status != EMBZ_OK) {
-                embz_err_clear(&err);
-                status = embz_error(res, r->fam, o->sizes + j, q, EMBZ_METHOD_AUTO, o->prec,
-                                    &err);
-            }
+            status = embz_eval_error(res, ev, wk, o->sizes + j, q, &err);
             r->err_status[j] = status;
             if (status == EMBZ_OK) arb_set(r->err_at + j, res->error);
             else r->err_why[j] = sdup(err.text[0] ? err.text : "no enclosure");
             embz_error_result_clear(res);
-            if (status == EMBZ_ERR_DOMAIN) {
-                embz_analytic_clear(eng);
-                goto fail;
-            }
+            if (status == EMBZ_ERR_DOMAIN) break;
         }
-        embz_analytic_clear(eng);
+        embz_eval_work_clear(wk);
+        embz_eval_clear(ev);
+        if (status == EMBZ_ERR_DOMAIN) goto fail;
         status = EMBZ_OK;
     }
 

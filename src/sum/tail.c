@@ -1,8 +1,8 @@
-/* Euler–Maclaurin tail sums with a rigorous remainder bound (see include/embz/sum.h). */
+/* Euler–Maclaurin tail sums with a rigorous remainder bound (see src/sum/sum.h). */
 #include <math.h>
 #include <string.h>
 #include <stdlib.h>
-#include "embz/sum.h"
+#include "sum/sum.h"
 #include "embz/output.h"
 
 #define EMBZ_TAIL_MAX_ORDER 60   /* largest Euler–Maclaurin order tried */

@@ -1,7 +1,7 @@
 /* Sizes n: "1000", "1e6", "1.5e3", "10^6", "2^20", "3*10^5", "10^10000". */
 #include <ctype.h>
 #include <string.h>
-#include "embz/measure.h"
+#include "embz/expr.h"
 
 /* Results above 2^EMBZ_SIZE_MAX_BITS (about 10^400000) are refused up front: beyond, the
  * analytic engine's branch and bound cannot bound E at the default precision (10^500000

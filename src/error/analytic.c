@@ -17,14 +17,15 @@
 #include <math.h>
 #include <string.h>
 #include <stdlib.h>
-#include "embz/sum.h"
 #include "embz/measure.h"
+#include "impl.h"
 
 #define TAYLOR_LEN 12          /* smallest Taylor model order */
 #define TAYLOR_MAX 80          /* largest Taylor model order */
-#define BB_BUDGET 40000        /* interval evaluations before giving up refining */
+#define BB_BUDGET 40000        /* default: interval evaluations before giving up refining */
 #define BB_SMALL 6             /* intervals with at most this many integers are enumerated */
-#define THRESHOLD_BUDGET 600   /* evaluations of the threshold search for a target vector */
+#define THRESHOLD_BUDGET 600   /* default: evaluations of the threshold search for a target
+                                  vector */
 #define TH_MODEL_TERMS 128     /* smooth threshold models for targets up to this length (each
                                   end of a search interval keeps two counts per entry) */
 #define TH_MODEL_LEN 16        /* their order */
@@ -70,6 +71,7 @@ typedef struct {
     arf_t upper;         /* running maximum of the upper bounds (points and intervals) */
     arf_t tol;           /* intervals whose bound is within tol of the best value are settled */
     long evals;
+    slong bb_budget;     /* interval evaluations of the branch and bound before it stops */
     slong prec;
     const volatile int *cancel; /* limits of the caller (embz_analytic_set_limits) */
     double deadline;
@@ -1558,7 +1560,7 @@ static int branch_and_bound(actx *c, const fmpz *slo, const fmpz *shi, const arf
         if (should_stop(c)) { st = EMBZ_ERR_LIMIT; break; }
         arb_get_ubound_arf(bhi, c->best, prec);
         arf_sub(gap, hp.v[0].U, bhi, prec, ARF_RND_UP);
-        if (arf_cmp(gap, tol) <= 0 || c->evals > BB_BUDGET) break;
+        if (arf_cmp(gap, tol) <= 0 || c->evals > c->bb_budget) break;
         if (c->decide != NULL) {
             /* decision mode: enough once a proven value exceeds the threshold, or once every
              * bound is below it */
@@ -2956,6 +2958,7 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
     c.decide_lo = an->have_decide ? an->decide_lo : NULL;
     c.cancel = an->cancel;
     c.deadline = an->deadline;
+    c.bb_budget = an->bb_budget > 0 ? an->bb_budget : BB_BUDGET;
     fmpz_init_set(c.n, n);
     fmpz_init_set(c.ntrue, n);
     fmpz_init(c.L);
@@ -3035,7 +3038,8 @@ static int analytic_run(embz_error_result_t res, embz_analytic_t an, const fmpz_
             arb_init(x);
             th_target tq;
             th_target_init(&tq, q);
-            st = threshold_search(tlo, thi, &c, &tq, THRESHOLD_BUDGET, wp);
+            st = threshold_search(tlo, thi, &c, &tq,
+                                  an->th_budget > 0 ? an->th_budget : THRESHOLD_BUDGET, wp);
             th_target_clear(&tq);
             if (st == EMBZ_OK) {
                 arb_set_arf(x, tlo);

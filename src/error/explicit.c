@@ -27,6 +27,7 @@
 #include <math.h>
 #include <float.h>
 #include "embz/measure.h"
+#include "embz/error.h"
 #include "embz/expr.h"
 
 __extension__ typedef __int128 i128;

@@ -1,0 +1,158 @@
+/* The embezzlement error E_n(q) of a family: its result, the two methods, and the evaluator
+ * that chooses and combines them. Every caller of the library that needs E_n goes through
+ * the evaluator (or embz_error, its one-call form), so that the policy (which method from
+ * which size, fallbacks, precision steps, decision mode) is written in one place, src/error/eval.c.
+ *
+ * E_n(q) = K(p^(n) -> p^(n) (x) q), the conversion distance (embz/measure.h) from the n-th
+ * state of the family to itself with the target q appended (docs/measures.md). */
+#ifndef EMBZ_ERROR_H
+#define EMBZ_ERROR_H
+
+#include "embz/vec.h"
+#include "embz/family.h"
+
+typedef enum { EMBZ_METHOD_AUTO = 0, EMBZ_METHOD_EXPLICIT, EMBZ_METHOD_ANALYTIC } embz_method_t;
+
+typedef struct {
+    arb_t error;        /* certified enclosure of E_n(q) */
+    double estimate;    /* double fast-path value, NaN if not computed */
+    fmpz_t argk;        /* Ky Fan index k at which the maximum is attained (sorted order) */
+    int have_bounds;    /* block-mass bounds available (one ebit) */
+    arb_t lower, upper; /* max(p1/2, sup B_m) <= E <= max(p1/2, 2 sup B_m) */
+    int method;         /* EMBZ_METHOD_EXPLICIT or EMBZ_METHOD_ANALYTIC */
+    int order;          /* +1 weights non-increasing in i, -1 non-decreasing, 0 neither (sorted) */
+    char detail[256];   /* how it was computed, e.g. "explicit, streaming, arb 128 bits" */
+    int decided;        /* decision mode of the analytic engine: +1 when it stopped because E is
+                           proven above the threshold (the enclosure's upper end is then only
+                           the trivial 1), -1 below, 0 otherwise */
+    int used;           /* evaluator: the methods that produced an enclosure on the way, bits
+                           1 << EMBZ_METHOD_EXPLICIT and 1 << EMBZ_METHOD_ANALYTIC */
+    int steps;          /* evaluator: precision steps run (embz_eval_side) */
+} embz_error_result_struct;
+typedef embz_error_result_struct embz_error_result_t[1];
+
+void embz_error_result_init(embz_error_result_t r);
+void embz_error_result_clear(embz_error_result_t r);
+
+/* Largest n handled by explicit mode. */
+#define EMBZ_EXPLICIT_MAX_N 100000000L
+
+/* E_n(q) by explicit summation over i = 1..n (n <= EMBZ_EXPLICIT_MAX_N). Always fills the
+ * double estimate too. Monotone weights are streamed in O(1) memory; otherwise the weights are
+ * stored and sorted (n <= 2^24). The enclosure's radius is at least about n d 2^-120 (exact
+ * fixed-point sums), whatever prec. */
+int embz_error_explicit(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
+                        const embz_target_t q, slong prec, embz_err_t *err);
+
+/* The double fast path alone (no certification): estimate of E_n(q), the Ky Fan index where
+ * the estimate is largest, and the detected order of the weights (+1 non-increasing,
+ * -1 non-decreasing, 0 neither: stored and sorted). */
+int embz_error_explicit_estimate(double *E, slong *argk, int *order, const embz_family_t f,
+                                 const fmpz_t n, const embz_target_t q, embz_err_t *err);
+
+/* E_n(q) by the analytic engine (any n that fits an fmpz). */
+int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
+                        const embz_target_t q, slong prec, embz_err_t *err);
+
+
+/* ---- the evaluator ----
+ * The options say which method runs from which size and what happens when it fails; every
+ * size field <= 0 means its default. The evaluator itself is read-only while it evaluates:
+ * what one evaluation leaves for the next (the analytic engine's certified tail, one per
+ * precision step) lives in a workspace, one per thread. */
+typedef enum {
+    EMBZ_FALLBACK_DECLINED = 0, /* explicit summation when the analytic engine declines the
+                                   family (EMBZ_ERR_UNSUPPORTED); its reason goes in detail */
+    EMBZ_FALLBACK_FAILED,       /* explicit summation after any analytic failure other than
+                                   an invalid weight (EMBZ_ERR_DOMAIN) */
+    EMBZ_FALLBACK_AGAIN,        /* after any failure of the workspace's engine, the default
+                                   policy once more with engines of its own */
+    EMBZ_FALLBACK_NONE
+} embz_fallback_t;
+
+#define EMBZ_EVAL_EXPLICIT_UP_TO 1000000L  /* default explicit_up_to */
+#define EMBZ_EVAL_MAX_STEPS 8              /* most precision steps */
+
+typedef struct {
+    int method;            /* EMBZ_METHOD_AUTO (default), _EXPLICIT or _ANALYTIC */
+    slong explicit_up_to;  /* AUTO: n <= this by explicit summation, larger n analytic first;
+                              0: EMBZ_EVAL_EXPLICIT_UP_TO; < 0: analytic first at every n */
+    slong explicit_max;    /* explicit summation only for n <= this (<= 0: EMBZ_EXPLICIT_MAX_N) */
+    int fallback;          /* embz_fallback_t */
+    int own_engine;        /* an analytic failure where the workspace's tail was certified for
+                              larger sizes is retried with an engine certified up to n (for
+                              increasing weights that shared remainder bound can exceed the
+                              total weight at a much smaller n) */
+    int digit_steps;       /* an analytic enclosure with fewer than 8 certified bits (about
+                              two digits) is retried at 2, 4, .. 2^(digit_steps - 1) times the
+                              precision, and one still short of them is a failure
+                              (EMBZ_ERR_PREC), also after explicit summation; <= 0: accepted
+                              as it is */
+    int goal_steps;        /* embz_eval_side: precisions prec, 2 prec, .. 2^(goal_steps - 1)
+                              prec while the enclosure straddles the goal (<= 0: 1) */
+    int goal_explicit;     /* embz_eval_side: a target vector whose analytic enclosure still
+                              straddles the goal is summed explicitly where that reaches */
+    const volatile int *cancel;  /* borrowed, may be NULL: analytic searches stop when nonzero */
+    double seconds;        /* > 0: analytic searches stop after this long, counted from each
+                              evaluation (EMBZ_ERR_LIMIT) */
+    slong bb_budget;       /* the analytic engine's branch and bound (uniform targets) stops
+                              refining after this many interval evaluations, leaving a wider
+                              enclosure; <= 0: the default, 40000 */
+    slong threshold_budget;/* the same for the threshold search (target vectors, wide uniform
+                              targets); <= 0: the default, 600 */
+} embz_eval_opts_struct;
+typedef embz_eval_opts_struct embz_eval_opts_t[1];
+
+/* The default policy (the one embz_error uses). */
+void embz_eval_opts_init(embz_eval_opts_t o);
+
+typedef struct {
+    const embz_family_struct *f;  /* borrowed */
+    embz_eval_opts_struct opts;
+    slong prec;
+    int prepared;                 /* embz_eval_prepare was called */
+    int analytic_ok;              /* 0: the prepared tail could not be certified; the analytic
+                                     engine is skipped and declined gives this reason: */
+    char prep_reason[200];
+    fmpz_t nmax;                  /* prepared: the largest size */
+} embz_eval_struct;
+typedef embz_eval_struct embz_eval_t[1];
+
+/* Per-thread state of evaluations: engines reused across sizes (one per precision step). */
+typedef struct {
+    void *eng;                    /* private */
+} embz_eval_work_struct;
+typedef embz_eval_work_struct embz_eval_work_t[1];
+
+void embz_eval_init(embz_eval_t ev, const embz_family_t f, const embz_eval_opts_t o, slong prec);
+void embz_eval_clear(embz_eval_t ev);
+/* Optional, before any evaluation: certify the analytic tail in w once for every size up to
+ * nmax (weights that do not depend on n), so that a sweep pays for it once per workspace.
+ * EMBZ_ERR_DOMAIN (an invalid weight) is returned; any other failure only marks the analytic
+ * engine as not applicable (ev->analytic_ok = 0) and returns EMBZ_OK. Other workspaces are
+ * prepared for nmax when first used. */
+int embz_eval_prepare(embz_eval_t ev, embz_eval_work_t w, const fmpz_t nmax, embz_err_t *err);
+
+void embz_eval_work_init(embz_eval_work_t w);
+/* Clear a workspace in the thread that used it (FLINT's caches are per thread). */
+void embz_eval_work_clear(embz_eval_work_t w);
+
+/* E_n(q): a finite certified enclosure in res->error, or a failure with the reason in err.
+ * w may be NULL (engines for this call only). */
+int embz_eval_error(embz_error_result_t res, const embz_eval_t ev, embz_eval_work_t w,
+                    const fmpz_t n, const embz_target_t q, embz_err_t *err);
+/* Which side of goal E_n(q) lies on: *side = -1 (E_n <= goal), +1 (E_n > goal) or 0
+ * (undecided at every precision step). decision != 0 lets the analytic engine stop as soon
+ * as the side is settled (res->decided; the enclosure may then be wide). res->error is the
+ * last enclosure; res->steps counts the precision steps run. */
+int embz_eval_side(int *side, embz_error_result_t res, const embz_eval_t ev, embz_eval_work_t w,
+                   const fmpz_t n, const embz_target_t q, const arb_t goal, int decision,
+                   embz_err_t *err);
+
+/* One call with the default policy: explicit summation up to EMBZ_EVAL_EXPLICIT_UP_TO, the
+ * analytic engine beyond (explicit summation when it declines, up to EMBZ_EXPLICIT_MAX_N,
+ * with the reason in res->detail). method EMBZ_METHOD_EXPLICIT / _ANALYTIC forces one. */
+int embz_error(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
+               const embz_target_t q, int method, slong prec, embz_err_t *err);
+
+#endif
