@@ -15,6 +15,7 @@
 #include <string.h>
 #include <math.h>
 #include "embz.h"
+#include "error/impl.h"
 #include "testutil.h"
 
 /* Reduced sizes when EMBZ_QUICK is set, and in sanitizer builds (which run 3-5x slower), so

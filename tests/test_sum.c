@@ -1,4 +1,4 @@
-/* Tests of the certified Euler–Maclaurin tail sums (include/embz/sum.h).
+/* Tests of the certified Euler–Maclaurin tail sums (src/sum/sum.h, internal).
  *
  * Every check compares the tail object with an outside reference: FLINT's exact harmonic
  * numbers, arb's digamma and Hurwitz zeta functions, plain arb loops over the weights written
@@ -9,6 +9,7 @@
 #include <string.h>
 #include <math.h>
 #include "embz.h"
+#include "sum/sum.h"
 #include "testutil.h"
 
 static int quick(void)
