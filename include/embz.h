@@ -15,6 +15,7 @@
 #include "embz/render.h"
 #include "embz/asym.h"
 #include "embz/size.h"
+#include "embz/compare.h"
 
 #define EMBZ_VERSION "0.1.0"
 

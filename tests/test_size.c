@@ -268,6 +268,140 @@ START_TEST(test_power_never)
 }
 END_TEST
 
+/* The rule behind "never" for targets other than one ebit: a target q with q_max <= 1/2 is
+ * majorized by the ebit e = (1/2, 1/2), hence p (x) q by p (x) e for every Schmidt vector p
+ * (majorization is kept under a tensor product with the same p; Nielsen's theorem relates it
+ * to LOCC), and K(p -> p (x) q) >= K(p -> p (x) e). Checked in FLINT's exact rationals on
+ * random p and q, together with embz_target_below_ebit's answer for each q; and one target
+ * above the line, (0.6, 0.4), is reported as not below, with a p where its K is smaller. */
+static void qvec_product(embz_qvec_t r, const embz_qvec_t p, const fmpq *q, slong m)
+{
+    r->p = _fmpq_vec_init(p->len * m);
+    r->len = p->len * m;
+    for (slong j = 0; j < m; j++)
+        for (slong k = 0; k < p->len; k++) fmpq_mul(r->p + j * p->len + k, p->p + k, q + j);
+}
+
+START_TEST(test_never_rule)
+{
+    flint_rand_t st;
+    flint_randinit(st);
+    fmpq_t Ke, Kq, half;
+    fmpq_init(Ke); fmpq_init(Kq); fmpq_init(half);
+    fmpq_set_si(half, 1, 2);
+    int below_seen = 0, above_seen = 0;
+    for (int trial = 0; trial < 400; trial++) {
+        slong n = 1 + (slong) n_randint(st, 12), m = 2 + (slong) n_randint(st, 5);
+        embz_qvec_t p, r, re;
+        embz_qvec_init(p); embz_qvec_init(r); embz_qvec_init(re);
+        p->p = _fmpq_vec_init(n);
+        p->len = n;
+        fmpq *q = _fmpq_vec_init(m), e[2];
+        fmpz_t W, V;
+        fmpz_init(W); fmpz_init(V);
+        for (slong k = 0; k < n; k++) {
+            fmpq_set_si(p->p + k, 1 + (slong) n_randint(st, 50), 1);
+            fmpz_add(W, W, fmpq_numref(p->p + k));
+        }
+        for (slong k = 0; k < n; k++) fmpq_div_fmpz(p->p + k, p->p + k, W);
+        for (slong j = 0; j < m; j++) {
+            fmpq_set_si(q + j, 1 + (slong) n_randint(st, 30), 1);
+            fmpz_add(V, V, fmpq_numref(q + j));
+        }
+        for (slong j = 0; j < m; j++) fmpq_div_fmpz(q + j, q + j, V);
+        /* sorted non-increasing, as targets are stored */
+        for (slong a = 0; a < m; a++)
+            for (slong b = a + 1; b < m; b++)
+                if (fmpq_cmp(q + b, q + a) > 0) fmpq_swap(q + a, q + b);
+        char spec[400];
+        size_t len = 0;
+        for (slong j = 0; j < m; j++) {
+            char *t = fmpq_get_str(NULL, 10, q + j);
+            len += (size_t) snprintf(spec + len, sizeof(spec) - len, "%s%s", j ? "," : "", t);
+            flint_free(t);
+        }
+        embz_target_t tq;
+        embz_err_t err;
+        embz_err_clear(&err);
+        embz_target_init(tq);
+        ck_assert_msg(embz_target_parse(tq, spec, 0, &err) == EMBZ_OK, "%s: %s", spec, err.text);
+        int below = fmpq_cmp(q, half) <= 0;
+        ck_assert_int_eq(embz_target_below_ebit(tq), below);
+        fmpq_init(e); fmpq_init(e + 1);
+        fmpq_set(e, half); fmpq_set(e + 1, half);
+        qvec_product(r, p, q, m);
+        qvec_product(re, p, e, 2);
+        long argk;
+        embz_qvec_distance(Kq, &argk, p, r);
+        embz_qvec_distance(Ke, &argk, p, re);
+        if (below) {
+            ck_assert_msg(fmpq_cmp(Kq, Ke) >= 0, "K(q) < K(ebit) for q = %s", spec);
+            below_seen++;
+        } else {
+            above_seen++;
+        }
+        fmpq_clear(e); fmpq_clear(e + 1);
+        embz_target_clear(tq);
+        _fmpq_vec_clear(q, m);
+        fmpz_clear(W); fmpz_clear(V);
+        embz_qvec_clear(p); embz_qvec_clear(r); embz_qvec_clear(re);
+    }
+    ck_assert(below_seen > 50 && above_seen > 50);
+    /* uniform targets are below the ebit; (0.6, 0.4) is not, and p = (1) (a product
+     * state) gives K(p -> p (x) q) = 0.4 < 0.5 = K(p -> p (x) e) there */
+    embz_target_t t3, t64;
+    target_uniform(t3, 3);
+    ck_assert(embz_target_below_ebit(t3));
+    {
+        embz_err_t err;
+        embz_err_clear(&err);
+        embz_target_init(t64);
+        ck_assert_int_eq(embz_target_parse(t64, "0.6,0.4", 0, &err), EMBZ_OK);
+        ck_assert(!embz_target_below_ebit(t64));
+    }
+    embz_target_clear(t3);
+    embz_target_clear(t64);
+    fmpq_clear(Ke); fmpq_clear(Kq); fmpq_clear(half);
+    flint_randclear(st);
+}
+END_TEST
+
+START_TEST(test_never_decision)
+{
+    /* i^-1/2 (limit 1 - 2^-1/2 [derived]) with goal 0.1: never for one ebit, for uniform:3
+     * and for (0.5, 0.3, 0.2); the limit is not a bound for (0.6, 0.4), so no "never" */
+    embz_family_t f;
+    family(f, "power");
+    arb_t L, g;
+    arb_init(L); arb_init(g);
+    ck_assert(embz_family_ebit_limit(L, f, 128));
+    arb_set_str(g, "0.1", 128);
+    static const char *const specs[4] = { "ebit", "uniform:3", "0.5,0.3,0.2", "0.6,0.4" };
+    for (int k = 0; k < 4; k++) {
+        embz_target_t q;
+        embz_err_t err;
+        embz_err_clear(&err);
+        embz_target_init(q);
+        ck_assert_int_eq(embz_target_parse(q, specs[k], 0, &err), EMBZ_OK);
+        embz_size_result_t r;
+        embz_size_result_init(r);
+        r->status = EMBZ_SIZE_NOT_REACHED;
+        ck_assert_int_eq(embz_size_never(r, 1, L, q, g), k < 3);
+        r->status = EMBZ_SIZE_FOUND;
+        ck_assert_int_eq(embz_size_never(r, 1, L, q, g), 0);
+        embz_size_result_clear(r);
+        embz_target_clear(q);
+    }
+    /* 1/i is an embezzler: no positive limit is derived */
+    embz_family_t f2;
+    family(f2, "inverse");
+    ck_assert(!embz_family_ebit_limit(L, f2, 128) || !arb_is_positive(L));
+    embz_family_clear(f2);
+    arb_clear(L); arb_clear(g);
+    embz_family_clear(f);
+}
+END_TEST
+
 /* Exact ties: a goal equal to E_n itself. The enclosures straddle it at every precision; the
  * exact goal decides it in rational arithmetic. 1/i: E_4 = 1 - H_2/H_4 = 7/25 (closed form
  * of notes section 6, FLINT's harmonic numbers), so eps = 0.28 is reached first at n = 4;
@@ -341,6 +475,8 @@ int main(void)
     tcase_add_test(tc, test_inverse_against_exact_scan);
     tcase_add_test(tc, test_inverse_large_and_qubits);
     tcase_add_test(tc, test_power_never);
+    tcase_add_test(tc, test_never_rule);
+    tcase_add_test(tc, test_never_decision);
     tcase_add_test(tc, test_bad_goal);
     tcase_add_test(tc, test_exact_ties);
     suite_add_tcase(s, tc);

@@ -61,4 +61,21 @@ int embz_size_solve_exact_goal(embz_size_result_t res, const embz_family_t f, co
                                const embz_target_t q, slong prec, int qubits_only,
                                embz_err_t *err);
 
+/* ---- goals no size reaches ---- */
+/* 1 when the target is majorized by one ebit, that is its largest entry is at most 1/2 (every
+ * uniform target, ebits:J, and vectors like (0.5, 0.3, 0.2)); else 0. Then p (x) q is
+ * majorized by p (x) (1/2, 1/2) for every Schmidt vector p, so no Ky Fan norm of p (x) q
+ * exceeds that of p (x) (1/2, 1/2), and E_n(q) >= E_n(one ebit) for every family and n. */
+int embz_target_below_ebit(const embz_target_t q);
+
+/* The limit of the one-ebit error E_n as n grows, when the asymptotic route derives it (a
+ * weight that does not depend on n): 1 and the limit in L (a ball); else 0. */
+int embz_family_ebit_limit(arb_t L, const embz_family_t f, slong prec);
+
+/* "Never": the search did not reach the goal (res->status NOT_REACHED), the one-ebit limit
+ * is known (limit_known, limit) and lies above the goal, and the target is majorized by
+ * one ebit, so that its error stays above that limit too. 1 or 0. */
+int embz_size_never(const embz_size_result_t res, int limit_known, const arb_t limit,
+                    const embz_target_t q, const arb_t goal);
+
 #endif

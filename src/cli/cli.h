@@ -180,28 +180,11 @@ typedef struct {
 void cli_compare_opts_init(cli_compare_opts_t *o);
 void cli_compare_opts_clear(cli_compare_opts_t *o);
 
-/* Everything computed about one family; the texts are filled by cli_compare_run. */
+/* One family of a comparison: what the library computed (d) and the texts made of it by
+ * cli_compare_run. */
 typedef struct {
-    embz_family_struct *fam;     /* borrowed */
+    embz_compare_row_struct d;
     char *label;                 /* name with its parameter values */
-    int status;                  /* EMBZ_OK, or the failure (message in message) */
-    char message[600];
-    embz_classify_t c;           /* one-ebit classification with its sweep and fits */
-    int limit_known;             /* the asymptotic route knows the one-ebit limit [derived] */
-    arb_t limit;
-    int summable;                /* 1 / 0 / -1: the weight sum converges / diverges / unknown */
-    int own_sweep;               /* tsweep/tfits are a separate sweep for the target */
-    embz_sweep_t tsweep;
-    embz_fitset_t tfits;
-    int tfit_ok;
-    arb_struct *err_at;          /* opts.nsizes enclosures */
-    int *err_status;
-    char **err_why;              /* opts.nsizes: why a size has no enclosure (or NULL) */
-    embz_size_result_struct *need;   /* opts.ngoals results (qubit resolution) */
-    int *need_status;
-    int *never;                  /* goal below the certified one-ebit limit */
-    double seconds;
-    /* texts */
     char *verdict, *law, *exponent, *limit_text;
     char **error_text, **need_n_text, **need_q_text;
     char *why;                   /* one line, for the terminal table */
@@ -228,8 +211,6 @@ void cli_compare_text(embz_buf_t *b, const cli_compare_row_t *rows, const long *
                       long nfam, const cli_compare_opts_t *o);
 /* Format from --format or the extension of path (-1 when neither says). */
 int cli_compare_format(const char *format_opt, const char *path);
-/* The policy for errors at chosen sizes, shared by report, demo and plot. */
-void cli_sizes_eval_opts(embz_eval_opts_t o);
 
 /* The output can be written (embz_output_check: "-" and /dev/stdout are standard output, other
  * names are followed through symbolic links): 0, or the message and exit code 2 for a refused

@@ -4,9 +4,6 @@
 #include <stdlib.h>
 #include <string.h>
 #include <unistd.h>
-#ifdef _OPENMP
-#include <omp.h>
-#endif
 #include "cli.h"
 
 static const cli_opt_t demo_opts[] = {
@@ -50,13 +47,13 @@ static const char *const demo_families[] = {
 static long row_rank(const cli_compare_row_t *r, long *qubits)
 {
     *qubits = 0;
-    if (r->status != EMBZ_OK || r->need_status[0] != EMBZ_OK) return 4;
-    if (r->need[0].status == EMBZ_SIZE_FOUND) {
+    if (r->d.status != EMBZ_OK || r->d.need_status[0] != EMBZ_OK) return 4;
+    if (r->d.need[0].status == EMBZ_SIZE_FOUND) {
         *qubits = r->need_q_text[0] ? atol(r->need_q_text[0]) : 0;
         return 0;
     }
-    if (r->never[0]) return 3;
-    return r->c->verdict == EMBZ_VERDICT_EMBEZZLER ? 1 : 2;
+    if (r->d.never[0]) return 3;
+    return r->d.c->verdict == EMBZ_VERDICT_EMBEZZLER ? 1 : 2;
 }
 
 int cli_cmd_demo(int argc, char **argv)
@@ -73,9 +70,7 @@ int cli_cmd_demo(int argc, char **argv)
     cli_compare_opts_t o;
     cli_compare_opts_init(&o);
     o.cmd = "demo";
-#ifdef _OPENMP
-    o.threads = omp_get_num_procs();
-#endif
+    o.threads = embz_threads_available();
     static const char *const goals[] = { "1e-3" };
     static const char *const size_text[] = { "10^30", "10^100" };
     fmpz sizes[2];

@@ -194,41 +194,31 @@ int cli_cmd_plot(int argc, char **argv)
     for (long i = 0; i < nfam; i++) {
         char *label = cli_family_label(fam + i);
         slong s = embz_plot_add_series(fig, pe, label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE, -1000);
-        embz_eval_opts_t eo;
-        embz_eval_t ev;
-        embz_eval_work_t wk;
-        cli_sizes_eval_opts(eo);
-        embz_eval_init(ev, fam + i, eo, prec);
-        embz_eval_work_init(wk);
-        for (slong j = 0; j < ns; j++) {
-            embz_error_result_t res;
-            embz_error_result_init(res);
-            embz_err_clear(&err);
-            status = embz_eval_error(res, ev, wk, sizes + j, q, &err);
-            if (status == EMBZ_OK) {
+        arb_ptr E = _arb_vec_init(ns);
+        int *st = calloc((size_t) ns, sizeof(int));
+        embz_err_t *errs = calloc((size_t) ns, sizeof(embz_err_t));
+        status = embz_errors_at(E, st, errs, fam + i, sizes, ns, q, prec);
+        for (slong j = 0; j < ns && st[j] != -1; j++) {
+            if (st[j] == EMBZ_OK) {
                 double lo, mid, hi;
-                arb_log10_d(&lo, &mid, &hi, res->error);
+                arb_log10_d(&lo, &mid, &hi, E + j);
                 embz_plot_push(fig, pe, s, fmpz_log10_d(sizes + j), mid, lo, hi);
             } else {
                 char buf[3000], *ns_text = embz_fmpz_string(sizes + j, 30);
-                embz_err_format(buf, sizeof(buf), &err);
+                embz_err_format(buf, sizeof(buf), errs + j);
                 fprintf(stderr, "embz plot: %s: n = %s left out: %s\n", label, ns_text, buf);
                 free(ns_text);
                 skipped++;
-                if (status == EMBZ_ERR_DOMAIN) {
-                    embz_error_result_clear(res);
-                    embz_eval_work_clear(wk);
-                    embz_eval_clear(ev);
-                    free(label);
-                    code = cli_exit_code(status);
-                    goto done;
-                }
             }
-            embz_error_result_clear(res);
         }
-        embz_eval_work_clear(wk);
-        embz_eval_clear(ev);
+        _arb_vec_clear(E, ns);
+        free(st);
+        free(errs);
         free(label);
+        if (status == EMBZ_ERR_DOMAIN) {
+            code = cli_exit_code(status);
+            goto done;
+        }
     }
 
     if (cli_flag(&a, "weights")) {

@@ -3,9 +3,6 @@
 #include <stdlib.h>
 #include <string.h>
 #include <unistd.h>
-#ifdef _OPENMP
-#include <omp.h>
-#endif
 #include "cli.h"
 
 static const cli_opt_t report_opts[] = {
@@ -71,11 +68,7 @@ static long split_list(char ***items, char **buf, const char *text)
 
 static int default_threads(void)
 {
-#ifdef _OPENMP
-    return omp_get_num_procs();
-#else
-    return 1;
-#endif
+    return embz_threads_available();
 }
 
 static char *value_label(const fmpq_t v)

@@ -171,27 +171,19 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
     embz_buf_printf(b, "  method     %s, %ld evaluations\n", r->method, r->evaluations);
 }
 
-/* "never" when the analytic route proves a positive one-ebit limit above the goal. */
-static int never_reason(char *buf, size_t len, const embz_family_t fam, const embz_target_t q,
-                        const arb_t goal)
+/* The words for "never" (embz_size_never): the one-ebit limit, and for a target other than
+ * one ebit why that limit bounds its error too. */
+static void never_words(char *buf, size_t len, const arb_t limit, const embz_target_t q)
 {
-    if (q->kind != EMBZ_TARGET_UNIFORM || q->d != 2) return 0;
-    if (embz_expr_uses(fam->weight) & EMBZ_USES_N) return 0;
-    embz_asym_result_t ar;
-    embz_err_t err;
-    embz_err_clear(&err);
-    embz_asym_result_init(ar);
-    int ok = 0;
-    if (embz_asym_analyse(ar, fam->weight, 128, &err) == EMBZ_OK && ar->limit_known
-        && arb_gt(ar->limit, goal)) {
-        char *l = embz_arb_certified_string(ar->limit, 10);
+    char *l = embz_arb_certified_string(limit, 10);
+    if (q->kind == EMBZ_TARGET_UNIFORM && q->d == 2)
         snprintf(buf, len, "the error tends to the positive limit %s [derived: math notes "
                            "section 5], above the goal", l);
-        free(l);
-        ok = 1;
-    }
-    embz_asym_result_clear(ar);
-    return ok;
+    else
+        snprintf(buf, len, "the one-ebit error tends to the positive limit %s [derived: math "
+                           "notes section 5], above the goal, and this target is majorized by "
+                           "one ebit, so its error is never below the one-ebit error", l);
+    free(l);
 }
 
 int cli_cmd_size(int argc, char **argv)
@@ -203,9 +195,12 @@ int cli_cmd_size(int argc, char **argv)
     embz_family_t fam;
     embz_target_t q;
     embz_buf_t out;
+    arb_t limit;                  /* the one-ebit limit, for "never" (found once, if needed) */
+    int limit_known = -1;
     embz_family_init(fam);
     embz_target_init(q);
     embz_buf_init(&out);
+    arb_init(limit);
     int json = cli_flag(&a, "json");
     const char *eps_text = cli_value(&a, "eps");
     const char *measure = cli_value(&a, "measure");
@@ -319,8 +314,10 @@ int cli_cmd_size(int argc, char **argv)
                 snprintf(label, sizeof(label), "%s", gs);
                 free(gs);
             }
-            int nev = r->status == EMBZ_SIZE_NOT_REACHED
-                      && never_reason(reason, sizeof(reason), fam, q, g[part]);
+            if (r->status == EMBZ_SIZE_NOT_REACHED && limit_known < 0)
+                limit_known = embz_family_ebit_limit(limit, fam, 128);
+            int nev = embz_size_never(r, limit_known > 0, limit, q, g[part]);
+            if (nev) never_words(reason, sizeof(reason), limit, q);
             if (json) {
                 embz_buf_printf(&out, "%s", first ? "" : ", ");
                 json_result(&out, label, r);
@@ -349,6 +346,7 @@ int cli_cmd_size(int argc, char **argv)
     fputs(out.s, stdout);
 done:
     free(goals);
+    arb_clear(limit);
     embz_buf_clear(&out);
     embz_family_clear(fam);
     embz_target_clear(q);

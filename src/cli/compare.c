@@ -1,18 +1,13 @@
-/* Comparing families: the computation behind `embz report` and `embz demo`. For each family:
- * the one-ebit classification (verdict, law, limit), a sweep for the chosen target with fitted
- * laws (for the plots), certified errors at chosen sizes, and the size needed for each error
- * goal from the qubit-resolution solver. Then the report struct, the figures and a plain-text
- * table are filled from those results. Numbers become text here, each either certified or
- * labelled as an estimate. */
+/* Comparing families for `embz report` and `embz demo`: the rows are computed by the library
+ * (embz_compare_run, include/embz/compare.h); here they become words, the report struct, the
+ * figures and a plain-text table. Each number is either certified or labelled as an
+ * estimate. */
 #include <math.h>
 #include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
 #include <time.h>
-#ifdef _OPENMP
-#include <omp.h>
-#endif
 #include "cli.h"
 
 
@@ -161,28 +156,13 @@ int cli_compare_format(const char *format_opt, const char *path)
 
 /* ------------------------------------------------------------------ computing */
 
-static void row_init(cli_compare_row_t *r, embz_family_struct *f, const cli_compare_opts_t *o)
+static void row_init(cli_compare_row_t *r, embz_family_struct *f, const cli_compare_opts_t *o,
+                     const embz_compare_opts_t co)
 {
     memset(r, 0, sizeof(*r));
-    r->fam = f;
+    embz_compare_row_init(&r->d, f, co);
     r->label = cli_family_label(f);
-    embz_classify_init(r->c);
-    arb_init(r->limit);
-    r->summable = -1;
-    embz_sweep_init(r->tsweep);
-    embz_fitset_init(r->tfits);
-    r->err_at = _arb_vec_init(o->nsizes > 0 ? o->nsizes : 1);
-    r->err_status = calloc((size_t) o->nsizes + 1, sizeof(int));
-    r->need = calloc((size_t) o->ngoals + 1, sizeof(embz_size_result_struct));
-    r->need_status = calloc((size_t) o->ngoals + 1, sizeof(int));
-    r->never = calloc((size_t) o->ngoals + 1, sizeof(int));
-    for (slong j = 0; j < o->ngoals; j++) {
-        embz_size_result_init(r->need + j);
-        r->need_status[j] = -1;
-    }
-    for (slong j = 0; j < o->nsizes; j++) r->err_status[j] = -1;
     r->error_text = calloc((size_t) o->nsizes + 1, sizeof(char *));
-    r->err_why = calloc((size_t) o->nsizes + 1, sizeof(char *));
     r->need_n_text = calloc((size_t) o->ngoals + 1, sizeof(char *));
     r->need_q_text = calloc((size_t) o->ngoals + 1, sizeof(char *));
 }
@@ -196,159 +176,22 @@ static void free_strings(char **s, slong n)
 
 void cli_compare_rows_clear(cli_compare_row_t *rows, long nfam, const cli_compare_opts_t *o)
 {
+    embz_compare_opts_t co;
+    embz_compare_opts_init(co);
+    co->nsizes = o->nsizes;
+    co->ngoals = o->ngoals;
     for (long i = 0; i < nfam; i++) {
         cli_compare_row_t *r = rows + i;
+        embz_compare_row_clear(&r->d, co);
         free(r->label);
-        embz_classify_clear(r->c);
-        arb_clear(r->limit);
-        embz_sweep_clear(r->tsweep);
-        embz_fitset_clear(r->tfits);
-        _arb_vec_clear(r->err_at, o->nsizes > 0 ? o->nsizes : 1);
-        free(r->err_status);
-        for (slong j = 0; j < o->ngoals; j++) embz_size_result_clear(r->need + j);
-        free(r->need);
-        free(r->need_status);
-        free(r->never);
         free(r->verdict); free(r->law); free(r->exponent); free(r->limit_text);
         free_strings(r->error_text, o->nsizes);
-        free_strings(r->err_why, o->nsizes);
         free_strings(r->need_n_text, o->ngoals);
         free_strings(r->need_q_text, o->ngoals);
         free(r->why);
         free(r->notes);
     }
-}
-
-static int is_one_ebit(const embz_target_t q)
-{
-    return q->kind == EMBZ_TARGET_UNIFORM && q->d == 2;
-}
-
-/* The goal text as a ball (exact decimals are exact rationals). */
-static int goal_arb(arb_t g, const char *text, slong prec)
-{
-    fmpq_t e;
-    fmpq_init(e);
-    int ok = embz_number_parse(e, text) == EMBZ_OK && fmpq_sgn(e) > 0 && fmpq_cmp_ui(e, 1) < 0;
-    if (ok) arb_set_fmpq(g, e, 4 * prec);
-    fmpq_clear(e);
-    return ok;
-}
-
-/* The policy for errors at chosen sizes (report, demo, plot): explicit summation up to 10^5,
- * beyond it the analytic engine reused across the sizes, and after any failure of that the
- * default policy (embz_error) once more. */
-void cli_sizes_eval_opts(embz_eval_opts_t o)
-{
-    embz_eval_opts_init(o);
-    o->explicit_up_to = 100000;
-    o->fallback = EMBZ_FALLBACK_AGAIN;
-}
-
-/* One family, start to end; only this row's objects are touched (safe in parallel). */
-static void compute_row(cli_compare_row_t *r, const cli_compare_opts_t *o)
-{
-    double t0 = now_s();
-    embz_err_t err;
-    embz_target_t q;
-    embz_classify_opts_t co;
-    embz_target_init(q);
-    embz_classify_opts_init(co);
-    embz_err_clear(&err);
-    int status = EMBZ_OK;
-
-    if (o->target_text != NULL
-        && (status = embz_target_parse(q, o->target_text, 0, &err)) != EMBZ_OK)
-        goto fail;
-
-    /* 1. one-ebit classification */
-    fmpz_set(co->from, o->from);
-    fmpz_set(co->to, o->to);
-    co->points = o->points;
-    co->prec = o->prec;
-    co->use_analytic = 1;
-    if ((status = embz_classify(r->c, r->fam, co, NULL, NULL, &err)) != EMBZ_OK) goto fail;
-
-    /* the asymptotic route's facts used for "never" and for the one-line reasons */
-    if (!(embz_expr_uses(r->fam->weight) & EMBZ_USES_N)) {
-        embz_asym_result_t ar;
-        embz_err_t e2;
-        embz_err_clear(&e2);
-        embz_asym_result_init(ar);
-        if (embz_asym_analyse(ar, r->fam->weight, 128, &e2) == EMBZ_OK) {
-            r->summable = ar->sum_diverges == 1 ? 0 : ar->sum_diverges == 0 ? 1 : -1;
-            if (ar->limit_known) {
-                r->limit_known = 1;
-                arb_set(r->limit, ar->limit);
-            }
-        }
-        embz_asym_result_clear(ar);
-    }
-
-    /* 2. the sweep for the target (the classification sweep when the target is one ebit) */
-    if (!is_one_ebit(q)) {
-        r->own_sweep = 1;
-        embz_err_clear(&err);
-        status = embz_sweep_run(r->tsweep, r->fam, o->from, o->to, o->points, q, o->prec,
-                                NULL, NULL, &err);
-        if (status != EMBZ_OK) goto fail;
-        embz_err_clear(&err);
-        r->tfit_ok = embz_fit_sweep(r->tfits, r->tsweep, &err) == EMBZ_OK;
-        embz_err_clear(&err);
-    }
-
-    /* 3. certified errors at the chosen sizes, one workspace for all of them */
-    {
-        embz_eval_opts_t eo;
-        embz_eval_t ev;
-        embz_eval_work_t wk;
-        cli_sizes_eval_opts(eo);
-        embz_eval_init(ev, r->fam, eo, o->prec);
-        embz_eval_work_init(wk);
-        for (slong j = 0; j < o->nsizes; j++) {
-            embz_error_result_t res;
-            embz_error_result_init(res);
-            embz_err_clear(&err);
-            status = embz_eval_error(res, ev, wk, o->sizes + j, q, &err);
-            r->err_status[j] = status;
-            if (status == EMBZ_OK) arb_set(r->err_at + j, res->error);
-            else r->err_why[j] = sdup(err.text[0] ? err.text : "no enclosure");
-            embz_error_result_clear(res);
-            if (status == EMBZ_ERR_DOMAIN) break;
-        }
-        embz_eval_work_clear(wk);
-        embz_eval_clear(ev);
-        if (status == EMBZ_ERR_DOMAIN) goto fail;
-        status = EMBZ_OK;
-    }
-
-    /* 4. sizes for the goals, resolved to the number of qubits */
-    for (slong j = 0; j < o->ngoals; j++) {
-        arb_t g;
-        arb_init(g);
-        goal_arb(g, o->goal_text[j], o->prec);
-        embz_err_clear(&err);
-        r->need_status[j] = embz_size_solve_qubits(r->need + j, r->fam, g, q, o->prec, &err);
-        /* the one-ebit limit bounds the error of any larger target from below (see docs) */
-        if (r->need_status[j] == EMBZ_OK && r->need[j].status == EMBZ_SIZE_NOT_REACHED
-            && r->limit_known && arb_gt(r->limit, g) && q->kind == EMBZ_TARGET_UNIFORM
-            && q->d % 2 == 0)
-            r->never[j] = 1;
-        arb_clear(g);
-        if (r->need_status[j] == EMBZ_ERR_DOMAIN) {
-            status = EMBZ_ERR_DOMAIN;
-            goto fail;
-        }
-    }
-    r->status = EMBZ_OK;
-    goto done;
-fail:
-    r->status = status == EMBZ_OK ? EMBZ_ERR_UNSUPPORTED : status;
-    embz_err_format(r->message, sizeof(r->message), &err);
-done:
-    r->seconds = now_s() - t0;
-    embz_classify_opts_clear(co);
-    embz_target_clear(q);
+    embz_compare_opts_clear(co);
 }
 
 /* ------------------------------------------------------------------ texts */
@@ -434,28 +277,31 @@ static double law_value(int law, const embz_fit_struct *f, double x)
  * classification's when the target is one ebit. */
 static const embz_fitset_struct *target_fits(const cli_compare_row_t *r)
 {
-    if (r->own_sweep) return r->tfit_ok ? r->tfits : NULL;
-    return r->c->law ? r->c->fits : NULL;
+    if (r->d.own_sweep) return r->d.tfit_ok ? r->d.tfits : NULL;
+    return r->d.c->law ? r->d.c->fits : NULL;
 }
 
 static const embz_sweep_struct *target_sweep(const cli_compare_row_t *r)
 {
-    return r->own_sweep ? r->tsweep : r->c->sweep;
+    return r->d.own_sweep ? r->d.tsweep : r->d.c->sweep;
 }
 
 static const char *rate_words(const cli_compare_row_t *r)
 {
-    if (r->c->analytic_rate[0]) return r->c->analytic_rate;
-    return r->c->law ? embz_law_formula(r->c->law) : "an unknown law";
+    if (r->d.c->analytic_rate[0]) return r->d.c->analytic_rate;
+    return r->d.c->law ? embz_law_formula(r->d.c->law) : "an unknown law";
 }
 
-static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
+static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o,
+                       const embz_target_t q)
 {
-    const embz_classify_struct *c = r->c;
-    if (r->status != EMBZ_OK) {
+    /* ebits:J (uniform over a power of two): the words used since "never" was only those */
+    int several_ebits = q->kind == EMBZ_TARGET_UNIFORM && q->d >= 2 && (q->d & (q->d - 1)) == 0;
+    const embz_classify_struct *c = r->d.c;
+    if (r->d.status != EMBZ_OK) {
         r->verdict = sdup("failed");
-        r->why = sfmt("failed: %s", r->message);
-        r->notes = sfmt("The computation failed: %s", r->message);
+        r->why = sfmt("failed: %s", r->d.message);
+        r->notes = sfmt("The computation failed: %s", r->d.message);
         return;
     }
     r->verdict = sdup(verdict_words(c->verdict));
@@ -469,8 +315,8 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
     } else if (c->law) {
         r->law = sdup("constant (settled)");
     }
-    if (r->limit_known) {
-        char *l = embz_arb_certified_string(r->limit, 6);
+    if (r->d.limit_known) {
+        char *l = embz_arb_certified_string(r->d.limit, 6);
         r->limit_text = sfmt("%s (derived)", l);
         free(l);
     } else if (c->verdict == EMBZ_VERDICT_EMBEZZLER && c->analytic_available
@@ -480,11 +326,11 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
         r->limit_text = sfmt("\xe2\x89\x88 %.4g (est.)", c->limit_value);
     }
     for (slong j = 0; j < o->nsizes; j++)
-        r->error_text[j] = r->err_status[j] == EMBZ_OK
-                         ? embz_arb_certified_string(r->err_at + j, 6) : NULL;
+        r->error_text[j] = r->d.err_status[j] == EMBZ_OK
+                         ? embz_arb_certified_string(r->d.err_at + j, 6) : NULL;
     for (slong j = 0; j < o->ngoals; j++) {
-        const embz_size_result_struct *s = r->need + j;
-        if (r->need_status[j] != EMBZ_OK) continue;
+        const embz_size_result_struct *s = r->d.need + j;
+        if (r->d.need_status[j] != EMBZ_OK) continue;
         if (s->status == EMBZ_SIZE_FOUND) {
             fmpz_t m;
             fmpz_init(m);
@@ -499,7 +345,7 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
             }
             r->need_q_text[j] = sfmt("%ld", qb);
         } else if (s->status == EMBZ_SIZE_NOT_REACHED) {
-            if (r->never[j]) {
+            if (r->d.never[j]) {
                 r->need_n_text[j] = sdup("never");
                 r->need_q_text[j] = sdup("never");
             } else {
@@ -513,14 +359,14 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
     /* the one-line why, about the first goal */
     embz_buf_t w;
     embz_buf_init(&w);
-    const embz_size_result_struct *s0 = o->ngoals > 0 && r->need_status[0] == EMBZ_OK
-                                      ? r->need : NULL;
+    const embz_size_result_struct *s0 = o->ngoals > 0 && r->d.need_status[0] == EMBZ_OK
+                                      ? r->d.need : NULL;
     if (c->verdict == EMBZ_VERDICT_NOT_EMBEZZLER) {
-        if (r->limit_known) {
-            char *l = embz_arb_certified_string(r->limit, 6);
+        if (r->d.limit_known) {
+            char *l = embz_arb_certified_string(r->d.limit, 6);
             embz_buf_printf(&w, "positive limit: one-ebit error tends to %s (derived)", l);
             free(l);
-        } else if (r->summable == 1) {
+        } else if (r->d.summable == 1) {
             embz_buf_printf(&w, "summable weights: one-ebit error levels off near %.3g (est.)",
                             c->limit_value);
         } else {
@@ -546,11 +392,11 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
     /* notes: the why, the sizes' evidence, the classification's reasons */
     embz_buf_t nb;
     embz_buf_init(&nb);
-    embz_buf_printf(&nb, "Weight %s%s. In short: %s.", r->fam->weight_text,
-                    r->fam->amplitude ? " (amplitude; the weight is its square)" : "", r->why);
+    embz_buf_printf(&nb, "Weight %s%s. In short: %s.", r->d.fam->weight_text,
+                    r->d.fam->amplitude ? " (amplitude; the weight is its square)" : "", r->why);
     for (slong j = 0; j < o->ngoals; j++) {
-        const embz_size_result_struct *s = r->need + j;
-        if (r->need_status[j] != EMBZ_OK) continue;
+        const embz_size_result_struct *s = r->d.need + j;
+        if (r->d.need_status[j] != EMBZ_OK) continue;
         if (s->status == EMBZ_SIZE_FOUND) {
             char *e = ball_text(s->err_n), *el = ball_text(s->err_prev);
             char *nt = size_text(s->n, 1), *lt = size_text(s->n_low, 0);
@@ -570,10 +416,12 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
             embz_buf_printf(&nb, "\n\nGoal %s: not reached by the search, which stops at n = "
                             "2^%ld, where E = %s (certified).", o->goal_text[j],
                             (long) fmpz_bits(s->largest) - 1, e);
-            if (r->never[j]) {
-                char *l = embz_arb_certified_string(r->limit, 8);
+            if (r->d.never[j]) {
+                char *l = embz_arb_certified_string(r->d.limit, 8);
                 embz_buf_printf(&nb, " Never: the one-ebit error tends to %s [derived], above "
-                                "the goal, and a target of several ebits cannot do better.", l);
+                                "the goal, and %s cannot do better.", l,
+                                several_ebits ? "a target of several ebits"
+                                              : "a target majorized by one ebit");
                 free(l);
             }
             free(e);
@@ -581,45 +429,85 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o)
     }
     /* a size without an enclosure shows '–' in the table: the reason belongs here */
     for (slong j = 0; j < o->nsizes; j++)
-        if (r->err_status[j] != EMBZ_OK && r->err_why[j] != NULL)
+        if (r->d.err_status[j] != EMBZ_OK && r->d.err_why[j] != NULL)
             embz_buf_printf(&nb, "\n\nE at n = %s: not certified (%s).", o->size_text[j],
-                            r->err_why[j]);
+                            r->d.err_why[j]);
     embz_buf_printf(&nb, "\n\nClassification (one ebit, sizes swept as set for this document):");
     for (slong k = 0; k < c->nreasons; k++)
         embz_buf_printf(&nb, "\n\n\xe2\x80\xa2 %s", c->reasons[k]);
     r->notes = nb.s;
 }
 
+/* The goal text as an exact rational (checked by the command before). */
+static void goal_fmpq(fmpq_t g, const char *text)
+{
+    if (embz_number_parse(g, text) != EMBZ_OK) fmpq_zero(g);
+}
+
+typedef struct {
+    const cli_compare_row_t *rows;
+    const cli_compare_opts_t *o;
+    double t0;
+} progress_ctx;
+
+static void row_done(void *ctx, slong i, slong done, slong total)
+{
+    const progress_ctx *p = ctx;
+    (void) done;
+    (void) total;
+    fprintf(stderr, "embz %s: %s done (%.1f s; %.1f s elapsed)\n", p->o->cmd,
+            p->rows[i].label, p->rows[i].d.seconds, now_s() - p->t0);
+    fflush(stderr);
+}
+
 int cli_compare_run(cli_compare_row_t *rows, embz_family_struct *fam, long nfam,
                     const cli_compare_opts_t *o)
 {
-    for (long i = 0; i < nfam; i++) row_init(rows + i, fam + i, o);
-    double t0 = now_s();
-#ifdef _OPENMP
-#pragma omp parallel for schedule(dynamic, 1) num_threads(o->threads > 0 ? o->threads : 1)
-#endif
-    for (long i = 0; i < nfam; i++) {
-        compute_row(rows + i, o);
-        if (o->progress) {
-#ifdef _OPENMP
-#pragma omp critical(cli_compare_progress)
-#endif
-            {
-                fprintf(stderr, "embz %s: %s done (%.1f s; %.1f s elapsed)\n", o->cmd,
-                        rows[i].label, rows[i].seconds, now_s() - t0);
-                fflush(stderr);
-            }
-        }
-    }
+    embz_compare_opts_t co;
+    embz_target_t q;
+    embz_err_t err;
+    embz_compare_opts_init(co);
+    embz_target_init(q);
+    embz_err_clear(&err);
+    fmpq *goals = _fmpq_vec_init(o->ngoals > 0 ? o->ngoals : 1);
+    for (slong j = 0; j < o->ngoals; j++) goal_fmpq(goals + j, o->goal_text[j]);
+    fmpz_set(co->from, o->from);
+    fmpz_set(co->to, o->to);
+    co->points = o->points;
+    co->prec = o->prec;
+    co->nsizes = o->nsizes;
+    co->sizes = o->sizes;
+    co->ngoals = o->ngoals;
+    co->goals = goals;
+    co->threads = o->threads;
+    int tst = o->target_text != NULL ? embz_target_parse(q, o->target_text, 0, &err) : EMBZ_OK;
+    co->target = q;
+    for (long i = 0; i < nfam; i++) row_init(rows + i, fam + i, o, co);
+    progress_ctx pc = { rows, o, now_s() };
     int code = CLI_EXIT_OK;
+    if (tst != EMBZ_OK) {
+        /* checked by the command before: only a broken invariant gets here */
+        for (long i = 0; i < nfam; i++) {
+            rows[i].d.status = tst;
+            embz_err_format(rows[i].d.message, sizeof(rows[i].d.message), &err);
+        }
+    } else {
+        embz_compare_row_struct **rp = malloc((size_t) (nfam > 0 ? nfam : 1) * sizeof(*rp));
+        for (long i = 0; i < nfam; i++) rp[i] = &rows[i].d;
+        embz_compare_run(rp, nfam, co, o->progress ? row_done : NULL, &pc);
+        free(rp);
+    }
     for (long i = 0; i < nfam; i++) {
-        make_texts(rows + i, o);
-        if (rows[i].status != EMBZ_OK) {
-            fprintf(stderr, "embz %s: %s: %s\n", o->cmd, rows[i].label, rows[i].message);
-            int c = cli_exit_code(rows[i].status);
+        make_texts(rows + i, o, q);
+        if (rows[i].d.status != EMBZ_OK) {
+            fprintf(stderr, "embz %s: %s: %s\n", o->cmd, rows[i].label, rows[i].d.message);
+            int c = cli_exit_code(rows[i].d.status);
             if (c > code) code = c;
         }
     }
+    _fmpq_vec_clear(goals, o->ngoals > 0 ? o->ngoals : 1);
+    embz_target_clear(q);
+    embz_compare_opts_clear(co);
     return code;
 }
 
@@ -677,7 +565,7 @@ static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfa
                                   "E\xe2\x82\x99 (certified points; dashed: fitted law)", 1, 1);
     for (long i = 0; i < nfam; i++) {
         const cli_compare_row_t *r = rows + i;
-        if (r->status != EMBZ_OK) continue;
+        if (r->d.status != EMBZ_OK) continue;
         const embz_sweep_struct *sw = target_sweep(r);
         slong s = embz_plot_add_series(fig, p, r->label, EMBZ_PLOT_POINTS, i);
         style_series(fig, p, s, i);
@@ -694,7 +582,7 @@ static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfa
             xmax = x > xmax ? x : xmax;
         }
         const embz_fitset_struct *fs = target_fits(r);
-        int law = fs == NULL ? EMBZ_LAW_NONE : r->own_sweep ? fs->best : r->c->law;
+        int law = fs == NULL ? EMBZ_LAW_NONE : r->d.own_sweep ? fs->best : r->d.c->law;
         if (law == EMBZ_LAW_NONE || fs->m < 2 || !(xmax > xmin)) continue;
         const embz_fit_struct *f = fs->fits + law;
         if (!f->ok || !isfinite(f->C) || !isfinite(f->g)) continue;
@@ -730,7 +618,7 @@ static void weights_panel(embz_plot_t fig, const cli_compare_row_t *rows, long n
         style_series(fig, pw, s, i);
         embz_err_t err;
         embz_err_clear(&err);
-        if (embz_family_weight_arb(w1, r->fam, one, o->to, o->prec, &err) != EMBZ_OK
+        if (embz_family_weight_arb(w1, r->d.fam, one, o->to, o->prec, &err) != EMBZ_OK
             || !arb_is_positive(w1))
             continue;
         for (slong j = 0; j < nw; j++) {
@@ -745,7 +633,7 @@ static void weights_panel(embz_plot_t fig, const cli_compare_row_t *rows, long n
             arf_get_fmpz(x, arb_midref(w), ARF_RND_NEAR);
             if (fmpz_cmp_ui(x, 1) < 0) fmpz_one(x);
             embz_err_clear(&err);
-            if (embz_family_weight_arb(w, r->fam, x, o->to, o->prec, &err) != EMBZ_OK) continue;
+            if (embz_family_weight_arb(w, r->d.fam, x, o->to, o->prec, &err) != EMBZ_OK) continue;
             arb_div(w, w, w1, o->prec);
             double lo, mid, hi;
             arb_log10_d(&lo, &mid, &hi, w);
@@ -793,9 +681,9 @@ void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare
     for (long i = 0; i < nfam; i++) {
         const cli_compare_row_t *w = rows + i;
         embz_report_family_struct *f = embz_report_add_family(r, w->label);
-        embz_report_set(&f->weight, w->fam->amplitude ? NULL : w->fam->weight_text);
-        if (w->fam->amplitude) {
-            char *t = sfmt("(%s)^2", w->fam->weight_text);
+        embz_report_set(&f->weight, w->d.fam->amplitude ? NULL : w->d.fam->weight_text);
+        if (w->d.fam->amplitude) {
+            char *t = sfmt("(%s)^2", w->d.fam->weight_text);
             embz_report_set(&f->weight, t);
             free(t);
         }
