@@ -71,7 +71,8 @@ assert [(p["error_lo"], p["error_hi"]) for p in a] == [(p["error_lo"], p["error_
 assert sum(p["method"] == "analytic" for p in b) >= 7
 '
 
-# a target vector: every size by the analytic engine (n >= 10^3), tight, and overlapping the
+# a target vector: every size above 4096 by the analytic engine (10^3 by explicit summation,
+# the one threshold between the methods), tight, and overlapping the
 # enclosure of `embz error` at that size (the sweep's engine certifies its tail for the
 # largest size, so the balls need not be identical)
 run sweep inverse --from 10^3 --to 10^60 --points 5 --target 0.7,0.3 --prec 128 --json
@@ -79,12 +80,12 @@ expect_rc 0 "sweep with a target vector"
 cp "$TMP/out" "$TMP/vec.json"
 export VEC_SWEEP="$TMP/vec.json"
 run error inverse -n "$(python3 -c 'import json,os; print(json.load(open(os.environ["VEC_SWEEP"]))["points"][2]["n"])')" --target 0.7,0.3 --method analytic --json
-pycheck "sweep with a target vector: analytic, tight, overlapping embz error" '
+pycheck "sweep with a target vector: explicit to 4096, analytic beyond, tight, overlapping embz error" '
 import json, os, sys
 from fractions import Fraction as F
 pts = json.load(open(os.environ["VEC_SWEEP"]))["points"]
 e = json.load(sys.stdin)
-assert all(p["method"] == "analytic" for p in pts), [p["method"] for p in pts]
+assert [p["method"] for p in pts] == ["explicit"] + ["analytic"] * 4, [p["method"] for p in pts]
 assert all(F(p["error_hi"]) - F(p["error_lo"]) < F(1, 10**30) for p in pts)
 assert F(pts[2]["error_lo"]) <= F(e["error_hi"]) and F(e["error_lo"]) <= F(pts[2]["error_hi"])
 assert F(e["error_hi"]) - F(e["error_lo"]) < F(1, 10**30)

@@ -568,11 +568,15 @@ START_TEST(test_error_failures)
     ck_assert_int_eq(embz_error_explicit(res, f, n, t, 128, &err), EMBZ_ERR_LIMIT);
     embz_err_clear(&err);
     ck_assert_int_eq(embz_error(res, f, n, t, EMBZ_METHOD_EXPLICIT, 128, &err), EMBZ_ERR_LIMIT);
-    /* auto at small n: explicit */
-    fmpz_set_si(n, 5000);
+    /* auto: explicit up to the one threshold, the analytic engine beyond */
+    fmpz_set_si(n, EMBZ_EVAL_EXPLICIT_UP_TO);
     embz_err_clear(&err);
     ck_assert_int_eq(embz_error(res, f, n, t, EMBZ_METHOD_AUTO, 128, &err), EMBZ_OK);
     ck_assert_int_eq(res->method, EMBZ_METHOD_EXPLICIT);
+    fmpz_add_ui(n, n, 1);
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_error(res, f, n, t, EMBZ_METHOD_AUTO, 128, &err), EMBZ_OK);
+    ck_assert_int_eq(res->method, EMBZ_METHOD_ANALYTIC);
     embz_family_clear(f);
     /* negative and undefined weights name the index */
     make_family(f, "i-3");

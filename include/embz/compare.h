@@ -61,9 +61,8 @@ typedef void (*embz_compare_progress_fn)(void *ctx, slong i, slong done, slong t
 int embz_compare_run(embz_compare_row_struct *const *rows, slong nfam,
                      const embz_compare_opts_t o, embz_compare_progress_fn progress, void *ctx);
 
-/* The policy for certified errors at chosen sizes (tables and plots): explicit summation up
- * to 10^5, beyond it the analytic engine reused across the sizes, and after any failure of
- * that the default policy (embz_error) once more. */
+/* The policy for certified errors at chosen sizes (tables and plots): the default one, the
+ * analytic engine reused across the sizes. */
 void embz_compare_eval_opts(embz_eval_opts_t o);
 
 /* Certified E_n(q) at sizes[0..len-1] under that policy, one workspace for all: status[j]

@@ -84,8 +84,6 @@ void embz_compare_row_clear(embz_compare_row_struct *r, const embz_compare_opts_
 void embz_compare_eval_opts(embz_eval_opts_t o)
 {
     embz_eval_opts_init(o);
-    o->explicit_up_to = 100000;
-    o->fallback = EMBZ_FALLBACK_AGAIN;
 }
 
 int embz_errors_at(arb_ptr E, int *status, embz_err_t *errs, const embz_family_t f,

@@ -11,7 +11,6 @@
 #include "embz/error.h"
 #include "sum/sum.h"
 
-#define SIZE_EXPLICIT_UP_TO 4096 /* explicit summation up to here, the analytic engine beyond */
 #define SIZE_PREC_STEPS 3         /* prec, 2 prec, 4 prec */
 #define SIZE_MAX_STEPS 400
 
@@ -108,15 +107,12 @@ void embz_size_result_clear(embz_size_result_t r)
     fmpz_clear(r->n_low);
 }
 
-/* The size search's policy: explicit summation up to SIZE_EXPLICIT_UP_TO, the analytic
- * engine beyond (in decision mode, reused across sizes, one per precision), explicit
- * summation within its limits when the engine fails or leaves a target vector's side open,
- * and SIZE_PREC_STEPS precisions while the side is undecided. */
+/* The size search's policy: the default one (the analytic engine in decision mode, reused
+ * across sizes, one per precision), explicit summation also where a target vector's side
+ * is left open, and SIZE_PREC_STEPS precisions while the side is undecided. */
 static void size_eval_opts(embz_eval_opts_t o)
 {
     embz_eval_opts_init(o);
-    o->explicit_up_to = SIZE_EXPLICIT_UP_TO;
-    o->fallback = EMBZ_FALLBACK_FAILED;
     o->goal_steps = SIZE_PREC_STEPS;
     o->goal_explicit = 1;
 }

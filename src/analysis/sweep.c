@@ -141,17 +141,13 @@ static int sweep_point(embz_sweep_point_struct *p, embz_error_result_t r, const 
     return ps;
 }
 
-/* The sweep's policy: the analytic engine at every size, its tail certified once for the
- * largest size; a size where that fails gets an engine certified up to itself; an enclosure
- * without a certified bit is retried at 2x, 4x and 8x the precision; explicit summation
- * within its limits when the engine fails. */
+/* The sweep's policy: the default one (its tail certified once for the largest size), and
+ * an enclosure with too few certified bits for the fits is retried at 2x, 4x and 8x the
+ * precision. */
 static void sweep_opts(embz_eval_opts_t o)
 {
     embz_eval_opts_init(o);
-    o->explicit_up_to = -1;
-    o->own_engine = 1;
     o->digit_steps = 4;
-    o->fallback = EMBZ_FALLBACK_FAILED;
 }
 
 int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const fmpz_t b,

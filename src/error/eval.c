@@ -37,7 +37,8 @@ void embz_eval_opts_init(embz_eval_opts_t o)
 {
     memset(o, 0, sizeof(*o));
     o->method = EMBZ_METHOD_AUTO;
-    o->fallback = EMBZ_FALLBACK_DECLINED;
+    o->fallback = EMBZ_FALLBACK_EXPLICIT;
+    o->own_engine = 1;
 }
 
 void embz_eval_init(embz_eval_t ev, const embz_family_t f, const embz_eval_opts_t o, slong prec)
@@ -168,28 +169,6 @@ static int explicit_at(embz_error_result_t res, const embz_eval_t ev, const fmpz
     return st;
 }
 
-/* The default policy at working precision wp, engines of its own: explicit summation up to
- * EMBZ_EVAL_EXPLICIT_UP_TO, beyond it the analytic engine, and explicit summation when the
- * engine declines (within EMBZ_EXPLICIT_MAX_N), its reason noted in the detail. */
-static int default_policy(embz_error_result_t res, const embz_eval_t ev, const fmpz_t n,
-                          const embz_target_t q, slong wp, embz_err_t *err)
-{
-    if (fmpz_cmp_si(n, EMBZ_EVAL_EXPLICIT_UP_TO) <= 0) return explicit_at(res, ev, n, q, wp, err);
-    int st = analytic_own(res, ev, n, q, NULL, wp, err);
-    if (st == EMBZ_ERR_UNSUPPORTED && fmpz_cmp_si(n, EMBZ_EXPLICIT_MAX_N) <= 0) {
-        char reason[sizeof(err->text)];
-        snprintf(reason, sizeof(reason), "%s", err != NULL ? err->text : "");
-        if (err != NULL) embz_err_clear(err);
-        st = explicit_at(res, ev, n, q, wp, err);
-        if (st == EMBZ_OK && reason[0] != '\0') {
-            size_t len = strlen(res->detail);
-            snprintf(res->detail + len, sizeof(res->detail) - len,
-                     " (analytic engine declined: %.120s)", reason);
-        }
-    }
-    return st;
-}
-
 /* One evaluation at precision step s (working precision prec 2^s) under the options. goal
  * (may be NULL) is the decision threshold of the analytic engine, side_goal (may be NULL) the
  * goal whose side is wanted. */
@@ -250,35 +229,20 @@ static int eval_step(embz_error_result_t res, const embz_eval_t ev, embz_eval_wo
             st = EMBZ_ERR_UNSUPPORTED;
     }
     if (st == EMBZ_OK) return st;
-    switch (o->fallback) {
-    case EMBZ_FALLBACK_DECLINED:
-        if (st == EMBZ_ERR_UNSUPPORTED && fmpz_cmp_si(n, xmax) <= 0) {
-            char reason[sizeof(err->text)];
-            snprintf(reason, sizeof(reason), "%s", err != NULL ? err->text : "");
-            embz_err_clear(err);
-            st = explicit_at(res, ev, n, q, wp, err);
-            if (st == EMBZ_OK && reason[0] != '\0') {
-                size_t len = strlen(res->detail);
-                snprintf(res->detail + len, sizeof(res->detail) - len,
-                         " (analytic engine declined: %.120s)", reason);
-            }
-        }
-        break;
-    case EMBZ_FALLBACK_FAILED:
-        if (st != EMBZ_ERR_DOMAIN && fmpz_cmp_si(n, xmax) <= 0) {
-            embz_err_clear(err);
-            st = explicit_at(res, ev, n, q, wp, err);
-            if (o->digit_steps > 1 && st == EMBZ_OK && !usable(res->error))
-                st = embz_err_set(err, EMBZ_ERR_PREC, "no certified digit at %ld bits",
-                                  (long) wp);
-        }
-        break;
-    case EMBZ_FALLBACK_AGAIN:
+    if (o->fallback == EMBZ_FALLBACK_EXPLICIT && st != EMBZ_ERR_DOMAIN
+        && fmpz_cmp_si(n, xmax) <= 0) {
+        char reason[sizeof(err->text)];
+        int declined = st == EMBZ_ERR_UNSUPPORTED;
+        snprintf(reason, sizeof(reason), "%s", err != NULL ? err->text : "");
         embz_err_clear(err);
-        st = default_policy(res, ev, n, q, wp, err);
-        break;
-    default:
-        break;
+        st = explicit_at(res, ev, n, q, wp, err);
+        if (o->digit_steps > 1 && st == EMBZ_OK && !usable(res->error))
+            st = embz_err_set(err, EMBZ_ERR_PREC, "no certified digit at %ld bits", (long) wp);
+        if (st == EMBZ_OK && reason[0] != '\0') {
+            size_t len = strlen(res->detail);
+            snprintf(res->detail + len, sizeof(res->detail) - len, " (analytic engine %s: %.120s)",
+                     declined ? "declined" : "failed", reason);
+        }
     }
     return st;
 }
