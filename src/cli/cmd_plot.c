@@ -26,7 +26,7 @@ static const cli_spec_t plot_spec = {
     "Plot the certified embezzlement error E_n(q) against n on log axes for each family.",
     "The sizes are log-spaced from A to B (any size embz accepts, e.g. 10^1000); each point\n"
     "is the midpoint of a certified enclosure, with a bar where the enclosure is wide\n"
-    "enough to see. Sizes above 10^5 use the analytic engine (one per family, reused for\n"
+    "enough to see. Sizes above 4096 use the analytic engine (one per family, reused for\n"
     "all sizes). --weights adds the normalised weights w(x)/w(1) (with n = B when the\n"
     "weight depends on n) against the envelopes x^(-1-eps) and x^(-1+eps).\n"
     "Output: -o - (or /dev/stdout) streams the figure to standard output (svg unless\n"
