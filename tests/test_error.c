@@ -1,0 +1,330 @@
+/* Tests of the evaluator of E_n(q) (include/embz/error.h, src/error/eval.c): which method runs
+ * where, the fallback, workspaces reused across sizes and shared among threads, the side of a
+ * goal, at two precisions.
+ *
+ * Reference: for the inverse-index weights 1/i and the d-level maximally entangled target,
+ *     E_n(u_d) = 1 - (H_s + r/(d(s+1))) / H_n,   n = d s + r, 0 <= r < d
+ * (math notes, section 6, [derived]), evaluated with FLINT's exact harmonic numbers
+ * (arith_harmonic_number), independently of both methods. */
+#include <check.h>
+#include <stdlib.h>
+#include <string.h>
+#ifdef _OPENMP
+#include <omp.h>
+#endif
+#include "embz.h"
+#include "testutil.h"
+
+static void family(embz_family_t f, const char *spec)
+{
+    embz_err_t err;
+    embz_err_clear(&err);
+    embz_family_init(f);
+    ck_assert_msg(embz_family_resolve(f, spec, NULL, 0, 0, &err) == EMBZ_OK, "%s: %s", spec,
+                  err.text);
+}
+
+static void inverse_exact(fmpq_t E, ulong n, ulong d)
+{
+    ulong s = n / d, r = n % d;
+    fmpq_t Hs, Hn, t;
+    fmpq_init(Hs); fmpq_init(Hn); fmpq_init(t);
+    arith_harmonic_number(Hs, s);
+    arith_harmonic_number(Hn, n);
+    fmpq_set_si(t, (slong) r, (slong) (d * (s + 1)));
+    fmpq_add(Hs, Hs, t);
+    fmpq_div(Hs, Hs, Hn);
+    fmpq_one(E);
+    fmpq_sub(E, E, Hs);
+    fmpq_clear(Hs); fmpq_clear(Hn); fmpq_clear(t);
+}
+
+/* the enclosure contains the exact value */
+static void assert_contains(const arb_t e, const fmpq_t x, const char *what)
+{
+    arb_t t;
+    arb_init(t);
+    arb_set_fmpq(t, x, 4 * arb_bits(e) + 256);
+    ck_assert_msg(arb_contains(e, t), "%s: the enclosure misses the exact value", what);
+    arb_clear(t);
+}
+
+static const slong precs[2] = { 64, 192 };
+
+START_TEST(test_threshold)
+{
+    /* explicit summation up to the one threshold, the analytic engine beyond; both enclose
+     * the closed form */
+    embz_family_t f;
+    embz_target_t q;
+    family(f, "1/i");
+    embz_target_init(q);
+    fmpq_t E;
+    fmpq_init(E);
+    for (int k = 0; k < 2; k++) {
+        embz_eval_opts_t o;
+        embz_eval_t ev;
+        embz_eval_opts_init(o);
+        embz_eval_init(ev, f, o, precs[k]);
+        for (slong n = EMBZ_EVAL_EXPLICIT_UP_TO; n <= EMBZ_EVAL_EXPLICIT_UP_TO + 1; n++) {
+            embz_error_result_t res;
+            embz_err_t err;
+            fmpz_t nn;
+            fmpz_init_set_si(nn, n);
+            embz_err_clear(&err);
+            embz_error_result_init(res);
+            ck_assert_msg(embz_eval_error(res, ev, NULL, nn, q, &err) == EMBZ_OK, "%s", err.text);
+            int want = n <= EMBZ_EVAL_EXPLICIT_UP_TO ? EMBZ_METHOD_EXPLICIT : EMBZ_METHOD_ANALYTIC;
+            ck_assert_int_eq(res->method, want);
+            ck_assert_int_eq(res->used, 1 << want);
+            inverse_exact(E, (ulong) n, 2);
+            assert_contains(res->error, E, "threshold");
+            ck_assert(arb_rel_accuracy_bits(res->error) > precs[k] / 2);
+            embz_error_result_clear(res);
+            fmpz_clear(nn);
+        }
+        embz_eval_clear(ev);
+    }
+    fmpq_clear(E);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
+START_TEST(test_fallback)
+{
+    /* 2 + sin(i) is not monotone: the engine declines it, explicit summation takes over at
+     * n = 10^5 and the detail says why; with the fallback off the evaluation fails. The value
+     * is checked against a forced explicit summation (same method, independent call). */
+    embz_family_t f;
+    embz_target_t q;
+    family(f, "2 + sin(i)");
+    embz_target_init(q);
+    fmpz_t n;
+    fmpz_init_set_ui(n, 100000);
+    embz_eval_opts_t o;
+    embz_eval_t ev;
+    embz_error_result_t res, ref;
+    embz_err_t err;
+    embz_error_result_init(res);
+    embz_error_result_init(ref);
+    embz_eval_opts_init(o);
+    embz_eval_init(ev, f, o, 64);
+    embz_err_clear(&err);
+    ck_assert_msg(embz_eval_error(res, ev, NULL, n, q, &err) == EMBZ_OK, "%s", err.text);
+    ck_assert_int_eq(res->method, EMBZ_METHOD_EXPLICIT);
+    ck_assert_msg(strstr(res->detail, "(analytic engine ") != NULL, "%s", res->detail);
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_error(ref, f, n, q, EMBZ_METHOD_EXPLICIT, 64, &err), EMBZ_OK);
+    ck_assert(arb_overlaps(res->error, ref->error));
+    embz_eval_clear(ev);
+    o->fallback = EMBZ_FALLBACK_NONE;
+    embz_eval_init(ev, f, o, 64);
+    embz_err_clear(&err);
+    int st = embz_eval_error(res, ev, NULL, n, q, &err);
+    ck_assert_int_ne(st, EMBZ_OK);
+    ck_assert(err.text[0] != '\0');
+    embz_eval_clear(ev);
+    /* n below 1 is an input error */
+    embz_eval_opts_init(o);
+    embz_eval_init(ev, f, o, 64);
+    fmpz_zero(n);
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_eval_error(res, ev, NULL, n, q, &err), EMBZ_ERR_INPUT);
+    embz_eval_clear(ev);
+    embz_error_result_clear(res);
+    embz_error_result_clear(ref);
+    fmpz_clear(n);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
+START_TEST(test_workspace)
+{
+    /* a prepared workspace reused across sizes (largest first, as a sweep does) gives
+     * enclosures that overlap those of fresh engines, contain the closed form where it is
+     * computable, and are as narrow as the precision allows */
+    embz_family_t f;
+    embz_target_t q;
+    family(f, "1/i");
+    embz_target_init(q);
+    static const char *const sizes[5] = { "10^30", "10^12", "123457", "5000", "1000" };
+    fmpq_t E;
+    fmpq_init(E);
+    for (int k = 0; k < 2; k++) {
+        embz_eval_opts_t o;
+        embz_eval_t ev;
+        embz_eval_work_t w;
+        embz_err_t err;
+        fmpz_t n, nmax;
+        fmpz_init(n);
+        fmpz_init(nmax);
+        embz_eval_opts_init(o);
+        embz_eval_init(ev, f, o, precs[k]);
+        embz_eval_work_init(w);
+        embz_err_clear(&err);
+        ck_assert_int_eq(embz_size_parse(nmax, sizes[0], &err), EMBZ_OK);
+        ck_assert_int_eq(embz_eval_prepare(ev, w, nmax, &err), EMBZ_OK);
+        ck_assert(ev->analytic_ok);
+        for (int j = 0; j < 5; j++) {
+            embz_error_result_t a, b;
+            embz_error_result_init(a);
+            embz_error_result_init(b);
+            ck_assert_int_eq(embz_size_parse(n, sizes[j], &err), EMBZ_OK);
+            ck_assert_msg(embz_eval_error(a, ev, w, n, q, &err) == EMBZ_OK, "%s", err.text);
+            ck_assert_msg(embz_eval_error(b, ev, NULL, n, q, &err) == EMBZ_OK, "%s", err.text);
+            ck_assert_msg(arb_overlaps(a->error, b->error), "workspace vs fresh at %s", sizes[j]);
+            ck_assert(arb_rel_accuracy_bits(a->error) > precs[k] / 2);
+            if (fmpz_cmp_ui(n, 200000) <= 0) {
+                inverse_exact(E, fmpz_get_ui(n), 2);
+                assert_contains(a->error, E, sizes[j]);
+            }
+            embz_error_result_clear(a);
+            embz_error_result_clear(b);
+        }
+        embz_eval_work_clear(w);
+        embz_eval_clear(ev);
+        fmpz_clear(n);
+        fmpz_clear(nmax);
+    }
+    fmpq_clear(E);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
+START_TEST(test_threads)
+{
+    /* one evaluator read by two threads, a workspace each: the same enclosures as one
+     * thread alone */
+    embz_family_t f;
+    embz_target_t q;
+    family(f, "1/(i*log(i+1)^2)");
+    embz_target_init(q);
+    enum { N = 8 };
+    fmpz sizes[N];
+    arb_struct one[N], two[N];
+    for (int j = 0; j < N; j++) {
+        fmpz_init(sizes + j);
+        fmpz_ui_pow_ui(sizes + j, 10, 5 + 7 * (ulong) j);
+        arb_init(one + j);
+        arb_init(two + j);
+    }
+    embz_eval_opts_t o;
+    embz_eval_t ev;
+    embz_eval_opts_init(o);
+    embz_eval_init(ev, f, o, 64);
+    embz_eval_work_t w1;
+    embz_eval_work_init(w1);
+    for (int j = 0; j < N; j++) {
+        embz_error_result_t r;
+        embz_err_t err;
+        embz_err_clear(&err);
+        embz_error_result_init(r);
+        ck_assert_msg(embz_eval_error(r, ev, w1, sizes + j, q, &err) == EMBZ_OK, "%s", err.text);
+        arb_set(one + j, r->error);
+        embz_error_result_clear(r);
+    }
+    embz_eval_work_clear(w1);
+    int fails = 0;
+#ifdef _OPENMP
+#pragma omp parallel num_threads(2) reduction(+:fails)
+#endif
+    {
+        embz_eval_work_t w;
+        embz_eval_work_init(w);
+        int tid = 0, nt = 1;
+#ifdef _OPENMP
+        tid = omp_get_thread_num();
+        nt = omp_get_num_threads();
+#endif
+        for (int j = tid; j < N; j += nt) {
+            embz_error_result_t r;
+            embz_err_t err;
+            embz_err_clear(&err);
+            embz_error_result_init(r);
+            if (embz_eval_error(r, ev, w, sizes + j, q, &err) != EMBZ_OK) fails++;
+            else arb_set(two + j, r->error);
+            embz_error_result_clear(r);
+        }
+        embz_eval_work_clear(w);
+    }
+    ck_assert_int_eq(fails, 0);
+    for (int j = 0; j < N; j++) ck_assert(arb_equal(one + j, two + j));
+    embz_eval_clear(ev);
+    for (int j = 0; j < N; j++) {
+        fmpz_clear(sizes + j);
+        arb_clear(one + j);
+        arb_clear(two + j);
+    }
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
+START_TEST(test_side)
+{
+    /* the side of goals just above and below the exact E_n (1/i, n = 10^5 and 5000), with and
+     * without decision mode, at two precisions */
+    embz_family_t f;
+    embz_target_t q;
+    family(f, "1/i");
+    embz_target_init(q);
+    static const ulong ns[2] = { 5000, 100000 };
+    fmpq_t E, g, d;
+    fmpq_init(E); fmpq_init(g); fmpq_init(d);
+    fmpq_set_si(d, 1, 1000000);
+    for (int k = 0; k < 2; k++)
+        for (int j = 0; j < 2; j++)
+            for (int dec = 0; dec < 2; dec++)
+                for (int above = 0; above < 2; above++) {
+                    embz_eval_opts_t o;
+                    embz_eval_t ev;
+                    embz_eval_work_t w;
+                    embz_eval_opts_init(o);
+                    o->goal_steps = 3;
+                    embz_eval_init(ev, f, o, precs[k]);
+                    embz_eval_work_init(w);
+                    inverse_exact(E, ns[j], 2);
+                    if (above) fmpq_add(g, E, d);
+                    else fmpq_sub(g, E, d);
+                    arb_t ga;
+                    arb_init(ga);
+                    arb_set_fmpq(ga, g, 4 * precs[k]);
+                    fmpz_t n;
+                    fmpz_init_set_ui(n, ns[j]);
+                    embz_error_result_t r;
+                    embz_err_t err;
+                    embz_err_clear(&err);
+                    embz_error_result_init(r);
+                    int side = 2;
+                    ck_assert_int_eq(embz_eval_side(&side, r, ev, w, n, q, ga, dec, &err),
+                                     EMBZ_OK);
+                    ck_assert_int_eq(side, above ? -1 : 1);
+                    ck_assert(r->steps >= 1 && r->steps <= 3);
+                    embz_error_result_clear(r);
+                    arb_clear(ga);
+                    fmpz_clear(n);
+                    embz_eval_work_clear(w);
+                    embz_eval_clear(ev);
+                }
+    fmpq_clear(E); fmpq_clear(g); fmpq_clear(d);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
+int main(void)
+{
+    Suite *s = suite_create("error");
+    TCase *tc = tcase_create("core");
+    tcase_set_timeout(tc, 600);
+    tcase_add_test(tc, test_threshold);
+    tcase_add_test(tc, test_fallback);
+    tcase_add_test(tc, test_workspace);
+    tcase_add_test(tc, test_threads);
+    tcase_add_test(tc, test_side);
+    suite_add_tcase(s, tc);
+    return tu_run_suite(s);
+}
