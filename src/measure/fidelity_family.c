@@ -15,6 +15,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include "embz/fidelity.h"
+#include "impl.h"
 
 void embz_fidelity_result_init(embz_fidelity_result_t r)
 {
