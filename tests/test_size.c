@@ -426,6 +426,9 @@ START_TEST(test_exact_ties)
             ck_assert_int_eq(embz_size_solve_exact_goal(r, f, eps, q, 128, 0, &err), EMBZ_OK);
             ck_assert_msg(r->status == EMBZ_SIZE_FOUND && fmpz_equal_ui(r->n, want),
                           "d=%lu goal E_%lu: status %d", d, n, r->status);
+            /* the flags say how: explicit sums (n <= 4096) and the exact tie */
+            ck_assert(r->used & (1 << EMBZ_METHOD_EXPLICIT));
+            ck_assert(r->used & EMBZ_SIZE_USED_EXACT);
             embz_size_result_clear(r);
         }
         embz_target_clear(q);

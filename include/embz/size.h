@@ -11,6 +11,8 @@ typedef enum {
     EMBZ_SIZE_UNDECIDED       /* enclosures straddle eps even at raised precision */
 } embz_size_status_t;
 
+#define EMBZ_SIZE_USED_EXACT (1 << 8)
+
 typedef struct {
     int status;
     fmpz_t n;             /* FOUND: the size */
@@ -29,7 +31,10 @@ typedef struct {
     int small_by_bound;   /* sizes up to EMBZ_SIZE_EXHAUSTIVE excluded at once by
                              E_m >= p_1 (1 - q_max) > eps, not one by one */
     long evaluations;
-    char method[128];     /* how the sizes were evaluated */
+    int used;             /* how sizes were decided, bits: 1 << EMBZ_METHOD_EXPLICIT,
+                             1 << EMBZ_METHOD_ANALYTIC (the engine in decision mode), and
+                             EMBZ_SIZE_USED_EXACT (an exact tie decided in rational
+                             arithmetic) */
 } embz_size_result_struct;
 typedef embz_size_result_struct embz_size_result_t[1];
 

@@ -522,11 +522,9 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
         st = final_enclosures(res, &c, err);
 done:
     res->evaluations = c.evals;
-    snprintf(res->method, sizeof(res->method), "%s%s%s%s",
-             c.used_explicit ? "explicit" : "",
-             (c.used_explicit && c.used_analytic) ? " and " : "",
-             c.used_analytic ? "analytic (decision mode)" : "",
-             c.used_exact ? "; an exact tie decided in rational arithmetic" : "");
+    res->used = (c.used_explicit ? 1 << EMBZ_METHOD_EXPLICIT : 0)
+              | (c.used_analytic ? 1 << EMBZ_METHOD_ANALYTIC : 0)
+              | (c.used_exact ? EMBZ_SIZE_USED_EXACT : 0);
     fmpq_clear(c.qeps);
     embz_eval_work_clear(c.work);
     embz_eval_clear(c.ev);

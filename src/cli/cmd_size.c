@@ -49,6 +49,17 @@ static void size_numbers(double *l10, long *qubits, const fmpz_t n)
 }
 
 /* One solved goal as JSON (status, n, digits, qubits, enclosures, evidence). */
+/* How the sizes were decided, in words (from the result's flags). */
+static void method_words(char *buf, size_t len, const embz_size_result_t r)
+{
+    int ex = (r->used & (1 << EMBZ_METHOD_EXPLICIT)) != 0;
+    int an = (r->used & (1 << EMBZ_METHOD_ANALYTIC)) != 0;
+    snprintf(buf, len, "%s%s%s%s", ex ? "explicit" : "", ex && an ? " and " : "",
+             an ? "analytic (decision mode)" : "",
+             (r->used & EMBZ_SIZE_USED_EXACT) ? "; an exact tie decided in rational arithmetic"
+                                              : "");
+}
+
 static void json_result(embz_buf_t *b, const char *goal, const embz_size_result_t r)
 {
     embz_buf_printf(b, "{\"eps\": ");
@@ -106,7 +117,9 @@ static void json_result(embz_buf_t *b, const char *goal, const embz_size_result_
         flint_free(u);
     }
     embz_buf_printf(b, ", \"evaluations\": %ld, \"method\": ", r->evaluations);
-    embz_buf_json_string(b, r->method);
+    char how[128];
+    method_words(how, sizeof(how), r);
+    embz_buf_json_string(b, how);
     embz_buf_printf(b, "}");
 }
 
@@ -168,7 +181,9 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
         embz_buf_printf(b, "  undecided  at n = %s the enclosure of E straddles the goal even at raised precision\n", u);
         free(u);
     }
-    embz_buf_printf(b, "  method     %s, %ld evaluations\n", r->method, r->evaluations);
+    char how[128];
+    method_words(how, sizeof(how), r);
+    embz_buf_printf(b, "  method     %s, %ld evaluations\n", how, r->evaluations);
 }
 
 /* The words for "never" (embz_size_never): the one-ebit limit, and for a target other than
