@@ -10,7 +10,7 @@
 #include "embz/measure.h"
 #include "embz/error.h"
 #include "embz/fidelity.h"
-#include "embz/output.h"
+#include "embz/util.h"
 #include "embz/analysis.h"
 #include "embz/render.h"
 #include "embz/asym.h"

@@ -1,4 +1,4 @@
-/* Tests for the rendering layer (src/output): tick placement, the palette, figure files,
+/* Tests for the rendering layer (src/render): tick placement, the palette, figure files,
  * inline SVG, report documents, escaping and atomic writes. Outside checks: XML parsing by
  * Python's xml.etree, PDF rendering by poppler's pdftoppm, PNG signature from the PNG
  * specification, Chromium for the HTML. */

@@ -9,7 +9,7 @@
 #include <stddef.h>
 #include "embz/flint.h"
 #include "embz/err.h"
-#include "embz/output.h"
+#include "embz/util.h"
 
 /* ------------------------------------------------------------------ colours */
 
@@ -138,7 +138,7 @@ void embz_plot_size(double *width, double *height, const embz_plot_t fig);
  * real leaks. Drawing afterwards still works (the caches are rebuilt). */
 void embz_render_release_caches(void);
 
-/* Files are written through embz_afile_t (embz/output.h). */
+/* Files are written through embz_afile_t (embz/util.h). */
 
 /* ------------------------------------------------------------------ reports */
 

@@ -6,7 +6,7 @@
 #include <stdio.h>
 #include <math.h>
 #include "embz/analysis.h"
-#include "embz/output.h"
+#include "embz/util.h"
 
 /* ANALYTIC ROUTE HOOK: set to 0 to build the numeric route alone (without the asymptotic
  * engine of include/embz/asym.h and src/analysis/asym*.c). */

@@ -6,7 +6,7 @@
 #include <time.h>
 #include "embz/analysis.h"
 #include "embz/error.h"
-#include "embz/output.h"
+#include "embz/util.h"
 #ifdef _OPENMP
 #include <omp.h>
 #endif

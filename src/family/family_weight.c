@@ -9,7 +9,7 @@
 #include <math.h>
 #include <stdlib.h>
 #include "family_internal.h"
-#include "embz/output.h"
+#include "embz/util.h"
 
 #define EMBZ_WEIGHT_RETRIES 2
 

@@ -3,7 +3,7 @@
 #include <string.h>
 #include <stdlib.h>
 #include "sum/sum.h"
-#include "embz/output.h"
+#include "embz/util.h"
 
 #define EMBZ_TAIL_MAX_ORDER 60   /* largest Euler–Maclaurin order tried */
 #define EMBZ_TAIL_MAX_SPLIT 12   /* bisection depth when certifying a chunk */

@@ -1,4 +1,4 @@
-/* Output files (the rules are in embz/output.h): standard output for "-", otherwise the file a
+/* Output files (the rules are in embz/util.h): standard output for "-", otherwise the file a
  * name leads to after its symbolic links, replaced by renaming a finished temporary file over
  * it; a signal handler removes temporary files that are still in progress.
  *
@@ -21,7 +21,7 @@
 #ifdef __linux__
 #include <sys/vfs.h>
 #endif
-#include "embz/output.h"
+#include "embz/util.h"
 
 #ifndef PATH_MAX
 #define PATH_MAX 4096

@@ -4,7 +4,7 @@
 #include <errno.h>
 #include <unistd.h>
 #include <fcntl.h>
-#include "embz/output.h"
+#include "embz/util.h"
 #include "embz/err.h"
 
 /* Decimal string of an arf rounded in direction rnd (MPFR_RNDD / MPFR_RNDU), digits significant. */

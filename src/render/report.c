@@ -4,7 +4,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
-#include "embz/output.h"
+#include "embz/util.h"
 #include "render_impl.h"
 
 #define sdup _embz_render_strdup

@@ -6,7 +6,7 @@
 #include <cairo.h>
 #include <cairo-pdf.h>
 #include <cairo-svg.h>
-#include "embz/output.h"
+#include "embz/util.h"
 #include "render_impl.h"
 
 cairo_status_t embz_afile_cairo_write(void *closure, const unsigned char *data,

@@ -1,6 +1,7 @@
-/* Helpers shared by the renderers: certified decimal printing, JSON escaping, atomic files. */
-#ifndef EMBZ_OUTPUT_H
-#define EMBZ_OUTPUT_H
+/* Utilities of the library (src/util): certified decimal printing, growing text buffers and JSON
+ * escaping, safe output files (atomic rename), shared by the renderers and the commands. */
+#ifndef EMBZ_UTIL_H
+#define EMBZ_UTIL_H
 
 #include "embz/flint.h"
 #include "embz/err.h"
