@@ -24,21 +24,6 @@ static void family(embz_family_t f, const char *spec)
                   err.text);
 }
 
-static void inverse_exact(fmpq_t E, ulong n, ulong d)
-{
-    ulong s = n / d, r = n % d;
-    fmpq_t Hs, Hn, t;
-    fmpq_init(Hs); fmpq_init(Hn); fmpq_init(t);
-    arith_harmonic_number(Hs, s);
-    arith_harmonic_number(Hn, n);
-    fmpq_set_si(t, (slong) r, (slong) (d * (s + 1)));
-    fmpq_add(Hs, Hs, t);
-    fmpq_div(Hs, Hs, Hn);
-    fmpq_one(E);
-    fmpq_sub(E, E, Hs);
-    fmpq_clear(Hs); fmpq_clear(Hn); fmpq_clear(t);
-}
-
 /* the enclosure contains the exact value */
 static void assert_contains(const arb_t e, const fmpq_t x, const char *what)
 {
@@ -77,7 +62,7 @@ START_TEST(test_threshold)
             int want = n <= EMBZ_EVAL_EXPLICIT_UP_TO ? EMBZ_METHOD_EXPLICIT : EMBZ_METHOD_ANALYTIC;
             ck_assert_int_eq(res->method, want);
             ck_assert_int_eq(res->used, 1 << want);
-            inverse_exact(E, (ulong) n, 2);
+            tu_inverse_error_exact(E, (ulong) n, 2);
             assert_contains(res->error, E, "threshold");
             ck_assert(arb_rel_accuracy_bits(res->error) > precs[k] / 2);
             embz_error_result_clear(res);
@@ -177,7 +162,7 @@ START_TEST(test_workspace)
             ck_assert_msg(arb_overlaps(a->error, b->error), "workspace vs fresh at %s", sizes[j]);
             ck_assert(arb_rel_accuracy_bits(a->error) > precs[k] / 2);
             if (fmpz_cmp_ui(n, 200000) <= 0) {
-                inverse_exact(E, fmpz_get_ui(n), 2);
+                tu_inverse_error_exact(E, fmpz_get_ui(n), 2);
                 assert_contains(a->error, E, sizes[j]);
             }
             embz_error_result_clear(a);
@@ -286,7 +271,7 @@ START_TEST(test_side)
                     o->goal_steps = 3;
                     embz_eval_init(ev, f, o, precs[k]);
                     embz_eval_work_init(w);
-                    inverse_exact(E, ns[j], 2);
+                    tu_inverse_error_exact(E, ns[j], 2);
                     if (above) fmpq_add(g, E, d);
                     else fmpq_sub(g, E, d);
                     arb_t ga;

@@ -34,21 +34,6 @@ static void target_uniform(embz_target_t q, ulong d)
 }
 
 /* E_n(u_d) for 1/i, exactly */
-static void inverse_error_exact(fmpq_t E, ulong n, ulong d)
-{
-    ulong s = n / d, r = n % d;
-    fmpq_t Hs, Hn, t;
-    fmpq_init(Hs); fmpq_init(Hn); fmpq_init(t);
-    arith_harmonic_number(Hs, s);
-    arith_harmonic_number(Hn, n);
-    fmpq_set_si(t, (slong) r, (slong) (d * (s + 1)));
-    fmpq_add(Hs, Hs, t);
-    fmpq_div(Hs, Hs, Hn);
-    fmpq_one(E);
-    fmpq_sub(E, E, Hs);
-    fmpq_clear(Hs); fmpq_clear(Hn); fmpq_clear(t);
-}
-
 /* smallest n with E_n(u_d) <= eps by scanning the exact formula */
 static ulong inverse_smallest(const fmpq_t eps, ulong d, ulong nmax)
 {
@@ -56,7 +41,7 @@ static ulong inverse_smallest(const fmpq_t eps, ulong d, ulong nmax)
     fmpq_init(E);
     ulong found = 0;
     for (ulong n = 1; n <= nmax && !found; n++) {
-        inverse_error_exact(E, n, d);
+        tu_inverse_error_exact(E, n, d);
         if (fmpq_cmp(E, eps) <= 0) found = n;
     }
     fmpq_clear(E);
@@ -419,7 +404,7 @@ START_TEST(test_exact_ties)
     for (ulong d = 2; d <= 3; d++) {
         target_uniform(q, d);
         for (ulong n = 2; n <= 40; n += (n < 8 ? 1 : 7)) {
-            inverse_error_exact(eps, n, d);
+            tu_inverse_error_exact(eps, n, d);
             ulong want = inverse_smallest(eps, d, n);
             embz_size_result_init(r);
             embz_err_clear(&err);

@@ -40,6 +40,23 @@ static inline void tu_target_set(embz_target_t q, const char *spec)
     ck_assert_msg(embz_target_parse(q, spec, 0, &err) == EMBZ_OK, "%s: %s", spec, err.text);
 }
 
+/* E <- E_n(u_d) for the weights 1/i, exactly: 1 - (H_s + r/(d(s+1))) / H_n for n = d s + r,
+ * 0 <= r < d (math notes, section 6, [derived]), with FLINT's harmonic numbers */
+static inline void tu_inverse_error_exact(fmpq_t E, ulong n, ulong d)
+{
+    ulong s = n / d, r = n % d;
+    fmpq_t Hs, Hn, t;
+    fmpq_init(Hs); fmpq_init(Hn); fmpq_init(t);
+    arith_harmonic_number(Hs, s);
+    arith_harmonic_number(Hn, n);
+    fmpq_set_si(t, (slong) r, (slong) (d * (s + 1)));
+    fmpq_add(Hs, Hs, t);
+    fmpq_div(Hs, Hs, Hn);
+    fmpq_one(E);
+    fmpq_sub(E, E, Hs);
+    fmpq_clear(Hs); fmpq_clear(Hn); fmpq_clear(t);
+}
+
 /* The body of every suite's main: run s with CK_NORMAL output; 1 when a test failed. */
 static inline int tu_run_suite(Suite *s)
 {

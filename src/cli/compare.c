@@ -39,13 +39,6 @@ static char *sfmt(const char *fmt, ...)
     return s;
 }
 
-static double now_s(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
-}
-
 void cli_compare_opts_init(cli_compare_opts_t *o)
 {
     memset(o, 0, sizeof(*o));
@@ -456,7 +449,7 @@ static void row_done(void *ctx, slong i, slong done, slong total)
     (void) done;
     (void) total;
     fprintf(stderr, "embz %s: %s done (%.1f s; %.1f s elapsed)\n", p->o->cmd,
-            p->rows[i].label, p->rows[i].d.seconds, now_s() - p->t0);
+            p->rows[i].label, p->rows[i].d.seconds, cli_now() - p->t0);
     fflush(stderr);
 }
 
@@ -483,7 +476,7 @@ int cli_compare_run(cli_compare_row_t *rows, embz_family_struct *fam, long nfam,
     int tst = o->target_text != NULL ? embz_target_parse(q, o->target_text, 0, &err) : EMBZ_OK;
     co->target = q;
     for (long i = 0; i < nfam; i++) row_init(rows + i, fam + i, o, co);
-    progress_ctx pc = { rows, o, now_s() };
+    progress_ctx pc = { rows, o, cli_now() };
     int code = CLI_EXIT_OK;
     if (tst != EMBZ_OK) {
         /* checked by the command before: only a broken invariant gets here */
