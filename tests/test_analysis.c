@@ -77,7 +77,11 @@ static void classify(embz_classify_t c, const char *spec, const char *set)
 
 static void dump(const embz_classify_t c)
 {
-    for (slong k = 0; k < c->nreasons; k++) fprintf(stderr, "   %s\n", c->reasons[k]);
+    for (slong k = 0; k < c->nfacts; k++) {
+        char *t = embz_classify_fact_text(c->facts + k);
+        fprintf(stderr, "   %s\n", t);
+        free(t);
+    }
 }
 
 /* ---------------------------------------------------------------- sizes */
@@ -581,6 +585,41 @@ START_TEST(test_grid_values)
 }
 END_TEST
 
+/* The facts behind a verdict carry numbers, and the renderer writes a sentence for every
+ * kind: every kind has its own words (none falls through to "unknown"), the numbers given
+ * appear in them, and a disagreement names both verdicts. */
+START_TEST(test_fact_words)
+{
+    embz_classify_fact_struct f;
+    for (int kind = EMBZ_FACT_CERTIFIED_LAST; kind <= EMBZ_FACT_AGREE; kind++) {
+        memset(&f, 0, sizeof(f));
+        f.kind = kind;
+        f.law = EMBZ_LAW_LOG;
+        for (int j = 0; j < 8; j++) f.x[j] = 0.25 + j;
+        char *t = embz_classify_fact_text(&f);
+        ck_assert_msg(t != NULL && t[0] != '\0' && strstr(t, "unknown fact") == NULL,
+                      "kind %d", kind);
+        free(t);
+    }
+    memset(&f, 0, sizeof(f));
+    f.kind = EMBZ_FACT_FIT_RANGE;
+    f.k1 = 7;
+    f.x[0] = 2.5;
+    f.x[1] = 138.25;
+    char *t = embz_classify_fact_text(&f);
+    ck_assert_str_eq(t, "fits use the 7 largest sizes, ln n from 2.5 to 138.2 (estimates, not "
+                        "certified)");
+    free(t);
+    f.kind = EMBZ_FACT_DISAGREE;
+    f.v1 = EMBZ_VERDICT_EMBEZZLER;
+    f.v2 = EMBZ_VERDICT_NOT_EMBEZZLER;
+    t = embz_classify_fact_text(&f);
+    ck_assert(strstr(t, embz_verdict_id(EMBZ_VERDICT_EMBEZZLER)) != NULL);
+    ck_assert(strstr(t, embz_verdict_id(EMBZ_VERDICT_NOT_EMBEZZLER)) != NULL);
+    free(t);
+}
+END_TEST
+
 static Suite *analysis_suite(void)
 {
     Suite *s = suite_create("analysis");
@@ -602,6 +641,7 @@ static Suite *analysis_suite(void)
     tcase_add_test(tc, test_n_dependent);
     tcase_add_test(tc, test_scan_shards);
     tcase_add_test(tc, test_limit_inside_interval);
+    tcase_add_test(tc, test_fact_words);
     suite_add_tcase(s, tc);
     return s;
 }

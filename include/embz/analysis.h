@@ -118,6 +118,53 @@ const char *embz_verdict_id(int v);   /* "inconclusive", "embezzler", "not_embez
 
 #define EMBZ_CLASSIFY_MAX_REASONS 16
 
+/* The reasons behind a verdict, as facts: a kind and its numbers (the renderer,
+ * embz_classify_fact_text in embz/render.h, writes the sentence). Which fields a kind uses is
+ * listed beside it; x[] are estimates (fits) unless the kind says certified, s[] are exact
+ * decimal texts of certified balls, sizes or messages. */
+typedef enum {
+    EMBZ_FACT_CERTIFIED_LAST = 0, /* s0 <= E_n <= s1 (certified) at the largest size n = s2;
+                                     k1: s2 is shortened */
+    EMBZ_FACT_SKIPPED,            /* k1 of k2 sizes could not be computed */
+    EMBZ_FACT_NO_FIT,             /* no fit; s0 the reason */
+    EMBZ_FACT_FIT_RANGE,          /* fits use the k1 largest sizes, ln n from x0 to x1 */
+    EMBZ_FACT_CONSTANT,           /* relative spread x0 over the fit range, settled near x1 */
+    EMBZ_FACT_LIMIT_LAW,          /* best law `law` with L = x0 [x1, x2], C = x3, g = x4
+                                     [x5, x6], largest relative residual x7 */
+    EMBZ_FACT_LIMIT_REACHED,      /* the fitted limit is positive and E_n close to it */
+    EMBZ_FACT_LIMIT_FAR,          /* best law `law` with limit x0 [x1, x2], E_n = x3 at the
+                                     largest size, g = x4 [x5, x6]; k1: the approach is
+                                     resolved (E_n still far above L), else too slow */
+    EMBZ_FACT_LIMIT_SMALL,        /* best law `law` has limit x0 [x1, x2], small against
+                                     E_n = x3: treated as 0 */
+    EMBZ_FACT_DECAY_LAW,          /* E_n decays like `law`: C = x0 [x1, x2], g = x3 [x4, x5],
+                                     largest relative residual x6 */
+    EMBZ_FACT_DECAY_TO_ZERO,      /* keeps decreasing towards 0; E_n <= s0 certified at n = s1 */
+    EMBZ_FACT_FLAT_LIMIT,         /* relative variation x0, `law` fits with L = x1 */
+    EMBZ_FACT_NO_LAW,             /* no visible decay exponent: best zero-limit law `law` (-1:
+                                     none) with g = x0 [x1, x2] */
+    EMBZ_FACT_ASYM_NOT_APPLICABLE,/* the asymptotic route does not apply; s0 the reason */
+    EMBZ_FACT_ASYM_FORM,          /* f(x) ~ s0; asymptotic verdict v1 (EMBZ_ASYM_VERDICT_*),
+                                     why s1 ("" : the criterion), predicted rate s2 (or "") */
+    EMBZ_FACT_ASYM_LIMIT,         /* predicted limit of E_n in [s0, s1] (derived formula) */
+    EMBZ_FACT_RATES_DIFFER,       /* analytic rate s0 against fitted `law` */
+    EMBZ_FACT_EXPONENTS,          /* predicted exponent x0, fitted x1 [x2, x3] */
+    EMBZ_FACT_DEPENDS_ON_N,       /* the asymptotic route does not apply: the weight uses n */
+    EMBZ_FACT_ASYM_NOT_BUILT,     /* the asymptotic route is not built in */
+    EMBZ_FACT_FROM_ANALYTIC,      /* the verdict comes from the analytic route alone */
+    EMBZ_FACT_DISAGREE,           /* analytic verdict v1 against numeric v2 (EMBZ_VERDICT_*) */
+    EMBZ_FACT_AGREE               /* both routes agree */
+} embz_fact_t;
+
+typedef struct {
+    int kind;                    /* embz_fact_t */
+    int law;                     /* EMBZ_LAW_*, where the kind names one */
+    int v1, v2;                  /* verdicts, where the kind names them */
+    long k1, k2;
+    double x[8];
+    char *s[3];                  /* malloc'ed or NULL */
+} embz_classify_fact_struct;
+
 typedef struct {
     int verdict;                 /* combined verdict */
     int numeric_verdict;         /* from the sweep and fits */
@@ -134,8 +181,8 @@ typedef struct {
     double coeff;                /* fitted C */
     char asymptotic_form[160];   /* leading term of f from the asymptotic route, or "" */
     char analytic_rate[128];     /* predicted rate class text, or "" */
-    char *reasons[EMBZ_CLASSIFY_MAX_REASONS];  /* malloc'ed sentences */
-    slong nreasons;
+    embz_classify_fact_struct facts[EMBZ_CLASSIFY_MAX_REASONS];  /* the reasons, in order */
+    slong nfacts;
     embz_sweep_t sweep;          /* the sweep used */
     embz_fitset_t fits;          /* the fits used */
 } embz_classify_struct;

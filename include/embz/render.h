@@ -10,6 +10,7 @@
 #include "embz/flint.h"
 #include "embz/err.h"
 #include "embz/util.h"
+#include "embz/analysis.h"
 
 /* ------------------------------------------------------------------ colours */
 
@@ -209,5 +210,10 @@ int embz_report_write(const embz_report_t r, const char *path, int format, embz_
 char *embz_html_escape(const char *text);
 char *embz_latex_escape(const char *text);
 char *embz_markdown_escape(const char *text);
+
+/* ---- words for the library's facts ---- */
+/* The sentence for one reason of a classification (malloc'ed; the caller frees it). Numbers
+ * of fits are printed as the estimates they are; certified values come as their texts. */
+char *embz_classify_fact_text(const embz_classify_fact_struct *f);
 
 #endif

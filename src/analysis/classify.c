@@ -45,6 +45,47 @@ void embz_classify_opts_clear(embz_classify_opts_t o)
     fmpz_clear(o->to);
 }
 
+static void clear_facts(embz_classify_t c)
+{
+    for (slong k = 0; k < c->nfacts; k++)
+        for (int j = 0; j < 3; j++) free(c->facts[k].s[j]);
+    c->nfacts = 0;
+}
+
+static char *dup_text(const char *t)
+{
+    if (t == NULL) return NULL;
+    size_t l = strlen(t) + 1;
+    char *d = malloc(l);
+    memcpy(d, t, l);
+    return d;
+}
+
+/* A new fact of this kind (all numbers NaN, no texts), or NULL when the list is full. */
+static embz_classify_fact_struct *fact(embz_classify_t c, int kind)
+{
+    if (c->nfacts >= EMBZ_CLASSIFY_MAX_REASONS) return NULL;
+    embz_classify_fact_struct *f = c->facts + c->nfacts++;
+    memset(f, 0, sizeof(*f));
+    f->kind = kind;
+    f->law = -1;
+    for (int j = 0; j < 8; j++) f->x[j] = NAN;
+    return f;
+}
+
+/* A fact with up to three texts and eight numbers (n of them given). */
+static void fact_sx(embz_classify_t c, int kind, int law, const char *s0, const char *s1,
+                    const char *s2, int n, const double *x)
+{
+    embz_classify_fact_struct *f = fact(c, kind);
+    if (f == NULL) return;
+    f->law = law;
+    f->s[0] = dup_text(s0);
+    f->s[1] = dup_text(s1);
+    f->s[2] = dup_text(s2);
+    for (int j = 0; j < n && j < 8; j++) f->x[j] = x[j];
+}
+
 void embz_classify_init(embz_classify_t c)
 {
     memset(c, 0, sizeof(*c));
@@ -57,29 +98,10 @@ void embz_classify_init(embz_classify_t c)
 
 void embz_classify_clear(embz_classify_t c)
 {
-    for (slong k = 0; k < c->nreasons; k++) free(c->reasons[k]);
+    clear_facts(c);
     embz_sweep_clear(c->sweep);
     embz_fitset_clear(c->fits);
     memset(c, 0, sizeof(*c));
-}
-
-static void reason(embz_classify_t c, const char *fmt, ...)
-#if defined(__GNUC__)
-    __attribute__((format(printf, 2, 3)))
-#endif
-    ;
-static void reason(embz_classify_t c, const char *fmt, ...)
-{
-    if (c->nreasons >= EMBZ_CLASSIFY_MAX_REASONS) return;
-    char buf[600];
-    va_list ap;
-    va_start(ap, fmt);
-    vsnprintf(buf, sizeof(buf), fmt, ap);
-    va_end(ap);
-    size_t l = strlen(buf) + 1;
-    c->reasons[c->nreasons] = malloc(l);
-    memcpy(c->reasons[c->nreasons], buf, l);
-    c->nreasons++;
 }
 
 static void set_law(embz_classify_t c, const embz_fit_struct *F)
@@ -112,16 +134,20 @@ static int numeric_route(embz_classify_t c, const embz_family_t f, const embz_cl
     char *ehi = embz_arb_hi_string(last->error, 8);
     double Elast = arf_get_d(arb_midref(last->error), ARF_RND_NEAR);
     double Ehi = atof(ehi), Elo = atof(elo);
-    reason(c, "certified: %s <= E_n <= %s at the largest size n = %s%s", elo, ehi, Nstr,
-           fmpz_sizeinbase(last->n, 10) > 12 ? " (n shortened)" : "");
-    if (c->sweep->nok < c->sweep->len)
-        reason(c, "%ld of %ld sizes could not be computed and were left out",
-               (long) (c->sweep->len - c->sweep->nok), (long) c->sweep->len);
+    fact_sx(c, EMBZ_FACT_CERTIFIED_LAST, -1, elo, ehi, Nstr, 0, NULL);
+    if (c->nfacts > 0) c->facts[c->nfacts - 1].k1 = fmpz_sizeinbase(last->n, 10) > 12;
+    if (c->sweep->nok < c->sweep->len) {
+        embz_classify_fact_struct *fs = fact(c, EMBZ_FACT_SKIPPED);
+        if (fs != NULL) {
+            fs->k1 = (long) (c->sweep->len - c->sweep->nok);
+            fs->k2 = (long) c->sweep->len;
+        }
+    }
 
     embz_err_t e2;
     embz_err_clear(&e2);
     if (embz_fit_sweep(c->fits, c->sweep, &e2) != EMBZ_OK) {
-        reason(c, "no fit: %s", e2.text);
+        fact_sx(c, EMBZ_FACT_NO_FIT, -1, e2.text, NULL, NULL, 0, NULL);
         c->limit_lo = 0;
         c->limit_hi = Ehi;
         goto done;
@@ -142,8 +168,11 @@ static int numeric_route(embz_classify_t c, const embz_family_t f, const embz_cl
         for (int law = EMBZ_LAW_LOG; law <= EMBZ_LAW_LOGLOG; law++)
             if (fs->fits[law].ok && (zl == NULL || fs->fits[law].bic < zl->bic))
                 zl = fs->fits + law;
-        reason(c, "fits use the %ld largest sizes, ln n from %.4g to %.4g (estimates, "
-               "not certified)", (long) m, fs->logn[0], fs->logn[m - 1]);
+        {
+            double x[2] = { fs->logn[0], fs->logn[m - 1] };
+            fact_sx(c, EMBZ_FACT_FIT_RANGE, -1, NULL, NULL, NULL, 2, x);
+            if (c->nfacts > 0) c->facts[c->nfacts - 1].k1 = (long) m;
+        }
 
         if (spread < FLAT_REL) {
             c->numeric_verdict = EMBZ_VERDICT_NOT_EMBEZZLER;
@@ -152,10 +181,8 @@ static int numeric_route(embz_classify_t c, const embz_family_t f, const embz_cl
             c->limit_lo = Elo;
             c->limit_hi = Ehi;
             c->limit_certified = 0;
-            reason(c, "E_n is constant to relative %.1e over the fit range: it has already "
-                   "settled at a positive limit near %.8g (the approach is faster than any "
-                   "visible power of ln n, consistent with a power of n; its exponent is not "
-                   "resolved)", spread, Elast);
+            double x[2] = { spread, Elast };
+            fact_sx(c, EMBZ_FACT_CONSTANT, -1, NULL, NULL, NULL, 2, x);
             goto done;
         }
         if (best != NULL && (best->law == EMBZ_LAW_POWER_LIMIT
@@ -172,12 +199,10 @@ static int numeric_route(embz_classify_t c, const embz_family_t f, const embz_cl
                 c->limit_value = best->L;
                 c->limit_lo = best->L_lo;
                 c->limit_hi = best->L_hi < Ehi ? best->L_hi : Ehi;
-                reason(c, "best law by BIC: E ~ %s with L = %.6g [%.6g, %.6g], C = %.4g, "
-                       "g = %.4g [%.4g, %.4g] (jackknife); largest relative residual %.2g",
-                       embz_law_formula(best->law), best->L, best->L_lo, best->L_hi, best->C,
-                       best->g, best->g_lo, best->g_hi, best->max_rel);
-                reason(c, "the fitted limit is positive and E_n is already close to it: "
-                       "not an embezzler (numeric estimate)");
+                double x[8] = { best->L, best->L_lo, best->L_hi, best->C, best->g, best->g_lo,
+                                best->g_hi, best->max_rel };
+                fact_sx(c, EMBZ_FACT_LIMIT_LAW, best->law, NULL, NULL, NULL, 8, x);
+                fact(c, EMBZ_FACT_LIMIT_REACHED);
                 goto done;
             }
             if (best->L_lo > LIMIT_SMALL * Elast) {
@@ -185,18 +210,14 @@ static int numeric_route(embz_classify_t c, const embz_family_t f, const embz_cl
                 c->limit_value = best->L;
                 c->limit_lo = best->L_lo;
                 c->limit_hi = best->L_hi;
-                reason(c, "best law by BIC: E ~ %s with a positive limit L = %.4g "
-                       "[%.4g, %.4g] (E_n = %.4g at the largest size), g = %.3g [%.3g, %.3g]; "
-                       "%s: inconclusive", embz_law_formula(best->law), best->L, best->L_lo,
-                       best->L_hi, Elast, best->g, best->g_lo, best->g_hi,
-                       resolved ? "E_n is still far above the limit"
-                                : "the approach to it is too slow to exclude a decay to 0 "
-                                  "like a power of ln ln n over this range");
+                double x[7] = { best->L, best->L_lo, best->L_hi, Elast, best->g, best->g_lo,
+                                best->g_hi };
+                fact_sx(c, EMBZ_FACT_LIMIT_FAR, best->law, NULL, NULL, NULL, 7, x);
+                if (c->nfacts > 0) c->facts[c->nfacts - 1].k1 = resolved;
                 goto done;
             }
-            reason(c, "the best law by BIC, %s, has a limit L = %.3g [%.3g, %.3g], small "
-                   "against E_n = %.3g: treated as 0 (a correction to the leading decay)",
-                   embz_law_formula(best->law), best->L, best->L_lo, best->L_hi, Elast);
+            double x[4] = { best->L, best->L_lo, best->L_hi, Elast };
+            fact_sx(c, EMBZ_FACT_LIMIT_SMALL, best->law, NULL, NULL, NULL, 4, x);
         }
         if (zl != NULL && zl->g_lo > G_MIN) {
             c->numeric_verdict = EMBZ_VERDICT_EMBEZZLER;
@@ -204,13 +225,9 @@ static int numeric_route(embz_classify_t c, const embz_family_t f, const embz_cl
             c->limit_value = 0;
             c->limit_lo = 0;
             c->limit_hi = Ehi;
-            reason(c, "E_n decays like %s with C = %.4g [%.4g, %.4g], g = %.4g [%.4g, %.4g] "
-                   "(jackknife); largest relative residual %.2g",
-                   embz_law_formula(zl->law), zl->C, zl->C_lo, zl->C_hi, zl->g, zl->g_lo,
-                   zl->g_hi, zl->max_rel);
-            reason(c, "the error keeps decreasing towards 0: a universal embezzler (numeric "
-                   "estimate; the limit 0 is extrapolated, only E_n <= %s at n = %s is "
-                   "certified)", ehi, Nstr);
+            double x[7] = { zl->C, zl->C_lo, zl->C_hi, zl->g, zl->g_lo, zl->g_hi, zl->max_rel };
+            fact_sx(c, EMBZ_FACT_DECAY_LAW, zl->law, NULL, NULL, NULL, 7, x);
+            fact_sx(c, EMBZ_FACT_DECAY_TO_ZERO, -1, ehi, Nstr, NULL, 0, NULL);
             goto done;
         }
         if (pl->ok && pl->L_lo > LIMIT_NEAR * Elast && spread < 1e-3) {
@@ -219,18 +236,17 @@ static int numeric_route(embz_classify_t c, const embz_family_t f, const embz_cl
             c->limit_value = pl->L;
             c->limit_lo = pl->L_lo;
             c->limit_hi = pl->L_hi;
-            reason(c, "E_n varies by only %.2g (relative) over the fit range and %s fits "
-                   "with L = %.6g: positive limit (numeric estimate)", spread,
-                   embz_law_formula(pl->law), pl->L);
+            double x[2] = { spread, pl->L };
+            fact_sx(c, EMBZ_FACT_FLAT_LIMIT, pl->law, NULL, NULL, NULL, 2, x);
             goto done;
         }
         if (zl != NULL) set_law(c, zl);
         c->limit_lo = 0;
         c->limit_hi = Ehi;
-        reason(c, "no decay law with a visible exponent (best zero-limit law %s has g = %.3g "
-               "[%.3g, %.3g]) and no positive limit resolved: inconclusive",
-               zl ? embz_law_formula(zl->law) : "none", zl ? zl->g : NAN, zl ? zl->g_lo : NAN,
-               zl ? zl->g_hi : NAN);
+        {
+            double x[3] = { zl ? zl->g : NAN, zl ? zl->g_lo : NAN, zl ? zl->g_hi : NAN };
+            fact_sx(c, EMBZ_FACT_NO_LAW, zl ? zl->law : -1, NULL, NULL, NULL, 3, x);
+        }
     }
 done:
     free(Nstr);
@@ -260,7 +276,7 @@ static void analytic_route(embz_classify_t c, const embz_family_t f, slong prec)
     embz_asym_result_init(r);
     int st = embz_asym_analyse(r, f->weight, prec, &e2);
     if (st != EMBZ_OK) {
-        reason(c, "analytic route not applicable: %s", e2.text);
+        fact_sx(c, EMBZ_FACT_ASYM_NOT_APPLICABLE, -1, e2.text, NULL, NULL, 0, NULL);
         embz_asym_result_clear(r);
         return;
     }
@@ -282,26 +298,22 @@ static void analytic_route(embz_classify_t c, const embz_family_t f, slong prec)
         c->analytic_verdict = EMBZ_VERDICT_NOT_EMBEZZLER;
     else
         c->analytic_verdict = EMBZ_VERDICT_INCONCLUSIVE;
-    reason(c, "analytic: f(x) ~ %s as x -> infinity; %s: %s%s%s", c->asymptotic_form,
-           embz_asym_verdict_name(r->verdict), r->why[0] ? r->why : "criterion of the "
-           "divergent sum and the x^(-1 +- eps) bounds",
-           r->rate_text[0] ? "; predicted rate " : "", r->rate_text);
+    fact_sx(c, EMBZ_FACT_ASYM_FORM, -1, c->asymptotic_form, r->why, r->rate_text, 0, NULL);
+    if (c->nfacts > 0) c->facts[c->nfacts - 1].v1 = r->verdict;
     if (r->limit_known) {
         char *lo = embz_arb_lo_string(r->limit, 8), *hi = embz_arb_hi_string(r->limit, 8);
-        reason(c, "analytic: predicted limit of E_n in [%s, %s] (derived leading-order "
-               "formula)", lo, hi);
+        fact_sx(c, EMBZ_FACT_ASYM_LIMIT, -1, lo, hi, NULL, 0, NULL);
         free(lo);
         free(hi);
     }
     /* the rate class against the fitted law */
     int want = rate_law(r->rate);
     if (want > 0 && c->numeric_verdict == EMBZ_VERDICT_EMBEZZLER && c->law != want)
-        reason(c, "rate classes differ: analytic %s, fitted %s (the fitted law is an "
-               "estimate over a finite range)", r->rate_text, embz_law_formula(c->law));
+        fact_sx(c, EMBZ_FACT_RATES_DIFFER, c->law, r->rate_text, NULL, NULL, 0, NULL);
     if (want > 0 && r->rate != EMBZ_ASYM_RATE_LOGLOGLOG && c->law == want) {
         double p = fmpq_get_d(r->rate_exp);
-        reason(c, "predicted exponent %.4g, fitted %.4g [%.4g, %.4g]", p, c->exponent,
-               c->exponent_lo, c->exponent_hi);
+        double x[4] = { p, c->exponent, c->exponent_lo, c->exponent_hi };
+        fact_sx(c, EMBZ_FACT_EXPONENTS, -1, NULL, NULL, NULL, 4, x);
     }
     embz_asym_result_clear(r);
 }
@@ -330,8 +342,7 @@ static void settle_limit(embz_classify_t c)
 int embz_classify(embz_classify_t c, const embz_family_t f, const embz_classify_opts_t o,
                   embz_progress_fn progress, void *ctx, embz_err_t *err)
 {
-    for (slong k = 0; k < c->nreasons; k++) free(c->reasons[k]);
-    c->nreasons = 0;
+    clear_facts(c);
     int st = numeric_route(c, f, o, progress, ctx, err);
     if (st != EMBZ_OK) return st;
     c->verdict = c->numeric_verdict;
@@ -339,21 +350,24 @@ int embz_classify(embz_classify_t c, const embz_family_t f, const embz_classify_
     if (o->use_analytic && !(embz_expr_uses(f->weight) & (EMBZ_USES_N | EMBZ_USES_PARAM)))
         analytic_route(c, f, 128);
     else if (o->use_analytic)
-        reason(c, "analytic route not applicable: the weight depends on n");
+        fact(c, EMBZ_FACT_DEPENDS_ON_N);
 #else
-    reason(c, "analytic route not built in");
+    fact(c, EMBZ_FACT_ASYM_NOT_BUILT);
 #endif
     if (c->analytic_available && c->analytic_verdict != EMBZ_VERDICT_INCONCLUSIVE) {
         if (c->numeric_verdict == EMBZ_VERDICT_INCONCLUSIVE) {
             c->verdict = c->analytic_verdict;
-            reason(c, "verdict from the analytic route (numeric route inconclusive)");
+            fact(c, EMBZ_FACT_FROM_ANALYTIC);
         } else if (c->numeric_verdict != c->analytic_verdict) {
             c->disagree = 1;
             c->verdict = EMBZ_VERDICT_INCONCLUSIVE;
-            reason(c, "the routes DISAGREE: analytic says %s, numeric says %s",
-                   embz_verdict_id(c->analytic_verdict), embz_verdict_id(c->numeric_verdict));
+            embz_classify_fact_struct *fd = fact(c, EMBZ_FACT_DISAGREE);
+            if (fd != NULL) {
+                fd->v1 = c->analytic_verdict;
+                fd->v2 = c->numeric_verdict;
+            }
         } else {
-            reason(c, "analytic and numeric routes agree");
+            fact(c, EMBZ_FACT_AGREE);
         }
     }
     settle_limit(c);

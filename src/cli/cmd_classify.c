@@ -88,9 +88,11 @@ int cli_cmd_classify(int argc, char **argv)
         embz_buf_printf(&b, ", \"analytic_rate\": ");
         cli_buf_json_string_or_null(&b, c->analytic_rate);
         embz_buf_printf(&b, ", \"reasons\": [");
-        for (slong k = 0; k < c->nreasons; k++) {
+        for (slong k = 0; k < c->nfacts; k++) {
+            char *t = embz_classify_fact_text(c->facts + k);
             embz_buf_printf(&b, "%s\n  ", k ? "," : "");
-            embz_buf_json_string(&b, c->reasons[k]);
+            embz_buf_json_string(&b, t);
+            free(t);
         }
         embz_buf_printf(&b, "], \"points\": [");
         slong k = 0;
@@ -137,8 +139,11 @@ int cli_cmd_classify(int argc, char **argv)
             embz_buf_printf(&b, "law        E ~ %s, coefficients not resolved by the fit   "
                             "(fitted estimate)\n", embz_law_formula(c->law));
         embz_buf_printf(&b, "reasons:\n");
-        for (slong k = 0; k < c->nreasons; k++)
-            embz_buf_printf(&b, "  - %s\n", c->reasons[k]);
+        for (slong k = 0; k < c->nfacts; k++) {
+            char *t = embz_classify_fact_text(c->facts + k);
+            embz_buf_printf(&b, "  - %s\n", t);
+            free(t);
+        }
     }
     fputs(b.s, stdout);
     embz_buf_clear(&b);

@@ -377,8 +377,9 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o,
             embz_buf_printf(&w, "error decays like %s", rate_words(r));
         }
     } else {
-        embz_buf_printf(&w, "%s", c->nreasons > 0 ? c->reasons[c->nreasons - 1]
-                                                  : "no clear trend over the sweep");
+        char *t = c->nfacts > 0 ? embz_classify_fact_text(c->facts + c->nfacts - 1) : NULL;
+        embz_buf_printf(&w, "%s", t != NULL ? t : "no clear trend over the sweep");
+        free(t);
     }
     r->why = w.s;
 
@@ -426,8 +427,11 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o,
             embz_buf_printf(&nb, "\n\nE at n = %s: not certified (%s).", o->size_text[j],
                             r->d.err_why[j]);
     embz_buf_printf(&nb, "\n\nClassification (one ebit, sizes swept as set for this document):");
-    for (slong k = 0; k < c->nreasons; k++)
-        embz_buf_printf(&nb, "\n\n\xe2\x80\xa2 %s", c->reasons[k]);
+    for (slong k = 0; k < c->nfacts; k++) {
+        char *t = embz_classify_fact_text(c->facts + k);
+        embz_buf_printf(&nb, "\n\n\xe2\x80\xa2 %s", t);
+        free(t);
+    }
     r->notes = nb.s;
 }
 
