@@ -1,7 +1,9 @@
 #!/bin/bash
 # The installed library: `meson install` into a temporary folder, then examples/certified_error.c
 # is compiled against that prefix with pkg-config alone and must print the same certified E as
-# `embz error` for the same weight.
+# `embz error` for the same weight; examples/sizes_workspace.c (the evaluator, one workspace
+# for several sizes) must give enclosures overlapping those of `embz error`. The public
+# headers are installed, the private ones are not.
 # $1 build dir, $2 source dir, $3 embz binary, $4 b_sanitize of the build ('fuzzer' for a
 # -Dfuzz=true build, whose library is instrumented by hand).
 set -u
@@ -22,8 +24,13 @@ pc=$(find "$D/root" -name embz.pc | head -1)
 prefix=$(sed -n 's/^prefix=//p' "$pc")
 mkdir "$D/pc"
 sed "s|^prefix=.*|prefix=$D/root$prefix|" "$pc" >"$D/pc/embz.pc"
-for f in include/embz.h include/embz/flint.h include/embz/measure.h; do
+for f in include/embz.h include/embz/flint.h include/embz/measure.h include/embz/error.h \
+         include/embz/compare.h include/embz/util.h; do
     [ -f "$D/root$prefix/$f" ] || { echo "FAIL $f not installed"; fail=1; }
+done
+# private headers stay in the source tree
+for f in sum.h impl.h expr_impl.h asym_impl.h render_impl.h output.h; do
+    [ -z "$(find "$D/root" -name "$f" | head -1)" ] || { echo "FAIL private header $f installed"; fail=1; }
 done
 [ -n "$(find "$D/root" -name 'libembz.so*' | head -1)" ] || { echo "FAIL no shared library"; fail=1; }
 [ -n "$(find "$D/root" -name 'libembz.a' | head -1)" ] || { echo "FAIL no static library"; fail=1; }
@@ -42,5 +49,26 @@ case "$out" in
     *": $want (certified digits)") echo "ok   example agrees with embz error ($want)";;
     *) echo "FAIL example says '$out', embz error says '$want'"; fail=1;;
 esac
+# the evaluator with one workspace over several sizes: each enclosure overlaps the one of
+# `embz error` at that size (different engines, so the balls need not be identical)
+if ! cc -std=c11 -o "$D/sizes" "$SRC/examples/sizes_workspace.c" $flags 2>"$D/cc2.log"; then
+    cat "$D/cc2.log"; echo "FAIL sizes_workspace.c does not compile against the installed prefix"
+    fail=1
+else
+    LD_LIBRARY_PATH="$libdir" "$D/sizes" '1/i' ebits:2 10^100 10^30 100000 >"$D/sizes.out" \
+        || { echo "FAIL sizes_workspace run"; fail=1; }
+    cat "$D/sizes.out"
+    while read -r n lo hi how; do
+        "$EMBZ" error '1/i' -n "$n" --target ebits:2 --prec 128 --json >"$D/e.json"
+        if python3 -c '
+import json, sys
+from fractions import Fraction as F
+e = json.load(open(sys.argv[1])); lo, hi = F(sys.argv[2]), F(sys.argv[3])
+sys.exit(0 if lo <= F(e["error_hi"]) and F(e["error_lo"]) <= hi and hi - lo < F(1, 10**20) else 1)
+' "$D/e.json" "$lo" "$hi"; then echo "ok   n = $n: overlaps embz error ($how)"
+        else echo "FAIL n = $n: [$lo, $hi] against $(cat "$D/e.json")"; fail=1; fi
+    done <"$D/sizes.out"
+    [ "$(wc -l <"$D/sizes.out")" = 3 ] || { echo "FAIL sizes_workspace printed $(wc -l <"$D/sizes.out") lines"; fail=1; }
+fi
 [ "$fail" = 0 ] && echo "1 passed, 0 failed" || echo "0 passed, 1 failed"
 exit $fail
