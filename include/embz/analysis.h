@@ -48,11 +48,13 @@ int embz_sweep_sizes(fmpz *sizes, slong *len, const fmpz_t a, const fmpz_t b, sl
 /* Progress callback: called after each size with (done, total). May be NULL. */
 typedef void (*embz_progress_fn)(void *ctx, slong done, slong total);
 
-/* E_n(q) at the sizes from embz_sweep_sizes(a, b, k). Uses one reusable analytic engine for
- * all sizes (uniform targets), explicit summation where the analytic engine declines and
- * n <= EMBZ_EXPLICIT_MAX_N, and embz_error otherwise; sizes nothing can handle are kept with
- * their status and reason in note. Returns EMBZ_OK if at least one size succeeded, else the
- * status of the last failure (err filled). Input errors (bad range) give EMBZ_ERR_INPUT. */
+/* E_n(q) at the sizes from embz_sweep_sizes(a, b, k), through the evaluator (error.h) with
+ * its default policy, one workspace per OpenMP thread prepared for the largest size, and a
+ * result with fewer than 8 certified bits retried at 2, 4 and 8 times prec (digit_steps 4).
+ * Sizes nothing can handle are kept with their status and reason in note. Returns EMBZ_OK if
+ * at least one size succeeded and no weight was invalid; EMBZ_ERR_DOMAIN as soon as one size
+ * finds the weight invalid (the others are stopped); else the status of the last failure (err
+ * filled). Input errors (bad range) give EMBZ_ERR_INPUT. */
 int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const fmpz_t b,
                    slong k, const embz_target_t q, slong prec, embz_progress_fn progress,
                    void *ctx, embz_err_t *err);
@@ -171,9 +173,9 @@ typedef struct {
     int analytic_available;      /* the asymptotic route ran (weight without n, engine built) */
     int analytic_verdict;        /* EMBZ_VERDICT_*, from the asymptotic route */
     int disagree;                /* both routes gave a definite and different answer */
-    /* limit of E_n: lo/hi bounds as doubles. limit_certified_hi is a certified upper bound on
-     * E at the largest size (so on how small the error has become there); the interval
-     * [limit_lo, limit_hi] is an estimate unless limit_certified is set. */
+    /* limit of E_n: lo/hi bounds as doubles, an estimate (fits) unless limit_certified is set
+     * (no route sets it today); limit_hi is at most the certified E at the largest size, read
+     * from its 8-digit outward-rounded text. */
     double limit_lo, limit_hi, limit_value;
     int limit_certified;
     int law;                     /* fitted law (EMBZ_LAW_*) */

@@ -75,11 +75,14 @@ typedef enum {
 #define EMBZ_EVAL_MAX_STEPS 8              /* most precision steps */
 
 typedef struct {
-    int method;            /* EMBZ_METHOD_AUTO (default), _EXPLICIT or _ANALYTIC */
+    int method;            /* EMBZ_METHOD_AUTO (default), _EXPLICIT or _ANALYTIC (forced: an
+                              engine of its own at each call, the workspace is not used) */
     slong explicit_up_to;  /* AUTO: n <= this by explicit summation, larger n analytic first;
                               0: EMBZ_EVAL_EXPLICIT_UP_TO (the default, and what every
                               caller in the library uses); < 0: analytic first at every n */
-    slong explicit_max;    /* explicit summation only for n <= this (<= 0: EMBZ_EXPLICIT_MAX_N) */
+    slong explicit_max;    /* the fallback to explicit summation (and goal_explicit) only for
+                              n <= this (<= 0: EMBZ_EXPLICIT_MAX_N); explicit summation chosen
+                              by method or by explicit_up_to has its own limit, 10^8 */
     int fallback;          /* embz_fallback_t */
     int own_engine;        /* (default 1) an analytic failure where the workspace's tail was certified for
                               larger sizes is retried with an engine certified up to n (for
@@ -88,8 +91,8 @@ typedef struct {
     int digit_steps;       /* an analytic enclosure with fewer than 8 certified bits (about
                               two digits) is retried at 2, 4, .. 2^(digit_steps - 1) times the
                               precision, and one still short of them is a failure
-                              (EMBZ_ERR_PREC), also after explicit summation; <= 0: accepted
-                              as it is */
+                              (EMBZ_ERR_PREC), also after explicit summation; <= 1: accepted
+                              as it is; at most EMBZ_EVAL_MAX_STEPS */
     int goal_steps;        /* embz_eval_side: precisions prec, 2 prec, .. 2^(goal_steps - 1)
                               prec while the enclosure straddles the goal (<= 0: 1) */
     int goal_explicit;     /* embz_eval_side: a target vector whose analytic enclosure still

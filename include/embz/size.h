@@ -6,7 +6,9 @@
 #include "embz/error.h"
 
 typedef enum {
-    EMBZ_SIZE_FOUND = 0,      /* n found: E_n <= eps certified, E_(n-1) > eps certified */
+    EMBZ_SIZE_FOUND = 0,      /* n found: E_n <= eps certified, E > eps certified at n_low
+                                 (n - 1, or in the qubit search a size below n needing the
+                                 same qubits) */
     EMBZ_SIZE_NOT_REACHED,    /* E > eps certified at the largest size tried */
     EMBZ_SIZE_UNDECIDED       /* enclosures straddle eps even at raised precision */
 } embz_size_status_t;
@@ -17,7 +19,7 @@ typedef struct {
     int status;
     fmpz_t n;             /* FOUND: the size */
     arb_t err_n;          /* enclosure of E at n */
-    arb_t err_prev;       /* enclosure of E at n - 1 */
+    arb_t err_prev;       /* enclosure of E at n_low */
     int exhaustive;       /* every m < n was checked (E_m > eps certified) */
     long checked_below;   /* number of sizes below n with E > eps certified */
     fmpz_t stay_checked_to;/* E <= eps certified at every sampled size in [n, this] */

@@ -10,8 +10,8 @@
  * significant digits: lo <= x <= hi is guaranteed for the printed strings. malloc'ed. */
 char *embz_arb_lo_string(const arb_t x, slong digits);
 char *embz_arb_hi_string(const arb_t x, slong digits);
-/* Only the digits the ball certifies: the longest decimal prefix shared by both ends, printed
- * as "0.29310[2,3]"-free plain text such as "0.293102" (the value rounds to it either way), or
+/* Only the digits the ball certifies: the longest decimal prefix shared by both ends, as
+ * plain digits such as "0.293102" (no bracket notation for the uncertain digit), or
  * "[lo, hi]" when not even one digit is certain. malloc'ed. */
 char *embz_arb_certified_string(const arb_t x, slong max_digits);
 /* Midpoint as a double (for JSON "value" fields and plots). */

@@ -178,6 +178,7 @@ static int eval_step(embz_error_result_t res, const embz_eval_t ev, embz_eval_wo
 {
     const embz_eval_opts_struct *o = &ev->opts;
     slong wp = ev->prec << s;
+    int dsteps = o->digit_steps < EMBZ_EVAL_MAX_STEPS ? o->digit_steps : EMBZ_EVAL_MAX_STEPS;
     slong xmax = explicit_max(ev);
     res->decided = 0;
     if (o->method == EMBZ_METHOD_EXPLICIT) return explicit_at(res, ev, n, q, wp, err);
@@ -212,14 +213,14 @@ static int eval_step(embz_error_result_t res, const embz_eval_t ev, embz_eval_wo
             embz_err_clear(err);
             st = analytic_own(res, ev, n, q, goal, wp, err);
         }
-        for (slong hp = 2 * wp; o->digit_steps > 1 && st == EMBZ_OK && !usable(res->error)
-             && hp <= (wp << (o->digit_steps - 1)); hp *= 2) {
+        for (slong hp = 2 * wp; dsteps > 1 && st == EMBZ_OK && !usable(res->error)
+             && hp <= (wp << (dsteps - 1)); hp *= 2) {
             embz_err_clear(err);
             st = analytic_own(res, ev, n, q, goal, hp, err);
         }
-        if (o->digit_steps > 1 && st == EMBZ_OK && !usable(res->error))
+        if (dsteps > 1 && st == EMBZ_OK && !usable(res->error))
             st = embz_err_set(err, EMBZ_ERR_PREC, "no certified digit up to %ld bits",
-                              (long) (wp << (o->digit_steps - 1)));
+                              (long) (wp << (dsteps - 1)));
         /* a target vector whose enclosure does not decide the side (the threshold search at
          * its budget): exact sums where they reach, before more bits */
         if (st == EMBZ_OK && o->goal_explicit && side_goal != NULL
@@ -236,7 +237,7 @@ static int eval_step(embz_error_result_t res, const embz_eval_t ev, embz_eval_wo
         snprintf(reason, sizeof(reason), "%s", err != NULL ? err->text : "");
         embz_err_clear(err);
         st = explicit_at(res, ev, n, q, wp, err);
-        if (o->digit_steps > 1 && st == EMBZ_OK && !usable(res->error))
+        if (dsteps > 1 && st == EMBZ_OK && !usable(res->error))
             st = embz_err_set(err, EMBZ_ERR_PREC, "no certified digit at %ld bits", (long) wp);
         if (st == EMBZ_OK && reason[0] != '\0') {
             size_t len = strlen(res->detail);
