@@ -98,7 +98,8 @@ void embz_fitset_clear(embz_fitset_t fs);
 /* Fit every law to the points (ln n_j, E_j), j = 0..len-1 (increasing n, E_j > 0), using the
  * upper part of the range: the points with ln n >= sqrt(ln n_min ln n_max) (at least 6 points;
  * all when fewer are given). Returns EMBZ_OK, or EMBZ_ERR_INPUT with fewer than 5 usable
- * points. */
+ * points. The first fit switches GSL's abort-on-error handler off for the whole process (once,
+ * thread-safely; every GSL status is checked instead) and leaves it off. */
 int embz_fit_laws(embz_fitset_t fs, const double *logn, const double *E, slong len,
                   embz_err_t *err);
 /* Same on the successful points of a sweep. */

@@ -40,7 +40,8 @@ int embz_family_resolve(embz_family_t f, const char *spec,
 
 /* The directories searched for library families, in order: $EMBZ_FAMILY_PATH (colon separated),
  * then the install data dir, then the source tree's families/ (EMBZ_SOURCE_FAMILIES). Returns a
- * NULL-terminated static array valid until the next call. */
+ * NULL-terminated array of the calling thread's own (thread-local storage), valid until that
+ * thread calls again: threads may resolve families at the same time. */
 const char *const *embz_family_dirs(void);
 
 /* List the library: fills names (malloc'ed array of malloc'ed paths) sorted by name. */

@@ -14,6 +14,7 @@
 #include <gsl/gsl_fit.h>
 #include <gsl/gsl_multifit.h>
 #include <gsl/gsl_min.h>
+#include <pthread.h>
 #include "embz/analysis.h"
 
 /* Relative residuals below this level are rounding noise of the double-precision data. */
@@ -214,6 +215,19 @@ static void jack(double *lo, double *hi, double full, const double *loo, slong m
     *hi = full + 2 * se;
 }
 
+/* GSL's default error handler aborts the process; the fits check every status instead. The
+ * handler is one process-wide pointer, so it is switched off once (pthread_once) and left
+ * off: switching it off and back around each fit would race between threads. */
+static pthread_once_t gsl_quiet_once = PTHREAD_ONCE_INIT;
+static void gsl_quiet(void)
+{
+    gsl_set_error_handler_off();
+}
+static void fits_quiet_gsl(void)
+{
+    pthread_once(&gsl_quiet_once, gsl_quiet);
+}
+
 int embz_fit_laws(embz_fitset_t fs, const double *logn, const double *E, slong len,
                   embz_err_t *err)
 {
@@ -254,7 +268,7 @@ int embz_fit_laws(embz_fitset_t fs, const double *logn, const double *E, slong l
     fs->first = first;
     fs->m = m;
 
-    gsl_error_handler_t *old = gsl_set_error_handler_off();
+    fits_quiet_gsl();
     double *u = malloc((size_t) m * sizeof(double));
     double *loo = malloc((size_t) m * 3 * sizeof(double));
     double bestbic = INFINITY;
@@ -303,7 +317,6 @@ int embz_fit_laws(embz_fitset_t fs, const double *logn, const double *E, slong l
             fs->best = law;
         }
     }
-    gsl_set_error_handler(old);
     free(u);
     free(loo);
     return EMBZ_OK;

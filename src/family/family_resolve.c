@@ -11,8 +11,9 @@
 
 const char *const *embz_family_dirs(void)
 {
-    static char storage[8192];
-    static const char *dirs[MAX_DIRS + 1];
+    /* per thread: concurrent resolutions (a scan, a binding's threads) do not share it */
+    static _Thread_local char storage[8192];
+    static _Thread_local const char *dirs[MAX_DIRS + 1];
     long nd = 0;
     size_t pos = 0;
     const char *env = getenv("EMBZ_FAMILY_PATH");
