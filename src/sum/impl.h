@@ -105,6 +105,14 @@ static inline slong _embz_tail_node_below(const embz_tail_struct *t, double rel)
 int _embz_tail_integrate_taylor(arb_t res, embz_tail_t t, const arb_t ua, const arb_t ub,
                                 slong prec);
 
+/* The far bracket of a count (tail_count.c): indices b0 <= b1 such that every index up to b0
+ * is certainly on the left of the boundary between w > v and the rest (for a non-increasing
+ * tail, the left part is w > v; for a non-decreasing one, w <= v) and every index above b1
+ * certainly on the right; found around the root of f = v in ln x, b1 - b0 about 2^-prec of
+ * the root. EMBZ_ERR_PREC when it cannot be established (the count then bisects). */
+int _embz_tail_bracket(fmpz_t b0, fmpz_t b1, embz_tail_t t, const arb_t v, const fmpz_t upto,
+                       slong prec);
+
 /* Certification of [M, end] (tail_certify.c): walks over chunks of u = ln x from ln M,
  * certifying that f is smooth and monotone; adds to integral[j] (j < t->nlev) a bound on the
  * integral of |f^(2q)| over the chunks that meet the range of level j (q = t->lev_p[j]) and

@@ -134,6 +134,13 @@ out:
     return st;
 }
 
+/* (the bracket under its internal name, for the tests; the count calls the static one) */
+int _embz_tail_bracket(fmpz_t b0, fmpz_t b1, embz_tail_t t, const arb_t v, const fmpz_t upto,
+                       slong prec)
+{
+    return tail_bracket(b0, b1, t, v, upto, prec);
+}
+
 int embz_tail_count_range(fmpz_t lo, fmpz_t hi, arb_t tie, embz_tail_t t, const arb_t v,
                           const fmpz_t upto, slong prec)
 {
