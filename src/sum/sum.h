@@ -52,6 +52,15 @@ typedef struct {
                                   node offset), computed on demand */
     char *ihave;               /* ihave[k]: icum[k] is there */
     slong prec;
+    /* Effort of the adaptive integrator on a piece of u longer than 2 (shorter pieces get
+     * arb's default effort): integrate_effort evaluations of phi per bit of precision, after
+     * which a piece whose result is still too wide is halved, at most integrate_halvings
+     * times in a row. Each <= 0 means the default (40 evaluations per bit, 16 halvings);
+     * embz_tail_init sets both to 0, a caller may change them afterwards. A smaller effort
+     * subdivides sooner, a larger one lets one rule work longer; the enclosures are rigorous
+     * either way. */
+    slong integrate_effort;
+    slong integrate_halvings;
     embz_expr_t phi;           /* phi(u) = w(e^u) e^u, simplified (embz_expr_log_substitute) */
     embz_expr_t core;          /* w(e^u) = core(u) e^(rate u) (embz_expr_log_split), used to */
     arb_t rate;                /* certify wide u-chunks; usplit = 0 when rate has no finite */
