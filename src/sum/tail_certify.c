@@ -384,15 +384,12 @@ static void range_reason(char *why, size_t len, const embz_tail_t t, slong M, co
  * stops there) and ub0 for the u-path (the next level start or uend). *nextlev is the first
  * level whose start lies beyond ua, advanced here. A chunk ends where a far level starts and
  * the chunks after it start narrow again: the remainder bound of level j is a sum of
- * sup |f^(2q)| * width over chunks, which wide chunks near X_j overstate. */
-static void chunk_ends(arf_t ub, arf_t ub0, int *restart, slong *nextlev,
+ * sup |f^(2q)| * width over chunks, which wide chunks near X_j overstate. uj and le are
+ * scratch space owned by the caller (kept across the walk, as the walk allocates little). */
+static void chunk_ends(arf_t ub, arf_t ub0, int *restart, slong *nextlev, arf_t uj, arb_t le,
                        const embz_tail_struct *t, const arf_t ua, const arf_t uend,
                        double width, slong prec)
 {
-    arf_t uj;
-    arb_t le;
-    arf_init(uj);
-    arb_init(le);
     arf_set_d(ub, width);
     arf_add(ub, ub, ua, prec, ARF_RND_UP);
     if (arf_cmp(ub, uend) > 0) arf_set(ub, uend);
@@ -410,8 +407,6 @@ static void chunk_ends(arf_t ub, arf_t ub0, int *restart, slong *nextlev,
     }
     if (*nextlev < t->nlev) arf_set(ub0, uj);
     else arf_set(ub0, uend);
-    arf_clear(uj);
-    arb_clear(le);
 }
 
 /* The walk from ua (advanced in place) to uend: each step first tries a whole chunk of u
@@ -423,9 +418,11 @@ static void chunk_ends(arf_t ub, arf_t ub0, int *restart, slong *nextlev,
 static int certify_walk(embz_tail_t t, arf_t ua, const arf_t uend, mag_ptr integral, int *dir,
                         int *cut, arb_srcptr g, const arb_t goal, slong prec)
 {
-    arf_t ub, ub0, uc;
+    arf_t ub, ub0, uj;
+    arb_t le;
     mag_t uallow;                     /* remainder share allowed to one u-chunk */
-    arf_init(ub); arf_init(ub0); arf_init(uc);
+    arf_init(ub); arf_init(ub0); arf_init(uj);
+    arb_init(le);
     mag_init(uallow);
     arb_get_mag_lower(uallow, goal);
     mag_mul_2exp_si(uallow, uallow, -prec - 12);
@@ -443,13 +440,14 @@ static int certify_walk(embz_tail_t t, arf_t ua, const arf_t uend, mag_ptr integ
             utry = 2.0 * arf_get_d(ua, ARF_RND_DOWN) + 8.0;   /* back off */
         }
         int restart;
-        chunk_ends(ub, ub0, &restart, &nextlev, t, ua, uend, width, prec);
+        chunk_ends(ub, ub0, &restart, &nextlev, uj, le, t, ua, uend, width, prec);
         if (t->usplit && ufail < 4) {
-            arf_set_d(uc, uwidth);
-            arf_add(uc, uc, ua, prec, ARF_RND_UP);
-            if (arf_cmp(uc, ub0) > 0) arf_set(uc, ub0);
-            if (certify_chunk_u(t, ua, uc, integral, dir, uallow, prec) == EMBZ_OK) {
-                arf_set(ua, uc);
+            /* (uj is free again: chunk_ends recomputes it whenever it is needed) */
+            arf_set_d(uj, uwidth);
+            arf_add(uj, uj, ua, prec, ARF_RND_UP);
+            if (arf_cmp(uj, ub0) > 0) arf_set(uj, ub0);
+            if (certify_chunk_u(t, ua, uj, integral, dir, uallow, prec) == EMBZ_OK) {
+                arf_set(ua, uj);
                 uwidth *= 2;
                 ufail = 0;
                 continue;
@@ -468,7 +466,8 @@ static int certify_walk(embz_tail_t t, arf_t ua, const arf_t uend, mag_ptr integ
         else if (deep > 0) width = FLINT_MAX(ldexp(width, -deep), 0.125);
         else width = FLINT_MIN(2 * width, 16.0);
     }
-    arf_clear(ub); arf_clear(ub0); arf_clear(uc);
+    arf_clear(ub); arf_clear(ub0); arf_clear(uj);
+    arb_clear(le);
     mag_clear(uallow);
     return st;
 }
