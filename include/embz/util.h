@@ -32,6 +32,12 @@ void embz_buf_printf(embz_buf_t *b, const char *fmt, ...)
 #endif
     ;
 void embz_buf_json_string(embz_buf_t *b, const char *text);
+/* A malloc'ed string formatted like printf (the caller frees it). */
+char *embz_strdup_printf(const char *fmt, ...)
+#if defined(__GNUC__)
+    __attribute__((format(printf, 1, 2)))
+#endif
+    ;
 
 /* ------------------------------------------------------------------ output files
  *

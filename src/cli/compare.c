@@ -3,7 +3,6 @@
  * figures and a plain-text table. Each number is either certified or labelled as an
  * estimate. */
 #include <math.h>
-#include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
@@ -18,25 +17,6 @@ static char *sdup(const char *s)
     char *d = malloc(l);
     memcpy(d, s, l);
     return d;
-}
-
-static char *sfmt(const char *fmt, ...)
-#if defined(__GNUC__)
-    __attribute__((format(printf, 1, 2)))
-#endif
-    ;
-
-static char *sfmt(const char *fmt, ...)
-{
-    va_list ap;
-    va_start(ap, fmt);
-    int n = vsnprintf(NULL, 0, fmt, ap);
-    va_end(ap);
-    char *s = malloc((size_t) n + 1);
-    va_start(ap, fmt);
-    vsnprintf(s, (size_t) n + 1, fmt, ap);
-    va_end(ap);
-    return s;
 }
 
 void cli_compare_opts_init(cli_compare_opts_t *o)
@@ -208,7 +188,7 @@ static char *size_text(const fmpz_t n, int up)
         }
         int pow10 = fmpz_is_one(t);
         fmpz_clear(t);
-        if (pow10) return sfmt("10^%ld", (long) k);
+        if (pow10) return embz_strdup_printf("10^%ld", (long) k);
     }
     slong e = (slong) fmpz_sizeinbase(n, 10) - 1;   /* exact or one too large */
     fmpz_t p, m;
@@ -226,7 +206,7 @@ static char *size_text(const fmpz_t n, int up)
         e++;
     }
     ulong d = fmpz_get_ui(m);
-    char *s = sfmt("%lu.%04lue+%ld", d / 10000, d % 10000, (long) e);
+    char *s = embz_strdup_printf("%lu.%04lue+%ld", d / 10000, d % 10000, (long) e);
     fmpz_clear(p);
     fmpz_clear(m);
     return s;
@@ -236,7 +216,7 @@ static char *size_text(const fmpz_t n, int up)
 static char *ball_text(const arb_t x)
 {
     char *lo = embz_arb_lo_string(x, 8), *hi = embz_arb_hi_string(x, 8);
-    char *s = sfmt("[%s, %s]", lo, hi);
+    char *s = embz_strdup_printf("[%s, %s]", lo, hi);
     free(lo);
     free(hi);
     return s;
@@ -293,8 +273,8 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o,
     const embz_classify_struct *c = r->d.c;
     if (r->d.status != EMBZ_OK) {
         r->verdict = sdup("failed");
-        r->why = sfmt("failed: %s", r->d.message);
-        r->notes = sfmt("The computation failed: %s", r->d.message);
+        r->why = embz_strdup_printf("failed: %s", r->d.message);
+        r->notes = embz_strdup_printf("The computation failed: %s", r->d.message);
         return;
     }
     r->verdict = sdup(verdict_words(c->verdict));
@@ -303,20 +283,20 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o,
         r->verdict = sdup("inconclusive (routes disagree)");
     }
     if (c->law && isfinite(c->exponent)) {
-        r->law = sfmt("%s", embz_law_formula(c->law));
-        r->exponent = sfmt("g \xe2\x89\x88 %.3g (est.)", c->exponent);
+        r->law = embz_strdup_printf("%s", embz_law_formula(c->law));
+        r->exponent = embz_strdup_printf("g \xe2\x89\x88 %.3g (est.)", c->exponent);
     } else if (c->law) {
         r->law = sdup("constant (settled)");
     }
     if (r->d.limit_known) {
         char *l = embz_arb_certified_string(r->d.limit, 6);
-        r->limit_text = sfmt("%s (derived)", l);
+        r->limit_text = embz_strdup_printf("%s (derived)", l);
         free(l);
     } else if (c->verdict == EMBZ_VERDICT_EMBEZZLER && c->analytic_available
                && c->analytic_verdict == EMBZ_VERDICT_EMBEZZLER) {
         r->limit_text = sdup("0 (criterion)");
     } else if (isfinite(c->limit_value)) {
-        r->limit_text = sfmt("\xe2\x89\x88 %.4g (est.)", c->limit_value);
+        r->limit_text = embz_strdup_printf("\xe2\x89\x88 %.4g (est.)", c->limit_value);
     }
     for (slong j = 0; j < o->nsizes; j++)
         r->error_text[j] = r->d.err_status[j] == EMBZ_OK
@@ -333,16 +313,16 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o,
             char *nt = size_text(s->n, 1);
             if (s->exhaustive) r->need_n_text[j] = nt;
             else {
-                r->need_n_text[j] = sfmt("\xe2\x89\xa4 %s", nt);
+                r->need_n_text[j] = embz_strdup_printf("\xe2\x89\xa4 %s", nt);
                 free(nt);
             }
-            r->need_q_text[j] = sfmt("%ld", qb);
+            r->need_q_text[j] = embz_strdup_printf("%ld", qb);
         } else if (s->status == EMBZ_SIZE_NOT_REACHED) {
             if (r->d.never[j]) {
                 r->need_n_text[j] = sdup("never");
                 r->need_q_text[j] = sdup("never");
             } else {
-                r->need_n_text[j] = sfmt("not by 10^%ld", search_decades());
+                r->need_n_text[j] = embz_strdup_printf("not by 10^%ld", search_decades());
             }
         } else {
             r->need_n_text[j] = sdup("undecided");
@@ -680,7 +660,7 @@ void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare
         embz_report_family_struct *f = embz_report_add_family(r, w->label);
         embz_report_set(&f->weight, w->d.fam->amplitude ? NULL : w->d.fam->weight_text);
         if (w->d.fam->amplitude) {
-            char *t = sfmt("(%s)^2", w->d.fam->weight_text);
+            char *t = embz_strdup_printf("(%s)^2", w->d.fam->weight_text);
             embz_report_set(&f->weight, t);
             free(t);
         }

@@ -143,6 +143,21 @@ void embz_buf_printf(embz_buf_t *b, const char *fmt, ...)
     b->len += (size_t) need;
 }
 
+char *embz_strdup_printf(const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    int need = vsnprintf(NULL, 0, fmt, ap);
+    va_end(ap);
+    if (need < 0) need = 0;
+    char *s = malloc((size_t) need + 1);
+    s[0] = '\0';
+    va_start(ap, fmt);
+    vsnprintf(s, (size_t) need + 1, fmt, ap);
+    va_end(ap);
+    return s;
+}
+
 /* JSON wants UTF-8: well-formed characters pass through, and a byte that is not part of
  * one (text in Latin-1, say) is written as the character of its Latin-1 reading, \u00XX, so
  * the output stays valid and nothing is lost. */
