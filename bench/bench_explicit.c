@@ -84,7 +84,9 @@ int main(int argc, char **argv)
            tf, tf / tp, Ef, (long) ak, order);
     printf("  certified              %8.3f s   ratio %6.1f   E in ", tc, tc / tp);
     arb_printd(res->error, 25);
-    printf("\n  detail: %s\n", res->detail);
+    char *how = embz_error_how_text(&res->how);
+    printf("\n  detail: %s\n", how);
+    free(how);
     printf("  peak memory (max RSS)  %ld kB\n", bench_peak_kb());
     embz_error_result_clear(res);
     fmpz_clear(nz);

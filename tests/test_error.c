@@ -98,7 +98,8 @@ START_TEST(test_fallback)
     embz_err_clear(&err);
     ck_assert_msg(embz_eval_error(res, ev, NULL, n, q, &err) == EMBZ_OK, "%s", err.text);
     ck_assert_int_eq(res->method, EMBZ_METHOD_EXPLICIT);
-    ck_assert_msg(strstr(res->detail, "(analytic engine ") != NULL, "%s", res->detail);
+    ck_assert(res->how.kind == EMBZ_HOW_EXPLICIT && res->how.fallback != EMBZ_HOW_FALLBACK_NONE);
+    ck_assert(res->how.reason[0] != '\0');
     embz_err_clear(&err);
     ck_assert_int_eq(embz_error(ref, f, n, q, EMBZ_METHOD_EXPLICIT, 64, &err), EMBZ_OK);
     ck_assert(arb_overlaps(res->error, ref->error));
@@ -300,6 +301,90 @@ START_TEST(test_side)
 }
 END_TEST
 
+/* How a value was computed comes as numbers and flags; the renderer's words carry them in
+ * full (no truncated inner text, the whole fallback reason). */
+START_TEST(test_how_words)
+{
+    embz_family_t f;
+    embz_target_t q;
+    embz_error_result_t res;
+    embz_err_t err;
+    fmpz_t n;
+    char *s;
+    family(f, "1/i");
+    embz_target_init(q);
+    embz_error_result_init(res);
+    fmpz_init(n);
+    embz_err_clear(&err);
+    /* explicit, streamed: the order, the precision and the fixed-point unit */
+    tu_target_set(q, "ebit");
+    fmpz_set_ui(n, 100);
+    ck_assert_int_eq(embz_error(res, f, n, q, EMBZ_METHOD_AUTO, 64, &err), EMBZ_OK);
+    ck_assert(res->how.kind == EMBZ_HOW_EXPLICIT && res->how.order == 1 && res->how.prec == 64);
+    ck_assert(res->how.unit_exp < -100);
+    s = embz_error_how_text(&res->how);
+    ck_assert_msg(strstr(s, "streaming (weights non-increasing), arb 64 bits") != NULL, "%s", s);
+    free(s);
+    /* analytic, Ky Fan form: the counts appear as numbers */
+    fmpz_set_ui(n, 10);
+    fmpz_pow_ui(n, n, 30);
+    ck_assert_int_eq(embz_error(res, f, n, q, EMBZ_METHOD_AUTO, 64, &err), EMBZ_OK);
+    ck_assert(res->how.kind == EMBZ_HOW_KYFAN && res->how.run.tail_dir == 1);
+    ck_assert(res->how.run.terms >= 1 && res->how.run.bounds >= 1);
+    s = embz_error_how_text(&res->how);
+    char want[64];
+    snprintf(want, sizeof(want), "analytic: %ld explicit terms", (long) res->how.run.terms);
+    ck_assert_msg(strstr(s, want) != NULL && strstr(s, "arb 64 bits") != NULL, "%s", s);
+    free(s);
+    /* a target vector: the bracket's dimensions and the upper end's run, untruncated */
+    tu_target_set(q, "0.7,0.3");
+    ck_assert_int_eq(embz_error(res, f, n, q, EMBZ_METHOD_AUTO, 64, &err), EMBZ_OK);
+    ck_assert_int_eq(res->how.kind, EMBZ_HOW_GENERAL);
+    ck_assert(res->how.bracket_lo == 1 && res->how.bracket_hi == 2);
+    ck_assert_int_eq(res->how.upper.kind, EMBZ_HOW_KYFAN);
+    s = embz_error_how_text(&res->how);
+    ck_assert_msg(strstr(s, "E(uniform:1) <= E(q) <= E(uniform:2)") != NULL, "%s", s);
+    ck_assert_msg(strstr(s, "integrals, arb 64 bits") != NULL, "%s", s);
+    free(s);
+    /* a fallback with a long reason keeps all of it */
+    embz_error_how_struct h;
+    memset(&h, 0, sizeof(h));
+    h.kind = EMBZ_HOW_EXPLICIT;
+    h.prec = 128;
+    h.fallback = EMBZ_HOW_DECLINED;
+    memset(h.reason, 'x', 400);
+    h.reason[400] = '\0';
+    s = embz_error_how_text(&h);
+    ck_assert(strstr(s, "(analytic engine declined: xxx") != NULL);
+    ck_assert(strstr(s, h.reason) != NULL);
+    ck_assert_int_eq(s[strlen(s) - 1], ')');
+    free(s);
+    /* fidelity bounds beyond explicit sizes: the words of K's computation follow */
+    embz_fidelity_result_t fr;
+    embz_fidelity_result_init(fr);
+    tu_target_set(q, "ebit");
+    ck_assert_int_eq(embz_fidelity(fr, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO, 64, &err),
+                     EMBZ_OK);
+    ck_assert(fr->how.bounds_only && fr->how.K.kind == EMBZ_HOW_KYFAN);
+    s = embz_fidelity_how_text(&fr->how);
+    ck_assert_msg(strstr(s, "bounds from K <= P <= sqrt(K(2-K)); K by analytic: ") != NULL, "%s",
+                  s);
+    free(s);
+    fmpz_set_ui(n, 50);
+    ck_assert_int_eq(embz_fidelity(fr, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO, 64, &err),
+                     EMBZ_OK);
+    ck_assert(!fr->how.bounds_only && fr->how.pieces >= 1 && fr->how.int_bits > 64);
+    s = embz_fidelity_how_text(&fr->how);
+    ck_assert_msg(strstr(s, "explicit: weights rounded to ") != NULL, "%s", s);
+    free(s);
+    embz_fidelity_result_clear(fr);
+    fmpz_clear(n);
+    embz_error_result_clear(res);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
 int main(void)
 {
     Suite *s = suite_create("error");
@@ -310,6 +395,7 @@ int main(void)
     tcase_add_test(tc, test_workspace);
     tcase_add_test(tc, test_threads);
     tcase_add_test(tc, test_side);
+    tcase_add_test(tc, test_how_words);
     suite_add_tcase(s, tc);
     return tu_run_suite(s);
 }

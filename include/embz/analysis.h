@@ -24,7 +24,8 @@ typedef struct {
     int method;          /* EMBZ_METHOD_EXPLICIT / EMBZ_METHOD_ANALYTIC */
     double seconds;      /* wall time spent on this size */
     double log_n;        /* ln n as a double (for fits and plots) */
-    char note[256];      /* the engine's detail, or the reason the size was skipped */
+    embz_error_how_struct how;  /* status EMBZ_OK: how the enclosure was computed */
+    char note[256];      /* otherwise: the reason the size was skipped */
 } embz_sweep_point_struct;
 
 typedef struct {

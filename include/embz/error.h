@@ -10,8 +10,60 @@
 
 #include "embz/vec.h"
 #include "embz/family.h"
+#include "embz/fidelity.h"
 
 typedef enum { EMBZ_METHOD_AUTO = 0, EMBZ_METHOD_EXPLICIT, EMBZ_METHOD_ANALYTIC } embz_method_t;
+
+/* How an enclosure of E_n(q) was obtained, as numbers and flags; embz_error_how_text
+ * (embz/render.h) writes the words. */
+typedef enum {
+    EMBZ_HOW_NONE = 0,
+    EMBZ_HOW_EXPLICIT,   /* explicit summation over i = 1..n */
+    EMBZ_HOW_KYFAN,      /* analytic: the Ky Fan maximum by branch and bound (uniform targets) */
+    EMBZ_HOW_THRESHOLD,  /* analytic: the threshold form max_t Phi(t) - Phi(d t) by branch and
+                            bound over ln t (wide uniform targets) */
+    EMBZ_HOW_GENERAL,    /* analytic, target vector: the threshold form of the vector, within
+                            the majorization bracket */
+    EMBZ_HOW_BRACKET     /* analytic, target vector: the majorization bracket alone (the
+                            threshold search gave no value: reason) */
+} embz_how_kind_t;
+
+typedef enum {
+    EMBZ_HOW_FALLBACK_NONE = 0,
+    EMBZ_HOW_DECLINED,   /* explicit summation after the analytic engine declined (reason) */
+    EMBZ_HOW_FAILED      /* explicit summation after the analytic engine failed (reason) */
+} embz_how_fallback_t;
+
+/* One run of the analytic engine. */
+typedef struct {
+    int kind;            /* EMBZ_HOW_KYFAN or EMBZ_HOW_THRESHOLD (EMBZ_HOW_NONE: no run) */
+    slong terms;         /* weights summed explicitly before the tail (i = 1..terms) */
+    slong tail_order;    /* order of the Euler-Maclaurin remainder */
+    int tail_dir;        /* +1 weights non-increasing beyond terms, -1 non-decreasing */
+    ulong d;             /* EMBZ_HOW_THRESHOLD: the target's dimension */
+    slong bounds;        /* interval evaluations of the branch and bound */
+    slong series;        /* tail series evaluated */
+    slong integrals;     /* tail integrals evaluated */
+    int budget_reached;  /* the search stopped at its budget: the upper end is loose */
+    slong prec;
+} embz_how_run_struct;
+
+typedef struct {
+    int kind;            /* embz_how_kind_t */
+    slong prec;          /* working precision */
+    /* EMBZ_HOW_EXPLICIT */
+    int order;           /* +1 streamed (weights non-increasing), -1 streamed (non-decreasing),
+                            0 stored and sorted */
+    int ball_estimates;  /* the weights left double range: estimates from ball values */
+    slong unit_exp;      /* the exact fixed-point sums count in units of 2^unit_exp */
+    /* analytic */
+    embz_how_run_struct run;    /* KYFAN, THRESHOLD: the run; GENERAL: the vector's threshold
+                                   search */
+    embz_how_run_struct upper;  /* GENERAL, BRACKET: the run for the bracket's upper end */
+    ulong bracket_lo, bracket_hi;  /* GENERAL, BRACKET: E(uniform:lo) <= E(q) <= E(uniform:hi) */
+    int fallback;        /* embz_how_fallback_t */
+    char reason[512];    /* the message behind fallback, or behind BRACKET */
+} embz_error_how_struct;
 
 typedef struct {
     arb_t error;        /* certified enclosure of E_n(q) */
@@ -21,7 +73,7 @@ typedef struct {
     arb_t lower, upper; /* max(p1/2, sup B_m) <= E <= max(p1/2, 2 sup B_m) */
     int method;         /* EMBZ_METHOD_EXPLICIT or EMBZ_METHOD_ANALYTIC */
     int order;          /* +1 weights non-increasing in i, -1 non-decreasing, 0 neither (sorted) */
-    char detail[256];   /* how it was computed, e.g. "explicit, streaming, arb 128 bits" */
+    embz_error_how_struct how;  /* how it was computed */
     int decided;        /* decision mode of the analytic engine: +1 when it stopped because E is
                            proven above the threshold (the enclosure's upper end is then only
                            the trivial 1), -1 below, 0 otherwise */
@@ -63,7 +115,7 @@ int embz_error_analytic(embz_error_result_t res, const embz_family_t f, const fm
 typedef enum {
     EMBZ_FALLBACK_EXPLICIT = 0, /* explicit summation (within explicit_max) after any analytic
                                    failure other than an invalid weight (EMBZ_ERR_DOMAIN); the
-                                   engine's reason goes in detail */
+                                   engine's reason goes in how.reason */
     EMBZ_FALLBACK_NONE
 } embz_fallback_t;
 
@@ -156,8 +208,62 @@ int embz_eval_side(int *side, embz_error_result_t res, const embz_eval_t ev, emb
 
 /* One call with the default policy: explicit summation up to EMBZ_EVAL_EXPLICIT_UP_TO, the
  * analytic engine beyond (explicit summation when it fails, up to EMBZ_EXPLICIT_MAX_N, with
- * the reason in res->detail). method EMBZ_METHOD_EXPLICIT / _ANALYTIC forces one. */
+ * the reason in res->how). method EMBZ_METHOD_EXPLICIT / _ANALYTIC forces one. */
 int embz_error(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
                const embz_target_t q, int method, slong prec, embz_err_t *err);
+
+/* ---- fidelity-type measures of a family (embz/fidelity.h has them for vectors) ---- */
+
+/* Largest n for which embz_fidelity_explicit works (it stores n exact integers). */
+#define EMBZ_FIDELITY_MAX_N (WORD(1) << 20)
+
+/* How a fidelity-type value was computed; embz_fidelity_how_text (embz/render.h) writes the
+ * words. */
+typedef struct {
+    int bounds_only;        /* 0: explicit value; 1: bounds from K (K tells how K was found) */
+    slong int_bits;         /* explicit: the weights were rounded to integers of this many bits */
+    slong pieces;           /* explicit: pieces of the exact lower convex hull */
+    double allowance_log2;  /* explicit: the rounding allowance is at most 2^this (an upper
+                               bound's exponent, rounded; -1e300 for none) */
+    slong prec;
+    embz_error_how_struct K;
+} embz_fidelity_how_struct;
+
+typedef struct {
+    int measure;        /* embz_measure_t */
+    int bounds_only;    /* 1: value/fidelity/purified are certified BOUNDS from K, not values */
+    arb_t value;        /* the chosen measure: a ball (or, bounds_only, a ball covering the
+                           certified interval [lower, upper]) */
+    arb_t lower, upper; /* certified lower and upper ends of the value */
+    arb_t fidelity;     /* F_max (fidelity, purified; also computed for overlap) */
+    arb_t purified;     /* sqrt(1 - F_max) */
+    arb_t overlap;      /* overlap measure only: O (not squared); indeterminate otherwise */
+    arb_t K;            /* bounds_only: the conversion distance the bounds come from */
+    slong nblocks;      /* pieces of the optimal output (explicit fidelity/purified) */
+    embz_fidelity_how_struct how;  /* how it was computed */
+} embz_fidelity_result_struct;
+typedef embz_fidelity_result_struct embz_fidelity_result_t[1];
+
+void embz_fidelity_result_init(embz_fidelity_result_t r);
+void embz_fidelity_result_clear(embz_fidelity_result_t r);
+
+/* The measure (EMBZ_MEASURE_FIDELITY, _PURIFIED or _OVERLAP) of p^(n) -> p^(n) (x) q at an
+ * explicit size n <= EMBZ_FIDELITY_MAX_N. The normalised weights are rounded to exact rationals
+ * p' (about prec + log2 n bits), the measure of p' is computed exactly, and the rounding is
+ * accounted for by the purified distance between the states of p and p' (a metric that LOCC
+ * and local unitaries cannot increase); the enclosure width is about 2^(-prec/2) or better.
+ * The product vector p' (x) q is streamed (only its n largest entries are formed).
+ * Errors: EMBZ_ERR_LIMIT for n too large, EMBZ_ERR_DOMAIN for bad weights,
+ * EMBZ_ERR_INPUT for an unknown measure or a bad target. */
+int embz_fidelity_explicit(embz_fidelity_result_t res, const embz_family_t f, const fmpz_t n,
+                           const embz_target_t q, int measure, slong prec, embz_err_t *err);
+
+/* Dispatcher: explicit values for n <= EMBZ_FIDELITY_MAX_N (unless method is
+ * EMBZ_METHOD_ANALYTIC), otherwise certified bounds from K = embz_error(...):
+ * K <= P <= sqrt(K (2 - K)), i.e. (1 - K)^2 <= F_max <= 1 - K^2, with res->bounds_only = 1.
+ * The overlap has no such bounds: beyond explicit sizes it is EMBZ_ERR_UNSUPPORTED. */
+int embz_fidelity(embz_fidelity_result_t res, const embz_family_t f, const fmpz_t n,
+                  const embz_target_t q, int measure, int method, slong prec, embz_err_t *err);
+
 
 #endif

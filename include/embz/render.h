@@ -215,5 +215,9 @@ char *embz_markdown_escape(const char *text);
 /* The sentence for one reason of a classification (malloc'ed; the caller frees it). Numbers
  * of fits are printed as the estimates they are; certified values come as their texts. */
 char *embz_classify_fact_text(const embz_classify_fact_struct *f);
+/* How a value was computed (malloc'ed; the caller frees it): the method, its budgets and
+ * counts, and the reason behind a fallback or a bracket, in full. */
+char *embz_error_how_text(const embz_error_how_struct *h);
+char *embz_fidelity_how_text(const embz_fidelity_how_struct *h);
 
 #endif

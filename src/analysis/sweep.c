@@ -119,7 +119,8 @@ static void take_result(embz_sweep_point_struct *p, const embz_error_result_t r)
         arb_set(p->upper, r->upper);
     }
     p->method = r->method;
-    snprintf(p->note, sizeof(p->note), "%s", r->detail);
+    p->how = r->how;
+    p->note[0] = '\0';
 }
 
 /* One size of a sweep under the sweep's policy (see sweep_opts): fills p (status, result or

@@ -231,6 +231,7 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
     const char *how = res->bounds_only ? "bounds" : "explicit";
     char *ns = fmpz_get_str(NULL, 10, n);
     char *w = weight_text(fam);
+    char *detail = embz_fidelity_how_text(&res->how);
     /* lower and upper are exact ends (for bounds tighter than the ball around them) */
     char *lo = embz_arb_lo_string(res->lower, JSON_DIGITS);
     char *hi = embz_arb_hi_string(res->upper, JSON_DIGITS);
@@ -261,7 +262,7 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
         }
         if (measure == EMBZ_MEASURE_OVERLAP) json_ends(&b, "overlap", res->overlap);
         if (res->bounds_only) json_ends(&b, "K", res->K);
-        cli_buf_json_key_string(&b, "detail", res->detail);
+        cli_buf_json_key_string(&b, "detail", detail);
         embz_buf_printf(&b, "}\n");
         free(pj);
     } else if (csv) {
@@ -275,7 +276,7 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
         embz_buf_printf(&b, ",");
         const char *f2[] = { lo, hi };
         cli_buf_csv_fields(&b, f2, 2);
-        cli_buf_csv_field(&b, res->detail);
+        cli_buf_csv_field(&b, detail);
         embz_buf_printf(&b, "\n");
         free(pt);
     } else {
@@ -321,12 +322,12 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
             }
         }
         free(tl); free(th);
-        embz_buf_printf(&b, "%-10s %s (%s)\n", "method", how, res->detail);
+        embz_buf_printf(&b, "%-10s %s (%s)\n", "method", how, detail);
         free(label); free(nt);
     }
     fputs(b.s, stdout);
     embz_buf_clear(&b);
-    free(ns); free(w); free(lo); free(hi);
+    free(ns); free(w); free(lo); free(hi); free(detail);
     embz_fidelity_result_clear(res);
     return CLI_EXIT_OK;
 }
@@ -431,7 +432,7 @@ int cli_cmd_error(int argc, char **argv)
         r.blo = embz_arb_lo_string(res->lower, JSON_DIGITS);
         r.bhi = embz_arb_hi_string(res->upper, JSON_DIGITS);
     }
-    r.detail = cli_strdup(res->detail);
+    r.detail = embz_error_how_text(&res->how);
     r.mid = embz_arb_mid_d(res->error);
     r.radius = cli_arb_radius_d(res->error);
     r.estimate = res->estimate;

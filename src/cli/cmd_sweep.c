@@ -49,6 +49,12 @@ static double log10_of(const embz_sweep_point_struct *p)
 /* The texts of one point for the CSV and JSON rows: the size in full, and for a computed
  * point the enclosure's ends, its certified digits, the argmax and the block-mass bounds
  * (NULL where they do not apply). */
+/* The note of a point (malloc'ed): how it was computed, or why it was skipped. */
+static char *point_note(const embz_sweep_point_struct *p)
+{
+    return p->status == EMBZ_OK ? embz_error_how_text(&p->how) : cli_strdup(p->note);
+}
+
 typedef struct { char *n, *lo, *hi, *ce, *ks, *bl, *bh; } point_text_t;
 
 static void point_text_init(point_text_t *t, const embz_sweep_point_struct *p)
@@ -202,7 +208,9 @@ int cli_cmd_sweep(int argc, char **argv)
                 embz_buf_printf(&b, ",,,,,,,");
             }
             embz_buf_printf(&b, "%.3f,", p->seconds);
-            cli_buf_csv_field(&b, p->note);
+            char *note = point_note(p);
+            cli_buf_csv_field(&b, note);
+            free(note);
             embz_buf_printf(&b, "\n");
             point_text_clear(&t);
         }
@@ -231,7 +239,9 @@ int cli_cmd_sweep(int argc, char **argv)
                     embz_buf_printf(&b, ", \"bound_lo\": \"%s\", \"bound_hi\": \"%s\"", t.bl, t.bh);
             }
             embz_buf_printf(&b, ", \"seconds\": %.4f", p->seconds);
-            cli_buf_json_key_string(&b, "note", p->note);
+            char *note = point_note(p);
+            cli_buf_json_key_string(&b, "note", note);
+            free(note);
             embz_buf_printf(&b, "}");
             point_text_clear(&t);
         }

@@ -221,24 +221,22 @@ static int run_result(embz_error_result_t res, actx *c, const embz_target_t q, i
     res->order = c->t->dir;
     res->have_bounds = 0;
     res->estimate = arf_get_d(arb_midref(res->error), ARF_RND_NEAR);
-    if (thform && q->kind == EMBZ_TARGET_UNIFORM)
-        snprintf(res->detail, sizeof(res->detail),
-                 "analytic: %ld explicit terms + Euler-Maclaurin tail (order %ld, weights %s "
-                 "beyond i = %ld), threshold form max_t Phi(t) - Phi(%lu t) by branch and "
-                 "bound over ln t: %ld bounds, %ld series, %ld integrals, arb %ld bits%s",
-                 (long) c->M, (long) c->t->p,
-                 c->t->dir > 0 ? "non-increasing" : "non-decreasing",
-                 (long) c->M, q->d, c->evals, c->t->evals, c->t->integrals, (long) prec,
-                 c->search_open ? "; search budget reached, upper end loose" : "");
-    else
-        snprintf(res->detail, sizeof(res->detail),
-                 "analytic: %ld explicit terms + Euler-Maclaurin tail (order %ld, weights %s "
-                 "beyond i = %ld), branch and bound: %ld bounds, %ld series, %ld integrals, "
-                 "arb %ld bits%s",
-                 (long) c->M, (long) c->t->p,
-                 c->t->dir > 0 ? "non-increasing" : "non-decreasing",
-                 (long) c->M, c->evals, c->t->evals, c->t->integrals, (long) prec,
-                 c->search_open ? "; search budget reached" : "");
+    memset(&res->how, 0, sizeof(res->how));
+    res->how.kind = thform ? EMBZ_HOW_THRESHOLD : EMBZ_HOW_KYFAN;
+    res->how.prec = prec;
+    {
+        embz_how_run_struct *h = &res->how.run;
+        h->kind = res->how.kind;
+        h->terms = c->M;
+        h->tail_order = c->t->p;
+        h->tail_dir = c->t->dir > 0 ? 1 : -1;
+        h->d = thform && q->kind == EMBZ_TARGET_UNIFORM ? q->d : 0;   /* 0: a vector */
+        h->bounds = c->evals;
+        h->series = c->t->evals;
+        h->integrals = c->t->integrals;
+        h->budget_reached = c->search_open != 0;
+        h->prec = prec;
+    }
     arf_clear(lo); arf_clear(hi);
     return st;
 }

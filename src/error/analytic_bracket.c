@@ -42,8 +42,7 @@ int _embz_an_vector_target_bounds(embz_error_result_t res, embz_analytic_t an,
     {
         /* then the threshold form of E(q) itself; both enclosures hold, so their
          * intersection does (the bracket is kept when the search fails) */
-        char inner[sizeof(res->detail)];
-        snprintf(inner, sizeof(inner), "%s", res->detail);
+        embz_how_run_struct upper = res->how.run;   /* the run for uniform:m */
         embz_err_t e2;
         embz_err_clear(&e2);
         /* its cost grows with the number of distinct entries (each evaluation counts the
@@ -106,19 +105,14 @@ int _embz_an_vector_target_bounds(embz_error_result_t res, embz_analytic_t an,
         /* the Ky Fan index of the best proven threshold value (see _embz_an_threshold_search) */
         if (tight) fmpz_set(res->argk, rl->argk);
         else fmpz_zero(res->argk);
-        if (tight)
-            snprintf(res->detail, sizeof(res->detail),
-                     "analytic, general target: max_t Phi(t) - sum_j q_j Phi(t/q_j) by branch "
-                     "and bound over ln t%s, within E(uniform:%lu) <= E(q) <= E(uniform:%lu) "
-                     "(majorization); %.40s",
-                     strstr(rl->detail, "budget reached") ? " (budget reached, upper end loose)"
-                                                          : "",
-                     fmpz_get_ui(dl) >= 2 ? fmpz_get_ui(dl) : 1UL, m, inner);
-        else
-            snprintf(res->detail, sizeof(res->detail),
-                     "analytic bounds for a general target: E(uniform:%lu) <= E(q) <= "
-                     "E(uniform:%lu) by majorization (threshold search: %.50s); %.40s",
-                     fmpz_get_ui(dl) >= 2 ? fmpz_get_ui(dl) : 1UL, m, e2.text, inner);
+        memset(&res->how, 0, sizeof(res->how));
+        res->how.kind = tight ? EMBZ_HOW_GENERAL : EMBZ_HOW_BRACKET;
+        res->how.prec = an->prec;
+        if (tight) res->how.run = rl->how.run;
+        res->how.upper = upper;
+        res->how.bracket_lo = fmpz_get_ui(dl) >= 2 ? fmpz_get_ui(dl) : 1UL;
+        res->how.bracket_hi = m;
+        if (!tight) snprintf(res->how.reason, sizeof(res->how.reason), "%s", e2.text);
     }
 out:
     embz_target_clear(tu);

@@ -20,7 +20,7 @@ void embz_error_result_init(embz_error_result_t r)
     r->decided = 0;
     r->used = 0;
     r->steps = 0;
-    r->detail[0] = '\0';
+    memset(&r->how, 0, sizeof(r->how));
 }
 
 void embz_error_result_clear(embz_error_result_t r)
@@ -240,9 +240,8 @@ static int eval_step(embz_error_result_t res, const embz_eval_t ev, embz_eval_wo
         if (dsteps > 1 && st == EMBZ_OK && !usable(res->error))
             st = embz_err_set(err, EMBZ_ERR_PREC, "no certified digit at %ld bits", (long) wp);
         if (st == EMBZ_OK && reason[0] != '\0') {
-            size_t len = strlen(res->detail);
-            snprintf(res->detail + len, sizeof(res->detail) - len, " (analytic engine %s: %.120s)",
-                     declined ? "declined" : "failed", reason);
+            res->how.fallback = declined ? EMBZ_HOW_DECLINED : EMBZ_HOW_FAILED;
+            snprintf(res->how.reason, sizeof(res->how.reason), "%s", reason);
         }
     }
     return st;

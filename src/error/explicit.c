@@ -200,13 +200,12 @@ static void set_result(embz_error_result_t res, const embz_x_xres_t *X, slong F,
         b = FLINT_MAX(X->p1U, 4 * X->BU);
         _embz_x_quotient_interval(res->upper, a, X->WU, b, X->WL, 2, prec);
     }
-    snprintf(res->detail, sizeof(res->detail),
-             "explicit, %s, arb %ld bits, exact fixed-point sums in units of 2^%ld",
-             mode > 0 ? "streaming (weights non-increasing)"
-             : mode < 0 ? "streaming (weights non-decreasing)"
-             : ball_estimates ? "stored and sorted (weights outside double range)"
-             : "stored and sorted (weights not monotone)",
-             (long) prec, (long) -F);
+    memset(&res->how, 0, sizeof(res->how));
+    res->how.kind = EMBZ_HOW_EXPLICIT;
+    res->how.prec = prec;
+    res->how.order = mode;
+    res->how.ball_estimates = mode == 0 && ball_estimates;
+    res->how.unit_exp = -F;
 }
 
 static int explicit_run(embz_error_result_t res, const embz_family_t f, const fmpz_t n,

@@ -30,7 +30,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include "embz/fidelity.h"
-#include "impl.h"
+
 
 /* ------------------------------------------------------------------ measure names */
 

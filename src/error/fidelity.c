@@ -14,8 +14,7 @@
  * Beyond explicit sizes: K <= P <= sqrt(K (2 - K)) (docs/measures.md), bounds only. */
 #include <stdlib.h>
 #include <string.h>
-#include "embz/fidelity.h"
-#include "impl.h"
+#include "embz/error.h"
 
 void embz_fidelity_result_init(embz_fidelity_result_t r)
 {
@@ -31,7 +30,7 @@ void embz_fidelity_result_init(embz_fidelity_result_t r)
     arb_indeterminate(r->overlap);
     arb_indeterminate(r->K);
     r->nblocks = 0;
-    r->detail[0] = '\0';
+    memset(&r->how, 0, sizeof(r->how));
 }
 
 void embz_fidelity_result_clear(embz_fidelity_result_t r)
@@ -240,13 +239,11 @@ int embz_fidelity_explicit(embz_fidelity_result_t res, const embz_family_t f, co
     res->bounds_only = 0;
     res->nblocks = nblocks;
     arb_indeterminate(res->K);
-    {
-        double le = mag_is_zero(eta2) ? -1e300 : mag_get_d_log2_approx(eta2);
-        snprintf(res->detail, sizeof(res->detail),
-                 "explicit: weights rounded to %ld-bit integers, exact lower convex hull "
-                 "(%ld pieces), rounding allowance 2^%.0f, arb %ld bits",
-                 (long) G, (long) nblocks, le, (long) wprec);
-    }
+    memset(&res->how, 0, sizeof(res->how));
+    res->how.int_bits = G;
+    res->how.pieces = nblocks;
+    res->how.allowance_log2 = mag_is_zero(eta2) ? -1e300 : mag_get_d_log2_approx(eta2);
+    res->how.prec = wprec;
     mag_clear(eta2);
 
 done:
@@ -323,8 +320,10 @@ int embz_fidelity(embz_fidelity_result_t res, const embz_family_t f, const fmpz_
         res->measure = measure;
         res->bounds_only = 1;
         res->nblocks = 0;
-        snprintf(res->detail, sizeof(res->detail),
-                 "bounds from K <= P <= sqrt(K(2-K)); K by %.200s", e->detail);
+        memset(&res->how, 0, sizeof(res->how));
+        res->how.bounds_only = 1;
+        res->how.prec = prec;
+        res->how.K = e->how;
         arf_clear(l); arf_clear(h);
         arb_clear(K); arb_clear(t);
     }
