@@ -123,6 +123,10 @@ void cli_settings_clear(cli_settings_t *s);
 /* --prec in [16, max_bits] (unchanged when absent); usage error on a bad value, else 0. */
 int cli_load_prec_upto(long *prec, const cli_args_t *a, const cli_spec_t *spec,
                        long max_bits);
+/* n <- the size written in text (any form embz_size_parse takes, n >= 1); a bad one is a
+ * usage error with the parser's column and caret, after what (an option such as "--from",
+ * or NULL for a positional size). */
+int cli_load_size(fmpz_t n, const char *text, const char *what, const cli_spec_t *spec);
 /* --points in [min_points, max_points] (skipped when points is NULL), then --from and --to
  * (sizes >= 1, from <= to); values absent from the command line keep what the caller put
  * in. Usage error on a bad value, else 0. */

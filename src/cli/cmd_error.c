@@ -384,15 +384,7 @@ int cli_cmd_error(int argc, char **argv)
         code = cli_usage_error(&error_spec, "%s", err.text);
         goto done;
     }
-    status = embz_size_parse(n, size_text, &err);
-    if (status != EMBZ_OK) {
-        fprintf(stderr, "embz error: bad size '%s': ", size_text);
-        char buf[3000];
-        embz_err_format(buf, sizeof(buf), &err);
-        fprintf(stderr, "%s\n", buf);
-        code = cli_exit_code(status);
-        goto done;
-    }
+    if ((code = cli_load_size(n, size_text, NULL, &error_spec)) != CLI_EXIT_OK) goto done;
     if (fmpz_cmp_ui(n, 1) < 0) {
         fprintf(stderr, "embz error: the size n must be at least 1 (got %s)\n", size_text);
         code = CLI_EXIT_USAGE;

@@ -249,12 +249,11 @@ int cli_cmd_report(int argc, char **argv)
         const char *names[2] = { "from", "to" };
         fmpz *vals[2] = { o.from, o.to };
         for (int k = 0; k < 2; k++) {
-            if ((t = cli_value(&a, names[k])) == NULL) continue;
-            embz_err_clear(&err);
-            if (embz_size_parse(vals[k], t, &err) != EMBZ_OK || fmpz_cmp_ui(vals[k], 1) < 0) {
-                code = cli_usage_error(&report_spec, "bad size for --%s: '%s'", names[k], t);
+            char what[8];
+            snprintf(what, sizeof(what), "--%s", names[k]);
+            if ((t = cli_value(&a, names[k])) != NULL
+                && (code = cli_load_size(vals[k], t, what, &report_spec)) != CLI_EXIT_OK)
                 goto done;
-            }
         }
         if (fmpz_cmp(o.from, o.to) >= 0) {
             code = cli_usage_error(&report_spec, "need --from < --to");
@@ -289,12 +288,9 @@ int cli_cmd_report(int argc, char **argv)
     }
     sizes = _fmpz_vec_init(nsizes > 0 ? nsizes : 1);
     for (long j = 0; j < nsizes; j++) {
-        embz_err_clear(&err);
-        if (embz_size_parse(sizes + j, sizes_text[j], &err) != EMBZ_OK
-            || fmpz_cmp_ui(sizes + j, 1) < 0) {
-            code = cli_usage_error(&report_spec, "bad size '%s' in --sizes", sizes_text[j]);
+        if ((code = cli_load_size(sizes + j, sizes_text[j], "--sizes", &report_spec))
+            != CLI_EXIT_OK)
             goto done;
-        }
     }
     o.ngoals = ngoals;
     o.goal_text = (const char *const *) goals;

@@ -109,6 +109,20 @@ int cli_load_prec(long *prec, const cli_args_t *a, const cli_spec_t *spec)
     return cli_load_prec_upto(prec, a, spec, 1L << 20);
 }
 
+int cli_load_size(fmpz_t n, const char *text, const char *what, const cli_spec_t *spec)
+{
+    embz_err_t err;
+    embz_err_clear(&err);
+    if (embz_size_parse(n, text, &err) == EMBZ_OK) {
+        if (fmpz_sgn(n) > 0) return CLI_EXIT_OK;
+        embz_err_set(&err, EMBZ_ERR_INPUT, "size '%.80s': n must be at least 1", text);
+    }
+    char buf[3000];
+    embz_err_format(buf, sizeof(buf), &err);
+    return what != NULL ? cli_usage_error(spec, "%s: %s", what, buf)
+                        : cli_usage_error(spec, "%s", buf);
+}
+
 int cli_load_range(fmpz_t from, fmpz_t to, long *points, long min_points, long max_points,
                    const cli_args_t *a, const cli_spec_t *spec)
 {
@@ -119,14 +133,13 @@ int cli_load_range(fmpz_t from, fmpz_t to, long *points, long min_points, long m
                                max_points);
     const char *names[2] = { "from", "to" };
     fmpz *vals[2] = { from, to };
-    embz_err_t err;
-    embz_err_clear(&err);
     for (int k = 0; k < 2; k++) {
-        if ((t = cli_value(a, names[k])) == NULL) continue;
-        int status = embz_size_parse(vals[k], t, &err);
-        if (status != EMBZ_OK || fmpz_cmp_ui(vals[k], 1) < 0)
-            return cli_usage_error(spec, "bad size for --%s: '%s'%s%s", names[k], t,
-                                   err.text[0] ? ": " : "", err.text);
+        char what[8];
+        snprintf(what, sizeof(what), "--%s", names[k]);
+        int code;
+        if ((t = cli_value(a, names[k])) != NULL
+            && (code = cli_load_size(vals[k], t, what, spec)) != CLI_EXIT_OK)
+            return code;
     }
     if (fmpz_cmp(from, to) > 0) return cli_usage_error(spec, "--from must not exceed --to");
     return CLI_EXIT_OK;
