@@ -39,14 +39,16 @@ void embz_qvec_purified(arb_t P, const embz_qvec_t p, const embz_qvec_t r, slong
 /* O(p, r) = sum_i sqrt(p↓_i r↓_i) (the overlap itself, not squared). */
 void embz_qvec_overlap(arb_t O, const embz_qvec_t p, const embz_qvec_t r, slong prec);
 
-/* The exact kernel (arb's underscore convention: raw arrays, no checks). a: n >= 1 integers
+/* The measures of p' -> p' (x) q for an integer vector, the product streamed (only its n
+ * largest entries are formed): the form in which a family's explicit sizes are computed
+ * (embz_fidelity_explicit, embz/error.h) and the vector functions above. a: n >= 1 integers
  * sorted non-increasing with sum A (the source p' = a / A); the target as integers
  * alpha_0 >= ... >= alpha_{m-1} > 0 with sum Q (alpha = NULL: uniform, Q = d). With e the n
  * largest entries of a (x) alpha, sorted, sets hs = sum over the hull pieces of sqrt(dP dR)
  * and os = sum_i sqrt(a_i e_i); then sqrt(F_max(p' -> p' (x) q)) = hs / (A sqrt Q) and
  * O(p', p' (x) q) = os / (A sqrt Q). nblocks receives the number of hull pieces. */
-void _embz_fidelity_sorted(arb_t hs, arb_t os, slong *nblocks, const fmpz *a, slong n,
-                           const fmpz_t A, const fmpz *alpha, slong m, const fmpz_t Q,
-                           slong prec);
+void embz_fidelity_appended_sums(arb_t hs, arb_t os, slong *nblocks, const fmpz *a, slong n,
+                                 const fmpz_t A, const fmpz *alpha, slong m, const fmpz_t Q,
+                                 slong prec);
 
 #endif

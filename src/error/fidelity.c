@@ -3,7 +3,7 @@
  * Explicit sizes. The weights are evaluated as balls and normalised, p_i = w_i / W, then
  * rounded to integers a_i = round(p_i 2^G); p' = a / A (A = sum a_i) is an exact probability
  * vector whose measure is computed exactly (up to the final square roots, done in arb) by
- * _embz_fidelity_sorted. The rounding is paid for with the purified distance
+ * embz_fidelity_appended_sums. The rounding is paid for with the purified distance
  * Pd(x, y) = sqrt(1 - |<x|y>|^2), a metric on pure states that no channel increases: for the
  * states of p and p' written in the same Schmidt basis,
  *     Pd <= ||sqrt(p) - sqrt(p')||_2 <= ||sqrt(p) - y||_2 + |1 - ||y||_2| =: eta,
@@ -208,7 +208,7 @@ int embz_fidelity_explicit(embz_fidelity_result_t res, const embz_family_t f, co
     /* the exact problem for p' */
     qsort(a, (size_t) nn, sizeof(fmpz), fmpz_cmp_desc);
     slong nblocks = 0;
-    _embz_fidelity_sorted(hs, os, &nblocks, a, nn, A, alpha, m, Q, wprec);
+    embz_fidelity_appended_sums(hs, os, &nblocks, a, nn, A, alpha, m, Q, wprec);
     arb_sqrt_fmpz(u, Q, wprec);
     arb_mul_fmpz(u, u, A, wprec);
     arb_div(hs, hs, u, wprec);     /* sqrt(F') */

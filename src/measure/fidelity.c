@@ -288,9 +288,9 @@ static void pheap_down(pheap_t *H, slong pos)
     }
 }
 
-void _embz_fidelity_sorted(arb_t hs, arb_t os, slong *nblocks, const fmpz *a, slong n,
-                           const fmpz_t A, const fmpz *alpha, slong m, const fmpz_t Q,
-                           slong prec)
+void embz_fidelity_appended_sums(arb_t hs, arb_t os, slong *nblocks, const fmpz *a, slong n,
+                                 const fmpz_t A, const fmpz *alpha, slong m, const fmpz_t Q,
+                                 slong prec)
 {
     fhull_t h;
     fmpz_t X, Y, e;
