@@ -41,7 +41,7 @@ void embz_qvec_overlap(arb_t O, const embz_qvec_t p, const embz_qvec_t r, slong 
 
 /* The measures of p' -> p' (x) q for an integer vector, the product streamed (only its n
  * largest entries are formed): the form in which a family's explicit sizes are computed
- * (embz_fidelity_explicit, embz/error.h) and the vector functions above. a: n >= 1 integers
+ * (embz_fidelity_explicit, embz/error.h). a: n >= 1 integers
  * sorted non-increasing with sum A (the source p' = a / A); the target as integers
  * alpha_0 >= ... >= alpha_{m-1} > 0 with sum Q (alpha = NULL: uniform, Q = d). With e the n
  * largest entries of a (x) alpha, sorted, sets hs = sum over the hull pieces of sqrt(dP dR)
