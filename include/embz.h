@@ -8,6 +8,7 @@
 #include "embz/family.h"
 #include "embz/vec.h"
 #include "embz/measure.h"
+#include "embz/levels.h"
 #include "embz/error.h"
 #include "embz/fidelity.h"
 #include "embz/util.h"
