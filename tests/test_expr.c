@@ -112,7 +112,8 @@ static int tgen(ttree_t *t, flint_rand_t st, int depth, int kind)
     int op;
     if (kind == 1) op = rat_ops[n_randint(st, 6)];
     else if (kind == 2) op = smooth_ops[n_randint(st, sizeof(smooth_ops) / sizeof(int))];
-    else op = (int) (EMBZ_OP_NEG + n_randint(st, EMBZ_OP_COUNT - EMBZ_OP_NEG));
+    else   /* the operations up to max (ceil and binom: test_steps_binom) */
+        op = (int) (EMBZ_OP_NEG + n_randint(st, EMBZ_OP_MAX + 1 - EMBZ_OP_NEG));
     if (op == EMBZ_OP_POW) {
         int a = tgen(t, st, depth - 1, kind);
         int b;
@@ -165,7 +166,7 @@ static const char *fname(int op)
     case EMBZ_OP_LGAMMA: return "lgamma"; case EMBZ_OP_ATAN: return "atan";
     case EMBZ_OP_SIN: return "sin"; case EMBZ_OP_COS: return "cos";
     case EMBZ_OP_FLOOR: return "floor"; case EMBZ_OP_MIN: return "min";
-    case EMBZ_OP_MAX: return "max";
+    case EMBZ_OP_MAX: return "max"; case EMBZ_OP_CEIL: return "ceil";
     default: return "?";
     }
 }
@@ -1337,6 +1338,146 @@ START_TEST(test_eval_fmpq)
 }
 END_TEST
 
+/* ceil, binom, and floor/ceil of a ball that straddles an integer: decided exactly where the
+ * argument is rational at the point, else with more precision, never guessed. References:
+ * FLINT's exact rationals and binomials (fmpq, fmpz_bin_uiui). */
+START_TEST(test_steps_binom)
+{
+    static const struct { const char *text; long i, n; const char *value; } tab[] = {
+        { "ceil(7/2) + ceil(-i/2)", 7, 1, "1" }, { "binom(n, i)", 3, 10, "120" },
+        { "binom(n, i)", 12, 10, "0" }, { "binom(5/2, i)", 2, 1, "15/8" },
+        { "binom(n, i - 4)", 3, 10, "0" }, { "log2(i) + log2(1/n)", 8, 4, "1" },
+        { "log10(n)", 1, 1000, "3" }, { "sqrt(i/n)", 9, 4, "3/2" }, { "exp(i - i)", 5, 5, "1" },
+        { "2^(-ceil(log2(i)))", 64, 1, "1/64" }, { "2^(-ceil(log2(i)))", 65, 1, "1/128" },
+    };
+    for (size_t k = 0; k < sizeof(tab) / sizeof(tab[0]); k++) {
+        embz_expr_t e;
+        fmpq_t v, want;
+        fmpz_t i, n;
+        arb_t b;
+        embz_expr_init(e);
+        fmpq_init(v); fmpq_init(want);
+        arb_init(b);
+        fmpz_init_set_si(i, tab[k].i); fmpz_init_set_si(n, tab[k].n);
+        parse_ok(e, tab[k].text);
+        ck_assert_int_eq(fmpq_set_str(want, tab[k].value, 10), 0);
+        ck_assert_msg(embz_expr_eval_fmpq(v, e, i, n) == EMBZ_OK, "%s", tab[k].text);
+        ck_assert_msg(fmpq_equal(v, want), "%s", tab[k].text);
+        /* the ball evaluator agrees, and is exact where floor/ceil met an integer */
+        ck_assert_int_eq(eval_at(b, e, tab[k].i, tab[k].n, 64), EMBZ_OK);
+        ck_assert_msg(arb_contains_fmpq(b, want), "%s (arb)", tab[k].text);
+        ck_assert(mag_cmp_2exp_si(arb_radref(b), -50) < 0);
+        ck_assert(fabs(embz_expr_eval_d(e, (double) tab[k].i, (double) tab[k].n)
+                       - fmpq_get_d(want)) <= 1e-12 * fabs(fmpq_get_d(want)) + 1e-300);
+        arb_clear(b);
+        fmpq_clear(v); fmpq_clear(want);
+        fmpz_clear(i); fmpz_clear(n);
+        embz_expr_clear(e);
+    }
+    /* a k that is not an integer is outside binom's domain */
+    {
+        embz_expr_t e;
+        fmpq_t v;
+        fmpz_t i;
+        arb_t b;
+        embz_expr_init(e);
+        fmpq_init(v);
+        fmpz_init_set_si(i, 3);
+        arb_init(b);
+        parse_ok(e, "binom(i, 1/2)");
+        ck_assert_int_eq(embz_expr_eval_fmpq(v, e, i, i), EMBZ_ERR_DOMAIN);
+        ck_assert_int_eq(eval_at(b, e, 3, 3, 64), EMBZ_ERR_DOMAIN);
+        ck_assert(isnan(embz_expr_eval_d(e, 3, 3)));
+        arb_clear(b);
+        fmpq_clear(v);
+        fmpz_clear(i);
+        embz_expr_clear(e);
+    }
+    /* ceil(log2(i)) at powers of two and their neighbours: log2 of an exact power is an exact
+     * integer, so the ball straddles it; the exact value decides */
+    for (slong k = 1; k <= 200; k++) {
+        embz_expr_t e;
+        arb_t b, r;
+        fmpz_t i, n;
+        embz_expr_init(e);
+        arb_init(b); arb_init(r);
+        fmpz_init(i); fmpz_init_set_ui(n, 1);
+        parse_ok(e, "ceil(log2(i)) - floor(log2(i))");
+        for (int d = -1; d <= 1; d++) {
+            fmpz_one(i);
+            fmpz_mul_2exp(i, i, (ulong) k);
+            fmpz_add_si(i, i, d);
+            arb_set_fmpz(b, i);
+            arb_t an;
+            arb_init(an);
+            arb_one(an);
+            ck_assert_int_eq(embz_expr_eval_arb(r, e, b, an, 64), EMBZ_OK);
+            ck_assert_msg(arb_is_exact(r), "k = %ld, d = %d", (long) k, d);
+            int pow2 = d == 0 || (k == 1 && d == -1);   /* i = 2^k, or i = 1 = 2^0 */
+            ck_assert_msg(arb_equal_si(r, pow2 ? 0 : 1), "k = %ld, d = %d", (long) k, d);
+            arb_clear(an);
+        }
+        fmpz_clear(i); fmpz_clear(n);
+        arb_clear(b); arb_clear(r);
+        embz_expr_clear(e);
+    }
+    /* an integer argument that no exact rule reaches stays a certified ball over both sides
+     * (log(exp(3)) = 3: floor is 3, but the ball cannot tell 3 from just below it) */
+    {
+        embz_expr_t e;
+        arb_t r;
+        embz_expr_init(e);
+        arb_init(r);
+        parse_ok(e, "floor(log(exp(i)))");
+        ck_assert_int_eq(eval_at(r, e, 3, 1, 64), EMBZ_OK);
+        ck_assert(arb_contains_si(r, 3));
+        ck_assert(arb_is_finite(r));
+        arb_clear(r);
+        embz_expr_clear(e);
+    }
+    /* binom against FLINT's exact binomials, in all three evaluators */
+    {
+        flint_rand_t rs;
+        flint_randinit(rs);
+        embz_expr_t e;
+        arb_t r;
+        fmpz_t c;
+        embz_expr_init(e);
+        arb_init(r);
+        fmpz_init(c);
+        parse_ok(e, "binom(n, i)");
+        for (int it = 0; it < 300; it++) {
+            ulong n = n_randint(rs, 300), k = n_randint(rs, n + 4);
+            fmpz_bin_uiui(c, n, k);
+            ck_assert_int_eq(eval_at(r, e, (slong) k, (slong) n, 128), EMBZ_OK);
+            ck_assert(arb_contains_fmpz(r, c));
+            if (fmpz_bits(c) < 100) ck_assert(arb_is_exact(r) || arb_rel_accuracy_bits(r) > 100);
+            double d = embz_expr_eval_d(e, (double) k, (double) n);
+            ck_assert(fabs(d - fmpz_get_d(c)) <= 1e-9 * fmpz_get_d(c));
+        }
+        fmpz_clear(c);
+        arb_clear(r);
+        embz_expr_clear(e);
+        flint_randclear(rs);
+    }
+    /* round trip through the printer */
+    {
+        embz_expr_t e, g;
+        embz_expr_init(e);
+        embz_expr_init(g);
+        parse_ok(e, "ceil(i/2) + binom(n, i)");
+        char *s = embz_expr_to_string(e);
+        parse_ok(g, s);
+        char *t = embz_expr_to_string(g);
+        ck_assert_str_eq(s, t);
+        ck_assert(strstr(s, "ceil(") != NULL && strstr(s, "binom(") != NULL);
+        free(s); free(t);
+        embz_expr_clear(e);
+        embz_expr_clear(g);
+    }
+}
+END_TEST
+
 START_TEST(test_fold_constants)
 {
     static const struct { const char *text, *value; } tab[] = {
@@ -1360,7 +1501,7 @@ START_TEST(test_fold_constants)
         embz_expr_clear(e);
     }
     /* not folded: irrational, undefined, too large a power; parameters until bound */
-    static const char *keep[] = { "log(2)", "1/0", "2^64", "sqrt(4)", "a + 1" };
+    static const char *keep[] = { "log(2)", "1/0", "2^64", "sqrt(2)", "a + 1" };
     for (size_t k = 0; k < sizeof(keep) / sizeof(keep[0]); k++) {
         embz_expr_t e;
         embz_expr_init(e);
@@ -1421,6 +1562,7 @@ static Suite *expr_suite(void)
     tcase_add_test(tc, test_log_split);
     tcase_add_test(tc, test_fold_constants);
     tcase_add_test(tc, test_eval_fmpq);
+    tcase_add_test(tc, test_steps_binom);
     suite_add_tcase(s, tc);
     return s;
 }

@@ -21,6 +21,8 @@ typedef enum {
     EMBZ_OP_ABS, EMBZ_OP_LGAMMA, EMBZ_OP_ATAN, EMBZ_OP_SIN, EMBZ_OP_COS,
     EMBZ_OP_FLOOR,                                 /* unary functions: a */
     EMBZ_OP_MIN, EMBZ_OP_MAX,                      /* binary functions: a, b (pow() parses to EMBZ_OP_POW) */
+    EMBZ_OP_CEIL,                                  /* unary: a */
+    EMBZ_OP_BINOM,                                 /* binary: binom(a, k), k an integer */
     EMBZ_OP_COUNT
 } embz_op_t;
 
@@ -125,6 +127,9 @@ int embz_expr_eval_fmpq(fmpq_t res, const embz_expr_t e, const fmpz_t i, const f
  * non-positive, etc.), when any intermediate value is not finite (overflow included), and
  * for unbound parameters. */
 double embz_expr_eval_d(const embz_expr_t e, double i, double n);
+/* binom(a, k) in double (the language's binom: NaN for a k that is not an integer, 0 for
+ * k < 0 and for integers 0 <= a < k). */
+double embz_binom_d(double a, double k);
 
 /* Ball evaluation at precision prec. i and n are balls. Returns EMBZ_OK with a finite ball, or
  * EMBZ_ERR_DOMAIN when the value is certainly undefined, when the domain condition cannot be

@@ -136,8 +136,12 @@ static void walk(aser_t *r, const embz_expr_t e, int node, slong K, slong prec)
         walk(&a, e, nd->a, K, prec);
         _embz_asym_sincos(r, &a, nd->op == EMBZ_OP_COS, K, prec);
         break;
-    case EMBZ_OP_FLOOR:
-        _embz_asym_unknown(r, "floor has no expansion in the scale");
+    case EMBZ_OP_FLOOR: case EMBZ_OP_CEIL:
+        _embz_asym_unknown(r, nd->op == EMBZ_OP_FLOOR ? "floor has no expansion in the scale"
+                                                      : "ceil has no expansion in the scale");
+        break;
+    case EMBZ_OP_BINOM:
+        _embz_asym_unknown(r, "binom has no expansion in the scale");
         break;
     default:
         _embz_asym_unknown(r, "operation not supported by the expansion engine");

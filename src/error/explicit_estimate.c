@@ -105,6 +105,8 @@ static const double *dtape_eval(const dtape_t *T, double *v, slong B, double i0,
         case EMBZ_OP_SIN: for (j = 0; j < c; j++) o[j] = dfix(sin(a[j])); break;
         case EMBZ_OP_COS: for (j = 0; j < c; j++) o[j] = dfix(cos(a[j])); break;
         case EMBZ_OP_FLOOR: for (j = 0; j < c; j++) o[j] = floor(a[j]); break;
+        case EMBZ_OP_CEIL: for (j = 0; j < c; j++) o[j] = ceil(a[j]); break;
+        case EMBZ_OP_BINOM: for (j = 0; j < c; j++) o[j] = dfix(embz_binom_d(a[j], b[j])); break;
         case EMBZ_OP_MIN:
             for (j = 0; j < c; j++)
                 o[j] = (isnan(a[j]) || isnan(b[j])) ? NAN : (a[j] < b[j] ? a[j] : b[j]);

@@ -122,12 +122,18 @@ static int op_acb(acb_t r, int op, const acb_t a, const acb_t b, int analytic, s
         if (!analytic && both_real) return real_op(r, op, a, b, prec);
         acb_indeterminate(r);
         return EMBZ_OK;
-    case EMBZ_OP_FLOOR: {
+    case EMBZ_OP_BINOM:
+        if (!analytic && both_real) return real_op(r, op, a, b, prec);
+        acb_indeterminate(r);
+        return EMBZ_OK;
+    case EMBZ_OP_FLOOR: case EMBZ_OP_CEIL: {
         arb_t f;
         int ok;
         arb_init(f);
-        arb_floor(f, acb_realref(a), prec);
-        ok = arb_is_exact(f) && arb_gt(acb_realref(a), f);
+        if (op == EMBZ_OP_FLOOR) arb_floor(f, acb_realref(a), prec);
+        else arb_ceil(f, acb_realref(a), prec);
+        ok = arb_is_exact(f) && (op == EMBZ_OP_FLOOR ? arb_gt(acb_realref(a), f)
+                                                     : arb_lt(acb_realref(a), f));
         if (ok) acb_set_arb(r, f);
         arb_clear(f);
         if (ok) return EMBZ_OK;

@@ -110,6 +110,10 @@ int _embz_expr_op_arb(arb_t r, int op, const arb_t a, const arb_t b, slong prec)
     case EMBZ_OP_SIN: arb_sin(r, a, prec); break;
     case EMBZ_OP_COS: arb_cos(r, a, prec); break;
     case EMBZ_OP_FLOOR: arb_floor(r, a, prec); break;
+    case EMBZ_OP_CEIL: arb_ceil(r, a, prec); break;
+    case EMBZ_OP_BINOM:
+        if (_embz_binom_arb(r, a, b, prec) != EMBZ_OK) goto domain;
+        break;
     case EMBZ_OP_MIN: arb_min(r, a, b, prec); break;
     case EMBZ_OP_MAX: arb_max(r, a, b, prec); break;
     default: goto domain;
@@ -121,12 +125,51 @@ domain:
     return EMBZ_ERR_DOMAIN;
 }
 
-int embz_expr_eval_arb(arb_t res, const embz_expr_t e, const arb_t i, const arb_t n, slong prec)
+
+
+/* Extra precision for a floor or ceil whose argument straddles an integer: two steps. */
+#define STEP_RESOLVE_FACTOR 4
+#define STEP_RESOLVE_MAX_PREC 8192
+
+/* r = floor or ceil of the subtree at node a came out as a ball over two integers: decide
+ * the side exactly (the argument's exact value, when it is rational at exact i and n), else
+ * with more precision; a ball still straddling stays as it is (wide, but certified). */
+static void resolve_step(arb_t r, int op, const embz_expr_t e, long a, const arb_t i,
+                         const arb_t n, slong prec)
+{
+    fmpz_t zi, zn;
+    fmpq_t q;
+    fmpz_init(zi); fmpz_init(zn);
+    fmpq_init(q);
+    if (arb_is_exact(i) && arb_get_unique_fmpz(zi, i) && arb_is_exact(n)
+        && arb_get_unique_fmpz(zn, n) && _embz_expr_eval_fmpq_node(q, e, a, zi, zn) == EMBZ_OK) {
+        if (op == EMBZ_OP_FLOOR) fmpz_fdiv_q(zi, fmpq_numref(q), fmpq_denref(q));
+        else fmpz_cdiv_q(zi, fmpq_numref(q), fmpq_denref(q));
+        arb_set_fmpz(r, zi);
+    } else {
+        arb_t x, t;
+        arb_init(x); arb_init(t);
+        for (slong wp = prec * STEP_RESOLVE_FACTOR; wp <= STEP_RESOLVE_MAX_PREC
+                                                    && wp <= prec * STEP_RESOLVE_FACTOR * STEP_RESOLVE_FACTOR;
+             wp *= STEP_RESOLVE_FACTOR) {
+            if (_embz_expr_eval_arb_node(x, e, a, i, n, wp) != EMBZ_OK) break;
+            if (op == EMBZ_OP_FLOOR) arb_floor(t, x, wp);
+            else arb_ceil(t, x, wp);
+            if (arb_is_exact(t)) { arb_set(r, t); break; }
+        }
+        arb_clear(x); arb_clear(t);
+    }
+    fmpz_clear(zi); fmpz_clear(zn);
+    fmpq_clear(q);
+}
+
+/* The value of the subtree at node. */
+int _embz_expr_eval_arb_node(arb_t res, const embz_expr_t e, long node, const arb_t i, const arb_t n,
+                     slong prec)
 {
     int status = EMBZ_OK;
-    if (e->root < 0) { arb_indeterminate(res); return EMBZ_ERR_INPUT; }
-    arb_ptr v = _arb_vec_init(e->root + 1);
-    for (long k = 0; k <= e->root && status == EMBZ_OK; k++) {
+    arb_ptr v = _arb_vec_init(node + 1);
+    for (long k = 0; k <= node && status == EMBZ_OK; k++) {
         const embz_node_t *nd = e->nodes + k;
         if (_embz_op_arity(nd->op) == 0) {
             status = _embz_expr_leaf_arb(v + k, nd, i, n, prec);
@@ -134,10 +177,19 @@ int embz_expr_eval_arb(arb_t res, const embz_expr_t e, const arb_t i, const arb_
         } else {
             status = _embz_expr_op_arb(v + k, nd->op, v + nd->a,
                                        nd->b >= 0 ? v + nd->b : v + nd->a, prec);
+            if (status == EMBZ_OK && (nd->op == EMBZ_OP_FLOOR || nd->op == EMBZ_OP_CEIL)
+                && !arb_is_exact(v + k))
+                resolve_step(v + k, nd->op, e, nd->a, i, n, prec);
         }
     }
-    if (status == EMBZ_OK) arb_set(res, v + e->root);
+    if (status == EMBZ_OK) arb_set(res, v + node);
     else arb_indeterminate(res);
-    _arb_vec_clear(v, e->root + 1);
+    _arb_vec_clear(v, node + 1);
     return status;
+}
+
+int embz_expr_eval_arb(arb_t res, const embz_expr_t e, const arb_t i, const arb_t n, slong prec)
+{
+    if (e->root < 0) { arb_indeterminate(res); return EMBZ_ERR_INPUT; }
+    return _embz_expr_eval_arb_node(res, e, e->root, i, n, prec);
 }

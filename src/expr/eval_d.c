@@ -41,6 +41,8 @@ static double op_d(const embz_node_t *nd, double a, double b, double i, double n
     case EMBZ_OP_SIN: return sin(a);
     case EMBZ_OP_COS: return cos(a);
     case EMBZ_OP_FLOOR: return floor(a);
+    case EMBZ_OP_CEIL: return ceil(a);
+    case EMBZ_OP_BINOM: return embz_binom_d(a, b);
     case EMBZ_OP_MIN: return a < b ? a : b;
     case EMBZ_OP_MAX: return a > b ? a : b;
     default: return NAN;

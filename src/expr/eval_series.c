@@ -194,6 +194,15 @@ static int series_op(arb_ptr r, int op, arb_srcptr a, arb_srcptr b, slong len, s
         ok = arb_is_exact(r) && arb_gt(a, r);
         return ok ? EMBZ_OK : EMBZ_ERR_NONSMOOTH;
     }
+    case EMBZ_OP_CEIL: {
+        int ok;
+        _arb_vec_zero(r, len);
+        arb_ceil(r, a, prec);
+        ok = arb_is_exact(r) && arb_lt(a, r);
+        return ok ? EMBZ_OK : EMBZ_ERR_NONSMOOTH;
+    }
+    case EMBZ_OP_BINOM:
+        return EMBZ_ERR_UNSUPPORTED;   /* explicit sizes and level counts only */
     default: return EMBZ_ERR_DOMAIN;
     }
 }

@@ -231,7 +231,7 @@ int _embz_op_arity(int op)
     case EMBZ_OP_PI: case EMBZ_OP_E: case EMBZ_OP_GAMMA:
         return 0;
     case EMBZ_OP_ADD: case EMBZ_OP_SUB: case EMBZ_OP_MUL: case EMBZ_OP_DIV:
-    case EMBZ_OP_POW: case EMBZ_OP_MIN: case EMBZ_OP_MAX:
+    case EMBZ_OP_POW: case EMBZ_OP_MIN: case EMBZ_OP_MAX: case EMBZ_OP_BINOM:
         return 2;
     default:
         return 1;
@@ -258,6 +258,8 @@ const char *_embz_op_name(int op)
     case EMBZ_OP_MIN: return "min";
     case EMBZ_OP_MAX: return "max";
     case EMBZ_OP_POW: return "pow";
+    case EMBZ_OP_CEIL: return "ceil";
+    case EMBZ_OP_BINOM: return "binom";
     default: return NULL;
     }
 }
@@ -279,7 +281,8 @@ int embz_expr_uses(const embz_expr_t e)
         case EMBZ_OP_I: flags |= EMBZ_USES_I; break;
         case EMBZ_OP_N: flags |= EMBZ_USES_N; break;
         case EMBZ_OP_PARAM: flags |= EMBZ_USES_PARAM; break;
-        case EMBZ_OP_ABS: case EMBZ_OP_FLOOR: case EMBZ_OP_MIN: case EMBZ_OP_MAX:
+        case EMBZ_OP_ABS: case EMBZ_OP_FLOOR: case EMBZ_OP_CEIL: case EMBZ_OP_MIN:
+        case EMBZ_OP_MAX:
             flags |= EMBZ_USES_NONSMOOTH; break;
         default: break;
         }

@@ -18,6 +18,16 @@ int _embz_expr_op_fmpq(fmpq_t r, int op, const fmpq_t a, const fmpq_t b, slong m
 
 /* Number of children of op (0, 1 or 2). */
 int _embz_op_arity(int op);
+/* binom(a, k) (binom.c): exact, and as a ball; EMBZ_ERR_DOMAIN for a k that is not an
+ * integer, EMBZ_ERR_UNSUPPORTED for an exact product too long to form. */
+/* The exact value of the subtree at node (embz_expr_eval_fmpq for a part of e). */
+int _embz_expr_eval_fmpq_node(fmpq_t res, const embz_expr_t e, long node, const fmpz_t i,
+                              const fmpz_t n);
+/* The ball of the subtree at node (embz_expr_eval_arb for a part of e). */
+int _embz_expr_eval_arb_node(arb_t res, const embz_expr_t e, long node, const arb_t i,
+                             const arb_t n, slong prec);
+int _embz_binom_fmpq(fmpq_t r, const fmpq_t a, const fmpq_t k);
+int _embz_binom_arb(arb_t r, const arb_t a, const arb_t k, slong prec);
 
 /* Name of a function/constant op as written in text, or NULL. */
 const char *_embz_op_name(int op);

@@ -288,7 +288,8 @@ static const struct { const char *name; int op; int nargs; } functions[] = {
     {"exp", EMBZ_OP_EXP, 1}, {"sqrt", EMBZ_OP_SQRT, 1}, {"abs", EMBZ_OP_ABS, 1},
     {"lgamma", EMBZ_OP_LGAMMA, 1}, {"atan", EMBZ_OP_ATAN, 1}, {"sin", EMBZ_OP_SIN, 1},
     {"cos", EMBZ_OP_COS, 1}, {"floor", EMBZ_OP_FLOOR, 1}, {"min", EMBZ_OP_MIN, 2},
-    {"max", EMBZ_OP_MAX, 2}, {"pow", EMBZ_OP_POW, 2},
+    {"max", EMBZ_OP_MAX, 2}, {"pow", EMBZ_OP_POW, 2}, {"ceil", EMBZ_OP_CEIL, 1},
+    {"binom", EMBZ_OP_BINOM, 2},
 };
 static const struct { const char *name; int op; } names[] = {
     {"i", EMBZ_OP_I}, {"n", EMBZ_OP_N}, {"pi", EMBZ_OP_PI}, {"e", EMBZ_OP_E},

@@ -51,7 +51,7 @@ void embz_family_clear(embz_family_t f)
 static const char *const reserved_names[] = {
     "i", "n", "pi", "e", "gamma", "euler",
     "log", "ln", "log2", "log10", "exp", "sqrt", "abs", "lgamma", "lngamma", "atan", "sin",
-    "cos", "floor", "min", "max", "pow", NULL
+    "cos", "floor", "ceil", "min", "max", "pow", "binom", NULL
 };
 
 int _embz_family_param_name_ok(const char *s)
