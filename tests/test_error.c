@@ -385,6 +385,115 @@ START_TEST(test_how_words)
 }
 END_TEST
 
+/* Level families: the error through the evaluator against the exact distance of the expanded
+ * vector (FLINT rationals); a level family with one copy of each value 1/i against the weight
+ * family 1/i (two independent methods); n copies of one ebit give exactly 1/2 [derived:
+ * the maximally entangled state of any dimension]. */
+START_TEST(test_level_family)
+{
+    embz_family_t f, g;
+    embz_target_t q;
+    embz_error_result_t res, ref;
+    embz_err_t err;
+    fmpz_t n;
+    embz_family_init(f);
+    embz_family_init(g);
+    embz_target_init(q);
+    embz_error_result_init(res);
+    embz_error_result_init(ref);
+    fmpz_init(n);
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_family_parse_text(f, "level = a^i * (1 - a)^(n - i)\ncount = binom(n, i)\n"
+                                               "first = 0\nlast = n\nparam a = 7/10\n", "c.fam", &err),
+                     EMBZ_OK);
+    ck_assert(embz_family_is_levels(f));
+    const char *tg[] = { "ebit", "0.6,0.4", "uniform:3" };
+    for (slong L = 1; L <= 9; L++)
+        for (int t = 0; t < 3; t++) {
+            tu_target_set(q, tg[t]);
+            fmpz_set_si(n, L);
+            ck_assert_msg(embz_error(res, f, n, q, EMBZ_METHOD_AUTO, 128, &err) == EMBZ_OK, "%s",
+                          err.text);
+            ck_assert_int_eq(res->how.kind, EMBZ_HOW_LEVELS);
+            ck_assert_int_eq(res->how.dim_bits, L + 1);   /* dimension 2^L */
+            /* the reference: the expanded vector of 2^L entries */
+            embz_qvec_t p, r, qv;
+            embz_qvec_init(p); embz_qvec_init(r); embz_qvec_init(qv);
+            tu_qvec_alloc(p, WORD(1) << L);
+            fmpq_t a, b, s;
+            fmpq_init(a); fmpq_init(b); fmpq_init(s);
+            for (slong x = 0; x < (WORD(1) << L); x++) {
+                slong ones = (slong) __builtin_popcountl((unsigned long) x);
+                fmpq_set_si(a, 7, 10);
+                fmpq_pow_si(a, a, ones);
+                fmpq_set_si(b, 3, 10);
+                fmpq_pow_si(b, b, L - ones);
+                fmpq_mul(p->p + x, a, b);
+            }
+            embz_qvec_sort(p);
+            if (q->kind == EMBZ_TARGET_UNIFORM) {
+                tu_qvec_alloc(qv, (slong) q->d);
+                for (ulong l = 0; l < q->d; l++) fmpq_set_ui(qv->p + l, 1, q->d);
+            } else {
+                tu_qvec_alloc(qv, q->q->len);
+                for (slong l = 0; l < q->q->len; l++) fmpq_set(qv->p + l, q->q->p + l);
+            }
+            tu_qvec_tensor(r, p, qv);
+            embz_qvec_sort(r);
+            long kk;
+            embz_qvec_distance(s, &kk, p, r);
+            ck_assert_msg(arb_contains_fmpq(res->error, s), "L = %ld target %s", (long) L, tg[t]);
+            ck_assert(mag_cmp_2exp_si(arb_radref(res->error), -100) < 0);
+            fmpq_clear(a); fmpq_clear(b); fmpq_clear(s);
+            embz_qvec_clear(p); embz_qvec_clear(r); embz_qvec_clear(qv);
+        }
+    /* one copy of each value 1/i is the weight family 1/i */
+    embz_family_clear(f);
+    embz_family_init(f);
+    ck_assert_int_eq(embz_family_parse_text(f, "level = 1/i\ncount = 1\nfirst = 1\nlast = n\n",
+                                            "h.fam", &err), EMBZ_OK);
+    family(g, "1/i");
+    const slong ns[] = { 1, 2, 7, 100, 3000 };
+    for (int j = 0; j < 5; j++)
+        for (int t = 0; t < 2; t++) {
+            tu_target_set(q, tg[t]);
+            fmpz_set_si(n, ns[j]);
+            ck_assert_int_eq(embz_error(res, f, n, q, EMBZ_METHOD_AUTO, 128, &err), EMBZ_OK);
+            ck_assert_int_eq(embz_error(ref, g, n, q, EMBZ_METHOD_EXPLICIT, 128, &err), EMBZ_OK);
+            ck_assert_msg(arb_overlaps(res->error, ref->error), "n = %ld", (long) ns[j]);
+        }
+    /* n copies of one ebit: the maximally entangled state of dimension 2^n, error 1/2 */
+    embz_family_clear(f);
+    embz_family_init(f);
+    ck_assert_int_eq(embz_family_parse_text(f, "level = 2^-n\ncount = 2^n\nfirst = 0\nlast = 0\n",
+                                            "m.fam", &err), EMBZ_OK);
+    tu_target_set(q, "ebit");
+    arb_t h;
+    arb_init(h);
+    arb_set_d(h, 0.5);
+    for (slong L = 1; L <= 200; L += 37) {
+        fmpz_set_si(n, L);
+        ck_assert_int_eq(embz_error(res, f, n, q, EMBZ_METHOD_AUTO, 64, &err), EMBZ_OK);
+        ck_assert(arb_contains(res->error, h));
+    }
+    arb_clear(h);
+    /* bad counts and ranges are domain errors that say why */
+    embz_family_clear(f);
+    embz_family_init(f);
+    ck_assert_int_eq(embz_family_parse_text(f, "level = 1/i\ncount = i/2\nfirst = 1\nlast = n\n",
+                                            "b.fam", &err), EMBZ_OK);
+    fmpz_set_si(n, 5);
+    ck_assert_int_eq(embz_error(res, f, n, q, EMBZ_METHOD_AUTO, 64, &err), EMBZ_ERR_DOMAIN);
+    ck_assert(strstr(err.text, "count must be an exact non-negative integer at i = 1") != NULL);
+    fmpz_clear(n);
+    embz_error_result_clear(res);
+    embz_error_result_clear(ref);
+    embz_target_clear(q);
+    embz_family_clear(f);
+    embz_family_clear(g);
+}
+END_TEST
+
 int main(void)
 {
     Suite *s = suite_create("error");
@@ -396,6 +505,7 @@ int main(void)
     tcase_add_test(tc, test_threads);
     tcase_add_test(tc, test_side);
     tcase_add_test(tc, test_how_words);
+    tcase_add_test(tc, test_level_family);
     suite_add_tcase(s, tc);
     return tu_run_suite(s);
 }

@@ -135,6 +135,11 @@ static const bad_file_t bad_files[] = {
     { "name = x\ndescription = y\n", 0, "missing weight" },
     { "", 0, "missing weight" },
     { "name = x\nweight =\n", 2, "empty value" },
+    /* level families */
+    { "level = 2^-i\ncount = 1\nfirst = 1\n", 1, "needs 'last" },
+    { "weight = 1/i\ncount = 2\n", 2, "belongs to a level family" },
+    { "weight = 1/i\nlevel = 2\n", 2, "both 'weight' and 'level'" },
+    { "level = 2^-i\ncount = binom(n,\nfirst = 0\nlast = n\n", 2, "" },
 };
 
 START_TEST(test_parse_errors)

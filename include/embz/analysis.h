@@ -154,6 +154,7 @@ typedef enum {
     EMBZ_FACT_RATES_DIFFER,       /* analytic rate s0 against fitted `law` */
     EMBZ_FACT_EXPONENTS,          /* predicted exponent x0, fitted x1 [x2, x3] */
     EMBZ_FACT_DEPENDS_ON_N,       /* the asymptotic route does not apply: the weight uses n */
+    EMBZ_FACT_LEVELS,             /* the asymptotic route does not apply: a level family */
     EMBZ_FACT_ASYM_NOT_BUILT,     /* the asymptotic route is not built in */
     EMBZ_FACT_FROM_ANALYTIC,      /* the verdict comes from the analytic route alone */
     EMBZ_FACT_DISAGREE,           /* analytic verdict v1 against numeric v2 (EMBZ_VERDICT_*) */

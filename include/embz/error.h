@@ -11,6 +11,7 @@
 #include "embz/vec.h"
 #include "embz/family.h"
 #include "embz/fidelity.h"
+#include "embz/levels.h"
 
 typedef enum { EMBZ_METHOD_AUTO = 0, EMBZ_METHOD_EXPLICIT, EMBZ_METHOD_ANALYTIC } embz_method_t;
 
@@ -24,8 +25,9 @@ typedef enum {
                             bound over ln t (wide uniform targets) */
     EMBZ_HOW_GENERAL,    /* analytic, target vector: the threshold form of the vector, within
                             the majorization bracket */
-    EMBZ_HOW_BRACKET     /* analytic, target vector: the majorization bracket alone (the
+    EMBZ_HOW_BRACKET,    /* analytic, target vector: the majorization bracket alone (the
                             threshold search gave no value: reason) */
+    EMBZ_HOW_LEVELS      /* a level family, level by level (embz/levels.h) */
 } embz_how_kind_t;
 
 typedef enum {
@@ -61,6 +63,9 @@ typedef struct {
                                    search */
     embz_how_run_struct upper;  /* GENERAL, BRACKET: the run for the bracket's upper end */
     ulong bracket_lo, bracket_hi;  /* GENERAL, BRACKET: E(uniform:lo) <= E(q) <= E(uniform:hi) */
+    /* EMBZ_HOW_LEVELS */
+    slong levels;        /* number of levels with a non-zero count */
+    slong dim_bits;      /* the dimension (sum of the counts) has this many bits */
     int fallback;        /* embz_how_fallback_t */
     char reason[512];    /* the message behind fallback, or behind BRACKET */
 } embz_error_how_struct;
@@ -265,5 +270,16 @@ int embz_fidelity_explicit(embz_fidelity_result_t res, const embz_family_t f, co
 int embz_fidelity(embz_fidelity_result_t res, const embz_family_t f, const fmpz_t n,
                   const embz_target_t q, int measure, int method, slong prec, embz_err_t *err);
 
+
+/* ---- level families (EMBZ_FAMILY_LEVELS) ---- */
+
+/* Most levels formed for one size. */
+#define EMBZ_LEVELS_MAX 10000000L
+
+/* x <- the levels of f at size n (values as balls at prec, counts exact). Errors:
+ * EMBZ_ERR_DOMAIN for a count that is not a non-negative integer, a value that is negative or
+ * undefined, or an empty range; EMBZ_ERR_LIMIT beyond EMBZ_LEVELS_MAX levels. */
+int embz_family_levels(embz_levels_t x, const embz_family_t f, const fmpz_t n, slong prec,
+                       embz_err_t *err);
 
 #endif

@@ -4,6 +4,14 @@
 
 #include "embz/expr.h"
 
+/* What a family's expressions describe. */
+typedef enum {
+    EMBZ_FAMILY_WEIGHT = 0,  /* the weight w(i, n) of each index i = 1..n */
+    EMBZ_FAMILY_LEVELS       /* levels: for i = first(n)..last(n), the value w(i, n) repeated
+                                count(i, n) times (n is the family's size, e.g. a number of
+                                sites; the dimension is the sum of the counts) */
+} embz_family_kind_t;
+
 typedef struct {
     char *name;          /* short name ("inverse", "power", ...) or the inline text */
     char *description;   /* one line */
@@ -15,6 +23,10 @@ typedef struct {
     fmpq *param_values;  /* current values (defaults overridden by --set) */
     embz_expr_t weight;  /* bound weight expression: parameters substituted, squared if amplitude */
     embz_expr_t raw;     /* the text as parsed, parameters still symbolic, not squared */
+    int kind;            /* embz_family_kind_t; for EMBZ_FAMILY_LEVELS weight is the level
+                            value and these give the counts and the range of i: */
+    embz_expr_t count, first, last;              /* bound (parameters substituted) */
+    embz_expr_t count_raw, first_raw, last_raw;  /* as parsed */
 } embz_family_struct;
 typedef embz_family_struct embz_family_t[1];
 
@@ -53,6 +65,10 @@ int embz_family_weight_arb(arb_t w, const embz_family_t f, const fmpz_t i, const
                            slong prec, embz_err_t *err);
 double embz_family_weight_d(const embz_family_t f, double i, double n);
 int embz_family_depends_on_n(const embz_family_t f);
+/* g <- a deep copy of f (g initialised). */
+void embz_family_set(embz_family_t g, const embz_family_t f);
+/* 1 for a level family (EMBZ_FAMILY_LEVELS). */
+int embz_family_is_levels(const embz_family_t f);
 
 /* Set parameters from NAME=VALUE settings (VALUE an exact decimal or p/q) and rebind
  * f->weight. An unknown name or a bad value is EMBZ_ERR_INPUT with a message naming it. */

@@ -18,6 +18,9 @@ typedef enum {
 typedef struct {
     int status;
     fmpz_t n;             /* FOUND: the size */
+    long qubits;          /* FOUND: qubits per side the state of size n needs, ceil(log2) of
+                             its Schmidt rank (n, or a level family's dimension) */
+    int levels;           /* a level family: the Schmidt rank is its dimension, not n */
     arb_t err_n;          /* enclosure of E at n */
     arb_t err_prev;       /* enclosure of E at n_low */
     int exhaustive;       /* every m < n was checked (E_m > eps certified) */
@@ -51,6 +54,9 @@ void embz_size_result_clear(embz_size_result_t r);
  * safeguards) on certified enclosures locates the crossing, and sampled sizes below and above
  * it are checked. prec is raised (up to 4x) where an enclosure straddles eps. */
 #define EMBZ_SIZE_EXHAUSTIVE 2048
+/* Level families (embz/family.h) cost a level per unit of n (2^16 copies of a qubit state:
+ * about 3 s): their search and its check above the answer stay at n <= this. */
+#define EMBZ_SIZE_LEVELS_MAX_N 65536
 int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
                     const embz_target_t q, slong prec, embz_err_t *err);
 

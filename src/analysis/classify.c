@@ -347,7 +347,9 @@ int embz_classify(embz_classify_t c, const embz_family_t f, const embz_classify_
     if (st != EMBZ_OK) return st;
     c->verdict = c->numeric_verdict;
 #if EMBZ_CLASSIFY_WITH_ASYM
-    if (o->use_analytic && !(embz_expr_uses(f->weight) & (EMBZ_USES_N | EMBZ_USES_PARAM)))
+    if (o->use_analytic && embz_family_is_levels(f))
+        fact(c, EMBZ_FACT_LEVELS);
+    else if (o->use_analytic && !(embz_expr_uses(f->weight) & (EMBZ_USES_N | EMBZ_USES_PARAM)))
         analytic_route(c, f, 128);
     else if (o->use_analytic)
         fact(c, EMBZ_FACT_DEPENDS_ON_N);

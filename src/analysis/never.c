@@ -16,7 +16,7 @@ int embz_target_below_ebit(const embz_target_t q)
 
 int embz_family_ebit_limit(arb_t L, const embz_family_t f, slong prec)
 {
-    if (embz_expr_uses(f->weight) & EMBZ_USES_N) return 0;
+    if ((embz_expr_uses(f->weight) & EMBZ_USES_N) || embz_family_is_levels(f)) return 0;
     embz_asym_result_t ar;
     embz_err_t err;
     embz_err_clear(&err);

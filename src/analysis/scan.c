@@ -85,37 +85,6 @@ void embz_scan_clear(embz_scan_t s)
     memset(s, 0, sizeof(*s));
 }
 
-static char *sdup(const char *s)
-{
-    size_t l = strlen(s) + 1;
-    char *d = malloc(l);
-    memcpy(d, s, l);
-    return d;
-}
-
-/* A private deep copy of a family (each thread works on its own). */
-static void family_copy(embz_family_t g, const embz_family_t f)
-{
-    embz_family_init(g);
-    free(g->name); g->name = sdup(f->name);
-    free(g->description); g->description = sdup(f->description);
-    free(g->weight_text); g->weight_text = sdup(f->weight_text);
-    free(g->origin); g->origin = sdup(f->origin);
-    g->amplitude = f->amplitude;
-    g->nparams = f->nparams;
-    if (f->nparams > 0) {
-        g->param_names = malloc((size_t) f->nparams * sizeof(char *));
-        g->param_values = malloc((size_t) f->nparams * sizeof(fmpq));
-        for (long k = 0; k < f->nparams; k++) {
-            g->param_names[k] = sdup(f->param_names[k]);
-            fmpq_init(g->param_values + k);
-            fmpq_set(g->param_values + k, f->param_values + k);
-        }
-    }
-    embz_expr_set(g->raw, f->raw);
-    embz_expr_set(g->weight, f->weight);
-}
-
 static void classify_opts_copy(embz_classify_opts_t d, const embz_classify_opts_t o)
 {
     embz_classify_opts_init(d);
@@ -198,7 +167,8 @@ int embz_scan_run(embz_scan_t s, const embz_family_t f, const embz_grid_axis_str
         embz_classify_opts_t oo;
         embz_err_t e2;
         embz_err_clear(&e2);
-        family_copy(g, f);
+        embz_family_init(g);
+        embz_family_set(g, f);
         classify_opts_copy(oo, o);
         for (slong a = 0; a < naxes; a++) fmpq_set(g->param_values + pidx[a], row->values + a);
         embz_family_bind(g);

@@ -36,7 +36,7 @@ typedef struct {
 #define SIZE_EXACT_MAX_ENTRIES 65536
 static int exact_error(fmpq_t E, const sctx *c, const fmpz_t n)
 {
-    if (fmpz_cmp_si(n, SIZE_EXACT_MAX_N) > 0) return 0;
+    if (fmpz_cmp_si(n, SIZE_EXACT_MAX_N) > 0 || embz_family_is_levels(c->f)) return 0;
     slong nn = fmpz_get_si(n);
     slong m = c->q->kind == EMBZ_TARGET_UNIFORM ? (slong) c->q->d : c->q->q->len;
     if (c->q->kind == EMBZ_TARGET_UNIFORM && c->q->d > SIZE_EXACT_MAX_ENTRIES) return 0;
@@ -269,7 +269,7 @@ static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *un
  * do not depend on n. */
 static int small_sizes_excluded(sctx *c, slong N)
 {
-    if (embz_expr_uses(c->f->weight) & EMBZ_USES_N) return 0;
+    if ((embz_expr_uses(c->f->weight) & EMBZ_USES_N) || embz_family_is_levels(c->f)) return 0;
     arb_t W, w1, x, nn, qm;
     embz_err_t e;
     arb_init(W); arb_init(w1); arb_init(x); arb_init(nn); arb_init(qm);
@@ -348,7 +348,7 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
     memset(&c, 0, sizeof(c));
     fmpq_init(c.qeps);
     if (qeps != NULL) { fmpq_set(c.qeps, qeps); c.have_qeps = 1; }
-    c.qubits_only = qubits_only;
+    c.qubits_only = qubits_only && !embz_family_is_levels(f);   /* (qubits are not ceil(log2 n)) */
     res->qubits_only = qubits_only;
     c.f = f;
     c.q = q;
@@ -404,9 +404,11 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
         /* 2. bracket: n = 2^(12 * 2^j) */
         fmpz_set_si(nlo, EMBZ_SIZE_EXHAUSTIVE);
         arb_set(Elo, res->err_prev);
-        for (slong e = 12; e <= EMBZ_SIZE_MAX_LOG2; e *= 2) {
+        int levels = embz_family_is_levels(f);
+        for (slong e = 12; e <= EMBZ_SIZE_MAX_LOG2; e = levels ? e + 1 : 2 * e) {
             fmpz_one(n);
             fmpz_mul_2exp(n, n, (ulong) e);
+            if (levels && fmpz_cmp_si(n, EMBZ_SIZE_LEVELS_MAX_N) > 0) break;
             st = side(&sd, E, &c, n, err);
             if (st != EMBZ_OK) goto done;
             fmpz_set(res->largest, n);
@@ -504,6 +506,7 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
             } else {
                 fmpz_mul_2exp(m, res->n, (ulong) (1 << (j - 16)));
             }
+            if (embz_family_is_levels(f) && fmpz_cmp_si(m, EMBZ_SIZE_LEVELS_MAX_N) > 0) break;
             st = side(&sd, E, &c, m, err);
             if (st != EMBZ_OK) goto done;
             if (sd > 0) {
@@ -515,6 +518,22 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
                 if (fmpz_cmp(m, res->stay_checked_to) > 0) fmpz_set(res->stay_checked_to, m);
             }
         }
+    }
+    if (res->status == EMBZ_SIZE_FOUND) {
+        /* ceil(log2 d) = bits(d - 1) for the Schmidt rank d */
+        fmpz_t d;
+        fmpz_init(d);
+        fmpz_set(d, res->n);
+        res->levels = embz_family_is_levels(f);
+        if (res->levels) {
+            embz_levels_t x;
+            embz_levels_init(x);
+            if (embz_family_levels(x, f, res->n, 64, NULL) == EMBZ_OK) embz_levels_dim(d, x);
+            embz_levels_clear(x);
+        }
+        fmpz_sub_ui(d, d, 1);
+        res->qubits = fmpz_sgn(d) > 0 ? (long) fmpz_bits(d) : 0;
+        fmpz_clear(d);
     }
     /* 5. the enclosures reported: evaluated in full (decision mode may have stopped early and
      * left only the trivial upper end) */

@@ -127,6 +127,10 @@ int cli_load_prec_upto(long *prec, const cli_args_t *a, const cli_spec_t *spec,
  * usage error with the parser's column and caret, after what (an option such as "--from",
  * or NULL for a positional size). */
 int cli_load_size(fmpz_t n, const char *text, const char *what, const cli_spec_t *spec);
+/* A level family's sizes are numbers of sites or copies, evaluated level by level: without
+ * --to, a range ends at CLI_LEVELS_DEFAULT_TO (and starts no later than it). */
+#define CLI_LEVELS_DEFAULT_TO 10000
+void cli_levels_range(fmpz_t from, fmpz_t to, const embz_family_t f, const cli_args_t *a);
 /* --points in [min_points, max_points] (skipped when points is NULL), then --from and --to
  * (sizes >= 1, from <= to); values absent from the command line keep what the caller put
  * in. Usage error on a bad value, else 0. */

@@ -49,6 +49,7 @@ int cli_cmd_classify(int argc, char **argv)
         || (code = cli_load_range(o->from, o->to, &points, 5, 100000, &a, &classify_spec)) != 0
         || (code = cli_load_family(fam, &a, a.pos[0], "classify")) != 0)
         goto done;
+    cli_levels_range(o->from, o->to, fam, &a);
     o->prec = prec;
     o->points = points;
     o->use_analytic = !cli_flag(&a, "numeric-only");

@@ -256,6 +256,9 @@ int cli_cmd_plot(int argc, char **argv)
                     ymin = mid < ymin ? mid : ymin;
                     ymax = mid > ymax ? mid : ymax;
                 }
+            } else if (status != EMBZ_OK) {
+                fprintf(stderr, "embz plot: %s: %s; weights panel left empty for it\n", label,
+                        err.text);
             } else {
                 fprintf(stderr, "embz plot: %s: w(1) is not positive; weights panel left "
                         "empty for it\n", label);

@@ -143,6 +143,7 @@ int cli_cmd_scan(int argc, char **argv)
         goto done;
     }
     if (code != 0) goto done;
+    cli_levels_range(o->from, o->to, fam, &a);
     embz_err_clear(&err);
     cli_progress_t prog;
     embz_progress_fn show = cli_progress_start(&prog, 0);

@@ -32,20 +32,16 @@ static const cli_spec_t size_spec = {
 
 #define INT_DIGITS 60
 
-/* log10 n and ceil(log2 n), from the exact integer */
-static void size_numbers(double *l10, long *qubits, const fmpz_t n)
+/* log10 n from the exact integer, and the qubits per side the result found */
+static void size_numbers(double *l10, long *qubits, const embz_size_result_struct *r)
 {
     arb_t x;
     arb_init(x);
-    arb_set_fmpz(x, n);
+    arb_set_fmpz(x, r->n);
     arb_log_base_ui(x, x, 10, 64);
     *l10 = embz_arb_mid_d(x);
     arb_clear(x);
-    fmpz_t m;
-    fmpz_init(m);
-    fmpz_sub_ui(m, n, 1);
-    *qubits = fmpz_sgn(m) > 0 ? (long) fmpz_bits(m) : 0;   /* ceil(log2 n) */
-    fmpz_clear(m);
+    *qubits = r->qubits;
 }
 
 /* One solved goal as JSON (status, n, digits, qubits, enclosures, evidence). */
@@ -73,7 +69,7 @@ static void json_result(embz_buf_t *b, const char *goal, const embz_size_result_
         char *plo = embz_arb_lo_string(r->err_prev, 30), *phi = embz_arb_hi_string(r->err_prev, 30);
         double l10;
         long qb;
-        size_numbers(&l10, &qb, r->n);
+        size_numbers(&l10, &qb, r);
         embz_buf_printf(b, ", \"n\": ");
         embz_buf_json_string(b, ns);
         embz_buf_printf(b, ", \"log10_n\": ");
@@ -132,12 +128,14 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
         char *ns = embz_fmpz_string(r->n, INT_DIGITS);
         double l10;
         long qb;
-        size_numbers(&l10, &qb, r->n);
+        size_numbers(&l10, &qb, r);
         char *e = embz_arb_certified_string(r->err_n, 12);
         char *ep = embz_arb_certified_string(r->err_prev, 12);
         embz_buf_printf(b, "  n          %s%s\n", fmpz_sizeinbase(r->n, 10) > INT_DIGITS ? "~" : "", ns);
         embz_buf_printf(b, "  log10 n    %.4f\n", l10);
-        embz_buf_printf(b, "  qubits     %ld per side (ceil(log2 n))\n", qb);
+        embz_buf_printf(b, "  qubits     %ld per side (%s)\n", qb,
+                        r->levels ? "ceil(log2 of the dimension, the sum of the counts)"
+                                  : "ceil(log2 n)");
         if (r->qubits_only && !r->exhaustive) {
             char *nl = embz_fmpz_string(r->n_low, INT_DIGITS);
             embz_buf_printf(b, "  E at n     %s   E at %s%s  %s   (certified)\n", e,

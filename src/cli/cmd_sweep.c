@@ -173,6 +173,7 @@ int cli_cmd_sweep(int argc, char **argv)
         || (code = cli_load_family(fam, &a, a.pos[0], "sweep")) != 0
         || (code = cli_load_target(q, &a, "sweep")) != 0)
         goto done;
+    cli_levels_range(from, to, fam, &a);
 
     cli_progress_t prog;
     embz_progress_fn show = cli_progress_start(&prog, 1);

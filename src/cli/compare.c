@@ -76,6 +76,14 @@ int cli_compare_load(embz_family_struct *fam, long nfam, const char *const *spec
     for (long i = 0; i < nfam; i++) {
         embz_err_clear(&err);
         status = embz_family_resolve(fam + i, specs[i], NULL, 0, 0, &err);
+        if (status == EMBZ_OK && embz_family_is_levels(fam + i)) {
+            /* its sizes are numbers of copies or sites: the comparison's sizes, goals and
+             * asymptotic columns are not yet defined for it */
+            code = cli_usage_error(spec, "'%s' is a level family, which %s does not take yet "
+                                   "(use error, sweep, classify, size, plot)", specs[i],
+                                   spec->name);
+            goto done;
+        }
         if (status != EMBZ_OK) {
             /* an inline expression declares its parameters through the settings */
             embz_family_clear(fam + i);
@@ -305,11 +313,7 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o,
         const embz_size_result_struct *s = r->d.need + j;
         if (r->d.need_status[j] != EMBZ_OK) continue;
         if (s->status == EMBZ_SIZE_FOUND) {
-            fmpz_t m;
-            fmpz_init(m);
-            fmpz_sub_ui(m, s->n, 1);
-            long qb = fmpz_sgn(m) > 0 ? (long) fmpz_bits(m) : 0;
-            fmpz_clear(m);
+            long qb = s->qubits;
             char *nt = size_text(s->n, 1);
             if (s->exhaustive) r->need_n_text[j] = nt;
             else {

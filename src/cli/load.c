@@ -123,6 +123,13 @@ int cli_load_size(fmpz_t n, const char *text, const char *what, const cli_spec_t
                         : cli_usage_error(spec, "%s", buf);
 }
 
+void cli_levels_range(fmpz_t from, fmpz_t to, const embz_family_t f, const cli_args_t *a)
+{
+    if (!embz_family_is_levels(f) || cli_value(a, "to") != NULL) return;
+    if (fmpz_cmp_si(to, CLI_LEVELS_DEFAULT_TO) > 0) fmpz_set_si(to, CLI_LEVELS_DEFAULT_TO);
+    if (fmpz_cmp(from, to) > 0) fmpz_set(from, to);
+}
+
 int cli_load_range(fmpz_t from, fmpz_t to, long *points, long min_points, long max_points,
                    const cli_args_t *a, const cli_spec_t *spec)
 {

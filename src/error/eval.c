@@ -108,6 +108,7 @@ int embz_eval_prepare(embz_eval_t ev, embz_eval_work_t w, const fmpz_t nmax, emb
     ev->prepared = 1;
     ev->analytic_ok = 1;
     ev->prep_reason[0] = '\0';
+    if (embz_family_is_levels(ev->f)) return EMBZ_OK;   /* evaluated level by level */
     if (w->eng == NULL) w->eng = calloc(1, sizeof(eval_work));
     eval_work *ew = w->eng;
     if (!ew->have[0]) {
@@ -181,6 +182,12 @@ static int eval_step(embz_error_result_t res, const embz_eval_t ev, embz_eval_wo
     int dsteps = o->digit_steps < EMBZ_EVAL_MAX_STEPS ? o->digit_steps : EMBZ_EVAL_MAX_STEPS;
     slong xmax = explicit_max(ev);
     res->decided = 0;
+    if (embz_family_is_levels(ev->f)) {
+        /* level families have one method: level by level, whatever the options */
+        int st = _embz_error_levels(res, ev->f, n, q, wp, err);
+        if (st == EMBZ_OK) res->used |= 1 << EMBZ_METHOD_EXPLICIT;
+        return st;
+    }
     if (o->method == EMBZ_METHOD_EXPLICIT) return explicit_at(res, ev, n, q, wp, err);
     if (o->method == EMBZ_METHOD_ANALYTIC) return analytic_own(res, ev, n, q, goal, wp, err);
     if (o->method != EMBZ_METHOD_AUTO)

@@ -390,4 +390,8 @@ int _embz_an_vector_target_bounds(embz_error_result_t res, embz_analytic_t an,
 int _embz_an_run(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
                  const embz_target_t q, embz_err_t *err);
 
+/* E_n(q) of a level family (levels.c); the evaluator's one path for such families. */
+int _embz_error_levels(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
+                       const embz_target_t q, slong prec, embz_err_t *err);
+
 #endif

@@ -29,6 +29,9 @@ void embz_family_init(embz_family_t f)
     f->param_values = NULL;
     embz_expr_init(f->weight);
     embz_expr_init(f->raw);
+    f->kind = EMBZ_FAMILY_WEIGHT;
+    embz_expr_init(f->count); embz_expr_init(f->first); embz_expr_init(f->last);
+    embz_expr_init(f->count_raw); embz_expr_init(f->first_raw); embz_expr_init(f->last_raw);
 }
 
 void embz_family_clear(embz_family_t f)
@@ -45,6 +48,8 @@ void embz_family_clear(embz_family_t f)
     free(f->param_values);
     embz_expr_clear(f->weight);
     embz_expr_clear(f->raw);
+    embz_expr_clear(f->count); embz_expr_clear(f->first); embz_expr_clear(f->last);
+    embz_expr_clear(f->count_raw); embz_expr_clear(f->first_raw); embz_expr_clear(f->last_raw);
 }
 
 /* Names the expression language gives a meaning of its own; a parameter may not hide them. */
@@ -104,15 +109,53 @@ void _embz_family_add_param(embz_family_t f, const char *name, const fmpq_t valu
     f->nparams = k + 1;
 }
 
+static void bind_one(embz_expr_t e, const embz_expr_t raw, const embz_family_t f)
+{
+    embz_expr_set(e, raw);
+    if (f->nparams > 0)
+        embz_expr_bind(e, f->param_values);
+    else
+        embz_expr_fold(e);      /* bind folds too */
+}
+
 void embz_family_bind(embz_family_t f)
 {
-    embz_expr_set(f->weight, f->raw);
-    if (f->nparams > 0)
-        embz_expr_bind(f->weight, f->param_values);
-    else
-        embz_expr_fold(f->weight);      /* bind folds too */
+    bind_one(f->weight, f->raw, f);
     if (f->amplitude)
         embz_expr_square(f->weight);
+    if (f->kind == EMBZ_FAMILY_LEVELS) {
+        bind_one(f->count, f->count_raw, f);
+        bind_one(f->first, f->first_raw, f);
+        bind_one(f->last, f->last_raw, f);
+    }
+}
+
+void embz_family_set(embz_family_t g, const embz_family_t f)
+{
+    if (g == f) return;
+    embz_family_clear(g);
+    embz_family_init(g);
+    _embz_family_set_str(&g->name, f->name);
+    _embz_family_set_str(&g->description, f->description);
+    _embz_family_set_str(&g->weight_text, f->weight_text);
+    _embz_family_set_str(&g->origin, f->origin);
+    g->amplitude = f->amplitude;
+    for (long k = 0; k < f->nparams; k++)
+        _embz_family_add_param(g, f->param_names[k], f->param_values + k);
+    embz_expr_set(g->raw, f->raw);
+    embz_expr_set(g->weight, f->weight);
+    g->kind = f->kind;
+    embz_expr_set(g->count, f->count);
+    embz_expr_set(g->first, f->first);
+    embz_expr_set(g->last, f->last);
+    embz_expr_set(g->count_raw, f->count_raw);
+    embz_expr_set(g->first_raw, f->first_raw);
+    embz_expr_set(g->last_raw, f->last_raw);
+}
+
+int embz_family_is_levels(const embz_family_t f)
+{
+    return f->kind == EMBZ_FAMILY_LEVELS;
 }
 
 int embz_family_apply_settings(embz_family_t f, const embz_setting_t *settings, long nsettings,

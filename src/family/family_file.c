@@ -47,10 +47,11 @@ static char *default_name(const char *file_name)
 int embz_family_parse_text(embz_family_t f, const char *text, const char *file_name,
                            embz_err_t *err)
 {
-    enum { K_NAME, K_DESC, K_WEIGHT, K_AMPL, K_COUNT };
-    static const char *const keys[K_COUNT] = { "name", "description", "weight", "amplitude" };
-    long seen[K_COUNT] = { 0, 0, 0, 0 };
-    char *values[K_COUNT] = { NULL, NULL, NULL, NULL };
+    enum { K_NAME, K_DESC, K_WEIGHT, K_AMPL, K_LEVEL, K_CNT, K_FIRST, K_LAST, NKEYS };
+    static const char *const keys[NKEYS] = { "name", "description", "weight", "amplitude",
+                                             "level", "count", "first", "last" };
+    long seen[NKEYS] = { 0 };
+    char *values[NKEYS] = { NULL };
     int status = EMBZ_OK;
     long lineno = 0;
     fmpq_t v;
@@ -134,13 +135,13 @@ int embz_family_parse_text(embz_family_t f, const char *text, const char *file_n
         char qkey[300];
         embz_err_quote(qkey, sizeof(qkey), key, 64);
         int k;
-        for (k = 0; k < K_COUNT; k++)
+        for (k = 0; k < NKEYS; k++)
             if (strcmp(key, keys[k]) == 0) break;
-        if (k == K_COUNT) {
+        if (k == NKEYS) {
             where(err, file_name, lineno);
             status = embz_err_set(err, EMBZ_ERR_INPUT,
                                   "unknown key '%s' (known: name, description, weight, "
-                                  "amplitude, param NAME)", qkey);
+                                  "amplitude, level, count, first, last, param NAME)", qkey);
             goto done;
         }
         if (seen[k]) {
@@ -149,12 +150,20 @@ int embz_family_parse_text(embz_family_t f, const char *text, const char *file_n
                                   "duplicate key '%s' (first given on line %ld)", qkey, seen[k]);
             goto done;
         }
-        if ((k == K_WEIGHT && seen[K_AMPL]) || (k == K_AMPL && seen[K_WEIGHT])) {
-            where(err, file_name, lineno);
-            status = embz_err_set(err, EMBZ_ERR_INPUT,
-                                  "both 'weight' and 'amplitude' given (line %ld); use one",
-                                  seen[k == K_WEIGHT ? K_AMPL : K_WEIGHT]);
-            goto done;
+        {
+            /* one of weight, amplitude, level */
+            int value_keys[3] = { K_WEIGHT, K_AMPL, K_LEVEL }, other = -1;
+            for (int j = 0; j < 3; j++)
+                if (value_keys[j] != k && seen[value_keys[j]]
+                    && (k == K_WEIGHT || k == K_AMPL || k == K_LEVEL))
+                    other = value_keys[j];
+            if (other >= 0) {
+                where(err, file_name, lineno);
+                status = embz_err_set(err, EMBZ_ERR_INPUT,
+                                      "both '%s' and '%s' given (line %ld); use one", keys[other],
+                                      keys[k], seen[other]);
+                goto done;
+            }
         }
         if (val[0] == '\0' && k != K_DESC) {
             where(err, file_name, lineno);
@@ -165,29 +174,54 @@ int embz_family_parse_text(embz_family_t f, const char *text, const char *file_n
         values[k] = val;
     }
 
-    if (!seen[K_WEIGHT] && !seen[K_AMPL]) {
+    if (!seen[K_WEIGHT] && !seen[K_AMPL] && !seen[K_LEVEL]) {
         where(err, file_name, 0);
         status = embz_err_set(err, EMBZ_ERR_INPUT,
                               "missing weight: the file needs a 'weight = ...' or an "
-                              "'amplitude = ...' line");
+                              "'amplitude = ...' line (or 'level = ...' for a level family)");
         goto done;
+    }
+    {
+        /* level families: count, first and last go with level, and only with it */
+        int lk[3] = { K_CNT, K_FIRST, K_LAST };
+        for (int j = 0; j < 3; j++) {
+            if (seen[K_LEVEL] && !seen[lk[j]]) {
+                where(err, file_name, seen[K_LEVEL]);
+                status = embz_err_set(err, EMBZ_ERR_INPUT,
+                                      "a level family needs '%s = ...' too (level, count, "
+                                      "first, last)", keys[lk[j]]);
+                goto done;
+            }
+            if (!seen[K_LEVEL] && seen[lk[j]]) {
+                where(err, file_name, seen[lk[j]]);
+                status = embz_err_set(err, EMBZ_ERR_INPUT,
+                                      "'%s' belongs to a level family: give 'level = ...' "
+                                      "instead of a weight", keys[lk[j]]);
+                goto done;
+            }
+        }
     }
 
     {
-        int k = seen[K_WEIGHT] ? K_WEIGHT : K_AMPL;
-        status = embz_expr_parse(g->raw, values[k], (const char *const *) g->param_names,
-                                 g->nparams, err);
-        if (status != EMBZ_OK) {
-            /* keep the parser's column and source (the expression); add where it sits */
-            snprintf(err->file, sizeof(err->file), "%s", file_name);
-            err->line = seen[k];
-            if (err->source[0] == '\0')
-                snprintf(err->source, sizeof(err->source), "%s", values[k]);
-            status = EMBZ_ERR_INPUT;
-            err->code = status;
-            goto done;
+        int k = seen[K_WEIGHT] ? K_WEIGHT : seen[K_AMPL] ? K_AMPL : K_LEVEL;
+        int parts[4] = { k, K_CNT, K_FIRST, K_LAST };
+        embz_expr_struct *dst[4] = { g->raw, g->count_raw, g->first_raw, g->last_raw };
+        for (int j = 0; j < (k == K_LEVEL ? 4 : 1); j++) {
+            status = embz_expr_parse(dst[j], values[parts[j]],
+                                     (const char *const *) g->param_names, g->nparams, err);
+            if (status != EMBZ_OK) {
+                /* keep the parser's column and source (the expression); add where it sits */
+                snprintf(err->file, sizeof(err->file), "%s", file_name);
+                err->line = seen[parts[j]];
+                if (err->source[0] == '\0')
+                    snprintf(err->source, sizeof(err->source), "%s", values[parts[j]]);
+                status = EMBZ_ERR_INPUT;
+                err->code = status;
+                goto done;
+            }
         }
         g->amplitude = (k == K_AMPL);
+        g->kind = k == K_LEVEL ? EMBZ_FAMILY_LEVELS : EMBZ_FAMILY_WEIGHT;
         _embz_family_set_str(&g->weight_text, values[k]);
     }
     if (seen[K_NAME]) {

@@ -80,6 +80,11 @@ static int failure_cause(const embz_expr_t e, const arb_t i, const arb_t n, slon
 int embz_family_weight_arb(arb_t w, const embz_family_t f, const fmpz_t i, const fmpz_t n,
                            slong prec, embz_err_t *err)
 {
+    if (embz_family_is_levels(f)) {
+        arb_indeterminate(w);
+        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                            "a level family has levels with counts, not a weight w(i)");
+    }
     arb_t ia, na;
     int status = EMBZ_OK, straddle = 0;
     slong p = prec;

@@ -64,13 +64,28 @@ void embz_levels_dim(fmpz_t dim, const embz_levels_t x)
     for (slong j = 0; j < x->len; j++) fmpz_add(dim, dim, x->m + j);
 }
 
+/* r <- v m for a count m of any size: m is rounded to a ball of prec bits first, so that
+ * the cost does not grow with its length (counts of 10^5 bits are common) */
+static void mul_count(arb_t r, const arb_t v, const fmpz_t m, slong prec)
+{
+    if (fmpz_bits(m) <= (flint_bitcnt_t) prec) {
+        arb_mul_fmpz(r, v, m, prec);
+    } else {
+        arb_t t;
+        arb_init(t);
+        arb_set_round_fmpz(t, m, prec);
+        arb_mul(r, v, t, prec);
+        arb_clear(t);
+    }
+}
+
 void embz_levels_total(arb_t W, const embz_levels_t x, slong prec)
 {
     arb_t t;
     arb_init(t);
     arb_zero(W);
     for (slong j = 0; j < x->len; j++) {
-        arb_mul_fmpz(t, x->v + j, x->m + j, prec);
+        mul_count(t, x->v + j, x->m + j, prec);
         arb_add(W, W, t, prec);
     }
     arb_clear(t);
@@ -176,12 +191,12 @@ static void max_excess(arf_t best, fmpz_t bestk, const ends_t *a, const arb_t ca
         fmpz_sub(step, next, pos);
         if (ia < a->len) {
             arb_set_arf(t, a->v + ia);
-            arb_mul_fmpz(t, t, step, prec);
+            mul_count(t, t, step, prec);
             arb_add(sa, sa, t, prec);
         }
         if (ib < b->len) {
             arb_set_arf(t, b->v + ib);
-            arb_mul_fmpz(t, t, step, prec);
+            mul_count(t, t, step, prec);
             arb_add(sb, sb, t, prec);
         }
         fmpz_set(pos, next);

@@ -57,6 +57,11 @@ static char *main_text(const embz_error_how_struct *h)
             h->bracket_lo, h->bracket_hi, h->reason, up);
         free(up);
         return s;
+    case EMBZ_HOW_LEVELS:
+        return embz_strdup_printf(
+            "levels: %ld levels, dimension of %ld bits, Ky Fan norms bounded from the ends of "
+            "the level values, arb %ld bits", (long) h->levels, (long) h->dim_bits,
+            (long) h->prec);
     default:
         return embz_strdup_printf("%s", "");
     }

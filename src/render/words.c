@@ -79,6 +79,9 @@ char *embz_classify_fact_text(const embz_classify_fact_struct *f)
                    "over a finite range)", txt(f->s[0]), law);
     case EMBZ_FACT_EXPONENTS:
         return embz_strdup_printf("predicted exponent %.4g, fitted %.4g [%.4g, %.4g]", x[0], x[1], x[2], x[3]);
+    case EMBZ_FACT_LEVELS:
+        return embz_strdup_printf("analytic route not applicable: a level family (numeric "
+                                  "verdict from its sizes only)");
     case EMBZ_FACT_DEPENDS_ON_N:
         return embz_strdup_printf("analytic route not applicable: the weight depends on n");
     case EMBZ_FACT_ASYM_NOT_BUILT:
