@@ -397,7 +397,6 @@ START_TEST(test_level_family)
     embz_err_t err;
     fmpz_t n;
     embz_family_init(f);
-    embz_family_init(g);
     embz_target_init(q);
     embz_error_result_init(res);
     embz_error_result_init(ref);
