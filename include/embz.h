@@ -17,6 +17,7 @@
 #include "embz/asym.h"
 #include "embz/size.h"
 #include "embz/compare.h"
+#include "embz/flat.h"
 
 #define EMBZ_VERSION "0.1.0"
 

@@ -4,10 +4,13 @@
 # `embz error` for the same weight; examples/sizes_workspace.c (the evaluator, one workspace
 # for several sizes) must give enclosures overlapping those of `embz error`. The public
 # headers are installed, the private ones are not.
+# The Python package is installed too: `import embz` from the installed site directory (with
+# no EMBZ_LIBRARY) must find the installed libembz through embz/_paths.py and print the same
+# certified E.
 # $1 build dir, $2 source dir, $3 embz binary, $4 b_sanitize of the build ('fuzzer' for a
-# -Dfuzz=true build, whose library is instrumented by hand).
+# -Dfuzz=true build, whose library is instrumented by hand), $5 the python of the build.
 set -u
-BUILD=$1 SRC=$2 EMBZ=$3 SAN=${4:-none}
+BUILD=$1 SRC=$2 EMBZ=$3 SAN=${4:-none} PY=${5:-python3}
 if [ "$SAN" != "none" ]; then
     echo "sanitizer build: the example is not built against an instrumented library"
     exit 77
@@ -69,6 +72,22 @@ sys.exit(0 if lo <= F(e["error_hi"]) and F(e["error_lo"]) <= hi and hi - lo < F(
         else echo "FAIL n = $n: [$lo, $hi] against $(cat "$D/e.json")"; fail=1; fi
     done <"$D/sizes.out"
     [ "$(wc -l <"$D/sizes.out")" = 3 ] || { echo "FAIL sizes_workspace printed $(wc -l <"$D/sizes.out") lines"; fail=1; }
+fi
+# the Python package against the installed prefix (below the --destdir root)
+init=$(find "$D/root" -path '*/embz/__init__.py' | head -1)
+if [ -z "$init" ] || [ -z "$(find "$D/root" -path '*/embz/_paths.py' | head -1)" ]; then
+    echo "FAIL the python package (embz/__init__.py, embz/_paths.py) is not installed"; fail=1
+else
+    site=$(dirname "$(dirname "$init")")
+    want=$("$EMBZ" error '1/i' -n 10^30 | sed -n 's/^error *\([0-9.e-]*\) .*/\1/p')
+    pyout=$(cd "$D" && env -u EMBZ_LIBRARY PYTHONPATH="$site" PYTHONDONTWRITEBYTECODE=1 "$PY" -c \
+        "import embz; print(embz.error('1/i', n=10**30)); print(embz.LIBRARY_PATH); print(embz.__file__)" 2>&1)
+    echo "$pyout"
+    case "$pyout" in
+        *"E = $want (certified digits)"*"$D/root"*"$D/root"*)
+            echo "ok   python: import embz from the installed prefix agrees with embz error";;
+        *) echo "FAIL python from the installed prefix: $pyout"; fail=1;;
+    esac
 fi
 [ "$fail" = 0 ] && echo "1 passed, 0 failed" || echo "0 passed, 1 failed"
 exit $fail
