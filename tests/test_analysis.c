@@ -236,6 +236,77 @@ START_TEST(test_sweep_inverse)
 }
 END_TEST
 
+/* A weight the analytic engine declines (not monotone): the sweep is narrowed to the reach
+ * of explicit summation and every size is computed there, each equal to embz_error's explicit
+ * value; with keep_range the sizes beyond are skipped as before; a raised cancel flag stops
+ * the sweep with EMBZ_ERR_LIMIT. */
+START_TEST(test_sweep_narrowed)
+{
+    embz_family_t f;
+    embz_target_t q;
+    embz_sweep_t s;
+    embz_sweep_opts_t o;
+    embz_error_result_t r;
+    embz_err_t err;
+    fmpz_t a, b, c;
+    embz_family_init(f);
+    embz_target_init(q);
+    embz_sweep_init(s);
+    embz_sweep_opts_init(o);
+    embz_error_result_init(r);
+    embz_err_clear(&err);
+    fmpz_init_set_ui(a, 10);
+    fmpz_init(b);
+    fmpz_init_set_ui(c, 20000);
+    fmpz_ui_pow_ui(b, 10, 50);
+    resolve(f, "1/(i*(2+sin(i)))", NULL);
+    o->explicit_reach = 20000;
+    o->threads = 2;
+    ck_assert_int_eq(embz_sweep_run_opts(s, f, a, b, 6, q, o, 64, NULL, NULL, &err), EMBZ_OK);
+    ck_assert(s->narrowed);
+    ck_assert_int_eq(s->reach, 20000);
+    ck_assert(strstr(s->narrow_why, "monotone") != NULL);
+    ck_assert_int_eq(s->nok, s->len);
+    fmpz *sz = _fmpz_vec_init(6);
+    slong len;
+    ck_assert_int_eq(embz_sweep_sizes(sz, &len, a, c, 6, &err), EMBZ_OK);
+    ck_assert_int_eq(len, s->len);
+    for (slong j = 0; j < len; j++) {
+        ck_assert(fmpz_equal(sz + j, s->pts[j].n));
+        ck_assert_int_eq(embz_error(r, f, sz + j, q, EMBZ_METHOD_EXPLICIT, 64, &err), EMBZ_OK);
+        ck_assert(arb_overlaps(r->error, s->pts[j].error));
+    }
+    _fmpz_vec_clear(sz, 6);
+    char *t = embz_sweep_narrow_text(s);
+    ck_assert(t != NULL && strstr(t, "n <= 20000") != NULL);
+    free(t);
+    /* keep_range: the sizes beyond explicit summation's limit are skipped, with the reason */
+    o->keep_range = 1;
+    ck_assert_int_eq(embz_sweep_run_opts(s, f, a, b, 3, q, o, 64, NULL, NULL, &err), EMBZ_OK);
+    ck_assert(!s->narrowed);
+    ck_assert_ptr_eq(embz_sweep_narrow_text(s), NULL);
+    ck_assert_int_eq(s->nok, 1);
+    ck_assert(strstr(s->pts[2].note, "monotone") != NULL);
+    /* a family the engine takes is never narrowed */
+    resolve(f, "1/i", NULL);
+    o->keep_range = 0;
+    ck_assert_int_eq(embz_sweep_run_opts(s, f, a, b, 3, q, o, 64, NULL, NULL, &err), EMBZ_OK);
+    ck_assert(!s->narrowed);
+    ck_assert(fmpz_equal(s->pts[2].n, b));
+    /* cancelled before it starts */
+    volatile int flag = 1;
+    o->cancel = &flag;
+    ck_assert_int_eq(embz_sweep_run_opts(s, f, a, b, 3, q, o, 64, NULL, NULL, &err),
+                     EMBZ_ERR_LIMIT);
+    ck_assert_str_eq(err.text, "cancelled");
+    fmpz_clear(a); fmpz_clear(b); fmpz_clear(c);
+    embz_error_result_clear(r);
+    embz_sweep_clear(s);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
 /* ---------------------------------------------------------------- fits */
 
 START_TEST(test_fit_synthetic)
@@ -630,6 +701,7 @@ static Suite *analysis_suite(void)
     tcase_add_test(tc, test_grid_values);
     tcase_add_test(tc, test_fit_synthetic);
     tcase_add_test(tc, test_sweep_inverse);
+    tcase_add_test(tc, test_sweep_narrowed);
     tcase_add_test(tc, test_row_inverse);
     tcase_add_test(tc, test_row_power_above);
     tcase_add_test(tc, test_row_power_summable);

@@ -91,6 +91,20 @@ assert F(pts[2]["error_lo"]) <= F(e["error_hi"]) and F(e["error_lo"]) <= F(pts[2
 assert F(e["error_hi"]) - F(e["error_lo"]) < F(1, 10**30)
 '
 
+# a weight the analytic engine declines (not monotone): swept up to the reach of explicit
+# summation (10^6), every size computed, and the output says so
+run sweep "1/(i*(2+sin(i)))" --to 10^100 --points 4 --no-fit
+expect_rc 0 "sweep narrowed"
+expect_out "sizes limited to n <= 1000000, the reach of explicit summation" "sweep narrowed: the line"
+run sweep "1/(i*(2+sin(i)))" --to 10^100 --points 4 --no-fit --csv
+pycheck "sweep narrowed, csv: 4 computed sizes from 10 to 10^6, a note on stderr" '
+import csv, sys
+rows = list(csv.DictReader(sys.stdin))
+assert len(rows) == 4 and rows[0]["n"] == "10" and rows[-1]["n"] == "1000000", rows
+assert all(r["status"] == "ok" and r["method"] == "explicit" for r in rows)
+'
+expect_err "note: sizes limited to n <= 1000000" "sweep narrowed csv: the note"
+
 run sweep power --set a=-0.5 --to 10^12 --points 5
 expect_rc 0 "sweep table"
 expect_out "fitted laws (estimates, not certified" "sweep table marks fits as estimates"

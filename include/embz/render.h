@@ -214,6 +214,9 @@ char *embz_markdown_escape(const char *text);
 /* ---- words for the library's facts ---- */
 /* The sentence for one reason of a classification (malloc'ed; the caller frees it). Numbers
  * of fits are printed as the estimates they are; certified values come as their texts. */
+/* The sentence saying that a sweep was narrowed to the reach of explicit summation and why
+ * (embz_sweep_struct.narrowed); NULL when it was not. */
+char *embz_sweep_narrow_text(const embz_sweep_struct *s);
 char *embz_classify_fact_text(const embz_classify_fact_struct *f);
 /* How a value was computed (malloc'ed; the caller frees it): the method, its budgets and
  * counts, and the reason behind a fallback or a bracket, in full. */

@@ -93,7 +93,9 @@ class Fit:
 
 class Sweep:
     """E_n(q) over log-spaced sizes (``points``, an :class:`ErrorSeries`) and the fitted laws
-    (``fits``; ``best``, the law with the lowest BIC, or None). Fits are estimates."""
+    (``fits``; ``best``, the law with the lowest BIC, or None). Fits are estimates.
+    ``narrowed_to`` is None, or the largest size the sweep was cut to when the analytic engine
+    cannot take the family (explicit summation's reach; ``narrowed_why`` says why)."""
 
     def __init__(self, rows, family, target):
         pts = [r for r in rows if r.get("kind") == "point"]
@@ -106,6 +108,8 @@ class Sweep:
         self.best = next((f for f in self.fits if f.law == best and f.ok), None)
         self.fit_message = summary.get("fit_message", "")
         self.prec = int(summary.get("prec", 64))
+        self.narrowed_to = int(summary["narrowed_to"]) if "narrowed_to" in summary else None
+        self.narrowed_why = summary.get("narrowed_why", "")
 
     @property
     def n(self):
@@ -138,15 +142,18 @@ class Sweep:
 
 
 def sweep(family, start=10, stop=10 ** 300, points=24, target=None, *, prec=None, digits=None,
-          seconds=None, cancel=None, amplitude=False, params=None, **parameters):
+          seconds=None, cancel=None, threads=None, amplitude=False, params=None,
+          **parameters):
     """E_n(q) at ``points`` log-spaced sizes from start to stop (the sweep policy of
     ``embz sweep``: precision 64 bits by default, retried at higher precision when too few
-    digits are certified) and the fitted decay laws: a :class:`Sweep`. It can be stopped by
+    digits are certified) and the fitted decay laws: a :class:`Sweep`. ``threads`` sizes are
+    computed at a time (default 1). A family the analytic engine cannot take is swept up to
+    the reach of explicit summation instead (``Sweep.narrowed_to``). It can be stopped by
     Ctrl-C or an :class:`embz.Cancel`."""
     fam = as_family(family, params, amplitude, **parameters)
     q = as_target(target)
     a, b = _opt_size(start), _opt_size(stop)
-    o = make_opts(prec=prec, digits=digits, seconds=seconds)
+    o = make_opts(prec=prec, digits=digits, seconds=seconds, threads=threads)
     rows = call_table(lambda out, e: lib.embz_flat_sweep(out, fam._h, a, b, int(points), q._h,
                                                          o, e), o, cancel)
     return Sweep(rows, fam.label, q.label)

@@ -27,7 +27,7 @@ typedef struct {
                               above 128 bits, as the CLI's JSON) */
     const volatile int *cancel;  /* borrowed, may be NULL: nonzero stops the call */
     double seconds;        /* > 0: analytic searches stop after this long per size */
-    int threads;           /* scans and comparisons: families / grid points at a time */
+    int threads;           /* scans, comparisons, sweeps: points or families at a time */
 } embz_flat_opts;
 
 /* The defaults above. */

@@ -160,6 +160,17 @@ def test_sweep_matches_cli(cli):
     assert "<table>" in s._repr_html_()
 
 
+def test_sweep_narrowed_and_threads(cli):
+    # a weight the analytic engine declines (not monotone): the sweep keeps to explicit sizes
+    s = embz.sweep("1/(i*(2+sin(i)))", 10, "10^100", 6, threads=2)
+    j = cli("sweep", "1/(i*(2+sin(i)))", "--from", 10, "--to", "10^100", "-k", 6)
+    assert s.narrowed_to == int(j["narrowed_to"]) and s.narrowed_to <= 10 ** 7
+    assert "monotone" in s.narrowed_why and s.narrowed_why == j["narrowed_why"]
+    assert [str(n) for n in s.n] == [p["n"] for p in j["points"]]
+    assert max(s.n) == s.narrowed_to
+    assert embz.sweep("inverse", 10, "10^100", 6, threads=2).narrowed_to is None
+
+
 def test_classify_matches_cli(cli):
     v = embz.classify("nearmiss")
     j = cli("classify", "nearmiss")

@@ -136,6 +136,10 @@ static int numeric_route(embz_classify_t c, const embz_family_t f, const embz_cl
     double Ehi = atof(ehi), Elo = atof(elo);
     fact_sx(c, EMBZ_FACT_CERTIFIED_LAST, -1, elo, ehi, Nstr, 0, NULL);
     if (c->nfacts > 0) c->facts[c->nfacts - 1].k1 = fmpz_sizeinbase(last->n, 10) > 12;
+    if (c->sweep->narrowed) {
+        fact_sx(c, EMBZ_FACT_NARROWED, -1, c->sweep->narrow_why, NULL, NULL, 0, NULL);
+        if (c->nfacts > 0) c->facts[c->nfacts - 1].k1 = (long) c->sweep->reach;
+    }
     if (c->sweep->nok < c->sweep->len) {
         embz_classify_fact_struct *fs = fact(c, EMBZ_FACT_SKIPPED);
         if (fs != NULL) {

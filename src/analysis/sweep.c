@@ -25,6 +25,9 @@ void embz_sweep_init(embz_sweep_t s)
     s->nok = 0;
     s->prec = 0;
     s->target[0] = '\0';
+    s->narrowed = 0;
+    s->reach = 0;
+    s->narrow_why[0] = '\0';
 }
 
 static void point_init(embz_sweep_point_struct *p)
@@ -151,28 +154,92 @@ static void sweep_opts(embz_eval_opts_t o)
     o->digit_steps = 4;
 }
 
+void embz_sweep_opts_init(embz_sweep_opts_t o)
+{
+    memset(o, 0, sizeof(*o));
+}
+
+/* The points of s at sizes a .. b (k log-spaced), their statuses "not computed". */
+static int set_points(embz_sweep_t s, const fmpz_t a, const fmpz_t b, slong k, embz_err_t *err)
+{
+    for (slong j = 0; j < s->len; j++) point_clear(s->pts + j);
+    free(s->pts);
+    s->pts = NULL;
+    s->len = 0;
+    fmpz *sizes = _fmpz_vec_init(k > 0 ? k : 1);
+    slong len = 0;
+    int st = embz_sweep_sizes(sizes, &len, a, b, k, err);
+    if (st == EMBZ_OK) {
+        s->pts = malloc((size_t) len * sizeof(embz_sweep_point_struct));
+        if (s->pts == NULL) abort();
+        s->len = len;
+        for (slong j = 0; j < len; j++) {
+            point_init(s->pts + j);
+            fmpz_set(s->pts[j].n, sizes + j);
+            s->pts[j].log_n = fmpz_log_d(sizes + j);
+        }
+    }
+    _fmpz_vec_clear(sizes, k > 0 ? k : 1);
+    return st;
+}
+
 int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const fmpz_t b,
                    slong k, const embz_target_t q, slong prec, embz_progress_fn progress,
                    void *ctx, embz_err_t *err)
 {
+    return embz_sweep_run_opts(s, f, a, b, k, q, NULL, prec, progress, ctx, err);
+}
+
+int embz_sweep_run_opts(embz_sweep_t s, const embz_family_t f, const fmpz_t a,
+                        const fmpz_t b, slong k, const embz_target_t q,
+                        const embz_sweep_opts_t so, slong prec, embz_progress_fn progress,
+                        void *ctx, embz_err_t *err)
+{
+    embz_sweep_opts_t dflt;
+    embz_sweep_opts_init(dflt);
+    const embz_sweep_opts_struct *o = so != NULL ? so : dflt;
+    slong reach = o->explicit_reach > 0 ? o->explicit_reach : EMBZ_SWEEP_EXPLICIT_REACH;
     embz_sweep_clear(s);
-    fmpz *sizes = _fmpz_vec_init(k > 0 ? k : 1);
-    slong len = 0;
-    int st = embz_sweep_sizes(sizes, &len, a, b, k, err);
-    if (st != EMBZ_OK) {
-        _fmpz_vec_clear(sizes, k > 0 ? k : 1);
-        return st;
-    }
-    s->pts = malloc((size_t) len * sizeof(embz_sweep_point_struct));
-    s->len = len;
+    int st = set_points(s, a, b, k, err);
+    if (st != EMBZ_OK) return st;
     s->prec = prec;
     snprintf(s->target, sizeof(s->target), "%s", q->label);
-    for (slong j = 0; j < len; j++) {
-        point_init(s->pts + j);
-        fmpz_set(s->pts[j].n, sizes + j);
-        s->pts[j].log_n = fmpz_log_d(sizes + j);
+
+    int stop = 0, fail_domain = 0, cancelled = 0;
+    slong done = 0, domain_at = -1;
+    char domain_why[200] = "";
+    embz_eval_opts_t eo;
+    embz_eval_t ev;
+    sweep_opts(eo);
+    eo->cancel = o->cancel;
+    eo->seconds = o->seconds;
+    embz_eval_init(ev, f, eo, prec);
+    /* The first workspace is prepared for the largest size up front, which also decides
+     * whether the analytic engine applies at all; where it does not, sizes beyond the reach
+     * of explicit summation would all be skipped, and the range is narrowed to it. */
+    embz_eval_work_t w0;
+    embz_eval_work_init(w0);
+    {
+        embz_err_t e2;
+        embz_err_clear(&e2);
+        int ps = embz_eval_prepare(ev, w0, s->pts[s->len - 1].n, &e2);
+        if (ps != EMBZ_OK) {
+            embz_eval_work_clear(w0);
+            embz_eval_clear(ev);
+            return embz_err_set(err, ps, "%s", e2.text);
+        }
     }
-    _fmpz_vec_clear(sizes, k);
+    if (!ev->analytic_ok && !o->keep_range && fmpz_cmp_si(b, reach) > 0
+        && fmpz_cmp_si(a, reach) <= 0) {
+        fmpz_t r;
+        fmpz_init_set_si(r, reach);
+        set_points(s, a, r, k, err);
+        fmpz_clear(r);
+        s->narrowed = 1;
+        s->reach = reach;
+        snprintf(s->narrow_why, sizeof(s->narrow_why), "%s", ev->prep_reason);
+    }
+    slong len = s->len;
 
     /* Sizes are independent: they are shared out among OpenMP threads (dynamic schedule,
      * largest first), each with a workspace of its own, its tail certified once for the
@@ -183,32 +250,14 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
      * with their FLINT caches */
     if (omp_get_level() == 0) nthreads = omp_get_max_threads();
 #endif
+    if (o->threads > 0 && o->threads < nthreads) nthreads = o->threads;
     if (nthreads > len) nthreads = (int) len;
     if (nthreads < 1) nthreads = 1;
-    int stop = 0, fail_domain = 0;
-    slong done = 0, domain_at = -1;
-    char domain_why[200] = "";
-    embz_eval_opts_t eo;
-    embz_eval_t ev;
-    sweep_opts(eo);
-    embz_eval_init(ev, f, eo, prec);
-    /* one workspace per thread; the first is prepared up front, which also decides whether
-     * the analytic engine applies at all */
+    /* one workspace per thread, the first the one prepared above */
     embz_eval_work_struct *work = flint_malloc((size_t) nthreads * sizeof(embz_eval_work_struct));
     char *used = flint_calloc((size_t) nthreads, 1);
-    for (int i = 0; i < nthreads; i++) embz_eval_work_init(work + i);
-    {
-        embz_err_t e2;
-        embz_err_clear(&e2);
-        int ps = embz_eval_prepare(ev, work, s->pts[len - 1].n, &e2);
-        if (ps != EMBZ_OK) {
-            for (int i = 0; i < nthreads; i++) embz_eval_work_clear(work + i);
-            flint_free(work);
-            flint_free(used);
-            embz_eval_clear(ev);
-            return embz_err_set(err, ps, "%s", e2.text);
-        }
-    }
+    work[0] = w0[0];
+    for (int i = 1; i < nthreads; i++) embz_eval_work_init(work + i);
 #ifdef _OPENMP
 #pragma omp parallel num_threads(nthreads)
 #endif
@@ -231,6 +280,17 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
 #endif
             halt = stop;
             if (halt) continue;
+            if (o->cancel != NULL && *o->cancel) {
+#ifdef _OPENMP
+#pragma omp atomic write
+#endif
+                cancelled = 1;
+#ifdef _OPENMP
+#pragma omp atomic write
+#endif
+                stop = 1;
+                continue;
+            }
             embz_sweep_point_struct *p = s->pts + j;
             char why[200] = "";
             double t0 = now_seconds();
@@ -245,7 +305,9 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
                     domain_at = j;
                     snprintf(domain_why, sizeof(domain_why), "%.190s", why);
                 }
-                if (ps == EMBZ_ERR_DOMAIN) {
+                if (ps == EMBZ_ERR_DOMAIN
+                    || (ps == EMBZ_ERR_LIMIT && o->cancel != NULL && *o->cancel)) {
+                    if (ps == EMBZ_ERR_LIMIT) cancelled = 1;
 #ifdef _OPENMP
 #pragma omp atomic write
 #endif
@@ -271,6 +333,7 @@ int embz_sweep_run(embz_sweep_t s, const embz_family_t f, const fmpz_t a, const 
         free(ns);
         return st;
     }
+    if (cancelled) return embz_err_set(err, EMBZ_ERR_LIMIT, "cancelled");
     int last_fail = EMBZ_OK;
     s->nok = 0;
     for (slong j = 0; j < len; j++) {

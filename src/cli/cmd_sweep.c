@@ -28,7 +28,9 @@ static const cli_spec_t sweep_spec = {
     "BIC on relative residuals) are estimates, not certified. Sizes run in parallel on the\n"
     "OpenMP threads (OMP_NUM_THREADS). Time: about 10-50 ms per size for the inverse family\n"
     "up to 10^300 at default precision; a progress bar appears on a terminal when the run\n"
-    "takes longer than a second.\n",
+    "takes longer than a second. A family the analytic engine cannot take (a weight not\n"
+    "provably monotone) is swept up to n = 10^6 only, what explicit summation reaches, and\n"
+    "the output says so.\n",
     sweep_opts, 1, 1
 };
 
@@ -189,9 +191,11 @@ int cli_cmd_sweep(int argc, char **argv)
         have_fit = (embz_fit_sweep(fs, sw, &e2) == EMBZ_OK);
     }
 
+    char *narrow = embz_sweep_narrow_text(sw);
     embz_buf_t b;
     embz_buf_init(&b);
     if (csv) {
+        if (narrow != NULL) fprintf(stderr, "embz sweep: note: %s\n", narrow);
         embz_buf_printf(&b, "n,log10_n,status,method,error,error_lo,error_hi,error_certified,"
                         "argmax,bound_lo,bound_hi,seconds,note\n");
         for (slong j = 0; j < sw->len; j++) {
@@ -222,7 +226,12 @@ int cli_cmd_sweep(int argc, char **argv)
         embz_buf_printf(&b, ", \"params\": ");
         cli_buf_json_params(&b, fam);
         cli_buf_json_key_string(&b, "target", q->label);
-        embz_buf_printf(&b, ", \"prec\": %ld, \"points\": [", prec);
+        embz_buf_printf(&b, ", \"prec\": %ld", prec);
+        if (narrow != NULL) {
+            embz_buf_printf(&b, ", \"narrowed_to\": \"%ld\"", (long) sw->reach);
+            cli_buf_json_key_string(&b, "narrowed_why", sw->narrow_why);
+        }
+        embz_buf_printf(&b, ", \"points\": [");
         for (slong j = 0; j < sw->len; j++) {
             const embz_sweep_point_struct *p = sw->pts + j;
             point_text_t t;
@@ -256,6 +265,7 @@ int cli_cmd_sweep(int argc, char **argv)
         embz_buf_printf(&b, "family   %s   target %s   %ld sizes from 10^%.4g to 10^%.4g\n",
                         fam->name, q->label, (long) sw->len, log10_of(sw->pts),
                         log10_of(sw->pts + sw->len - 1));
+        if (narrow != NULL) embz_buf_printf(&b, "%s\n", narrow);
         embz_buf_printf(&b, "%-16s %-24s %-16s %-9s %s\n", "n", "E_n (certified digits)",
                         "argmax", "method", "time");
         for (slong j = 0; j < sw->len; j++) {
@@ -283,6 +293,7 @@ int cli_cmd_sweep(int argc, char **argv)
     }
     fputs(b.s, stdout);
     embz_buf_clear(&b);
+    free(narrow);
 
 done:
     embz_fitset_clear(fs);

@@ -1,23 +1,11 @@
-/* Sweeps through the flat interface: the sizes of embz_sweep_sizes, each through one
- * evaluator with the sweep's policy (the default one, digit_steps 4, the tail certified once
- * for the largest size, largest sizes first), in this thread, so that the caller's cancel flag
- * is seen between sizes and inside the engine; then the library's fits (embz_fit_sweep). */
+/* Sweeps through the flat interface: embz_sweep_run_opts (the library's sweep, with its
+ * policy and its narrowing for families the analytic engine cannot take) on opts.threads
+ * threads (default 1), the caller's cancel flag seen between sizes and inside the engine;
+ * then the library's fits (embz_fit_sweep). */
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
 #include "impl.h"
-
-static double fmpz_log_d(const fmpz_t n)
-{
-    slong bits = fmpz_bits(n);
-    if (bits <= 1000) return log(fmpz_get_d(n));
-    fmpz_t t;
-    fmpz_init(t);
-    fmpz_fdiv_q_2exp(t, n, (ulong) (bits - 60));
-    double r = log(fmpz_get_d(t)) + (double) (bits - 60) * log(2.0);
-    fmpz_clear(t);
-    return r;
-}
 
 void _flat_sweep_rows(embz_flat_table *t, const embz_sweep_t s, slong digits)
 {
@@ -63,70 +51,6 @@ static void fit_rows(embz_flat_table *t, const embz_fitset_t fs)
     }
 }
 
-static void point_init(embz_sweep_point_struct *p)
-{
-    memset(p, 0, sizeof(*p));
-    fmpz_init(p->n);
-    fmpz_init(p->argk);
-    arb_init(p->error);
-    arb_init(p->lower);
-    arb_init(p->upper);
-    p->status = EMBZ_ERR_UNSUPPORTED;
-}
-
-/* The points of s (sizes set) through ev and wk; EMBZ_OK, EMBZ_ERR_DOMAIN (invalid weight,
- * err filled) or EMBZ_ERR_LIMIT (cancelled). */
-static int run_points(embz_sweep_t s, const embz_eval_t ev, embz_eval_work_t wk,
-                      const embz_target_t q, const embz_flat_opts *o, embz_flat_err *err)
-{
-    embz_error_result_t r;
-    embz_error_result_init(r);
-    int st = EMBZ_OK;
-    for (slong jj = 0; jj < s->len; jj++) {
-        slong j = s->len - 1 - jj;        /* largest first, as embz_sweep_run */
-        embz_sweep_point_struct *p = s->pts + j;
-        if (_flat_cancelled(o)) {
-            st = _flat_err_set(err, EMBZ_ERR_LIMIT, "cancelled");
-            break;
-        }
-        embz_err_t e;
-        embz_err_clear(&e);
-        double t0 = _flat_now();
-        int ps = embz_eval_error(r, ev, wk, p->n, q, &e);
-        p->seconds = _flat_now() - t0;
-        p->status = ps;
-        if (ps == EMBZ_OK) {
-            p->method = (r->used & (1 << EMBZ_METHOD_EXPLICIT)) ? EMBZ_METHOD_EXPLICIT
-                                                                : EMBZ_METHOD_ANALYTIC;
-            arb_set(p->error, r->error);
-            fmpz_set(p->argk, r->argk);
-            p->have_bounds = r->have_bounds;
-            if (r->have_bounds) {
-                arb_set(p->lower, r->lower);
-                arb_set(p->upper, r->upper);
-            }
-            p->how = r->how;
-            p->note[0] = '\0';
-            s->nok++;
-        } else {
-            snprintf(p->note, sizeof(p->note), "skipped: %.190s",
-                     e.text[0] ? e.text : "no method handles this size");
-        }
-        if (ps == EMBZ_ERR_LIMIT && _flat_cancelled(o)) {
-            st = _flat_err_set(err, EMBZ_ERR_LIMIT, "cancelled");
-            break;
-        }
-        if (ps == EMBZ_ERR_DOMAIN) {
-            char *nstr = embz_fmpz_string(p->n, 30);
-            st = _flat_err_set(err, EMBZ_ERR_DOMAIN, "n = %s: %s", nstr, e.text);
-            free(nstr);
-            break;
-        }
-    }
-    embz_error_result_clear(r);
-    return st;
-}
-
 int embz_flat_sweep(embz_flat_table **out, const embz_flat_family *f, const char *from,
                     const char *to, long points, const embz_flat_target *q,
                     const embz_flat_opts *given, embz_flat_err *err)
@@ -157,37 +81,15 @@ int embz_flat_sweep(embz_flat_table **out, const embz_flat_family *f, const char
 
     embz_sweep_t s;
     embz_sweep_init(s);
-    fmpz *sizes = _fmpz_vec_init(points);
-    slong len = 0;
+    embz_sweep_opts_t so;
+    embz_sweep_opts_init(so);
+    so->threads = o.threads > 0 ? o.threads : 1;
+    so->cancel = o.cancel;
+    so->seconds = o.seconds;
     embz_err_t e;
     embz_err_clear(&e);
-    embz_sweep_sizes(sizes, &len, a, b, points, &e);
-    s->pts = malloc((size_t) len * sizeof(embz_sweep_point_struct));
-    if (s->pts == NULL) abort();
-    s->len = len;
-    s->prec = prec;
-    snprintf(s->target, sizeof(s->target), "%s", tq->label);
-    for (slong j = 0; j < len; j++) {
-        point_init(s->pts + j);
-        fmpz_set(s->pts[j].n, sizes + j);
-        s->pts[j].log_n = fmpz_log_d(sizes + j);
-    }
-    _fmpz_vec_clear(sizes, points);
-
-    embz_eval_opts_t eo;
-    embz_eval_opts_init(eo);
-    eo->digit_steps = 4;          /* the sweep policy (src/analysis/sweep.c) */
-    eo->cancel = o.cancel;
-    eo->seconds = o.seconds;
-    embz_eval_t ev;
-    embz_eval_init(ev, f->f, eo, prec);
-    embz_eval_work_t wk;
-    embz_eval_work_init(wk);
-    st = embz_eval_prepare(ev, wk, s->pts[len - 1].n, &e);
+    st = embz_sweep_run_opts(s, f->f, a, b, points, tq, so, prec, NULL, NULL, &e);
     if (st != EMBZ_OK) _flat_err_from(err, st, &e);
-    else st = run_points(s, ev, wk, tq, &o, err);
-    embz_eval_work_clear(wk);
-    embz_eval_clear(ev);
 
     embz_flat_table *t = _flat_table_new();
     _flat_sweep_rows(t, s, digits);
@@ -206,7 +108,7 @@ int embz_flat_sweep(embz_flat_table **out, const embz_flat_family *f, const char
         embz_fitset_clear(fs);
         if (s->nok == 0) {
             st = _flat_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                               "no size of the sweep could be computed: %s", s->pts[len - 1].note);
+                               "no size of the sweep could be computed: %s", s->pts[s->len - 1].note);
         }
     } else {
         sr = _flat_row_add(t);
@@ -214,9 +116,13 @@ int embz_flat_sweep(embz_flat_table **out, const embz_flat_family *f, const char
         _flat_set(t, sr, "best", "none");
     }
     _flat_set(t, sr, "target", tq->label);
-    _flat_set_l(t, sr, "points", (long) len);
+    _flat_set_l(t, sr, "points", (long) s->len);
     _flat_set_l(t, sr, "nok", (long) s->nok);
     _flat_set_l(t, sr, "prec", (long) prec);
+    if (s->narrowed) {
+        _flat_set_l(t, sr, "narrowed_to", (long) s->reach);
+        _flat_set(t, sr, "narrowed_why", s->narrow_why);
+    }
     embz_sweep_clear(s);
     embz_target_clear(one);
     fmpz_clear(a);

@@ -2,6 +2,7 @@
  * (embz_classify_fact_struct, include/embz/analysis.h). */
 #include <stdio.h>
 #include <stdlib.h>
+#include <string.h>
 #include "embz/render.h"
 #include "embz/asym.h"
 
@@ -91,9 +92,24 @@ char *embz_classify_fact_text(const embz_classify_fact_struct *f)
     case EMBZ_FACT_DISAGREE:
         return embz_strdup_printf("the routes DISAGREE: analytic says %s, numeric says %s",
                    embz_verdict_id(f->v1), embz_verdict_id(f->v2));
+    case EMBZ_FACT_NARROWED:
+        return embz_strdup_printf("sizes limited to n <= %ld, the reach of explicit summation: the "
+                   "analytic engine cannot take this family (%s)", f->k1, txt(f->s[0]));
     case EMBZ_FACT_AGREE:
         return embz_strdup_printf("analytic and numeric routes agree");
     default:
         return embz_strdup_printf("(unknown fact %d)", f->kind);
     }
+}
+
+char *embz_sweep_narrow_text(const embz_sweep_struct *s)
+{
+    if (!s->narrowed) return NULL;
+    embz_classify_fact_struct f;
+    memset(&f, 0, sizeof(f));
+    f.kind = EMBZ_FACT_NARROWED;
+    f.law = -1;
+    f.k1 = (long) s->reach;
+    f.s[0] = (char *) s->narrow_why;
+    return embz_classify_fact_text(&f);
 }
