@@ -454,6 +454,60 @@ START_TEST(test_bad_goal)
 }
 END_TEST
 
+/* A weight the analytic engine declines (not monotone): the search stays within the reach of
+ * explicit summation. A goal reached there: n with E_n <= eps < E_{n-1}, both checked against
+ * embz_error's explicit enclosures; a goal beyond: not reached, the reach the largest size
+ * tried (before: the search went on to n = 2^24 and beyond and failed after minutes). */
+START_TEST(test_explicit_only)
+{
+    embz_family_t f;
+    embz_target_t q;
+    embz_size_result_t r;
+    embz_error_result_t e;
+    arb_t eps;
+    embz_err_t err;
+    family(f, "1/(i*(2+sin(i)))");
+    embz_target_init(q);
+    embz_size_result_init(r);
+    embz_error_result_init(e);
+    arb_init(eps);
+    embz_err_clear(&err);
+    arb_set_d(eps, 0.07);
+    ck_assert_int_eq(embz_size_solve(r, f, eps, q, 64, &err), EMBZ_OK);
+    ck_assert_int_eq(r->status, EMBZ_SIZE_FOUND);
+    ck_assert(r->explicit_only);
+    ck_assert_int_eq(r->reach, EMBZ_EXPLICIT_REACH);
+    ck_assert(strstr(r->why, "monotone") != NULL);
+    ck_assert(fmpz_cmp_si(r->n, EMBZ_EXPLICIT_REACH) <= 0);
+    ck_assert(fmpz_cmp_si(r->stay_checked_to, EMBZ_EXPLICIT_REACH) <= 0);
+    ck_assert_int_eq(embz_error(e, f, r->n, q, EMBZ_METHOD_EXPLICIT, 64, &err), EMBZ_OK);
+    ck_assert(arb_le(e->error, eps));
+    fmpz_t m;
+    fmpz_init(m);
+    fmpz_sub_ui(m, r->n, 1);
+    ck_assert_int_eq(embz_error(e, f, m, q, EMBZ_METHOD_EXPLICIT, 64, &err), EMBZ_OK);
+    ck_assert(arb_gt(e->error, eps));
+    fmpz_clear(m);
+    arb_set_d(eps, 0.01);
+    ck_assert_int_eq(embz_size_solve(r, f, eps, q, 64, &err), EMBZ_OK);
+    ck_assert_int_eq(r->status, EMBZ_SIZE_NOT_REACHED);
+    ck_assert(r->explicit_only);
+    ck_assert(fmpz_equal_si(r->largest, EMBZ_EXPLICIT_REACH));
+    ck_assert(arb_gt(r->err_largest, eps));
+    /* a family the engine takes is searched beyond */
+    embz_family_clear(f);
+    family(f, "inverse");
+    ck_assert_int_eq(embz_size_solve(r, f, eps, q, 64, &err), EMBZ_OK);
+    ck_assert_int_eq(r->status, EMBZ_SIZE_FOUND);
+    ck_assert(!r->explicit_only);
+    arb_clear(eps);
+    embz_error_result_clear(e);
+    embz_size_result_clear(r);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
 int main(void)
 {
     Suite *s = suite_create("size");
@@ -467,6 +521,7 @@ int main(void)
     tcase_add_test(tc, test_never_decision);
     tcase_add_test(tc, test_bad_goal);
     tcase_add_test(tc, test_exact_ties);
+    tcase_add_test(tc, test_explicit_only);
     suite_add_tcase(s, tc);
     return tu_run_suite(s);
 }

@@ -53,18 +53,13 @@ int embz_sweep_sizes(fmpz *sizes, slong *len, const fmpz_t a, const fmpz_t b, sl
 /* Progress callback: called after each size with (done, total). May be NULL. */
 typedef void (*embz_progress_fn)(void *ctx, slong done, slong total);
 
-/* The reach of explicit summation in a sweep of a family the analytic engine cannot take
- * (non-monotone or unresolvable weights): sizes beyond it would all be skipped, so the sweep
- * takes its k sizes from [a, reach] instead. Measured (2026-12, 2 cores): 1/(i (2 + sin i))
- * at n = 10^6 in about 1 s (stored and sorted), a 16-size sweep to 10^6 in about 3 s. */
-#define EMBZ_SWEEP_EXPLICIT_REACH 1000000L
 
 typedef struct {
     int threads;                  /* sizes computed at a time (<= 0: all OpenMP threads) */
     const volatile int *cancel;   /* borrowed, may be NULL: nonzero stops the sweep, which
                                      returns EMBZ_ERR_LIMIT "cancelled" */
     double seconds;               /* > 0: analytic searches stop after this long per size */
-    slong explicit_reach;         /* <= 0: EMBZ_SWEEP_EXPLICIT_REACH */
+    slong explicit_reach;         /* <= 0: EMBZ_EXPLICIT_REACH */
     int keep_range;               /* nonzero: never narrow the range (sizes beyond the reach
                                      are skipped with the engine's reason) */
 } embz_sweep_opts_struct;

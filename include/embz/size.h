@@ -36,6 +36,11 @@ typedef struct {
     int small_by_bound;   /* sizes up to EMBZ_SIZE_EXHAUSTIVE excluded at once by
                              E_m >= p_1 (1 - q_max) > eps, not one by one */
     long evaluations;
+    int explicit_only;    /* the analytic engine cannot take the family: the search stayed
+                             within n <= reach, what explicit summation reaches
+                             (EMBZ_EXPLICIT_REACH), why says why */
+    slong reach;
+    char why[200];
     int used;             /* how sizes were decided, bits: 1 << EMBZ_METHOD_EXPLICIT,
                              1 << EMBZ_METHOD_ANALYTIC (the engine in decision mode), and
                              EMBZ_SIZE_USED_EXACT (an exact tie decided in rational
@@ -46,7 +51,8 @@ typedef embz_size_result_struct embz_size_result_t[1];
 void embz_size_result_init(embz_size_result_t r);
 void embz_size_result_clear(embz_size_result_t r);
 
-/* Largest size the search tries: 2^(12 * 2^8) = 2^3072, about 10^925. */
+/* Largest size the search tries: 2^(12 * 2^8) = 2^3072, about 10^925 (EMBZ_EXPLICIT_REACH
+ * for a family the analytic engine cannot take). */
 #define EMBZ_SIZE_MAX_LOG2 3072
 
 /* Smallest n with E_n(q) <= eps for the family (measure K). Sizes up to EMBZ_SIZE_EXHAUSTIVE

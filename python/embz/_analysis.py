@@ -315,7 +315,9 @@ class SizeResult:
     'not_reached', 'undecided'); when found ``n``, ``qubits`` (ceil(log2 n) per side),
     ``n_low`` (a size certified above the goal), ``exhaustive`` (n proven smallest),
     ``error_at_n`` and ``error_below`` (:class:`Ball`); when not reached ``largest``,
-    ``error_at_largest`` and ``never`` (the derived one-ebit limit lies above the goal)."""
+    ``error_at_largest`` and ``never`` (the derived one-ebit limit lies above the goal).
+    ``explicit_only`` is True when the analytic engine cannot take the family: the search
+    stayed within ``reach`` (what explicit summation reaches; ``why`` says why)."""
 
     def __init__(self, row, family, target):
         self.family = family
@@ -324,6 +326,9 @@ class SizeResult:
         self.eps = row["eps"]
         self.evaluations = int(row["evaluations"])
         self.qubits_only = row["qubits_only"] == "1"
+        self.explicit_only = row.get("explicit_only") == "1"
+        self.reach = int(row["reach"]) if self.explicit_only else None
+        self.why = row.get("why", "")
         self.n = self.qubits = self.n_low = None
         self.never = False
         self.exhaustive = False

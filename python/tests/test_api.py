@@ -171,6 +171,19 @@ def test_sweep_narrowed_and_threads(cli):
     assert embz.sweep("inverse", 10, "10^100", 6, threads=2).narrowed_to is None
 
 
+def test_size_explicit_only(cli):
+    r = embz.size("1/(i*(2+sin(i)))", "0.01")
+    j = cli("size", "1/(i*(2+sin(i)))", "--eps", "0.01")
+    g = j["goals"][0] if "goals" in j else j
+    assert r.status == g["status"] == "not_reached"
+    assert r.explicit_only and g["explicit_only"] is True and r.reach == int(g["reach"])
+    assert r.largest == r.reach and "monotone" in r.why
+    # a level family: qubits from its dimension (2^n for n qubit copies), as the CLI
+    lv = embz.size("qubitcopies", "0.2")
+    assert lv.qubits == cli("size", "qubitcopies", "--eps", "0.2")["goals"][0]["qubits"]
+    assert lv.qubits == lv.n
+
+
 def test_classify_matches_cli(cli):
     v = embz.classify("nearmiss")
     j = cli("classify", "nearmiss")

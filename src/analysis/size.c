@@ -117,6 +117,25 @@ static void size_eval_opts(embz_eval_opts_t o)
     o->goal_explicit = 1;
 }
 
+/* 1 when the analytic engine cannot take the family at sizes up to nmax (its tail is not
+ * certifiable there), the engine's reason in why; a probe on an evaluator of its own, so
+ * that the search's own engines stay as they were. */
+static int analytic_declines(char *why, size_t len, const sctx *c, const fmpz_t nmax)
+{
+    if (embz_family_is_levels(c->f)) return 0;
+    embz_eval_t ev;
+    embz_eval_work_t w;
+    embz_eval_init(ev, c->f, &c->ev->opts, c->prec);
+    embz_eval_work_init(w);
+    embz_err_t e;
+    embz_err_clear(&e);
+    int declines = embz_eval_prepare(ev, w, nmax, &e) == EMBZ_OK && !ev->analytic_ok;
+    if (declines) snprintf(why, len, "%s", ev->prep_reason);
+    embz_eval_work_clear(w);
+    embz_eval_clear(ev);
+    return declines;
+}
+
 /* Which side of eps E_n lies on: -1 (E_n <= eps), +1 (E_n > eps), 0 undecided even at the
  * highest precision tried. E receives the last enclosure. Returns a status. */
 static int side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
@@ -350,6 +369,9 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
     if (qeps != NULL) { fmpq_set(c.qeps, qeps); c.have_qeps = 1; }
     c.qubits_only = qubits_only && !embz_family_is_levels(f);   /* (qubits are not ceil(log2 n)) */
     res->qubits_only = qubits_only;
+    res->explicit_only = 0;
+    res->reach = 0;
+    res->why[0] = '\0';
     c.f = f;
     c.q = q;
     c.prec = prec;
@@ -409,6 +431,14 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
             fmpz_one(n);
             fmpz_mul_2exp(n, n, (ulong) e);
             if (levels && fmpz_cmp_si(n, EMBZ_SIZE_LEVELS_MAX_N) > 0) break;
+            if (!levels && fmpz_cmp_si(n, EMBZ_EXPLICIT_REACH) > 0 && !res->explicit_only
+                && analytic_declines(res->why, sizeof(res->why), &c, n)) {
+                /* explicit summation only: its reach is the last size tried */
+                res->explicit_only = 1;
+                res->reach = EMBZ_EXPLICIT_REACH;
+                fmpz_set_si(n, EMBZ_EXPLICIT_REACH);
+                e = EMBZ_SIZE_MAX_LOG2;
+            }
             st = side(&sd, E, &c, n, err);
             if (st != EMBZ_OK) goto done;
             fmpz_set(res->largest, n);
@@ -507,6 +537,7 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
                 fmpz_mul_2exp(m, res->n, (ulong) (1 << (j - 16)));
             }
             if (embz_family_is_levels(f) && fmpz_cmp_si(m, EMBZ_SIZE_LEVELS_MAX_N) > 0) break;
+            if (res->explicit_only && fmpz_cmp_si(m, res->reach) > 0) break;
             st = side(&sd, E, &c, m, err);
             if (st != EMBZ_OK) goto done;
             if (sd > 0) {

@@ -198,7 +198,7 @@ int embz_sweep_run_opts(embz_sweep_t s, const embz_family_t f, const fmpz_t a,
     embz_sweep_opts_t dflt;
     embz_sweep_opts_init(dflt);
     const embz_sweep_opts_struct *o = so != NULL ? so : dflt;
-    slong reach = o->explicit_reach > 0 ? o->explicit_reach : EMBZ_SWEEP_EXPLICIT_REACH;
+    slong reach = o->explicit_reach > 0 ? o->explicit_reach : EMBZ_EXPLICIT_REACH;
     embz_sweep_clear(s);
     int st = set_points(s, a, b, k, err);
     if (st != EMBZ_OK) return st;

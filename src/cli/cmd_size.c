@@ -24,7 +24,8 @@ static const cli_spec_t size_spec = {
     "2048 are checked one by one, so a size found there is the smallest. Beyond, a bracketing\n"
     "search locates n with E_n <= eps < E_(n-1); smaller sizes are then checked on samples\n"
     "only (E_n need not be monotone in n), and so is whether the error stays below the goal\n"
-    "for larger sizes: the output says which. The search goes up to n = 2^3072 (~10^925).\n"
+    "for larger sizes: the output says which. The search goes up to n = 2^3072 (~10^925),\n"
+    "or n = 10^6 (explicit summation's reach) for a family the analytic engine cannot take.\n"
     "--measure purified: the purified distance P obeys K <= P <= sqrt(K(2-K)), so the size for\n"
     "P <= eps lies between the sizes for K <= eps and K <= 1 - sqrt(1 - eps^2); both are shown.\n",
     size_opts, 1, 1
@@ -112,6 +113,10 @@ static void json_result(embz_buf_t *b, const char *goal, const embz_size_result_
         embz_buf_json_string(b, u);
         flint_free(u);
     }
+    if (r->explicit_only) {
+        embz_buf_printf(b, ", \"explicit_only\": true, \"reach\": \"%ld\"", (long) r->reach);
+        cli_buf_json_key_string(b, "why", r->why);
+    }
     embz_buf_printf(b, ", \"evaluations\": %ld, \"method\": ", r->evaluations);
     char how[128];
     method_words(how, sizeof(how), r);
@@ -170,8 +175,14 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
     } else if (r->status == EMBZ_SIZE_NOT_REACHED) {
         char *e = embz_arb_certified_string(r->err_largest, 12);
         embz_buf_printf(b, "  n          %s\n", never_reason != NULL ? "never" : "not reached");
-        embz_buf_printf(b, "  largest    n = 2^%ld: E = %s (certified)\n",
-                        (long) fmpz_bits(r->largest) - 1, e);
+        if (r->explicit_only) {
+            char *ls = embz_fmpz_string(r->largest, INT_DIGITS);
+            embz_buf_printf(b, "  largest    n = %s: E = %s (certified)\n", ls, e);
+            free(ls);
+        } else {
+            embz_buf_printf(b, "  largest    n = 2^%ld: E = %s (certified)\n",
+                            (long) fmpz_bits(r->largest) - 1, e);
+        }
         if (never_reason != NULL) embz_buf_printf(b, "  why        %s\n", never_reason);
         free(e);
     } else {
@@ -179,6 +190,10 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
         embz_buf_printf(b, "  undecided  at n = %s the enclosure of E straddles the goal even at raised precision\n", u);
         free(u);
     }
+    if (r->explicit_only)
+        embz_buf_printf(b, "  reach      sizes searched up to n = %ld only, what explicit summation "
+                           "reaches: the analytic engine cannot take this family (%s)\n",
+                        (long) r->reach, r->why);
     char how[128];
     method_words(how, sizeof(how), r);
     embz_buf_printf(b, "  method     %s, %ld evaluations\n", how, r->evaluations);

@@ -177,13 +177,16 @@ int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char 
         _flat_set(t, row, "target", tq->label);
         _flat_set_l(t, row, "qubits_only", r->qubits_only);
         _flat_set_l(t, row, "evaluations", r->evaluations);
+        _flat_set_l(t, row, "explicit_only", r->explicit_only);
+        if (r->explicit_only) {
+            _flat_set_l(t, row, "reach", (long) r->reach);
+            _flat_set(t, row, "why", r->why);
+        }
         if (r->status == EMBZ_SIZE_FOUND) {
             _flat_set_size(t, row, "n", r->n);
-            fmpz_t m;
-            fmpz_init(m);
-            fmpz_sub_ui(m, r->n, 1);
-            _flat_set_l(t, row, "qubits", fmpz_sgn(m) > 0 ? (long) fmpz_bits(m) : 0);
-            fmpz_clear(m);
+            /* the library's count: ceil(log2) of the Schmidt rank (a level family's
+             * dimension, not n) */
+            _flat_set_l(t, row, "qubits", r->qubits);
             _flat_set_size(t, row, "n_low", r->n_low);
             _flat_set_l(t, row, "exhaustive", r->exhaustive);
             _flat_set_l(t, row, "checked_below", r->checked_below);
