@@ -376,7 +376,7 @@ run error 'exp(-1000*i)' -n 10; expect_rc 0 "exp(-1000 i) at n = 10"
 expect_out "0.49999999999999999999, 0.50000000000000000001" "exp(-1000 i): E = p_1/2 to 1e-400"
 
 # "never" for any target majorized by one ebit (largest entry <= 1/2): the one-ebit limit of
-# i^-1/2, 1 - 2^-1/2 [derived, math notes section 5], bounds its error from below; (0.6, 0.4)
+# i^-1/2, 1 - 2^-1/2 [derived, docs/math.md section 5], bounds its error from below; (0.6, 0.4)
 # is not majorized by the ebit, so its search ends in "not reached"
 run size power --eps 0.1 --qubits --target uniform:3; expect_rc 0 "size uniform:3"
 expect_out "never" "uniform:3 never reaches 0.1"; expect_out "majorized by one ebit" "never: why"

@@ -4,7 +4,7 @@
  *
  * Reference: for the inverse-index weights 1/i and the d-level maximally entangled target,
  *     E_n(u_d) = 1 - (H_s + r/(d(s+1))) / H_n,   n = d s + r, 0 <= r < d
- * (math notes, section 6, [derived]), evaluated with FLINT's exact harmonic numbers
+ * (docs/math.md section 6, [derived]), evaluated with FLINT's exact harmonic numbers
  * (arith_harmonic_number), independently of both methods. */
 #include <check.h>
 #include <stdlib.h>

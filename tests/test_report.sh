@@ -125,10 +125,10 @@ for fam, row in rows.items():
     else:
         if s["status"] != "not_reached" or ncell not in ("never", "not by 10^924"):
             bad.append((fam, "status", ncell, s["status"]))
-# [derived, math notes section 5]: the power family a = -1/2 never gets below 1 - 1/sqrt 2
+# [derived, docs/math.md section 5]: the power family a = -1/2 never gets below 1 - 1/sqrt 2
 if rows["power"]["n for E ≤ 0.05"] != "never":
     bad.append(("power", "never", rows["power"]["n for E ≤ 0.05"]))
-# the one-ebit limit 1 - 2^-(1/2) = 0.29289321881... [derived, math notes section 5]
+# the one-ebit limit 1 - 2^-(1/2) = 0.29289321881... [derived, docs/math.md section 5]
 if not rows["power"]["limit of E"].startswith("0.292893"):
     bad.append(("power", "limit", rows["power"]["limit of E"]))
 if bad:
@@ -183,7 +183,7 @@ st=$?
 echo "demo took $(( $(date +%s) - start )) s"
 check "demo exit 0 within 5 minutes" test $st -eq 0
 check "demo prints the table" grep -q "^family .*verdict .*qubits/side" "$T/demo/out.txt"
-# [derived, math notes section 6]: E_n(u_4) for 1/i is about ln 4 / ln n, so the inverse
+# [derived, docs/math.md section 6]: E_n(u_4) for 1/i is about ln 4 / ln n, so the inverse
 # family needs n near 10^600 (about 2000 qubits) for 1e-3 and the power family never
 check "demo: inverse needs about 2000 qubits" bash -c "grep '^inverse ' '$T/demo/out.txt' | grep -Eq ' (199[0-9]|200[0-9]) '"
 check "demo: power never" bash -c "grep '^power ' '$T/demo/out.txt' | grep -q never"

@@ -2,12 +2,12 @@
  *
  * References:
  *  - the inverse-index family's closed form for a d-level maximally entangled target,
- *    E_n(u_d) = 1 - (H_s + r/(d(s+1)))/H_n for n = d s + r (math notes, section 6, [derived]),
+ *    E_n(u_d) = 1 - (H_s + r/(d(s+1)))/H_n for n = d s + r (docs/math.md section 6, [derived]),
  *    evaluated here with FLINT's exact harmonic numbers: the smallest n with E_n <= eps is found
  *    by a plain scan of that formula, independently of the solver;
- *  - the sizes quoted in the math notes for one ebit: 15 for 0.2 and 570 for 0.1 ([derived]),
+ *  - the sizes quoted in docs/math.md for one ebit: 15 for 0.2 and 570 for 0.1 ([derived]),
  *    and n near 7e29 for 0.01;
- *  - the power family i^-1/2 tends to the positive limit 1 - 2^-1/2 for one ebit (math notes,
+ *  - the power family i^-1/2 tends to the positive limit 1 - 2^-1/2 for one ebit (docs/math.md
  *    section 5, [derived]), so a goal below it is never reached. */
 #include <check.h>
 #include <stdlib.h>
@@ -68,7 +68,7 @@ static void solve(embz_size_result_t r, const embz_family_t f, const char *eps_t
 
 START_TEST(test_inverse_published_sizes)
 {
-    /* math notes section 6 [derived]: 15 for 0.2, 570 for 0.1 (one ebit) */
+    /* docs/math.md section 6 [derived]: 15 for 0.2, 570 for 0.1 (one ebit) */
     const char *eps[2] = { "0.2", "0.1" };
     const slong want[2] = { 15, 570 };
     embz_family_t f;
@@ -139,7 +139,7 @@ END_TEST
 
 START_TEST(test_inverse_large_and_qubits)
 {
-    /* 0.01 for one ebit needs n near 7e29 (math notes section 6 [derived]); the exact search
+    /* 0.01 for one ebit needs n near 7e29 (docs/math.md section 6 [derived]); the exact search
      * and the qubit-resolution search agree on the number of qubits, and the exact n satisfies
      * the closed form: E_n <= 0.01 < E_(n-1), checked with arb's digamma (H_m = psi(m+1) +
      * gamma) independently of the engine */

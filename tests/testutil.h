@@ -41,7 +41,7 @@ static inline void tu_target_set(embz_target_t q, const char *spec)
 }
 
 /* E <- E_n(u_d) for the weights 1/i, exactly: 1 - (H_s + r/(d(s+1))) / H_n for n = d s + r,
- * 0 <= r < d (math notes, section 6, [derived]), with FLINT's harmonic numbers */
+ * 0 <= r < d (docs/math.md section 6, [derived]), with FLINT's harmonic numbers */
 static inline void tu_inverse_error_exact(fmpq_t E, ulong n, ulong d)
 {
     ulong s = n / d, r = n % d;

@@ -205,11 +205,11 @@ static void never_words(char *buf, size_t len, const arb_t limit, const embz_tar
 {
     char *l = embz_arb_certified_string(limit, 10);
     if (q->kind == EMBZ_TARGET_UNIFORM && q->d == 2)
-        snprintf(buf, len, "the error tends to the positive limit %s [derived: math notes "
+        snprintf(buf, len, "the error tends to the positive limit %s [derived: docs/math.md "
                            "section 5], above the goal", l);
     else
-        snprintf(buf, len, "the one-ebit error tends to the positive limit %s [derived: math "
-                           "notes section 5], above the goal, and this target is majorized by "
+        snprintf(buf, len, "the one-ebit error tends to the positive limit %s [derived: "
+                           "docs/math.md section 5], above the goal, and this target is majorized by "
                            "one ebit, so its error is never below the one-ebit error", l);
     free(l);
 }

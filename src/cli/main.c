@@ -28,7 +28,7 @@ static void print_main_help(FILE *out)
 {
     fprintf(out,
             "usage: embz COMMAND [options]\n"
-            "       embz COMMAND --help\n"
+            "       embz COMMAND --help     (or: embz help COMMAND)\n"
             "       embz --version\n"
             "\n"
             "Certified analysis of embezzling families of entangled states.\n"
