@@ -150,6 +150,18 @@ run size inverse --eps 0.1,; expect_rc 2 "trailing comma in --eps"; expect_err "
 # n = 1 has no size n - 1: no error is shown for it (E_1 = 1/2 for one ebit: K(p1 -> 1/2,1/2))
 run size inverse --eps 0.9; expect_rc 0 "size found at n = 1"
 expect_out "  E at n     0.5   (certified)   E at n-1  not applicable (n = 1 is the smallest size)" "n - 1 line at n = 1"
+# at huge n the two errors agree to ~30 digits: the enclosures are shown with enough digits to
+# tell them apart, each on its side of the goal
+run size inverse --eps 0.01; expect_rc 0 "size at 0.01"
+pycheck "the crossing shown at 0.01" '
+import sys, re
+from fractions import Fraction as F
+t = sys.stdin.read()
+m = re.search(r"E at n +in \[([0-9.e+-]+), ([0-9.e+-]+)\].*\n +E below +in \[([0-9.e+-]+), ([0-9.e+-]+)\]", t)
+assert m, t
+a, b, c, d = (F(x) for x in m.groups())
+assert a <= b <= F(1, 100) < c <= d, (a, b, c, d)
+'
 run size inverse --eps 0.9 --json; expect_rc 0 "size --json at n = 1"
 pycheck "no error at n - 1 for n = 1" 'import json, sys; g = json.load(sys.stdin)["goals"][0]; assert g["n"] == "1" and g["error_at_n_minus_1"] is None and g["error_at_n"] == ["0.5", "0.5"], g'
 run size inverse --eps 0.1 --json; expect_rc 0 "size --json at n > 1"

@@ -136,12 +136,37 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
         size_numbers(&l10, &qb, r);
         char *e = embz_arb_certified_string(r->err_n, 12);
         char *ep = embz_arb_certified_string(r->err_prev, 12);
+        /* at huge n, E at n and at the size below agree to about log10 n digits: then the
+         * enclosures are shown with enough digits to tell them apart */
+        char *crossing = NULL;
+        if (strcmp(e, ep) == 0 && !fmpz_is_one(r->n)) {
+            /* the first digits count that separates them, plus 8 (outward rounding of the
+             * ends would otherwise show the goal itself as an end) */
+            slong sep = 400;
+            for (slong d = 16; d < sep; d += 8) {
+                char *bb = embz_arb_hi_string(r->err_n, d), *c = embz_arb_lo_string(r->err_prev, d);
+                if (strcmp(bb, c) != 0) sep = d + 8;
+                free(bb); free(c);
+            }
+            {
+                slong d = sep;
+                char *a = embz_arb_lo_string(r->err_n, d), *bb = embz_arb_hi_string(r->err_n, d);
+                char *c = embz_arb_lo_string(r->err_prev, d), *dd = embz_arb_hi_string(r->err_prev, d);
+                crossing = embz_strdup_printf("  E at n     in [%s, %s]   (certified, <= goal)\n"
+                                                  "  E below    in [%s, %s]   (certified, > goal, "
+                                                  "at n_low)\n", a, bb, c, dd);
+                free(a); free(bb); free(c); free(dd);
+            }
+        }
         embz_buf_printf(b, "  n          %s%s\n", fmpz_sizeinbase(r->n, 10) > INT_DIGITS ? "~" : "", ns);
         embz_buf_printf(b, "  log10 n    %.4f\n", l10);
         embz_buf_printf(b, "  qubits     %ld per side (%s)\n", qb,
                         r->levels ? "ceil(log2 of the dimension, the sum of the counts)"
                                   : "ceil(log2 n)");
-        if (r->qubits_only && !r->exhaustive) {
+        if (crossing != NULL) {
+            embz_buf_printf(b, "%s", crossing);
+            free(crossing);
+        } else if (r->qubits_only && !r->exhaustive) {
             char *nl = embz_fmpz_string(r->n_low, INT_DIGITS);
             embz_buf_printf(b, "  E at n     %s   E at %s%s  %s   (certified)\n", e,
                             fmpz_sizeinbase(r->n_low, 10) > INT_DIGITS ? "~" : "", nl, ep);
