@@ -133,9 +133,16 @@ assert d["law"] == "log"
 e = d["exponent"]; assert e["lo"] <= e["value"] <= e["hi"] and abs(e["value"] - 1) < 0.05
 assert abs(d["coefficient"] / math.log(2) - 1) < 0.10
 assert d["limit"]["lo"] == 0 and 0 < d["limit"]["hi"] < 0.02
+assert d["limit"]["by_criterion"] is True and d["limit"]["certified"] is False
 assert d["asymptotic_form"] and isinstance(d["reasons"], list) and len(d["reasons"]) >= 3
 assert len(d["points"]) >= 5
 '
+# the limit 0 from the criterion is called so (as in the report), and the rate names the power
+# of ln x, not the family's parameter letter: logpower b = 1/2 has f ~ x^-1 (ln x)^(-1/2), so
+# E ~ C / (ln n)^(1/2) [docs/math.md section 5]
+run classify logpower --set b=1/2 --to 10^30 --points 8
+expect_out "rate       C / (ln n)^p, p = 1 + (the power of ln x in f) = 1/2" "classify: rate wording"
+expect_out "limit      0   (criterion of the analytic route" "classify: limit by criterion"
 run classify nearmiss --to 10^30 --points 8 --json
 expect_rc 0 "classify nearmiss"
 pycheck "classify nearmiss: not_embezzler by both routes, limit near 0.31" '

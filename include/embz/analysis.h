@@ -210,11 +210,13 @@ typedef struct {
      * from its 8-digit outward-rounded text. */
     double limit_lo, limit_hi, limit_value;
     int limit_certified;
+    int limit_by_criterion;      /* the limit 0 rests on the analytic route's criterion (docs/
+                                    math.md section 5), with which the numeric route agrees */
     int law;                     /* fitted law (EMBZ_LAW_*) */
     double exponent, exponent_lo, exponent_hi;
     double coeff;                /* fitted C */
     char asymptotic_form[160];   /* leading term of f from the asymptotic route, or "" */
-    char analytic_rate[128];     /* predicted rate class text, or "" */
+    char analytic_rate[160];     /* predicted rate class text, or "" */
     embz_classify_fact_struct facts[EMBZ_CLASSIFY_MAX_REASONS];  /* the reasons, in order */
     slong nfacts;
     embz_sweep_t sweep;          /* the sweep used */

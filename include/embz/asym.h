@@ -119,7 +119,7 @@ typedef struct {
     arb_t limit;
     int rate;                          /* EMBZ_ASYM_RATE_* */
     fmpq_t rate_exp;                   /* the exponent p of the rate class (1 when none) */
-    char rate_text[96];
+    char rate_text[160];
     char why[256];                     /* explanation when kind is UNKNOWN / verdict unknown */
     slong nterms, prec;                /* the attempt that decided */
 } embz_asym_result_struct;

@@ -169,6 +169,7 @@ def _verdict_fields(obj, row):
     obj.disagree = row["disagree"] == "1"
     obj.limit = (_num.num(row["limit_lo"]), _num.num(row["limit_hi"]))
     obj.limit_value = _num.num(row["limit_value"])
+    obj.limit_by_criterion = row.get("limit_by_criterion") == "1"
     obj.law = row["law"]
     obj.law_formula = row["law_formula"]
     obj.exponent = _num.num(row["exponent"])

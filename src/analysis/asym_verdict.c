@@ -108,7 +108,7 @@ static void borderline(embz_asym_result_struct *r)
             fmpq_init(bp);
             fmpq_add_si(bp, b, 1);
             qstr(s1, sizeof(s1), bp);
-            snprintf(r->rate_text, sizeof(r->rate_text), "(b+1) ln 2 / ln n, b+1 = %s", s1);
+            snprintf(r->rate_text, sizeof(r->rate_text), "(k+1) ln 2 / ln n, k+1 = %s (k: the power of ln x in f)", s1);
             fmpq_clear(bp);
         }
     } else if (fmpq_is_zero(b)) {
@@ -120,7 +120,7 @@ static void borderline(embz_asym_result_struct *r)
         fmpq_add_si(px, b, 1);
         fmpq_set(r->rate_exp, px);
         qstr(s1, sizeof(s1), px);
-        snprintf(r->rate_text, sizeof(r->rate_text), "C / (ln n)^p, p = b+1 = %s", s1);
+        snprintf(r->rate_text, sizeof(r->rate_text), "C / (ln n)^p, p = 1 + (the power of ln x in f) = %s", s1);
     } else if (cc > 0) {
         r->rate = EMBZ_ASYM_RATE_LOGLOG;
         fmpq_add_si(px, c, 1);
@@ -129,7 +129,7 @@ static void borderline(embz_asym_result_struct *r)
             snprintf(r->rate_text, sizeof(r->rate_text), "C / ln ln n");
         } else {
             qstr(s1, sizeof(s1), px);
-            snprintf(r->rate_text, sizeof(r->rate_text), "C / (ln ln n)^p, p = c+1 = %s", s1);
+            snprintf(r->rate_text, sizeof(r->rate_text), "C / (ln ln n)^p, p = 1 + (the power of ln ln x in f) = %s", s1);
         }
     } else {
         r->rate = EMBZ_ASYM_RATE_LOGLOGLOG;
@@ -142,7 +142,7 @@ static void borderline(embz_asym_result_struct *r)
             snprintf(r->rate_text, sizeof(r->rate_text), "C / ln ln ln n");
         } else {
             qstr(s1, sizeof(s1), px);
-            snprintf(r->rate_text, sizeof(r->rate_text), "C / (ln ln ln n)^p, p = d+1 = %s", s1);
+            snprintf(r->rate_text, sizeof(r->rate_text), "C / (ln ln ln n)^p, p = 1 + (the power of ln ln ln x in f) = %s", s1);
         }
     }
     fmpq_clear(px);

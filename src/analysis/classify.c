@@ -330,6 +330,8 @@ static void analytic_route(embz_classify_t c, const embz_family_t f, slong prec)
 static void settle_limit(embz_classify_t c)
 {
     if (c->verdict == EMBZ_VERDICT_EMBEZZLER) {
+        c->limit_by_criterion = c->analytic_available
+                                && c->analytic_verdict == EMBZ_VERDICT_EMBEZZLER;
         c->limit_value = 0;
         c->limit_lo = 0;
         if (!(c->limit_hi >= 0)) c->limit_hi = NAN;

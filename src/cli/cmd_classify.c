@@ -76,7 +76,9 @@ int cli_cmd_classify(int argc, char **argv)
         embz_buf_printf(&b, ", \"routes_disagree\": %s, \"limit\": {",
                         c->disagree ? "true" : "false");
         cli_buf_json_vlohi(&b, c->limit_value, c->limit_lo, c->limit_hi);
-        embz_buf_printf(&b, ", \"certified\": %s}", c->limit_certified ? "true" : "false");
+        embz_buf_printf(&b, ", \"certified\": %s, \"by_criterion\": %s}",
+                        c->limit_certified ? "true" : "false",
+                        c->limit_by_criterion ? "true" : "false");
         cli_buf_json_key_string(&b, "law", embz_law_id(c->law));
         cli_buf_json_key_string(&b, "law_formula", embz_law_formula(c->law));
         embz_buf_printf(&b, ", \"exponent\": {");
@@ -123,7 +125,12 @@ int cli_cmd_classify(int argc, char **argv)
             embz_buf_printf(&b, "rate       %s   (predicted, leading order)\n", c->analytic_rate);
         /* no nan on the screen: what was not computed is said in words */
         const char *kind = c->limit_certified ? "certified" : "estimate";
-        if (isfinite(c->limit_value) && isfinite(c->limit_lo) && isfinite(c->limit_hi))
+        if (c->limit_by_criterion && isfinite(c->limit_hi))
+            embz_buf_printf(&b, "limit      0   (criterion of the analytic route; the fit agrees: "
+                               "certified E_n <= %.8g at the largest size)\n", c->limit_hi);
+        else if (c->limit_by_criterion)
+            embz_buf_printf(&b, "limit      0   (criterion of the analytic route)\n");
+        else if (isfinite(c->limit_value) && isfinite(c->limit_lo) && isfinite(c->limit_hi))
             embz_buf_printf(&b, "limit      %.8g in [%.8g, %.8g]   (%s)\n", c->limit_value,
                             c->limit_lo, c->limit_hi, kind);
         else if (isfinite(c->limit_lo) && isfinite(c->limit_hi))

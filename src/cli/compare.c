@@ -300,8 +300,7 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o,
         char *l = embz_arb_certified_string(r->d.limit, 6);
         r->limit_text = embz_strdup_printf("%s (derived)", l);
         free(l);
-    } else if (c->verdict == EMBZ_VERDICT_EMBEZZLER && c->analytic_available
-               && c->analytic_verdict == EMBZ_VERDICT_EMBEZZLER) {
+    } else if (c->limit_by_criterion) {
         r->limit_text = sdup("0 (criterion)");
     } else if (isfinite(c->limit_value)) {
         r->limit_text = embz_strdup_printf("\xe2\x89\x88 %.4g (est.)", c->limit_value);

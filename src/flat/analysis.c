@@ -33,6 +33,7 @@ static void verdict_fields(embz_flat_table *t, long r, const embz_classify_struc
     _flat_set_d(t, r, "limit_hi", c->limit_hi);
     _flat_set_d(t, r, "limit_value", c->limit_value);
     _flat_set_l(t, r, "limit_certified", c->limit_certified);
+    _flat_set_l(t, r, "limit_by_criterion", c->limit_by_criterion);
     _flat_set(t, r, "law", embz_law_id(c->law));
     _flat_set(t, r, "law_formula", embz_law_formula(c->law));
     _flat_set_d(t, r, "exponent", c->exponent);
