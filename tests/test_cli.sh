@@ -395,5 +395,42 @@ expect_out "never" "uniform:3 never reaches 0.1"; expect_out "majorized by one e
 run size power --eps 0.1 --qubits --target 0.6,0.4 --json; expect_rc 0 "size 0.6,0.4"
 pycheck "(0.6, 0.4): not reached, no never" 'import json,sys; d=json.load(sys.stdin); g=d["goals"][0] if "goals" in d else d; s=json.dumps(d); sys.exit(0 if "\"never\"" not in s and "not_reached" in s else 1)'
 
+# CSV wherever a table is printed: classify, size and convert carry the same values as --json
+for args in "classify inverse --to 10^30 -k 8" "size inverse --eps 0.1,0.01,1e-300" \
+            "size power --eps 0.1" "convert 0.4,0.4,0.1,0.1 0.5,0.25,0.25"; do
+    # shellcheck disable=SC2086
+    run $args --csv; expect_rc 0 "$args --csv"
+    EMBZ_BIN="$EMBZ" EMBZ_ARGS="$args" pycheck "$args: --csv agrees with --json" '
+import csv, json, os, subprocess, sys
+rows = list(csv.DictReader(sys.stdin))
+cmd = [os.environ["EMBZ_BIN"]] + os.environ["EMBZ_ARGS"].split() + ["--json"]
+j = json.loads(subprocess.run(cmd, capture_output=True, text=True, check=True).stdout)
+head = [set(r) for r in rows]
+assert all(None not in r for r in rows), "ragged rows"
+if cmd[1] == "classify":
+    (r,) = rows
+    assert r["verdict"] == j["verdict"] and r["law"] == j["law"]
+    assert float(r["limit_hi"]) == j["limit"]["hi"] and r["limit_by_criterion"] == "1"
+    assert r["reasons"] == "; ".join(j["reasons"])
+elif cmd[1] == "size":
+    assert len(rows) == len(j["goals"])
+    for r, g in zip(rows, j["goals"]):
+        assert r["eps"] == g["eps"] and r["status"] == g["status"]
+        if g["status"] == "found":
+            assert r["n"] == g["n"] and int(r["qubits"]) == g["qubits"]
+            assert [r["error_lo"], r["error_hi"]] == g["error_at_n"]
+        else:
+            assert [r["error_largest_lo"], r["error_largest_hi"]] == g["error_at_largest"]
+            assert r["never"] == ("1" if g.get("never") else "0")
+else:
+    f, b = rows
+    assert f["K_exact"] == j["K_forward"]["exact"] and b["K_exact"] == j["K_backward"]["exact"]
+    assert int(f["argk"]) == j["K_forward"]["argk"] and f["convertible"] == str(int(j["convertible"]))
+    assert (f["F_max_lo"], f["F_max_hi"]) == (j["F_max_forward"]["lo"], j["F_max_forward"]["hi"])
+'
+done
+run classify inverse --json --csv; expect_rc 2 "classify --json --csv"
+run size inverse --eps 0.1 --json --csv; expect_rc 2 "size --json --csv"
+run convert 1 1 --json --csv; expect_rc 2 "convert --json --csv"
 echo "$((checks - fails)) passed, $fails failed"
 [ "$fails" -eq 0 ]

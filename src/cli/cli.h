@@ -166,6 +166,8 @@ void cli_buf_json_string_or_null(embz_buf_t *b, const char *text);
 void cli_buf_json_verdicts(embz_buf_t *b, const embz_classify_struct *c);
 /* n CSV fields, each followed by a comma */
 void cli_buf_csv_fields(embz_buf_t *b, const char *const *fields, int n);
+/* ",value" with 10 significant digits, or "," alone when x is not finite (not available) */
+void cli_buf_csv_num(embz_buf_t *b, double x);
 /* ==== shared command helpers ==== end ==== */
 
 /* ---- comparison of families (compare.c), shared by `report` and `demo` ---- */

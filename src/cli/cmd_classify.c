@@ -13,6 +13,7 @@ static const cli_opt_t classify_opts[] = {
     CLI_OPT_AMPLITUDE,
     { "numeric-only", 0, CLI_FLAG, NULL, "skip the analytic (asymptotic expansion) route" },
     CLI_OPT_JSON,
+    { "csv", 0, CLI_FLAG, NULL, "print a CSV header line and one row (the reasons joined by '; ')" },
     CLI_OPT_END
 };
 
@@ -45,6 +46,10 @@ int cli_cmd_classify(int argc, char **argv)
     embz_classify_opts_init(o);
     embz_err_clear(&err);
 
+    if (cli_flag(&a, "json") && cli_flag(&a, "csv")) {
+        code = cli_usage_error(&classify_spec, "--json and --csv exclude each other");
+        goto done;
+    }
     if ((code = cli_load_prec_upto(&prec, &a, &classify_spec, 1L << 16)) != 0
         || (code = cli_load_range(o->from, o->to, &points, 5, 100000, &a, &classify_spec)) != 0
         || (code = cli_load_family(fam, &a, a.pos[0], "classify")) != 0)
@@ -65,7 +70,45 @@ int cli_cmd_classify(int argc, char **argv)
 
     embz_buf_t b;
     embz_buf_init(&b);
-    if (cli_flag(&a, "json")) {
+    if (cli_flag(&a, "csv")) {
+        static const char *const head[] = {
+            "family", "weight", "verdict", "numeric_verdict", "analytic_verdict",
+            "routes_disagree", "limit", "limit_lo", "limit_hi", "limit_certified",
+            "limit_by_criterion", "law", "exponent", "exponent_lo", "exponent_hi",
+            "coefficient", "asymptotic_form", "analytic_rate", "reasons"
+        };
+        for (size_t k = 0; k < sizeof(head) / sizeof(head[0]); k++)
+            embz_buf_printf(&b, "%s%s", k ? "," : "", head[k]);
+        embz_buf_printf(&b, "\n");
+        cli_buf_csv_field(&b, fam->name);
+        embz_buf_printf(&b, ",");
+        cli_buf_csv_field(&b, fam->weight_text);
+        embz_buf_printf(&b, ",%s,%s,%s,%d", embz_verdict_id(c->verdict),
+                        embz_verdict_id(c->numeric_verdict),
+                        c->analytic_available ? embz_verdict_id(c->analytic_verdict) : "",
+                        c->disagree);
+        double lim[3] = { c->limit_value, c->limit_lo, c->limit_hi };
+        for (int k = 0; k < 3; k++) cli_buf_csv_num(&b, lim[k]);
+        embz_buf_printf(&b, ",%d,%d,%s", c->limit_certified, c->limit_by_criterion,
+                        embz_law_id(c->law));
+        double ex[4] = { c->exponent, c->exponent_lo, c->exponent_hi, c->coeff };
+        for (int k = 0; k < 4; k++) cli_buf_csv_num(&b, ex[k]);
+        embz_buf_printf(&b, ",");
+        cli_buf_csv_field(&b, c->asymptotic_form);
+        embz_buf_printf(&b, ",");
+        cli_buf_csv_field(&b, c->analytic_rate);
+        embz_buf_t rs;
+        embz_buf_init(&rs);
+        for (slong k = 0; k < c->nfacts; k++) {
+            char *t = embz_classify_fact_text(c->facts + k);
+            embz_buf_printf(&rs, "%s%s", k ? "; " : "", t);
+            free(t);
+        }
+        embz_buf_printf(&b, ",");
+        cli_buf_csv_field(&b, rs.s != NULL ? rs.s : "");
+        embz_buf_clear(&rs);
+        embz_buf_printf(&b, "\n");
+    } else if (cli_flag(&a, "json")) {
         embz_buf_printf(&b, "{\"family\": ");
         embz_buf_json_string(&b, fam->name);
         cli_buf_json_key_string(&b, "weight", fam->weight_text);

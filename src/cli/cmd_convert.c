@@ -8,6 +8,7 @@
 static const cli_opt_t convert_opts[] = {
     { "amplitude", 0, CLI_FLAG, NULL, "the numbers are Schmidt amplitudes (squared before use)" },
     CLI_OPT_JSON,
+    { "csv", 0, CLI_FLAG, NULL, "print a CSV header line and one row per direction" },
     CLI_OPT_END
 };
 
@@ -94,6 +95,21 @@ static void json_distance(embz_buf_t *out, const fmpq_t K, long argk)
 #define FID_PREC 256
 #define FID_DIGITS 30
 
+/* One direction as a CSV row: direction, convertible, K exact and decimal, argk, and the ends
+ * of F_max and P. */
+static void csv_direction(embz_buf_t *out, const char *dir, int conv, const fmpq_t K, long argk,
+                          const arb_t F, const arb_t P)
+{
+    char *ex = fmpq_get_str(NULL, 10, K);
+    char *dec = fmpq_decimal(K);
+    char *flo = embz_arb_lo_string(F, FID_DIGITS), *fhi = embz_arb_hi_string(F, FID_DIGITS);
+    char *plo = embz_arb_lo_string(P, FID_DIGITS), *phi = embz_arb_hi_string(P, FID_DIGITS);
+    embz_buf_printf(out, "%s,%d,%s,%s,%ld,%s,%s,%s,%s\n", dir, conv, ex, dec, argk, flo, fhi,
+                    plo, phi);
+    flint_free(ex);
+    free(dec); free(flo); free(fhi); free(plo); free(phi);
+}
+
 static void json_ball(embz_buf_t *out, const arb_t x)
 {
     char *lo = embz_arb_lo_string(x, FID_DIGITS), *hi = embz_arb_hi_string(x, FID_DIGITS);
@@ -137,7 +153,8 @@ int cli_cmd_convert(int argc, char **argv)
     cli_args_t a;
     int code;
     if (!cli_begin(&a, &convert_spec, argc, argv, &code)) return code;
-    int json = cli_flag(&a, "json"), amplitude = cli_flag(&a, "amplitude");
+    int json = cli_flag(&a, "json"), csv = cli_flag(&a, "csv");
+    int amplitude = cli_flag(&a, "amplitude");
     embz_err_t err;
     embz_qvec_t p, r;
     fmpq_t K1, K2;
@@ -147,6 +164,10 @@ int cli_cmd_convert(int argc, char **argv)
     embz_qvec_init(r);
     fmpq_init(K1);
     fmpq_init(K2);
+    if (json && csv) {
+        code = cli_usage_error(&convert_spec, "--json and --csv exclude each other");
+        goto done;
+    }
 
     /* FROM, then TO: the first bad one is reported */
     embz_qvec_struct *vecs[2] = { p, r };
@@ -175,7 +196,12 @@ int cli_cmd_convert(int argc, char **argv)
 
     embz_buf_t out;
     embz_buf_init(&out);
-    if (json) {
+    if (csv) {
+        embz_buf_printf(&out, "direction,convertible,K_exact,K_decimal,argk,F_max_lo,F_max_hi,"
+                        "P_lo,P_hi\n");
+        csv_direction(&out, "forward", fwd, K1, k1, F1, P1);
+        csv_direction(&out, "backward", bwd, K2, k2, F2, P2);
+    } else if (json) {
         embz_buf_printf(&out, "{\"from\": ");
         json_vector(&out, p);
         embz_buf_printf(&out, ", \"to\": ");

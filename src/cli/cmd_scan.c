@@ -33,13 +33,6 @@ static const cli_spec_t scan_spec = {
     scan_opts, 1, 1
 };
 
-/* ",value" with 10 significant digits, or "," alone when the value is not available */
-static void csv_num(embz_buf_t *b, double x)
-{
-    if (isfinite(x)) embz_buf_printf(b, ",%.10g", x);
-    else embz_buf_printf(b, ",");
-}
-
 int cli_cmd_scan(int argc, char **argv)
 {
     cli_args_t a;
@@ -203,10 +196,10 @@ int cli_cmd_scan(int argc, char **argv)
             embz_buf_printf(&b, ",%s,%s,%s", embz_verdict_id(c->verdict),
                             embz_verdict_id(c->numeric_verdict), av);
             double nums[3] = { c->limit_value, c->limit_lo, c->limit_hi };
-            for (int k = 0; k < 3; k++) csv_num(&b, nums[k]);
+            for (int k = 0; k < 3; k++) cli_buf_csv_num(&b, nums[k]);
             embz_buf_printf(&b, ",%s", embz_law_id(c->law));
             double ex[3] = { c->exponent, c->exponent_lo, c->exponent_hi };
-            for (int k = 0; k < 3; k++) csv_num(&b, ex[k]);
+            for (int k = 0; k < 3; k++) cli_buf_csv_num(&b, ex[k]);
             embz_buf_printf(&b, ",");
             cli_buf_csv_field(&b, c->asymptotic_form);
             embz_buf_printf(&b, ",");

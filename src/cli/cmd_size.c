@@ -13,6 +13,7 @@ static const cli_opt_t size_opts[] = {
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter" },
     CLI_OPT_AMPLITUDE,
     CLI_OPT_JSON,
+    { "csv", 0, CLI_FLAG, NULL, "print a CSV header line and one row per goal (and part)" },
     CLI_OPT_END
 };
 
@@ -122,6 +123,69 @@ static void json_result(embz_buf_t *b, const char *goal, const embz_size_result_
     method_words(how, sizeof(how), r);
     embz_buf_json_string(b, how);
     embz_buf_printf(b, "}");
+}
+
+static const char *const csv_head[] = {
+    "family", "target", "measure", "part", "eps", "status", "n", "log10_n", "qubits",
+    "error_lo", "error_hi", "n_low", "error_low_lo", "error_low_hi", "exhaustive",
+    "checked_below", "stay_samples", "stay_checked_to", "above_again_at", "largest",
+    "error_largest_lo", "error_largest_hi", "never", "explicit_only", "reach", "evaluations",
+    "method"
+};
+
+/* One solved goal as a CSV row (the columns of csv_head; empty where not applicable). */
+static void csv_result(embz_buf_t *b, const char *fam, const char *tgt, const char *measure,
+                       const char *part, const char *goal, const embz_size_result_t r, int never)
+{
+    const char *st = r->status == EMBZ_SIZE_FOUND ? "found"
+                   : r->status == EMBZ_SIZE_NOT_REACHED ? "not_reached" : "undecided";
+    cli_buf_csv_field(b, fam);
+    embz_buf_printf(b, ",");
+    cli_buf_csv_field(b, tgt);
+    embz_buf_printf(b, ",%s,%s,", measure, part);
+    cli_buf_csv_field(b, goal);
+    embz_buf_printf(b, ",%s", st);
+    if (r->status == EMBZ_SIZE_FOUND) {
+        char *ns = fmpz_get_str(NULL, 10, r->n), *nl = fmpz_get_str(NULL, 10, r->n_low);
+        char *to = fmpz_get_str(NULL, 10, r->stay_checked_to);
+        char *lo = embz_arb_lo_string(r->err_n, 30), *hi = embz_arb_hi_string(r->err_n, 30);
+        char *plo = embz_arb_lo_string(r->err_prev, 30), *phi = embz_arb_hi_string(r->err_prev, 30);
+        double l10;
+        long qb;
+        size_numbers(&l10, &qb, r);
+        embz_buf_printf(b, ",%s", ns);
+        cli_buf_csv_num(b, l10);
+        embz_buf_printf(b, ",%ld,%s,%s,%s", qb, lo, hi, nl);
+        if (fmpz_is_one(r->n)) embz_buf_printf(b, ",,");
+        else embz_buf_printf(b, ",%s,%s", plo, phi);
+        embz_buf_printf(b, ",%d,%ld,%ld,%s,", r->exhaustive, r->checked_below, r->stay_samples,
+                        to);
+        if (!fmpz_is_zero(r->again_above)) {
+            char *ag = fmpz_get_str(NULL, 10, r->again_above);
+            embz_buf_printf(b, "%s", ag);
+            flint_free(ag);
+        }
+        embz_buf_printf(b, ",,,");
+        flint_free(ns); flint_free(nl); flint_free(to);
+        free(lo); free(hi); free(plo); free(phi);
+    } else if (r->status == EMBZ_SIZE_NOT_REACHED) {
+        char *ls = fmpz_get_str(NULL, 10, r->largest);
+        char *lo = embz_arb_lo_string(r->err_largest, 30), *hi = embz_arb_hi_string(r->err_largest, 30);
+        embz_buf_printf(b, ",,,,,,,,,,,,,,%s,%s,%s", ls, lo, hi);
+        flint_free(ls);
+        free(lo); free(hi);
+    } else {
+        char *u = fmpz_get_str(NULL, 10, r->undecided_lo);
+        embz_buf_printf(b, ",%s,,,,,,,,,,,,,,,", u);
+        flint_free(u);
+    }
+    embz_buf_printf(b, ",%d,%d,", never, r->explicit_only);
+    if (r->explicit_only) embz_buf_printf(b, "%ld", (long) r->reach);
+    char how[128];
+    method_words(how, sizeof(how), r);
+    embz_buf_printf(b, ",%ld,", r->evaluations);
+    cli_buf_csv_field(b, how);
+    embz_buf_printf(b, "\n");
 }
 
 /* One solved goal as lines of text. */
@@ -254,12 +318,13 @@ int cli_cmd_size(int argc, char **argv)
     embz_target_init(q);
     embz_buf_init(&out);
     arb_init(limit);
-    int json = cli_flag(&a, "json");
+    int json = cli_flag(&a, "json"), csv = cli_flag(&a, "csv");
     const char *eps_text = cli_value(&a, "eps");
     const char *measure = cli_value(&a, "measure");
     int purified = 0;
     char *goals = NULL;
 
+    if (json && csv) { code = cli_usage_error(&size_spec, "--json and --csv exclude each other"); goto done; }
     if (eps_text == NULL) { code = cli_usage_error(&size_spec, "the error goal is required: --eps E"); goto done; }
     if (measure != NULL) {
         if (strcmp(measure, "purified") == 0) purified = 1;
@@ -274,7 +339,11 @@ int cli_cmd_size(int argc, char **argv)
 
     goals = malloc(strlen(eps_text) + 1);
     strcpy(goals, eps_text);
-    if (json) {
+    if (csv) {
+        for (size_t k = 0; k < sizeof(csv_head) / sizeof(csv_head[0]); k++)
+            embz_buf_printf(&out, "%s%s", k ? "," : "", csv_head[k]);
+        embz_buf_printf(&out, "\n");
+    } else if (json) {
         embz_buf_printf(&out, "{\"family\": ");
         embz_buf_json_string(&out, fam->name);
         embz_buf_printf(&out, ", \"target\": ");
@@ -371,7 +440,10 @@ int cli_cmd_size(int argc, char **argv)
                 limit_known = embz_family_ebit_limit(limit, fam, 128);
             int nev = embz_size_never(r, limit_known > 0, limit, q, g[part]);
             if (nev) never_words(reason, sizeof(reason), limit, q);
-            if (json) {
+            if (csv) {
+                csv_result(&out, fam->name, q->label, purified ? "purified" : "k",
+                           purified ? (part == 0 ? "lower" : "upper") : "", label, r, nev);
+            } else if (json) {
                 embz_buf_printf(&out, "%s", first ? "" : ", ");
                 json_result(&out, label, r);
                 if (nev) {

@@ -346,3 +346,9 @@ void cli_buf_csv_fields(embz_buf_t *b, const char *const *fields, int n)
         embz_buf_printf(b, ",");
     }
 }
+
+void cli_buf_csv_num(embz_buf_t *b, double x)
+{
+    if (isfinite(x)) embz_buf_printf(b, ",%.10g", x);
+    else embz_buf_printf(b, ",");
+}
