@@ -429,6 +429,14 @@ else:
     assert (f["F_max_lo"], f["F_max_hi"]) == (j["F_max_forward"]["lo"], j["F_max_forward"]["hi"])
 '
 done
+# plot's envelope offset is --envelope, as in report; the old --eps gives the same figure and a note
+run plot inverse --weights --to 10^4 -k 4 --envelope 0.2 -o -; expect_rc 0 "plot --envelope"
+env_svg=$out
+run plot inverse --weights --to 10^4 -k 4 --eps 0.2 -o -; expect_rc 0 "plot --eps (old name)"
+if [ "$out" = "$env_svg" ]; then ok; else fail "plot --eps and --envelope draw different figures"; fi
+expect_err "--eps is now --envelope" "plot --eps: the note"
+run plot inverse --weights --envelope 2 -o -; expect_rc 2 "plot --envelope out of range"
+expect_err "bad --envelope '2'" "plot --envelope: the message"
 run classify inverse --json --csv; expect_rc 2 "classify --json --csv"
 run size inverse --eps 0.1 --json --csv; expect_rc 2 "size --json --csv"
 run convert 1 1 --json --csv; expect_rc 2 "convert --json --csv"

@@ -14,7 +14,8 @@ static const cli_opt_t plot_opts[] = {
     { "points", 'k', CLI_VALUE, "K", "number of log-spaced sizes (default 12)" },
     { "target", 't', CLI_VALUE, "T", "target state: ebit (default), ebits:J, uniform:D, ..." },
     { "weights", 0, CLI_FLAG, NULL, "add a panel: weights against x^(-1-eps) and x^(-1+eps)" },
-    { "eps", 0, CLI_VALUE, "EPS", "exponent offset of the envelopes (default 0.1)" },
+    { "envelope", 0, CLI_VALUE, "EPS", "exponent offset of the weight envelopes (default 0.1)" },
+    { "eps", 0, CLI_VALUE, "EPS", "old name of --envelope (elsewhere --eps is an error goal)" },
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter of the families that have it" },
     { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 64)" },
     { "title", 0, CLI_VALUE, "TEXT", "title of the figure" },
@@ -124,7 +125,14 @@ int cli_cmd_plot(int argc, char **argv)
     embz_err_clear(&err);
     const char *out = cli_value(&a, "output");
     const char *format = cli_value(&a, "format");
-    const char *eps_text = cli_value(&a, "eps") ? cli_value(&a, "eps") : "0.1";
+    /* the envelope offset is --envelope, as in report; --eps (its old name) still works */
+    const char *eps_text = cli_value(&a, "envelope");
+    if (eps_text == NULL && cli_value(&a, "eps") != NULL) {
+        eps_text = cli_value(&a, "eps");
+        fprintf(stderr, "embz plot: note: --eps is now --envelope (the exponent offset of the "
+                        "weight envelopes); --eps means an error goal in size and report\n");
+    }
+    if (eps_text == NULL) eps_text = "0.1";
     long points = 12, prec = 64;
     double eps = 0.1;
     long nfam = a.npos;
@@ -171,7 +179,7 @@ int cli_cmd_plot(int argc, char **argv)
         char *end;
         eps = strtod(eps_text, &end);
         if (*end || !(eps > 0 && eps < 1)) {
-            code = cli_usage_error(&plot_spec, "bad --eps '%s' (a number between 0 and 1)",
+            code = cli_usage_error(&plot_spec, "bad --envelope '%s' (a number between 0 and 1)",
                                    eps_text);
             goto done;
         }
