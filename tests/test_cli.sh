@@ -429,6 +429,13 @@ else:
     assert (f["F_max_lo"], f["F_max_hi"]) == (j["F_max_forward"]["lo"], j["F_max_forward"]["hi"])
 '
 done
+# Euler's constant is 'euler'; the old name 'gamma' still works, with a note
+run error 'gamma/i' -n 10; expect_rc 0 "gamma, old name"
+expect_err "note: 'gamma' in gamma/i is Euler's constant" "gamma: the note"
+gamma_out=$out
+run error 'euler/i' -n 10; expect_rc 0 "euler"
+if [ -s "$TMP/err" ]; then fail "euler: unexpected stderr: $err"; else ok; fi
+if [ "${out#*n }" = "${gamma_out#*n }" ]; then ok; else fail "euler and gamma give different results"; fi
 # plot's envelope offset is --envelope, as in report; the old --eps gives the same figure and a note
 run plot inverse --weights --to 10^4 -k 4 --envelope 0.2 -o -; expect_rc 0 "plot --envelope"
 env_svg=$out

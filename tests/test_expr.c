@@ -499,7 +499,7 @@ START_TEST(test_roundtrip)
         {"-(i^2)", "-i^2"}, {"(-i)^2", "(-i)^2"}, {"i-(n-1)", "i - (n - 1)"},
         {"(i-n)-1", "i - n - 1"}, {"i/(n*2)", "i/(n*2)"}, {"2^(-1)", "2^-1"},
         {"1.50", "1.5"}, {"2.5E+4", "25000"}, {"1e-30", "1e-30"}, {"-(-i)", "--i"},
-        {"pow(pi, e)*gamma", "pi^e*gamma"}, {"min(i,n)+max(1,2)", "min(i, n) + max(1, 2)"},
+        {"pow(pi, e)*gamma", "pi^e*euler"}, {"euler/i", "euler/i"}, {"min(i,n)+max(1,2)", "min(i, n) + max(1, 2)"},
         {"i*(-n)", "i*-n"}, {"(i*n)*2", "i*n*2"}, {"i*(n*2)", "i*(n*2)"},
         {"-(i*n)", "-(i*n)"}, {"(-i)*n", "-i*n"}, {"2^-(i+1)", "2^-(i + 1)"},
     };
@@ -682,6 +682,17 @@ START_TEST(test_arb_values)
     parse_ok(e, "gamma");                           /* 0.5772156649015328606 [memory] */
     ck_assert_int_eq(eval_at(r, e, 1, 1, 128), EMBZ_OK);
     ck_assert(fabs(arf_get_d(arb_midref(r), ARF_RND_NEAR) - 0.5772156649015328606) < 1e-16);
+    ck_assert_int_eq(e->notes, EMBZ_EXPR_NOTE_OLD_GAMMA);   /* the old name, noted */
+    parse_ok(e, "euler");                           /* the same constant under its name */
+    ck_assert_int_eq(eval_at(r, e, 1, 1, 128), EMBZ_OK);
+    ck_assert(fabs(arf_get_d(arb_midref(r), ARF_RND_NEAR) - 0.5772156649015328606) < 1e-16);
+    ck_assert_int_eq(e->notes, 0);
+    {
+        embz_err_t pe;
+        ck_assert_int_eq(embz_expr_parse(e, "2*gamma (i)", NULL, 0, &pe), EMBZ_ERR_INPUT);
+        ck_assert_int_eq(pe.col, 3);
+        ck_assert(strstr(pe.text, "exp(lgamma(x))") != NULL);
+    }
     parse_ok(e, "sqrt(i)*sqrt(i) - i + exp(log(n)) - n");
     ck_assert_int_eq(eval_at(r, e, 7, 13, 128), EMBZ_OK);
     ck_assert(arb_contains_zero(r));

@@ -40,7 +40,13 @@ typedef struct {
     int root;             /* -1 for an empty expression */
     char **params;        /* parameter names (owned) */
     long nparams;
+    int notes;            /* EMBZ_EXPR_NOTE_* bits set by the parser: accepted, but worth a
+                             word to the user */
 } embz_expr_struct;
+
+/* The text used 'gamma' for Euler's constant: the name is kept for old family files, 'euler'
+ * is the one to write (the Gamma function is exp(lgamma(x))). */
+#define EMBZ_EXPR_NOTE_OLD_GAMMA 1
 typedef embz_expr_struct embz_expr_t[1];
 
 void embz_expr_init(embz_expr_t e);

@@ -76,6 +76,12 @@ int cli_load_family(embz_family_t fam, const cli_args_t *a, const char *spec_tex
         else code = cli_check_settings_used(fam, s.v, s.len, "--set", cmd);
     }
     cli_settings_clear(&s);
+    if (code == CLI_EXIT_OK
+        && ((fam->raw->notes | fam->count_raw->notes | fam->first_raw->notes
+             | fam->last_raw->notes) & EMBZ_EXPR_NOTE_OLD_GAMMA))
+        fprintf(stderr, "embz %s: note: 'gamma' in %s is Euler's constant 0.5772...; write "
+                        "'euler' (the old name still works; the Gamma function is "
+                        "exp(lgamma(x)))\n", cmd, fam->name);
     return code;
 }
 

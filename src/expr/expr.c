@@ -11,6 +11,7 @@ void embz_expr_init(embz_expr_t e)
     e->root = -1;
     e->params = NULL;
     e->nparams = 0;
+    e->notes = 0;
 }
 
 void embz_expr_clear(embz_expr_t e)
@@ -57,6 +58,7 @@ void embz_expr_set(embz_expr_t dst, const embz_expr_t src)
         fmpq_set(dst->nodes[j].num, s->num);
     }
     dst->root = src->root;
+    dst->notes = src->notes;
     if (src->nparams > 0) {
         dst->params = malloc((size_t) src->nparams * sizeof(char *));
         if (dst->params == NULL) abort();
@@ -243,7 +245,7 @@ const char *_embz_op_name(int op)
     switch (op) {
     case EMBZ_OP_PI: return "pi";
     case EMBZ_OP_E: return "e";
-    case EMBZ_OP_GAMMA: return "gamma";
+    case EMBZ_OP_GAMMA: return "euler";
     case EMBZ_OP_LOG: return "log";
     case EMBZ_OP_LOG2: return "log2";
     case EMBZ_OP_LOG10: return "log10";

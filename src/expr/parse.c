@@ -293,7 +293,7 @@ static const struct { const char *name; int op; int nargs; } functions[] = {
 };
 static const struct { const char *name; int op; } names[] = {
     {"i", EMBZ_OP_I}, {"n", EMBZ_OP_N}, {"pi", EMBZ_OP_PI}, {"e", EMBZ_OP_E},
-    {"gamma", EMBZ_OP_GAMMA},
+    {"euler", EMBZ_OP_GAMMA}, {"gamma", EMBZ_OP_GAMMA},
 };
 
 static int tok_is(const parser_t *P, const char *w)
@@ -381,6 +381,16 @@ static int parse_primary(parser_t *P)
         }
         for (size_t v = 0; v < sizeof(names) / sizeof(names[0]); v++) {
             if (tok_is(P, names[v].name)) {
+                if (tok_is(P, "gamma")) {
+                    /* Euler's constant under its old name; never the Gamma function */
+                    long p = t.end;
+                    while (p < P->len && isspace((unsigned char) P->s[p])) p++;
+                    if (p < P->len && P->s[p] == '(')
+                        return fail(P, t.start + 1, "%s", "'gamma' is not a function here: for "
+                                    "the Gamma function write exp(lgamma(x)); Euler's "
+                                    "constant is 'euler'");
+                    P->e->notes |= EMBZ_EXPR_NOTE_OLD_GAMMA;
+                }
                 next(P);
                 return node(P, names[v].op, -1, -1, t.start + 1);
             }
