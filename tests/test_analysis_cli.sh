@@ -167,7 +167,13 @@ run classify inverse --points 2
 expect_rc 2 "classify: too few points"
 
 # ---- scan: shards concatenate to the full scan
+run scan power --grid a=-1.5..-0.5,count=5 --to 10^20 --points 8
+new_form=$out
+if [ -s "$TMP/err" ]; then fail "scan, new grid form: unexpected stderr: $err"; else ok; fi
 run scan power --grid a=-1.5:-0.5:5 --to 10^20 --points 8
+if [ "$out" = "$new_form" ]; then ok; else fail "scan: the old and new grid forms differ"; fi
+expect_err "note: --grid a=-1.5:-0.5:5 is the old form" "scan: note on the old grid form"
+expect_err "write --grid a=-1.5..-0.5,count=5" "scan: the note gives the new form"
 expect_rc 0 "scan full"
 cp "$TMP/out" "$TMP/full.csv"
 : > "$TMP/cat.csv"

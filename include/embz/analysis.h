@@ -251,9 +251,13 @@ typedef struct {
     char *name;                  /* parameter name */
     fmpq_t lo, hi;               /* inclusive range */
     slong count;                 /* number of values, >= 1 */
+    int old_form;                /* written LO:HI:COUNT (still read; callers say so) */
 } embz_grid_axis_struct;
 
-/* Parse "NAME=LO:HI:COUNT" (LO, HI exact decimals or p/q; COUNT >= 1; COUNT = 1 uses LO). Returns EMBZ_OK or EMBZ_ERR_INPUT with a message. axis must be cleared with
+/* Parse "NAME=LO..HI,count=COUNT": COUNT values from LO to HI, both ends included (LO, HI
+ * exact decimals or p/q; COUNT >= 1; COUNT = 1 uses LO). The older "NAME=LO:HI:COUNT" (which
+ * reads as start:step:stop to users of matrix languages) is still read, with old_form set.
+ * Returns EMBZ_OK or EMBZ_ERR_INPUT with a message. axis must be cleared with
  * embz_grid_axis_clear. */
 int embz_grid_axis_parse(embz_grid_axis_struct *axis, const char *text, embz_err_t *err);
 void embz_grid_axis_clear(embz_grid_axis_struct *axis);

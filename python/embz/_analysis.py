@@ -285,14 +285,14 @@ def _axis_text(name, spec):
     if isinstance(spec, str):
         return "%s=%s" % (name, spec)
     lo, hi, count = spec
-    return "%s=%s:%s:%d" % (name, _num.number_text(lo), _num.number_text(hi), int(count))
+    return "%s=%s..%s,count=%d" % (name, _num.number_text(lo), _num.number_text(hi), int(count))
 
 
 def scan(family, grid, *, start=None, stop=None, points=None, prec=None, threads=None,
          amplitude=False, params=None, **parameters):
     """Verdicts over a parameter grid (``embz scan``). grid: a dict {name: (lo, hi, count)}
-    or {name: 'lo:hi:count'}, or a list of 'name=lo:hi:count' texts. A
-    :class:`ScanResult`; runs to its end."""
+    or {name: 'lo..hi,count=N'}, or a list of 'name=lo..hi,count=N' texts (count values
+    from lo to hi, both ends included). A :class:`ScanResult`; runs to its end."""
     fam = as_family(family, params, amplitude, **parameters)
     if isinstance(grid, dict):
         axes = [_axis_text(k, v) for k, v in grid.items()]

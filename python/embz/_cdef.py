@@ -114,7 +114,7 @@ int embz_flat_sweep(embz_flat_table **out, const embz_flat_family *f, const char
 int embz_flat_classify(embz_flat_table **out, const embz_flat_family *f, const char *from,
                        const char *to, long points, const embz_flat_opts *o,
                        embz_flat_err *err);
-/* Verdicts over a grid (embz scan): axes[k] = "NAME=LO:HI:COUNT". One row per grid point:
+/* Verdicts over a grid (embz scan): axes[k] = "NAME=LO..HI,count=COUNT". One row per grid point:
  * index, param:NAME (exact), status, message, verdict, law, exponent, limit_lo, limit_hi. */
 int embz_flat_scan(embz_flat_table **out, const embz_flat_family *f, const char *const *axes,
                    long naxes, const char *from, const char *to, long points,

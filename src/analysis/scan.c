@@ -7,6 +7,8 @@
 #include <omp.h>
 #endif
 
+#define GRID_FORM "NAME=LO..HI,count=COUNT, e.g. a=-1.5..-0.5,count=21"
+
 int embz_grid_axis_parse(embz_grid_axis_struct *axis, const char *text, embz_err_t *err)
 {
     memset(axis, 0, sizeof(*axis));
@@ -14,31 +16,47 @@ int embz_grid_axis_parse(embz_grid_axis_struct *axis, const char *text, embz_err
     fmpq_init(axis->hi);
     const char *eq = strchr(text, '=');
     if (eq == NULL || eq == text)
-        return embz_err_set(err, EMBZ_ERR_INPUT,
-                            "grid '%s': expected NAME=LO:HI:COUNT, e.g. a=-1.5:-0.5:21", text);
+        return embz_err_set(err, EMBZ_ERR_INPUT, "grid '%s': expected " GRID_FORM, text);
     size_t nl = (size_t) (eq - text);
     axis->name = malloc(nl + 1);
     memcpy(axis->name, text, nl);
     axis->name[nl] = '\0';
     char buf[256];
     snprintf(buf, sizeof(buf), "%s", eq + 1);
-    char *c1 = strchr(buf, ':');
-    char *c2 = c1 ? strchr(c1 + 1, ':') : NULL;
-    if (c1 == NULL || c2 == NULL)
-        return embz_err_set(err, EMBZ_ERR_INPUT,
-                            "grid '%s': expected NAME=LO:HI:COUNT, e.g. a=-1.5:-0.5:21", text);
-    *c1 = '\0';
-    *c2 = '\0';
+    char *hi, *cnt;
+    char *dots = strstr(buf, "..");
+    if (dots != NULL) {
+        /* LO..HI,count=COUNT */
+        char *comma = strchr(dots + 2, ',');
+        if (comma == NULL || strncmp(comma + 1, "count=", 6) != 0)
+            return embz_err_set(err, EMBZ_ERR_INPUT, "grid '%s': expected " GRID_FORM
+                                " (the number of values is required)", text);
+        *dots = '\0';
+        *comma = '\0';
+        hi = dots + 2;
+        cnt = comma + 7;
+    } else {
+        /* the older LO:HI:COUNT */
+        char *c1 = strchr(buf, ':');
+        char *c2 = c1 ? strchr(c1 + 1, ':') : NULL;
+        if (c1 == NULL || c2 == NULL)
+            return embz_err_set(err, EMBZ_ERR_INPUT, "grid '%s': expected " GRID_FORM, text);
+        *c1 = '\0';
+        *c2 = '\0';
+        hi = c1 + 1;
+        cnt = c2 + 1;
+        axis->old_form = 1;
+    }
     if (embz_number_parse(axis->lo, buf) != EMBZ_OK)
         return embz_err_set(err, EMBZ_ERR_INPUT, "grid '%s': bad lower end '%s'", text, buf);
-    if (embz_number_parse(axis->hi, c1 + 1) != EMBZ_OK)
-        return embz_err_set(err, EMBZ_ERR_INPUT, "grid '%s': bad upper end '%s'", text, c1 + 1);
+    if (embz_number_parse(axis->hi, hi) != EMBZ_OK)
+        return embz_err_set(err, EMBZ_ERR_INPUT, "grid '%s': bad upper end '%s'", text, hi);
     char *end;
-    long cnt = strtol(c2 + 1, &end, 10);
-    if (end == c2 + 1 || *end != '\0' || cnt < 1 || cnt > 1000000)
+    long c = strtol(cnt, &end, 10);
+    if (end == cnt || *end != '\0' || c < 1 || c > 1000000)
         return embz_err_set(err, EMBZ_ERR_INPUT,
                             "grid '%s': the count must be a whole number from 1 to 1000000", text);
-    axis->count = cnt;
+    axis->count = c;
     return EMBZ_OK;
 }
 

@@ -168,6 +168,8 @@ void cli_buf_json_verdicts(embz_buf_t *b, const embz_classify_struct *c);
 void cli_buf_csv_fields(embz_buf_t *b, const char *const *fields, int n);
 /* ",value" with 10 significant digits, or "," alone when x is not finite (not available) */
 void cli_buf_csv_num(embz_buf_t *b, double x);
+/* A note on stderr when a --grid axis was written in the old LO:HI:COUNT form. */
+void cli_note_old_grid(const char *cmd, const char *text, const embz_grid_axis_struct *axis);
 /* ==== shared command helpers ==== end ==== */
 
 /* ---- comparison of families (compare.c), shared by `report` and `demo` ---- */

@@ -17,7 +17,7 @@ static const cli_opt_t report_opts[] = {
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter of the families that have it" },
     { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 64)" },
     { "envelope", 0, CLI_VALUE, "EPS", "exponent offset of the weight envelopes (default 0.1)" },
-    { "grid", 'g', CLI_LIST, "NAME=LO:HI:COUNT", "add a verdict map over a parameter grid (at most two)" },
+    { "grid", 'g', CLI_LIST, "NAME=LO..HI,count=COUNT", "add a verdict map over a parameter grid (at most two)" },
     { "threads", 'j', CLI_VALUE, "T", "families computed at once (default: the processors)" },
     { "title", 0, CLI_VALUE, "TEXT", "title of the document" },
     { "quiet", 'q', CLI_FLAG, NULL, "no progress lines on stderr" },
@@ -33,7 +33,7 @@ static const cli_spec_t report_spec = {
     "Formats: html (one self-contained file, figures as inline SVG), md (Markdown), tex (a\n"
     "LaTeX table with booktabs rules) and pdf. Every error value is certified; laws,\n"
     "exponents and fitted limits are estimates and say so. The size columns use the\n"
-    "qubit-resolution search (see 'embz size --qubits'). --grid NAME=LO:HI:COUNT (once or\n"
+    "qubit-resolution search (see 'embz size --qubits'). --grid NAME=LO..HI,count=COUNT (once or\n"
     "twice) classifies every family that has the parameter(s) over the grid, as 'embz scan'\n"
     "does.\n"
     "Output: -o - (or /dev/stdout) streams the document to standard output (html unless\n"
@@ -315,6 +315,7 @@ int cli_cmd_report(int argc, char **argv)
             code = cli_report("report", status, &err);
             goto done;
         }
+        cli_note_old_grid("report", grids[k], axes + k);
         naxes++;
     }
 

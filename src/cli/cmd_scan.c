@@ -1,11 +1,11 @@
-/* embz scan FAMILY --grid NAME=LO:HI:COUNT: the verdict over a parameter grid. */
+/* embz scan FAMILY --grid NAME=LO..HI,count=COUNT: the verdict over a parameter grid. */
 #include <stdlib.h>
 #include <string.h>
 #include <math.h>
 #include "cli.h"
 
 static const cli_opt_t scan_opts[] = {
-    { "grid", 'g', CLI_LIST, "NAME=LO:HI:COUNT",
+    { "grid", 'g', CLI_LIST, "NAME=LO..HI,count=COUNT",
       "scan parameter NAME over COUNT equally spaced values from LO to HI" },
     { "shard", 0, CLI_VALUE, "I/N", "compute only block I of N (1 <= I <= N) of the grid" },
     { "threads", 'j', CLI_VALUE, "T", "worker threads (OpenMP; default 1)" },
@@ -23,7 +23,7 @@ static const cli_opt_t scan_opts[] = {
 };
 
 static const cli_spec_t scan_spec = {
-    "scan", "FAMILY --grid NAME=LO:HI:COUNT",
+    "scan", "FAMILY --grid NAME=LO..HI,count=COUNT",
     "Classify the family at every point of a parameter grid: verdict, limit and decay law.",
     "Several --grid options span a product grid (the first axis varies slowest). Every row\n"
     "carries its index in the full grid. With --shard I/N only the I-th of N contiguous\n"
@@ -62,7 +62,7 @@ int cli_cmd_scan(int argc, char **argv)
         goto done;
     }
     if (ngrid == 0) {
-        code = cli_usage_error(&scan_spec, "at least one --grid NAME=LO:HI:COUNT is required");
+        code = cli_usage_error(&scan_spec, "at least one --grid NAME=LO..HI,count=COUNT is required");
         goto done;
     }
     if ((code = cli_load_prec_upto(&prec, &a, &scan_spec, 1L << 16)) != 0) goto done;
@@ -98,6 +98,7 @@ int cli_cmd_scan(int argc, char **argv)
             code = cli_report("scan", status, &err);
             goto done;
         }
+        cli_note_old_grid("scan", grids[k], axes + k);
     }
     if ((code = cli_settings_load(&set, &a, "scan")) != 0) goto done;
     /* a scanned parameter takes the grid's values: a fixed value for it would be ignored */

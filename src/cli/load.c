@@ -167,3 +167,23 @@ int cli_check_output(const char *path, const char *cmd)
     int st = embz_output_check(path, &err);
     return st == EMBZ_OK ? CLI_EXIT_OK : cli_report(cmd, st, &err);
 }
+
+void cli_note_old_grid(const char *cmd, const char *text, const embz_grid_axis_struct *axis)
+{
+    if (!axis->old_form) return;
+    /* the same grid in the form to write: the first ':' becomes '..', the second ',count=' */
+    char now[300];
+    size_t j = 0;
+    int colons = 0;
+    for (const char *p = text; *p != '\0' && j + 8 < sizeof(now); p++) {
+        if (*p == ':' && colons < 2) {
+            const char *w = colons++ == 0 ? ".." : ",count=";
+            while (*w != '\0') now[j++] = *w++;
+        } else {
+            now[j++] = *p;
+        }
+    }
+    now[j] = '\0';
+    fprintf(stderr, "embz %s: note: --grid %s is the old form (LO:HI:COUNT reads as "
+                    "start:step:stop in matrix languages); write --grid %s\n", cmd, text, now);
+}
