@@ -17,7 +17,7 @@
 typedef struct { double r, g, b; } embz_rgb_t;
 
 /* Number of colours in the series palette. */
-#define EMBZ_PLOT_NCOLOURS 6
+#define EMBZ_PLOT_NCOLOURS 12
 /* Special colour indices besides 0 .. EMBZ_PLOT_NCOLOURS-1 (which cycle for larger k). */
 #define EMBZ_PLOT_GREY (-1)      /* reference lines, envelopes */
 #define EMBZ_PLOT_LIGHT (-2)     /* light grey: "no answer" cells */

@@ -7,8 +7,8 @@
 
 /* The series palette. Chosen by us for readers with red-green colour vision deficiency: the
  * colours differ in lightness and along the blue-yellow axis, which dichromats keep. In a
- * simulation of protanopia and deuteranopia every pair stays at least about 18 CIELAB units
- * apart (tests/test_render.c checks this). Markers and dash patterns differ as well, so no
+ * simulation of protanopia and deuteranopia every pair of the 12 stays at least about 18 CIELAB
+ * units apart (tests/test_render.c checks this). Markers and dash patterns differ as well, so no
  * series is told apart by colour alone. */
 static const embz_rgb_t palette[EMBZ_PLOT_NCOLOURS] = {
     { 0x1b / 255.0, 0x4f / 255.0, 0x9c / 255.0 },   /* deep blue */
@@ -17,6 +17,15 @@ static const embz_rgb_t palette[EMBZ_PLOT_NCOLOURS] = {
     { 0x6e / 255.0, 0x5a / 255.0, 0x1e / 255.0 },   /* dark olive */
     { 0x2a / 255.0, 0x7a / 255.0, 0x6a / 255.0 },   /* teal */
     { 0xd4 / 255.0, 0x77 / 255.0, 0xa8 / 255.0 },   /* rose */
+    /* six more, for reports of up to 12 families (each picked in turn as the candidate of
+     * lightness 28..72 and chroma <= 60 farthest, in the worst of the three views, from the
+     * colours before it) */
+    { 0x99 / 255.0, 0xbb / 255.0, 0x77 / 255.0 },   /* sage */
+    { 0x00 / 255.0, 0x99 / 255.0, 0xff / 255.0 },   /* azure */
+    { 0x33 / 255.0, 0x44 / 255.0, 0x66 / 255.0 },   /* slate */
+    { 0x88 / 255.0, 0x00 / 255.0, 0x33 / 255.0 },   /* wine */
+    { 0xbb / 255.0, 0xaa / 255.0, 0x99 / 255.0 },   /* taupe */
+    { 0x66 / 255.0, 0x88 / 255.0, 0x55 / 255.0 },   /* moss */
 };
 
 embz_rgb_t embz_plot_colour(long k)

@@ -331,7 +331,7 @@ static void html_para(embz_buf_t *b, const char *s)
 }
 
 static const char html_css[] =
-    "body{margin:0;background:#fbfbf9;color:#1f2328;"
+    "body{margin:0;background:#fbfbf9;color:#24272f;"
     "font:15px/1.55 'DejaVu Sans',Verdana,sans-serif}\n"
     "main{max-width:1120px;margin:0 auto;padding:26px 28px 40px}\n"
     "h1{font-size:23px;margin:0 0 2px;font-weight:700}\n"
