@@ -68,6 +68,8 @@ int embz_family_depends_on_n(const embz_family_t f);
 /* g <- a deep copy of f (g initialised). */
 void embz_family_set(embz_family_t g, const embz_family_t f);
 /* 1 for a level family (EMBZ_FAMILY_LEVELS). */
+/* "name (a=1/2, b=2)": the family's name and its parameter values, malloc'ed. */
+char *embz_family_label(const embz_family_t f);
 int embz_family_is_levels(const embz_family_t f);
 
 /* Set parameters from NAME=VALUE settings (VALUE an exact decimal or p/q) and rebind

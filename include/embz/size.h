@@ -48,6 +48,9 @@ typedef struct {
 } embz_size_result_struct;
 typedef embz_size_result_struct embz_size_result_t[1];
 
+/* "found", "not_reached" or "undecided" (the id machine-readable outputs use). */
+const char *embz_size_status_id(int status);
+
 void embz_size_result_init(embz_size_result_t r);
 void embz_size_result_clear(embz_size_result_t r);
 

@@ -78,6 +78,12 @@ static int exact_error(fmpq_t E, const sctx *c, const fmpz_t n)
     return ok;
 }
 
+const char *embz_size_status_id(int status)
+{
+    return status == EMBZ_SIZE_FOUND ? "found"
+         : status == EMBZ_SIZE_NOT_REACHED ? "not_reached" : "undecided";
+}
+
 void embz_size_result_init(embz_size_result_t r)
 {
     memset(r, 0, sizeof(*r));

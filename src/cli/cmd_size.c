@@ -62,8 +62,7 @@ static void json_result(embz_buf_t *b, const char *goal, const embz_size_result_
 {
     embz_buf_printf(b, "{\"eps\": ");
     embz_buf_json_string(b, goal);
-    const char *st = r->status == EMBZ_SIZE_FOUND ? "found"
-                   : r->status == EMBZ_SIZE_NOT_REACHED ? "not_reached" : "undecided";
+    const char *st = embz_size_status_id(r->status);
     embz_buf_printf(b, ", \"status\": \"%s\"", st);
     if (r->status == EMBZ_SIZE_FOUND) {
         char *ns = fmpz_get_str(NULL, 10, r->n);
@@ -137,8 +136,7 @@ static const char *const csv_head[] = {
 static void csv_result(embz_buf_t *b, const char *fam, const char *tgt, const char *measure,
                        const char *part, const char *goal, const embz_size_result_t r, int never)
 {
-    const char *st = r->status == EMBZ_SIZE_FOUND ? "found"
-                   : r->status == EMBZ_SIZE_NOT_REACHED ? "not_reached" : "undecided";
+    const char *st = embz_size_status_id(r->status);
     cli_buf_csv_field(b, fam);
     embz_buf_printf(b, ",");
     cli_buf_csv_field(b, tgt);

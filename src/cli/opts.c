@@ -277,16 +277,7 @@ char *cli_strdup(const char *s)
 
 char *cli_family_label(const embz_family_struct *f)
 {
-    embz_buf_t b;
-    embz_buf_init(&b);
-    embz_buf_printf(&b, "%s", f->name);
-    for (long k = 0; k < f->nparams; k++) {
-        char *v = fmpq_get_str(NULL, 10, f->param_values + k);
-        embz_buf_printf(&b, "%s%s=%s", k ? ", " : " (", f->param_names[k], v);
-        flint_free(v);
-    }
-    if (f->nparams > 0) embz_buf_printf(&b, ")");
-    return b.s;
+    return embz_family_label(f);
 }
 
 void cli_buf_json_params(embz_buf_t *b, const embz_family_struct *f)

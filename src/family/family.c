@@ -2,6 +2,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include "family_internal.h"
+#include "embz/util.h"
 
 char *_embz_family_strdup(const char *s)
 {
@@ -224,4 +225,18 @@ int embz_setting_split(embz_setting_t *s, char *text, embz_err_t *err)
 int embz_family_depends_on_n(const embz_family_t f)
 {
     return (embz_expr_uses(f->weight) & EMBZ_USES_N) != 0;
+}
+
+char *embz_family_label(const embz_family_t f)
+{
+    embz_buf_t b;
+    embz_buf_init(&b);
+    embz_buf_printf(&b, "%s", f->name);
+    for (long k = 0; k < f->nparams; k++) {
+        char *v = fmpq_get_str(NULL, 10, f->param_values + k);
+        embz_buf_printf(&b, "%s%s=%s", k ? ", " : " (", f->param_names[k], v);
+        flint_free(v);
+    }
+    if (f->nparams > 0) embz_buf_printf(&b, ")");
+    return b.s;
 }

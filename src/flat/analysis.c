@@ -137,12 +137,6 @@ int embz_flat_scan(embz_flat_table **out, const embz_flat_family *f, const char 
     return st;
 }
 
-static const char *size_status(int s)
-{
-    return s == EMBZ_SIZE_FOUND ? "found" : s == EMBZ_SIZE_NOT_REACHED ? "not_reached"
-                                                                       : "undecided";
-}
-
 int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char *eps,
                    const embz_flat_target *q, int qubits_only, const embz_flat_opts *given,
                    embz_flat_err *err)
@@ -173,7 +167,7 @@ int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char 
     else {
         embz_flat_table *t = _flat_table_new();
         long row = _flat_row_add(t);
-        _flat_set(t, row, "status", size_status(r->status));
+        _flat_set(t, row, "status", embz_size_status_id(r->status));
         _flat_set(t, row, "eps", eps);
         _flat_set(t, row, "target", tq->label);
         _flat_set_l(t, row, "qubits_only", r->qubits_only);

@@ -72,18 +72,10 @@ void embz_flat_family_free(embz_flat_family *f)
 
 static void family_row(embz_flat_table *t, long r, const embz_family_struct *f)
 {
-    embz_buf_t b;
-    embz_buf_init(&b);
-    embz_buf_printf(&b, "%s", f->name);
-    for (long k = 0; k < f->nparams; k++) {
-        char *v = fmpq_get_str(NULL, 10, f->param_values + k);
-        embz_buf_printf(&b, "%s%s=%s", k ? ", " : " (", f->param_names[k], v);
-        flint_free(v);
-    }
-    if (f->nparams > 0) embz_buf_printf(&b, ")");
+    char *label = embz_family_label(f);
     _flat_set(t, r, "name", f->name);
-    _flat_set(t, r, "label", b.s);
-    embz_buf_clear(&b);
+    _flat_set(t, r, "label", label);
+    free(label);
     _flat_set(t, r, "description", f->description ? f->description : "");
     _flat_set(t, r, "weight_text", f->weight_text ? f->weight_text : "");
     char *w = embz_expr_to_string(f->weight);
