@@ -11,6 +11,7 @@
  *    section 5, [derived]), so a goal below it is never reached. */
 #include <check.h>
 #include <stdlib.h>
+#include <math.h>
 #include "embz.h"
 #include "testutil.h"
 
@@ -508,6 +509,42 @@ START_TEST(test_explicit_only)
 }
 END_TEST
 
+/* A goal whose crossing is beyond what the precision resolves: 1/i at eps = 10^-3 (n near
+ * 10^300.8 by ln 2 / (ln n + gamma), docs/math.md section 6 [derived]) is undecided at 64 bits,
+ * but the certified bracket (n_low, n] stays, and with it the qubits per side. */
+START_TEST(test_undecided_bracket)
+{
+    embz_family_t f;
+    embz_target_t q;
+    embz_size_result_t r;
+    arb_t eps;
+    embz_err_t err;
+    family(f, "inverse");
+    embz_target_init(q);
+    embz_size_result_init(r);
+    arb_init(eps);
+    embz_err_clear(&err);
+    arb_set_ui(eps, 1);
+    arb_div_ui(eps, eps, 1000, 256);
+    ck_assert_int_eq(embz_size_solve(r, f, eps, q, 64, &err), EMBZ_OK);
+    if (r->status == EMBZ_SIZE_UNDECIDED) {
+        ck_assert(r->bracket);
+        ck_assert(fmpz_cmp(r->n_low, r->n) < 0);
+        ck_assert_int_eq(r->qubits, 1000);      /* ceil(log2 10^300.78) */
+        ck_assert_int_eq((long) fmpz_bits(r->n_low), 1000);      /* ceil(log2 10^300.78) */
+    } else {
+        ck_assert_int_eq(r->status, EMBZ_SIZE_FOUND);   /* a more precise engine */
+    }
+    double l10 = (double) fmpz_sizeinbase(r->n, 10) - 1;
+    double want = (log(2.0) / 1e-3 - 0.5772156649015329) / log(10.0);   /* gamma [memory] */
+    ck_assert_msg(fabs(l10 - floor(want)) <= 1, "log10 n = %g, leading order %g", l10, want);
+    arb_clear(eps);
+    embz_size_result_clear(r);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
 int main(void)
 {
     Suite *s = suite_create("size");
@@ -522,6 +559,7 @@ int main(void)
     tcase_add_test(tc, test_bad_goal);
     tcase_add_test(tc, test_exact_ties);
     tcase_add_test(tc, test_explicit_only);
+    tcase_add_test(tc, test_undecided_bracket);
     suite_add_tcase(s, tc);
     return tu_run_suite(s);
 }

@@ -29,6 +29,9 @@ typedef struct {
     long stay_samples;    /* how many sizes were sampled there */
     fmpz_t again_above;   /* a size > n with E > eps found by the sampling (0 if none) */
     fmpz_t undecided_lo, undecided_hi; /* UNDECIDED: the n whose side could not be decided */
+    int bracket;          /* UNDECIDED with a certified bracket: E > eps at n_low (err_prev),
+                             E <= eps at n (err_n), a crossing in (n_low, n]; qubits is the
+                             count every size there needs when they agree, else -1 */
     fmpz_t largest;       /* NOT_REACHED: the largest size tried */
     arb_t err_largest;    /* NOT_REACHED: E there */
     int qubits_only;      /* the search stopped once ceil(log2 n) was decided */

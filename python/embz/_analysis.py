@@ -351,6 +351,11 @@ class SizeResult:
             self.limit = Ball(row, "limit") if row.get("limit_lo") else None
         else:
             self.undecided = _num.big_int(row["undecided_lo"], row["undecided_lo_hex"])
+            # a certified bracket (n_low, n] of a crossing, and the qubits when all agree
+            if row.get("bracket") == "1":
+                self.n_low = _num.big_int(row["n_low"], row["n_low_hex"])
+                self.n = _num.big_int(row["n"], row["n_hex"])
+                self.qubits = int(row["qubits"]) if int(row["qubits"]) >= 0 else None
 
     def __str__(self):
         if self.status == "found":

@@ -376,6 +376,7 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
     c.qubits_only = qubits_only && !embz_family_is_levels(f);   /* (qubits are not ceil(log2 n)) */
     res->qubits_only = qubits_only;
     res->explicit_only = 0;
+    res->bracket = 0;
     res->reach = 0;
     res->why[0] = '\0';
     c.f = f;
@@ -474,6 +475,18 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
                 res->status = EMBZ_SIZE_UNDECIDED;
                 fmpz_set(res->undecided_lo, m);
                 fmpz_set(res->undecided_hi, m);
+                /* what was certified still brackets a crossing */
+                res->bracket = 1;
+                fmpz_set(res->n, nhi);
+                fmpz_set(res->n_low, nlo);
+                arb_set(res->err_n, Ehi);
+                arb_set(res->err_prev, Elo);
+                if (same_qubits(nlo, nhi)) {
+                    fmpz_sub_ui(m, nhi, 1);
+                    res->qubits = fmpz_sgn(m) > 0 ? (long) fmpz_bits(m) : 0;
+                } else {
+                    res->qubits = -1;
+                }
                 goto done;
             }
             fmpz_set(res->n, nhi);

@@ -112,6 +112,12 @@ static void json_result(embz_buf_t *b, const char *goal, const embz_size_result_
         embz_buf_printf(b, ", \"undecided_n\": ");
         embz_buf_json_string(b, u);
         flint_free(u);
+        if (r->bracket) {
+            char *lo = fmpz_get_str(NULL, 10, r->n_low), *hi = fmpz_get_str(NULL, 10, r->n);
+            embz_buf_printf(b, ", \"bracket\": [\"%s\", \"%s\"]", lo, hi);
+            if (r->qubits >= 0) embz_buf_printf(b, ", \"qubits\": %ld", r->qubits);
+            flint_free(lo); flint_free(hi);
+        }
     }
     if (r->explicit_only) {
         embz_buf_printf(b, ", \"explicit_only\": true, \"reach\": \"%ld\"", (long) r->reach);
@@ -276,6 +282,21 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
         char *u = embz_fmpz_string(r->undecided_lo, INT_DIGITS);
         embz_buf_printf(b, "  undecided  at n = %s the enclosure of E straddles the goal even at raised precision\n", u);
         free(u);
+        if (r->bracket) {
+            /* the ends differ by little against n: the gap says more than two long numbers */
+            fmpz_t gap;
+            fmpz_init(gap);
+            fmpz_sub(gap, r->n, r->n_low);
+            char *hi = embz_fmpz_string(r->n, INT_DIGITS), *g = embz_fmpz_string(gap, INT_DIGITS);
+            embz_buf_printf(b, "  bracket    E > goal at n - %s and E <= goal at n = %s%s (both "
+                               "certified): a crossing lies in between\n", g,
+                            fmpz_sizeinbase(r->n, 10) > INT_DIGITS ? "~" : "", hi);
+            if (r->qubits >= 0)
+                embz_buf_printf(b, "  qubits     %ld per side (ceil(log2 n)): the same for every "
+                                   "size in the bracket\n", r->qubits);
+            free(hi); free(g);
+            fmpz_clear(gap);
+        }
     }
     if (r->explicit_only)
         embz_buf_printf(b, "  reach      sizes searched up to n = %ld only, what explicit summation "

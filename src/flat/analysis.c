@@ -206,6 +206,12 @@ int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char 
         } else {
             _flat_set_size(t, row, "undecided_lo", r->undecided_lo);
             _flat_set_size(t, row, "undecided_hi", r->undecided_hi);
+            _flat_set_l(t, row, "bracket", r->bracket);
+            if (r->bracket) {
+                _flat_set_size(t, row, "n_low", r->n_low);
+                _flat_set_size(t, row, "n", r->n);
+                _flat_set_l(t, row, "qubits", r->qubits);
+            }
         }
         *out = t;
     }
