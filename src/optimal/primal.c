@@ -7,12 +7,12 @@
 void _embz_opt_q_from_d(fmpq_t x, double v)
 {
     /* continued fraction of |v| in double precision; accepted only when the convergent is
-     * within 2^-34 |v| (the test only chooses between two valid rationals) */
+     * within 2^-46 |v| (the test only chooses between two valid rationals) */
     double a = fabs(v);
     if (a > 0 && a < 1e15) {
         double h0 = 1, h1 = floor(a), k0 = 0, k1 = 1, rem = a - floor(a);
         for (int it = 0; it < 40; it++) {
-            if (fabs(h1 / k1 - a) <= ldexp(a, -34)) {
+            if (fabs(h1 / k1 - a) <= ldexp(a, -46)) {
                 fmpz_t hz, kz;
                 fmpz_init(hz); fmpz_init(kz);
                 fmpz_set_d(hz, h1);
