@@ -31,8 +31,9 @@ typedef enum {
     EMBZ_OPT_START_SOLVER     /* GLPK's own advanced basis (about n pivots, time ~ n^2) */
 } embz_opt_start_t;
 
-/* Largest rank of the linear program (two rows per rank, about 7 non-zeros per rank). */
-#define EMBZ_OPTIMAL_LP_MAX_N 10000000L
+/* Largest rank of the linear program (two rows and about 5.5 non-zeros per rank; GLPK needs
+ * about 1.7 kB per rank: 1.7 GB at 10^6, measured 2026-12). */
+#define EMBZ_OPTIMAL_LP_MAX_N 1000000L
 /* Largest rank for GLPK's own start (the time grows like n^2: about 3 s at 10^4). */
 #define EMBZ_OPTIMAL_LP_SOLVER_START_MAX_N 20000L
 /* Largest rank for which GLPK's exact rational simplex refines the solution (no pivots
