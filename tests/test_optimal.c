@@ -14,6 +14,9 @@
  *    sec. 6, with FLINT's harmonic numbers);
  *  - the family 2^(-ceil(log2(i))) (shipped as dyadic) reaches the optimum: its certified
  *    error contains OPT_n for one ebit;
+ *  - a family against the optimum (embz_optimal_vs): the ratio is never certainly below 1,
+ *    the extra qubits per side never negative, and for dyadic the ratio contains 1 and the
+ *    rank range contains n;
  *  - a target vector is refused (EMBZ_ERR_UNSUPPORTED), n beyond the program's limit too. */
 #include <math.h>
 #include <stdlib.h>
@@ -312,6 +315,66 @@ START_TEST(test_inverse_exact)
 }
 END_TEST
 
+static void vs_at(const char *spec, slong n, int optimal)
+{
+    embz_family_t f;
+    embz_target_t q;
+    embz_error_result_t res;
+    embz_err_t err;
+    embz_err_clear(&err);
+    embz_family_init(f);
+    embz_target_init(q);
+    embz_error_result_init(res);
+    ck_assert(embz_family_resolve(f, spec, NULL, 0, 0, &err) == EMBZ_OK);
+    fmpz_t nz;
+    fmpz_init_set_si(nz, n);
+    ck_assert(embz_error(res, f, nz, q, EMBZ_METHOD_AUTO, 128, &err) == EMBZ_OK);
+    embz_optimal_vs_t v;
+    embz_optimal_vs_init(v);
+    ck_assert(embz_optimal_vs(v, res->error, nz, q, &err) == EMBZ_OK);
+    arb_t one;
+    arb_init(one);
+    arb_one(one);
+    ck_assert(!arb_lt(v->ratio, one));
+    ck_assert(v->have_rank);
+    ck_assert(fmpz_cmp(v->rank_lo, v->rank_hi) <= 0);
+    ck_assert(v->qubits - v->opt_qubits_hi >= 0);
+    /* the optimum at rank_lo reaches the error's upper end, at rank_lo - 1 not its lower end */
+    fmpq_t lo, hi;
+    fmpq_init(lo); fmpq_init(hi);
+    embz_optimal_result_t r;
+    embz_optimal_result_init(r);
+    ck_assert(embz_optimal_closed(r, v->rank_lo, q, NULL) == EMBZ_OK);
+    arb_t o;
+    arb_init(o);
+    arb_set_fmpq(o, r->upper, 256);
+    ck_assert(!arb_gt(o, res->error));
+    if (optimal) {
+        ck_assert(arb_contains(v->ratio, one));
+        ck_assert(fmpz_cmp(v->rank_lo, nz) <= 0 && fmpz_cmp(nz, v->rank_hi) <= 0);
+    }
+    arb_clear(o);
+    embz_optimal_result_clear(r);
+    fmpq_clear(lo); fmpq_clear(hi);
+    arb_clear(one);
+    embz_optimal_vs_clear(v);
+    fmpz_clear(nz);
+    embz_error_result_clear(res);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+
+START_TEST(test_vs)
+{
+    slong sizes[] = { 2, 10, 100, 1000, 100000 };
+    for (int k = 0; k < 5; k++) {
+        vs_at("inverse", sizes[k], 0);
+        vs_at("logpower", sizes[k], 0);
+        vs_at("dyadic", sizes[k], 1);
+    }
+}
+END_TEST
+
 int main(void)
 {
     Suite *s = suite_create("optimal");
@@ -323,6 +386,7 @@ int main(void)
     tcase_add_test(tc, test_refusals);
     tcase_add_test(tc, test_families);
     tcase_add_test(tc, test_inverse_exact);
+    tcase_add_test(tc, test_vs);
     suite_add_tcase(s, tc);
     return tu_run_suite(s);
 }

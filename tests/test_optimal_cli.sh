@@ -116,5 +116,30 @@ run optimal -n 64 -o "$TMP/res.json" --json; expect_rc 0 "-o"
 [ -z "$out" ] && ok || fail "-o still printed to stdout"
 $PY -c "import json; json.load(open('$TMP/res.json'))" && ok || fail "-o file is not JSON"
 
+# ---------------------------------------------------------------- error --vs-optimal
+run error inverse -n 1000; plain=$out
+run error inverse -n 1000 --vs-optimal; expect_rc 0 "error --vs-optimal"
+case "$out" in "$plain"*) ok ;; *) fail "--vs-optimal changed the lines before its own" ;; esac
+expect_out "optimum    64/765" "--vs-optimal prints the optimum"
+expect_out "1 extra per side" "--vs-optimal: 1/i at n = 1000 needs one qubit per side more"
+run error inverse -n 10^6 --vs-optimal --json; expect_rc 0 "error --vs-optimal --json"
+pycheck "--vs-optimal JSON: the rank is the smallest reaching the error" "$PSI
+import json, sys
+from decimal import Decimal as D
+r = json.load(sys.stdin)
+lo, hi = F(D(r['error_lo'])), F(D(r['error_hi']))
+m1, m2 = int(r['optimal_rank_lo']), int(r['optimal_rank_hi'])
+assert opt(m1, 2) <= hi and (m1 == 1 or opt(m1 - 1, 2) > hi)
+assert opt(m2, 2) <= lo and (m2 == 1 or opt(m2 - 1, 2) > lo)
+assert F(r['optimum']) == opt(10**6, 2)
+assert r['extra_qubits_lo'] >= 0 and r['qubits_per_side'] == 20
+"
+run error inverse -n 100 --vs-optimal --csv; expect_rc 0 "error --vs-optimal --csv"
+pycheck "--vs-optimal CSV columns" '
+import csv, sys
+rows = list(csv.DictReader(sys.stdin))
+assert rows[0]["optimum"] == "16/137" and rows[0]["extra_qubits_lo"] != ""
+'
+
 echo "$((checks - fails)) passed, $fails failed"
 [ "$fails" -eq 0 ]

@@ -113,4 +113,27 @@ void embz_optimal_uniform_error(fmpq_t E, slong *argk, const embz_qvec_t p, ulon
  * EMBZ_OPTIMAL_MAX_BITS bits, EMBZ_ERR_UNSUPPORTED for a target vector. */
 int embz_optimal_eps(fmpz_t n, const fmpq_t eps, const embz_target_t q, embz_err_t *err);
 
+/* ---- a family against the optimum ---- */
+typedef struct {
+    fmpq_t opt;            /* OPT_n(q), exact */
+    arb_t ratio;           /* E_n / OPT_n (>= 1 up to the enclosure's width) */
+    int have_rank;         /* the rank below was found (the error's lower end is > 0) */
+    fmpz_t rank_lo, rank_hi;  /* the smallest rank whose optimum reaches E_n lies in
+                                 [rank_lo, rank_hi] (equal when the enclosure decides it;
+                                 rank_hi <= n since E_n >= OPT_n) */
+    slong qubits;          /* ceil(log2 n): qubits per side of the family's state */
+    slong opt_qubits_lo, opt_qubits_hi;  /* ceil(log2 rank_lo), ceil(log2 rank_hi) */
+} embz_optimal_vs_struct;
+typedef embz_optimal_vs_struct embz_optimal_vs_t[1];
+
+void embz_optimal_vs_init(embz_optimal_vs_t v);
+void embz_optimal_vs_clear(embz_optimal_vs_t v);
+/* v <- how a state of rank n with certified error enclosure `error` compares with the
+ * optimum: the ratio E_n / OPT_n and the smallest rank (and qubits per side) at which the
+ * optimum reaches the same error; the extra qubits per side of the family are
+ * qubits - opt_qubits_hi .. qubits - opt_qubits_lo. Uniform targets only
+ * (EMBZ_ERR_UNSUPPORTED). */
+int embz_optimal_vs(embz_optimal_vs_t v, const arb_t error, const fmpz_t n,
+                    const embz_target_t q, embz_err_t *err);
+
 #endif
