@@ -9,6 +9,7 @@
  *    makes column j of A^T y at least e_n, exactly (equal unless the clamp acted).
  * Then b^T y = d * (sum of the Ky Fan multipliers) is an exact upper bound on the optimum,
  * whatever the solver's accuracy was. */
+#include <math.h>
 #include "impl.h"
 
 void _embz_opt_dual(fmpq_t V, slong *clamped, const double *y, const _embz_opt_lp_struct *lp)
@@ -25,7 +26,7 @@ void _embz_opt_dual(fmpq_t V, slong *clamped, const double *y, const _embz_opt_l
     *clamped = 0;
     for (slong i = 0; i < n; i++) {
         double v = sign * y[n + i];
-        if (!(v > 0)) continue;          /* clamped at 0 (also a NaN) */
+        if (!(v > 0) || !isfinite(v)) continue;   /* clamped at 0 (also a NaN or infinity) */
         _embz_opt_q_from_d(ys, v);
         slong r = n + i;
         for (slong z = lp->start[r]; z < lp->start[r + 1]; z++) {

@@ -34,7 +34,8 @@ int _embz_opt_lp_solve(double *x, double *y, double *value, slong *pivots, int *
                        embz_progress_fn progress, void *ctx, embz_err_t *err);
 
 /* x <- a rational close to v: the continued-fraction convergent of v with denominator at
- * most 2^30 that lies within 2^-46 |v| of it, else v itself (a dyadic rational). */
+ * most 2^30 that lies within 2^-46 |v| of it, else v itself (a dyadic rational); 0 for a NaN
+ * or an infinity. */
 void _embz_opt_q_from_d(fmpq_t x, double v);
 
 /* Primal certificate: state <- the sorted probability vector made of the double cumulative

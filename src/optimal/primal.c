@@ -6,6 +6,10 @@
 
 void _embz_opt_q_from_d(fmpq_t x, double v)
 {
+    if (!isfinite(v)) {
+        fmpq_zero(x);
+        return;
+    }
     /* continued fraction of |v| in double precision; accepted only when the convergent is
      * within 2^-46 |v| (the test only chooses between two valid rationals) */
     double a = fabs(v);
@@ -65,7 +69,8 @@ void _embz_opt_primal(fmpq_t E, embz_qvec_t state, const double *P, slong n, ulo
      * optimal vertex, and the solver's doubles carry them to about 16 digits), the entries
      * are their exact differences, made non-negative and non-increasing */
     for (slong i = 0; i < n; i++) {
-        _embz_opt_q_from_d(Pq, P[i]);
+        if (isfinite(P[i])) _embz_opt_q_from_d(Pq, P[i]);
+        else fmpq_set(Pq, Pprev);         /* (not from a solver that reports an optimum) */
         fmpq_sub(p->p + i, Pq, Pprev);
         fmpq_swap(Pq, Pprev);
         if (fmpq_sgn(p->p + i) < 0) fmpq_zero(p->p + i);

@@ -1,8 +1,8 @@
 /* The dual certificate (dual.c): whatever the multipliers given (random, negative, NaN,
- * zero), the bound V is an exact upper bound on the program's optimum psi_d(n), i.e. never
- * below it (weak duality; the closed form's state is a feasible point); with all sorting
- * multipliers 0 the back substitution gives the equalising basis's dual and V = psi_d(n)
- * exactly. */
+ * infinite, zero), the bound V is an exact upper bound on the program's optimum psi_d(n),
+ * i.e. never below it (weak duality; the closed form's state is a feasible point); with all
+ * usable sorting multipliers 0 the back substitution gives the equalising basis's dual and
+ * V = psi_d(n) exactly. */
 #include <math.h>
 #include "topt.h"
 
@@ -27,7 +27,7 @@ START_TEST(test_dual_bound)
             if (kind == 0) y[r] = 0;
             else if (kind == 1) y[r] = u - 0.5;
             else if (kind == 2) y[r] = r == 0 ? NAN : ldexp(u, -(int) n_randint(rs, 40));
-            else y[r] = r < n ? u : 0;
+            else y[r] = r < n ? u : (r == n ? INFINITY : 0);
         }
         slong clamped;
         _embz_opt_dual(V, &clamped, y, &lp);
