@@ -141,5 +141,20 @@ rows = list(csv.DictReader(sys.stdin))
 assert rows[0]["optimum"] == "16/137" and rows[0]["extra_qubits_lo"] != ""
 '
 
+# ---------------------------------------------------------------- size --vs-optimal
+run size inverse --eps 0.1 --vs-optimal --json; expect_rc 0 "size --vs-optimal"
+pycheck "size --vs-optimal: the optimal rank and the extra qubits" "$PSI
+import json, sys
+g = json.load(sys.stdin)['goals'][0]
+m = int(g['optimal_n'])
+assert opt(m, 2) <= F(1, 10) < opt(m - 1, 2)
+assert g['optimal_qubits'] == (m - 1).bit_length()
+assert g['n'] == '570' and g['extra_qubits'] == g['qubits'] - g['optimal_qubits'] == 2
+"
+run size inverse --eps 0.1; plain=$out
+run size inverse --eps 0.1 --vs-optimal
+expect_out "optimal    rank 256 (8 qubits per side)" "size --vs-optimal text"
+expect_out "extra      2 qubits per side" "size --vs-optimal extra"
+
 echo "$((checks - fails)) passed, $fails failed"
 [ "$fails" -eq 0 ]
