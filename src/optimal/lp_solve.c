@@ -63,7 +63,7 @@ int _embz_opt_lp_solve(double *x, double *y, double *value, slong *pivots, int *
     if (o->seconds > 0) sm.tm_lim = (int) (o->seconds * 1000.0 < 2e9 ? o->seconds * 1000.0 : 2e9);
     int status = EMBZ_OK;
     int ret = glp_simplex(P, &sm);
-    if (ret == GLP_EFAIL || ret == GLP_ESING || ret == GLP_ECOND) {
+    if (ret == GLP_EBADB || ret == GLP_EFAIL || ret == GLP_ESING || ret == GLP_ECOND) {
         /* a singular start: GLPK's own basis instead */
         glp_adv_basis(P, 0);
         ret = glp_simplex(P, &sm);
