@@ -18,6 +18,7 @@
 #include "embz/size.h"
 #include "embz/compare.h"
 #include "embz/flat.h"
+#include "embz/optimal.h"
 
 #define EMBZ_VERSION "0.1.0"
 

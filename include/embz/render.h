@@ -11,6 +11,7 @@
 #include "embz/err.h"
 #include "embz/util.h"
 #include "embz/analysis.h"
+#include "embz/optimal.h"
 
 /* ------------------------------------------------------------------ colours */
 
@@ -222,5 +223,7 @@ char *embz_classify_fact_text(const embz_classify_fact_struct *f);
  * counts, and the reason behind a fallback or a bracket, in full. */
 char *embz_error_how_text(const embz_error_how_struct *h);
 char *embz_fidelity_how_text(const embz_fidelity_how_struct *h);
+/* How an optimum (embz/optimal.h) was found (malloc'ed). */
+char *embz_optimal_how_text(const embz_optimal_result_struct *r);
 
 #endif

@@ -238,6 +238,7 @@ int cli_cmd_sweep(int argc, char **argv);
 int cli_cmd_classify(int argc, char **argv);
 int cli_cmd_scan(int argc, char **argv);
 int cli_cmd_size(int argc, char **argv);
+int cli_cmd_optimal(int argc, char **argv);
 int cli_cmd_plot(int argc, char **argv);
 int cli_cmd_report(int argc, char **argv);
 int cli_cmd_demo(int argc, char **argv);

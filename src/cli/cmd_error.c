@@ -16,6 +16,8 @@ static const cli_opt_t error_opts[] = {
     CLI_OPT_AMPLITUDE,
     CLI_OPT_JSON,
     { "csv", 0, CLI_FLAG, NULL, "print a CSV header line and one row" },
+    { "vs-optimal", 0, CLI_FLAG, NULL,
+      "also the optimum at rank n, the ratio to it and the extra qubits per side" },
     CLI_OPT_END
 };
 
@@ -30,7 +32,10 @@ static const cli_spec_t error_spec = {
     "--measure fidelity: the optimal LOCC fidelity F_max(p -> p (x) q) (fidelity = squared\n"
     "overlap); purified: sqrt(1 - F_max); overlap: the best squared overlap with local\n"
     "unitaries only. These are values for n up to 2^20; beyond, fidelity and purified are\n"
-    "certified BOUNDS from K (K <= P <= sqrt(K(2-K))), marked as such.\n",
+    "certified BOUNDS from K (K <= P <= sqrt(K(2-K))), marked as such.\n"
+    "--vs-optimal (distance K, uniform targets): the smallest error any state of rank n\n"
+    "reaches (embz optimal), E_n divided by it, and the qubits per side the optimal state\n"
+    "needs for the same error against ceil(log2 n).\n",
     error_opts, 1, 1
 };
 
@@ -56,6 +61,7 @@ static const char *method_name(int m)
 typedef struct {
     char *label, *params_json, *params_text;
     char *family, *weight, *n, *target, *method, *cert, *lo, *hi, *argk, *blo, *bhi, *detail;
+    char *vs_json, *vs_csv_head, *vs_csv, *vs_text;   /* --vs-optimal, else NULL */
     double mid, radius, estimate;
     int have_bounds;
 } row_t;
@@ -66,6 +72,7 @@ static void row_clear(row_t *r)
     free(r->family); free(r->weight); free(r->n); free(r->target); free(r->method);
     free(r->cert); free(r->lo); free(r->hi); free(r->argk); free(r->blo); free(r->bhi);
     free(r->detail);
+    free(r->vs_json); free(r->vs_csv_head); free(r->vs_csv); free(r->vs_text);
 }
 
 static void emit_json(embz_buf_t *b, const row_t *r)
@@ -89,13 +96,15 @@ static void emit_json(embz_buf_t *b, const row_t *r)
         cli_buf_json_key_string(b, "bound_hi", r->bhi);
     }
     cli_buf_json_key_string(b, "detail", r->detail);
+    if (r->vs_json != NULL) embz_buf_printf(b, "%s", r->vs_json);
     embz_buf_printf(b, "}\n");
 }
 
 static void emit_csv(embz_buf_t *b, const row_t *r)
 {
     embz_buf_printf(b, "family,params,weight,n,target,method,error,error_lo,error_hi,error_certified,"
-                    "radius,argmax,estimate,bound_lo,bound_hi,detail\n");
+                    "radius,argmax,estimate,bound_lo,bound_hi,detail%s\n",
+                    r->vs_csv_head != NULL ? r->vs_csv_head : "");
     const char *fields1[] = { r->family, r->params_text, r->weight, r->n, r->target,
                               r->method };
     cli_buf_csv_fields(b, fields1, 6);
@@ -118,6 +127,7 @@ static void emit_csv(embz_buf_t *b, const row_t *r)
     }
     embz_buf_printf(b, ",");
     cli_buf_csv_field(b, r->detail);
+    if (r->vs_csv != NULL) embz_buf_printf(b, "%s", r->vs_csv);
     embz_buf_printf(b, "\n");
 }
 
@@ -153,6 +163,7 @@ static void emit_table(embz_buf_t *b, const row_t *r, const embz_error_result_t 
     if (r->estimate == r->estimate)
         embz_buf_printf(b, "%-10s %.10g   (double precision, not certified)\n", "estimate",
                         r->estimate);
+    if (r->vs_text != NULL) embz_buf_printf(b, "%s", r->vs_text);
 }
 
 /* All digits when short, else "~d.ddddddddde+N" (truncated, marked as such). */
@@ -332,6 +343,92 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
     return CLI_EXIT_OK;
 }
 
+/* ---------------------------------------------------------------- --vs-optimal */
+
+static char *rank_range(const fmpz_t a, const fmpz_t b)
+{
+    char *x = int_text(a), *y = int_text(b), *s;
+    if (fmpz_equal(a, b)) s = embz_strdup_printf("%s", x);
+    else s = embz_strdup_printf("[%s, %s]", x, y);
+    free(x); free(y);
+    return s;
+}
+
+static char *slong_range(slong a, slong b)
+{
+    return a == b ? embz_strdup_printf("%ld", (long) a)
+                  : embz_strdup_printf("%ld..%ld", (long) a, (long) b);
+}
+
+/* the optimum at rank n, E / OPT and the extra qubits per side, as texts of the row */
+static int vs_optimal(row_t *r, const arb_t error, const fmpz_t n, const embz_target_t q)
+{
+    embz_optimal_vs_t v;
+    embz_optimal_vs_init(v);
+    embz_err_t err;
+    embz_err_clear(&err);
+    int status = embz_optimal_vs(v, error, n, q, &err);
+    if (status != EMBZ_OK) {
+        embz_optimal_vs_clear(v);
+        return cli_report("error", status, &err);
+    }
+    arb_t o;
+    arb_init(o);
+    arb_set_fmpq(o, v->opt, 4 * CERT_DIGITS + 64);
+    char *oc = embz_arb_certified_string(o, CERT_DIGITS);
+    char *of = fmpq_get_str(NULL, 10, v->opt);
+    char *rl = embz_arb_lo_string(v->ratio, 12), *rh = embz_arb_hi_string(v->ratio, 12);
+    char *rc = embz_arb_certified_string(v->ratio, 12);
+    char *rk = v->have_rank ? rank_range(v->rank_lo, v->rank_hi) : NULL;
+    char *oq = v->have_rank ? slong_range(v->opt_qubits_lo, v->opt_qubits_hi) : NULL;
+    char *ex = v->have_rank ? slong_range(v->qubits - v->opt_qubits_hi,
+                                          v->qubits - v->opt_qubits_lo) : NULL;
+    embz_buf_t b;
+    embz_buf_init(&b);
+    if (strlen(of) <= 60)
+        embz_buf_printf(&b, "%-10s %s = %s   (the best any state of rank n reaches; embz "
+                        "optimal)\n", "optimum", of, oc);
+    else
+        embz_buf_printf(&b, "%-10s %s   (the best any state of rank n reaches; embz optimal)\n",
+                        "optimum", oc);
+    embz_buf_printf(&b, "%-10s %s   (error / optimum, certified digits)\n", "ratio", rc);
+    if (v->have_rank)
+        embz_buf_printf(&b, "%-10s %ld per side; the optimal state reaches this error from rank "
+                        "%s (%s per side): %s extra per side\n", "qubits", (long) v->qubits,
+                        rk, oq, ex);
+    r->vs_text = b.s;
+    embz_buf_init(&b);
+    cli_buf_json_key_string(&b, "optimum", of);
+    cli_buf_json_key_string(&b, "optimum_certified", oc);
+    cli_buf_json_key_string(&b, "ratio_lo", rl);
+    cli_buf_json_key_string(&b, "ratio_hi", rh);
+    embz_buf_printf(&b, ", \"qubits_per_side\": %ld", (long) v->qubits);
+    if (v->have_rank) {
+        char *a1 = fmpz_get_str(NULL, 10, v->rank_lo), *a2 = fmpz_get_str(NULL, 10, v->rank_hi);
+        cli_buf_json_key_string(&b, "optimal_rank_lo", a1);
+        cli_buf_json_key_string(&b, "optimal_rank_hi", a2);
+        flint_free(a1); flint_free(a2);
+        embz_buf_printf(&b, ", \"extra_qubits_lo\": %ld, \"extra_qubits_hi\": %ld",
+                        (long) (v->qubits - v->opt_qubits_hi), (long) (v->qubits - v->opt_qubits_lo));
+    }
+    r->vs_json = b.s;
+    r->vs_csv_head = cli_strdup(",optimum,ratio_lo,ratio_hi,extra_qubits_lo,extra_qubits_hi");
+    embz_buf_init(&b);
+    embz_buf_printf(&b, ",");
+    cli_buf_csv_field(&b, of);
+    embz_buf_printf(&b, ",%s,%s,", rl, rh);
+    if (v->have_rank)
+        embz_buf_printf(&b, "%ld,%ld", (long) (v->qubits - v->opt_qubits_hi),
+                        (long) (v->qubits - v->opt_qubits_lo));
+    else
+        embz_buf_printf(&b, ",");
+    r->vs_csv = b.s;
+    free(oc); flint_free(of); free(rl); free(rh); free(rc); free(rk); free(oq); free(ex);
+    arb_clear(o);
+    embz_optimal_vs_clear(v);
+    return CLI_EXIT_OK;
+}
+
 int cli_cmd_error(int argc, char **argv)
 {
     cli_args_t a;
@@ -356,6 +453,7 @@ int cli_cmd_error(int argc, char **argv)
     const char *method_text = cli_value(&a, "method");
     const char *measure_text = cli_value(&a, "measure");
     int measure = EMBZ_MEASURE_K;
+    int vs = cli_flag(&a, "vs-optimal");
 
     if (json && csv) {
         code = cli_usage_error(&error_spec, "--json and --csv exclude each other");
@@ -395,6 +493,14 @@ int cli_cmd_error(int argc, char **argv)
         goto done;
 
     embz_err_clear(&err);
+    if (vs && (measure != EMBZ_MEASURE_K || q->kind != EMBZ_TARGET_UNIFORM
+               || embz_family_is_levels(fam))) {
+        fprintf(stderr, "embz error: --vs-optimal compares the distance K for uniform targets "
+                "(ebit, ebits:J, uniform:D) and families whose n is the Schmidt rank%s\n",
+                embz_family_is_levels(fam) ? " (a level family's n counts copies or sites)" : "");
+        code = CLI_EXIT_USAGE;
+        goto done;
+    }
     if (measure != EMBZ_MEASURE_K) {
         code = run_fidelity(fam, n, q, measure, method, prec, json, csv);
         goto done;
@@ -428,6 +534,10 @@ int cli_cmd_error(int argc, char **argv)
     r.mid = embz_arb_mid_d(res->error);
     r.radius = cli_arb_radius_d(res->error);
     r.estimate = res->estimate;
+    if (vs && (code = vs_optimal(&r, res->error, n, q)) != CLI_EXIT_OK) {
+        row_clear(&r);
+        goto done;
+    }
 
     embz_buf_t out;
     embz_buf_init(&out);

@@ -9,6 +9,8 @@ static const cli_opt_t size_opts[] = {
     { "target", 't', CLI_VALUE, "T", "target state: ebit (default), ebits:J, uniform:D, or a list" },
     { "measure", 0, CLI_VALUE, "M", "k (conversion distance, default) or purified" },
     { "qubits", 0, CLI_FLAG, NULL, "stop once the qubits per side are decided (faster at huge n)" },
+    { "vs-optimal", 0, CLI_FLAG, NULL,
+      "also the smallest rank any state needs (embz optimal) and the extra qubits per side" },
     { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 128; raised where undecided)" },
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter" },
     CLI_OPT_AMPLITUDE,
@@ -28,7 +30,10 @@ static const cli_spec_t size_spec = {
     "for larger sizes: the output says which. The search goes up to n = 2^3072 (~10^925),\n"
     "or n = 10^6 (explicit summation's reach) for a family the analytic engine cannot take.\n"
     "--measure purified: the purified distance P obeys K <= P <= sqrt(K(2-K)), so the size for\n"
-    "P <= eps lies between the sizes for K <= eps and K <= 1 - sqrt(1 - eps^2); both are shown.\n",
+    "P <= eps lies between the sizes for K <= eps and K <= 1 - sqrt(1 - eps^2); both are shown.\n"
+    "--vs-optimal (distance K, uniform targets): the smallest Schmidt rank with which any state\n"
+    "reaches each goal (embz optimal --eps), its qubits per side, and how many more the\n"
+    "size found needs.\n",
     size_opts, 1, 1
 };
 
@@ -322,6 +327,44 @@ static void never_words(char *buf, size_t len, const arb_t limit, const embz_tar
     free(l);
 }
 
+/* --vs-optimal: the optimal rank for the goal e (exact), against the qubits of the size found */
+static int vs_optimal(embz_buf_t *out, int json, const fmpq_t e, const embz_target_t q,
+                      const embz_size_result_t r)
+{
+    fmpz_t m;
+    fmpz_init(m);
+    embz_err_t err;
+    embz_err_clear(&err);
+    int status = embz_optimal_eps(m, e, q, &err);
+    if (status != EMBZ_OK) {
+        fmpz_clear(m);
+        return cli_report("size", status, &err);
+    }
+    long oq = fmpz_cmp_ui(m, 1) <= 0 ? 0 : (long) fmpz_clog_ui(m, 2);
+    int found = r->status == EMBZ_SIZE_FOUND;
+    if (json) {
+        char *ms = fmpz_get_str(NULL, 10, m);
+        out->len--;   /* reopen the object */
+        out->s[out->len] = '\0';
+        embz_buf_printf(out, ", \"optimal_n\": ");
+        embz_buf_json_string(out, ms);
+        embz_buf_printf(out, ", \"optimal_qubits\": %ld", oq);
+        if (found) embz_buf_printf(out, ", \"extra_qubits\": %ld", r->qubits - oq);
+        embz_buf_printf(out, "}");
+        flint_free(ms);
+    } else {
+        char *ms = embz_fmpz_string(m, INT_DIGITS);
+        embz_buf_printf(out, "  optimal    rank %s (%ld qubits per side): the smallest any state "
+                        "needs (embz optimal)\n", ms, oq);
+        if (found)
+            embz_buf_printf(out, "  extra      %ld qubits per side for the size above\n",
+                            r->qubits - oq);
+        free(ms);
+    }
+    fmpz_clear(m);
+    return CLI_EXIT_OK;
+}
+
 int cli_cmd_size(int argc, char **argv)
 {
     cli_args_t a;
@@ -355,6 +398,13 @@ int cli_cmd_size(int argc, char **argv)
     if ((code = cli_load_prec(&prec, &a, &size_spec)) != 0) goto done;
     if ((code = cli_load_family(fam, &a, a.pos[0], "size")) != 0) goto done;
     if ((code = cli_load_target(q, &a, "size")) != 0) goto done;
+    int vs = cli_flag(&a, "vs-optimal");
+    if (vs && (purified || q->kind != EMBZ_TARGET_UNIFORM)) {
+        fprintf(stderr, "embz size: --vs-optimal compares the distance K for uniform targets "
+                "(ebit, ebits:J, uniform:D)\n");
+        code = CLI_EXIT_USAGE;
+        goto done;
+    }
 
     goals = malloc(strlen(eps_text) + 1);
     strcpy(goals, eps_text);
@@ -472,12 +522,24 @@ int cli_cmd_size(int argc, char **argv)
                     embz_buf_json_string(&out, reason);
                     embz_buf_printf(&out, "}");
                 }
+                if (vs && (code = vs_optimal(&out, 1, e, q, r)) != CLI_EXIT_OK) {
+                    embz_size_result_clear(r);
+                    arb_clear(g[0]); arb_clear(g[1]);
+                    fmpq_clear(e);
+                    goto done;
+                }
             } else {
                 if (purified)
                     embz_buf_printf(&out, "%s\n", part == 0
                         ? "P <= eps needs at least the size for K <= eps (P >= K):"
                         : "and at most the size for K <= 1 - sqrt(1 - eps^2) (P <= sqrt(K(2-K))):");
                 text_result(&out, label, r, nev ? reason : NULL);
+                if (vs && (code = vs_optimal(&out, 0, e, q, r)) != CLI_EXIT_OK) {
+                    embz_size_result_clear(r);
+                    arb_clear(g[0]); arb_clear(g[1]);
+                    fmpq_clear(e);
+                    goto done;
+                }
                 embz_buf_printf(&out, "\n");
             }
             first = 0;

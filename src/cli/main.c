@@ -18,6 +18,7 @@ static const cli_command_t commands[] = {
     { "classify", cli_cmd_classify, "verdict: universal embezzler or not, and how fast" },
     { "scan",     cli_cmd_scan,     "verdict, limit and rate over a parameter grid" },
     { "size",     cli_cmd_size,     "smallest size (and qubits) reaching an error goal" },
+    { "optimal",  cli_cmd_optimal,  "the smallest error any state of rank n reaches (certified)" },
     { "plot",     cli_cmd_plot,     "plots of error versus size and of the weights" },
     { "report",   cli_cmd_report,   "one document comparing families (HTML, Markdown, LaTeX, PDF)" },
     { "demo",     cli_cmd_demo,     "the built-in scenario: which family embezzles two ebits cheapest" },

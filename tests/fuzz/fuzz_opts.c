@@ -21,14 +21,15 @@ const cli_spec_t *fuzz_spec_sweep(void);
 const cli_spec_t *fuzz_spec_classify(void);
 const cli_spec_t *fuzz_spec_scan(void);
 const cli_spec_t *fuzz_spec_size(void);
+const cli_spec_t *fuzz_spec_optimal(void);
 const cli_spec_t *fuzz_spec_plot(void);
 const cli_spec_t *fuzz_spec_report(void);
 const cli_spec_t *fuzz_spec_demo(void);
 
 static const cli_spec_t *(*const spec_getters[])(void) = {
     fuzz_spec_families, fuzz_spec_convert, fuzz_spec_error, fuzz_spec_sweep,
-    fuzz_spec_classify, fuzz_spec_scan, fuzz_spec_size, fuzz_spec_plot, fuzz_spec_report,
-    fuzz_spec_demo,
+    fuzz_spec_classify, fuzz_spec_scan, fuzz_spec_size, fuzz_spec_optimal, fuzz_spec_plot,
+    fuzz_spec_report, fuzz_spec_demo,
 };
 #define NSPECS ((long) (sizeof(spec_getters) / sizeof(spec_getters[0])))
 

@@ -1,0 +1,139 @@
+/* The optimal baseline: the smallest embezzlement error OPT_n(q) that any state of Schmidt rank
+ * at most n reaches for a uniform target q = u_d (one ebit, j ebits, a d-level maximally
+ * entangled state), a state reaching it, and the smallest rank for an error goal.
+ *
+ *     OPT_n(u_d) = min over sorted probability vectors p of length n of K(p -> p (x) u_d).
+ *
+ * Two ways, both certified (docs/optimal.md has the derivations):
+ *  - the closed form OPT_n(u_d) = 1 / psi_d(n), psi_d(n) = j + 1 + n / (d^j (d - 1)),
+ *    j = floor(log_d n), exact at every n (a proof: a lower bound by induction over the Ky Fan
+ *    constraints and the state p_i proportional to d^(-ceil(log_d i)) reaching it);
+ *  - the linear program in the cumulative sums P_k, solved by GLPK's simplex in double
+ *    precision and certified in exact rationals: the primal rounded to a sorted probability
+ *    vector whose error is recomputed exactly (an upper bound), and a dual vector whose
+ *    equations are made to hold exactly (a lower bound by weak duality). */
+#ifndef EMBZ_OPTIMAL_H
+#define EMBZ_OPTIMAL_H
+
+#include "embz/vec.h"
+#include "embz/analysis.h"   /* embz_progress_fn */
+
+typedef enum {
+    EMBZ_OPT_HOW_NONE = 0,
+    EMBZ_OPT_HOW_CLOSED,     /* the closed form (a proof, docs/optimal.md) */
+    EMBZ_OPT_HOW_LP          /* the linear program, primal and dual certified exactly */
+} embz_opt_how_t;
+
+/* Where the simplex starts. */
+typedef enum {
+    EMBZ_OPT_START_EQUAL = 0, /* every Ky Fan constraint tight (the equalising guess of a
+                                 minimax problem): no pivots when it is optimal */
+    EMBZ_OPT_START_SOLVER     /* GLPK's own advanced basis (about n pivots, time ~ n^2) */
+} embz_opt_start_t;
+
+/* Largest rank of the linear program (two rows and about 5.5 non-zeros per rank; GLPK needs
+ * about 1.7 kB per rank: 1.7 GB at 10^6, measured 2026-12). */
+#define EMBZ_OPTIMAL_LP_MAX_N 1000000L
+/* Largest rank for GLPK's own start (the time grows like n^2: about 3 s at 10^4). */
+#define EMBZ_OPTIMAL_LP_SOLVER_START_MAX_N 20000L
+/* Largest rank for which GLPK's exact rational simplex refines the solution (no pivots
+ * after an optimal start; its rational LU costs grow quickly with n). */
+#define EMBZ_OPTIMAL_LP_EXACT_MAX_N 2000L
+/* Largest rank for which the state is formed as an explicit vector. */
+#define EMBZ_OPTIMAL_STATE_MAX_N 10000000L
+/* Largest rank for which embz_optimal_closed recomputes the state's error from its vector. */
+#define EMBZ_OPTIMAL_CHECK_MAX_N 100000L
+/* Largest optimal rank that embz_optimal_eps returns: n < 2^this. */
+#define EMBZ_OPTIMAL_MAX_BITS 200000L
+
+typedef struct {
+    int start;          /* embz_opt_start_t */
+    int exact;          /* 1 (default): glp_exact after the simplex for n <= ..._EXACT_MAX_N;
+                           0: double precision only */
+    double seconds;     /* > 0: the simplex stops after this long (EMBZ_ERR_LIMIT) */
+} embz_optimal_opts_struct;
+typedef embz_optimal_opts_struct embz_optimal_opts_t[1];
+
+void embz_optimal_opts_init(embz_optimal_opts_t o);
+
+typedef struct {
+    int how;             /* embz_opt_how_t */
+    ulong d;             /* the target's dimension */
+    fmpq_t lower, upper; /* certified: lower <= OPT_n(u_d) <= upper (exact rationals) */
+    int exact;           /* lower == upper */
+    /* EMBZ_OPT_HOW_CLOSED */
+    fmpz_t level;        /* j = floor(log_d n) */
+    int state_checked;   /* the error of the optimal state was recomputed exactly from its
+                            vector and equals the closed form (n <= EMBZ_OPTIMAL_CHECK_MAX_N) */
+    /* EMBZ_OPT_HOW_LP */
+    slong rows, cols, nnz;
+    int start;           /* embz_opt_start_t */
+    int used_exact;      /* GLPK's exact rational simplex refined the basis */
+    slong pivots;        /* simplex iterations */
+    double lp_value;     /* the solver's optimum in double precision (an estimate only) */
+    int primal_exact;    /* the rounded primal is an exact optimum of the LP (its error equals
+                            the dual bound) */
+    slong dual_clamped;  /* Ky Fan multipliers set to 0 because the other rows already covered
+                            their column (the dual stays feasible) */
+    double solve_seconds, certify_seconds;
+} embz_optimal_result_struct;
+typedef embz_optimal_result_struct embz_optimal_result_t[1];
+
+void embz_optimal_result_init(embz_optimal_result_t r);
+void embz_optimal_result_clear(embz_optimal_result_t r);
+
+/* res <- OPT_n(q) by the closed form, exact, for any n >= 1 (the state's error is also
+ * recomputed from its vector for n <= EMBZ_OPTIMAL_CHECK_MAX_N: res->state_checked; a
+ * disagreement would be a failure, EMBZ_ERR_PREC).
+ * Errors: EMBZ_ERR_UNSUPPORTED for a target vector, EMBZ_ERR_INPUT for n < 1. */
+int embz_optimal_closed(embz_optimal_result_t res, const fmpz_t n, const embz_target_t q,
+                        embz_err_t *err);
+
+/* res <- certified bounds on OPT_n(q) from the linear program, 1 <= n <=
+ * EMBZ_OPTIMAL_LP_MAX_N (EMBZ_ERR_LIMIT beyond, and beyond
+ * EMBZ_OPTIMAL_LP_SOLVER_START_MAX_N with GLPK's own start). state (may be NULL) receives
+ * the rounded primal: a sorted probability vector of length n whose error is res->upper.
+ * progress (may be NULL) is called with (stage, 4) at the stages build, solve, primal, dual
+ * and during the solve. o may be NULL (the defaults). */
+int embz_optimal_lp(embz_optimal_result_t res, embz_qvec_t state, slong n,
+                    const embz_target_t q, const embz_optimal_opts_t o,
+                    embz_progress_fn progress, void *ctx, embz_err_t *err);
+
+/* p <- the optimal state of rank n for u_d: p_i proportional to d^(-ceil(log_d i)), sorted,
+ * exact (n <= EMBZ_OPTIMAL_STATE_MAX_N, else EMBZ_ERR_LIMIT). */
+int embz_optimal_state(embz_qvec_t p, slong n, const embz_target_t q, embz_err_t *err);
+
+/* E <- K(p -> p (x) u_d) exactly for a sorted (non-increasing) exact probability vector p;
+ * argk (may be NULL) a maximising Ky Fan index. */
+void embz_optimal_uniform_error(fmpq_t E, slong *argk, const embz_qvec_t p, ulong d);
+
+/* n <- the smallest rank with OPT_n(q) <= eps, for 0 < eps (exact); OPT_n is non-increasing
+ * in n (padding a zero keeps the error), so every larger rank reaches eps too. Errors:
+ * EMBZ_ERR_INPUT for eps <= 0, EMBZ_ERR_LIMIT when n would need more than
+ * EMBZ_OPTIMAL_MAX_BITS bits, EMBZ_ERR_UNSUPPORTED for a target vector. */
+int embz_optimal_eps(fmpz_t n, const fmpq_t eps, const embz_target_t q, embz_err_t *err);
+
+/* ---- a family against the optimum ---- */
+typedef struct {
+    fmpq_t opt;            /* OPT_n(q), exact */
+    arb_t ratio;           /* E_n / OPT_n (>= 1 up to the enclosure's width) */
+    int have_rank;         /* the rank below was found (the error's lower end is > 0) */
+    fmpz_t rank_lo, rank_hi;  /* the smallest rank whose optimum reaches E_n lies in
+                                 [rank_lo, rank_hi] (equal when the enclosure decides it;
+                                 rank_hi <= n since E_n >= OPT_n) */
+    slong qubits;          /* ceil(log2 n): qubits per side of the family's state */
+    slong opt_qubits_lo, opt_qubits_hi;  /* ceil(log2 rank_lo), ceil(log2 rank_hi) */
+} embz_optimal_vs_struct;
+typedef embz_optimal_vs_struct embz_optimal_vs_t[1];
+
+void embz_optimal_vs_init(embz_optimal_vs_t v);
+void embz_optimal_vs_clear(embz_optimal_vs_t v);
+/* v <- how a state of rank n with certified error enclosure `error` compares with the
+ * optimum: the ratio E_n / OPT_n and the smallest rank (and qubits per side) at which the
+ * optimum reaches the same error; the extra qubits per side of the family are
+ * qubits - opt_qubits_hi .. qubits - opt_qubits_lo. Uniform targets only
+ * (EMBZ_ERR_UNSUPPORTED). */
+int embz_optimal_vs(embz_optimal_vs_t v, const arb_t error, const fmpz_t n,
+                    const embz_target_t q, embz_err_t *err);
+
+#endif
