@@ -339,7 +339,22 @@ assert F(b['value_hi'])**2 >= K_hi * (2 - K_hi) - F(1, 10**20)
 "
 run error inverse -n 10^40 --measure fidelity; expect_rc 0 "fidelity bounds table"
 expect_out "BOUNDS ONLY" "bounds are marked in the table"
-run error inverse -n 10^40 --measure overlap; expect_rc 1 "overlap has no bounds"; expect_err "explicit sizes" "overlap beyond explicit"
+run error inverse -n 10^40 --measure overlap --json; expect_rc 0 "overlap beyond explicit sizes"
+pycheck "overlap at 10^40: an analytic value, O^2 = value, within the local-unitary bound" '
+import json, sys, math
+from fractions import Fraction as F
+d = json.load(sys.stdin)
+assert d["method"] == "analytic" and d["bounds_only"] is False
+lo, hi = F(d["overlap_lo"]), F(d["overlap_hi"])
+assert hi - lo < F(1, 10**30)
+assert F(d["value_lo"]) <= hi * hi and F(d["value_hi"]) >= lo * lo
+assert float(lo) > 1 - math.log(2) / math.log(10**40)   # van Dam-Hayden, unsquared overlap
+assert "fidelity_lo" not in d   # F_max is not computed on this path
+'
+run error inverse -n 10^40 --measure overlap; expect_rc 0 "overlap table beyond explicit sizes"
+expect_out "method     analytic (analytic:" "overlap table says analytic"
+run error inverse -n 10^40 --measure overlap --target 0.7,0.3; expect_rc 1 "overlap with a vector beyond explicit"; expect_err "only uniform targets" "overlap with a vector beyond explicit"
+run error 'i^0.3' -n 10^40 --measure overlap; expect_rc 1 "overlap of increasing weights"; expect_err "non-increasing" "overlap of increasing weights"
 run error inverse -n 100 --measure trace; expect_rc 2 "bad measure"; expect_err "unknown measure 'trace'" "bad measure"
 run error inverse -n 100 --measure fidelity --csv; expect_rc 0 "fidelity csv"
 pycheck "fidelity csv" '

@@ -430,7 +430,8 @@ START_TEST(test_family_precision)
 END_TEST
 
 /* Bounds from K: the explicit value lies inside them, and they are flagged. Large n gives
- * bounds only; the overlap has none. */
+ * bounds only for fidelity and purified; the overlap is a value there for uniform targets
+ * and refused for target vectors. */
 START_TEST(test_family_bounds)
 {
     embz_family_t f;
@@ -459,8 +460,14 @@ START_TEST(test_family_bounds)
         /* K = ln 2 / (ln n + gamma) roughly 0.0099 here: P between about 0.0099 and 0.14 */
         ck_assert(arb_is_finite(b->value));
     }
+    /* the overlap has a value there (uniform targets), not bounds */
+    ck_assert(embz_fidelity(b, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO, 128, &err)
+              == EMBZ_OK);
+    ck_assert(!b->bounds_only && b->how.analytic);
+    tu_target_set(q, "0.7,0.3");
     ck_assert(embz_fidelity(b, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO, 128, &err)
               == EMBZ_ERR_UNSUPPORTED);
+    tu_target_set(q, "ebit");
     fmpz_set_si(n, EMBZ_FIDELITY_MAX_N + 1);
     ck_assert(embz_fidelity_explicit(b, f, n, q, EMBZ_MEASURE_FIDELITY, 128, &err)
               == EMBZ_ERR_LIMIT);
@@ -525,6 +532,165 @@ START_TEST(test_van_dam_hayden)
 }
 END_TEST
 
+
+static const char *const SHIPPED[] = { "inverse", "power", "logpower", "iterlog", "nearmiss",
+                                       "uniform", "geometric", "tilted", "invamp" };
+#define NSHIPPED ((int) (sizeof(SHIPPED) / sizeof(SHIPPED[0])))
+
+/* The overlap at large n (the analytic engine, overlap.c) against the explicit certified
+ * value (exact rational vector, rounding allowance) at n = 10^3 .. 2^20, for every shipped
+ * family with a weight (the level family qubitcopies has none) and the targets ebit and
+ * uniform:3: the balls overlap and the analytic one is narrower than 1e-25. Also a weight
+ * whose head rises before it falls (head weights inserted among the tail weights). */
+START_TEST(test_overlap_analytic_explicit)
+{
+    const char *targets[] = { "ebit", "uniform:3" };
+    long sizes[] = { 1000, 30000, 1L << 20 };
+    int nsizes = getenv("EMBZ_QUICK") ? 2 : 3;
+    embz_family_t f;
+    embz_family_init(f);
+    embz_target_t q;
+    embz_target_init(q);
+    embz_fidelity_result_t a, e;
+    embz_fidelity_result_init(a);
+    embz_fidelity_result_init(e);
+    fmpz_t n;
+    fmpz_init(n);
+    embz_err_t err;
+    arb_t tiny;
+    arb_init(tiny);
+    arb_set_d(tiny, 1e-25);
+    for (int fi = 0; fi <= NSHIPPED; fi++) {
+        const char *fam = fi < NSHIPPED ? SHIPPED[fi] : "i^0.3*log(log(i+3))*i^(-0.5)";
+        family_set(f, fam);
+        for (int ti = 0; ti < 2; ti++) {
+            tu_target_set(q, targets[ti]);
+            for (int si = fi < NSHIPPED ? 0 : 2; si < nsizes; si++) {
+                fmpz_set_si(n, sizes[si]);
+                embz_err_clear(&err);
+                int st = embz_fidelity(a, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_ANALYTIC,
+                                       128, &err);
+                ck_assert_msg(st == EMBZ_OK, "%s %s n = %ld: %s", fam, targets[ti], sizes[si],
+                              err.text);
+                ck_assert(a->how.analytic && !a->bounds_only);
+                ck_assert(embz_fidelity_explicit(e, f, n, q, EMBZ_MEASURE_OVERLAP, 128, &err)
+                          == EMBZ_OK);
+                ck_assert_msg(arb_overlaps(a->overlap, e->overlap), "%s %s n = %ld", fam,
+                              targets[ti], sizes[si]);
+                ck_assert(arb_overlaps(a->value, e->value));
+                arb_t w;
+                arb_init(w);
+                arb_get_rad_arb(w, a->overlap);
+                ck_assert_msg(arb_lt(w, tiny), "%s %s n = %ld: radius too large", fam,
+                              targets[ti], sizes[si]);
+                arb_clear(w);
+            }
+        }
+    }
+    /* the level family has no weight to sum */
+    family_set(f, "qubitcopies");
+    fmpz_set_str(n, "1000000000000000000000000000000", 10);
+    ck_assert(embz_fidelity(a, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO, 128, &err)
+              != EMBZ_OK);
+    arb_clear(tiny);
+    fmpz_clear(n);
+    embz_fidelity_result_clear(a);
+    embz_fidelity_result_clear(e);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
+/* Two precisions overlap at n = 10^30 and 10^300, the higher one narrower, for families with
+ * different tails (rational, logarithmic, n-dependent, summable). */
+START_TEST(test_overlap_precisions)
+{
+    const char *fams[] = { "inverse", "logpower", "iterlog", "tilted", "nearmiss", "power" };
+    embz_family_t f;
+    embz_family_init(f);
+    embz_target_t q;
+    embz_target_init(q);
+    embz_fidelity_result_t a, b;
+    embz_fidelity_result_init(a);
+    embz_fidelity_result_init(b);
+    fmpz_t n;
+    fmpz_init(n);
+    embz_err_t err;
+    for (int fi = 0; fi < 6; fi++) {
+        family_set(f, fams[fi]);
+        for (int ti = 0; ti < 2; ti++) {
+            tu_target_set(q, ti ? "uniform:3" : "ebit");
+            for (int e = 30; e <= 300; e += 270) {
+                fmpz_ui_pow_ui(n, 10, (ulong) e);
+                embz_err_clear(&err);
+                ck_assert_msg(embz_fidelity(a, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO,
+                                            64, &err) == EMBZ_OK, "%s: %s", fams[fi], err.text);
+                ck_assert_msg(embz_fidelity(b, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO,
+                                            256, &err) == EMBZ_OK, "%s: %s", fams[fi], err.text);
+                ck_assert_msg(arb_overlaps(a->overlap, b->overlap), "%s 10^%d", fams[fi], e);
+                ck_assert(arb_overlaps(a->value, b->value));
+                ck_assert_msg(arb_rel_accuracy_bits(b->overlap)
+                              > arb_rel_accuracy_bits(a->overlap) + 100, "%s 10^%d: %ld, %ld",
+                              fams[fi], e, arb_rel_accuracy_bits(a->overlap),
+                              arb_rel_accuracy_bits(b->overlap));
+            }
+        }
+    }
+    fmpz_clear(n);
+    embz_fidelity_result_clear(a);
+    embz_fidelity_result_clear(b);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
+/* van Dam and Hayden, Phys. Rev. A 67, 060302 (2003), at astronomically large n: the
+ * inverse-index overlap satisfies O >= 1 - log d / log n (the unsquared overlap, see
+ * test_van_dam_hayden) at n = 10^30, 10^300, 10^1000 and d = 2, 3, 8, 16; the squared form
+ * fails at all of these (documents the convention). */
+START_TEST(test_van_dam_hayden_large)
+{
+    embz_family_t f;
+    embz_family_init(f);
+    family_set(f, "inverse");
+    embz_target_t q;
+    embz_target_init(q);
+    embz_fidelity_result_t res;
+    embz_fidelity_result_init(res);
+    fmpz_t n;
+    fmpz_init(n);
+    embz_err_t err;
+    arb_t bound, t;
+    arb_init(bound); arb_init(t);
+    const char *ds[] = { "ebit", "uniform:3", "ebits:3", "uniform:16" };
+    const long dv[] = { 2, 3, 8, 16 };
+    const ulong es[] = { 30, 300, 1000 };
+    for (int di = 0; di < 4; di++) {
+        tu_target_set(q, ds[di]);
+        for (int ei = 0; ei < 3; ei++) {
+            fmpz_ui_pow_ui(n, 10, es[ei]);
+            embz_err_clear(&err);
+            ck_assert_msg(embz_fidelity(res, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO,
+                                        128, &err) == EMBZ_OK, "%s", err.text);
+            arb_set_si(t, dv[di]);
+            arb_log(bound, t, 128);
+            arb_log_fmpz(t, n, 128);
+            arb_div(bound, bound, t, 128);
+            arb_sub_ui(bound, bound, 1, 128);
+            arb_neg(bound, bound);
+            ck_assert_msg(arb_gt(res->overlap, bound), "d = %ld, n = 10^%lu", dv[di], es[ei]);
+            ck_assert_msg(arb_lt(res->value, bound), "squared, d = %ld, n = 10^%lu", dv[di],
+                          es[ei]);
+        }
+    }
+    arb_clear(bound); arb_clear(t);
+    fmpz_clear(n);
+    embz_fidelity_result_clear(res);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
 START_TEST(test_measure_names)
 {
     embz_err_t err;
@@ -556,6 +722,9 @@ static Suite *fidelity_suite(void)
     tcase_add_test(tf, test_family_precision);
     tcase_add_test(tf, test_family_bounds);
     tcase_add_test(tf, test_van_dam_hayden);
+    tcase_add_test(tf, test_overlap_analytic_explicit);
+    tcase_add_test(tf, test_overlap_precisions);
+    tcase_add_test(tf, test_van_dam_hayden_large);
     suite_add_tcase(s, tf);
     return s;
 }

@@ -232,6 +232,17 @@ typedef struct {
                                bound's exponent, rounded; -1e300 for none) */
     slong prec;
     embz_error_how_struct K;
+    /* the overlap at large n by the analytic engine (analytic = 1): */
+    int analytic;
+    slong head;             /* head size M of the layout (weights i <= M placed explicitly) */
+    slong terms;            /* sorted positions summed term by term */
+    slong residues;         /* residue classes j = d (m - 1) + s, one Euler-Maclaurin tail each */
+    slong tail_order;       /* the highest Euler-Maclaurin order among those tails */
+    int tail_neglect;       /* some residue tail stopped at a point beyond which its terms are
+                               negligible (their mass bounded) */
+    slong series, integrals;/* tail series and integrals evaluated by the residue tails */
+    /* allowance_log2 (analytic): the weights beyond a negligible point were dropped from the
+       state, which moves the value by a purified distance of at most 2^this (-1e300: none) */
 } embz_fidelity_how_struct;
 
 typedef struct {

@@ -30,7 +30,9 @@ static const cli_spec_t error_spec = {
     "--measure fidelity: the optimal LOCC fidelity F_max(p -> p (x) q) (fidelity = squared\n"
     "overlap); purified: sqrt(1 - F_max); overlap: the best squared overlap with local\n"
     "unitaries only. These are values for n up to 2^20; beyond, fidelity and purified are\n"
-    "certified BOUNDS from K (K <= P <= sqrt(K(2-K))), marked as such.\n",
+    "certified BOUNDS from K (K <= P <= sqrt(K(2-K))), marked as such, and the overlap is a\n"
+    "certified value from the analytic engine for uniform targets (ebit, ebits:J with J <= 8,\n"
+    "uniform:D with D <= 256) and weights that are eventually non-increasing.\n",
     error_opts, 1, 1
 };
 
@@ -228,7 +230,7 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
         return cli_report("error", status, &err);
     }
     const char *mname = embz_measure_name(measure);
-    const char *how = res->bounds_only ? "bounds" : "explicit";
+    const char *how = res->bounds_only ? "bounds" : res->how.analytic ? "analytic" : "explicit";
     char *ns = fmpz_get_str(NULL, 10, n);
     char *w = weight_text(fam);
     char *detail = embz_fidelity_how_text(&res->how);
@@ -256,7 +258,7 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
             cli_buf_json_key_string(&b, "value_certified", c);
             free(c);
         }
-        if (!res->bounds_only) {
+        if (!res->bounds_only && !res->how.analytic) {
             json_ends(&b, "fidelity", res->fidelity);
             json_ends(&b, "purified", res->purified);
         }
@@ -303,12 +305,12 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
             embz_buf_printf(&b, "%-10s %s   (certified digits)\n", "value", c);
             embz_buf_printf(&b, "%-10s [%s, %s]\n", "enclosure", tl, th);
             free(c);
-            if (measure != EMBZ_MEASURE_FIDELITY) {
+            if (measure != EMBZ_MEASURE_FIDELITY && !res->how.analytic) {
                 char *x = embz_arb_certified_string(res->fidelity, CERT_DIGITS);
                 embz_buf_printf(&b, "%-10s %s   (F_max, certified digits)\n", "fidelity", x);
                 free(x);
             }
-            if (measure != EMBZ_MEASURE_PURIFIED) {
+            if (measure != EMBZ_MEASURE_PURIFIED && !res->how.analytic) {
                 char *x = embz_arb_certified_string(res->purified, CERT_DIGITS);
                 embz_buf_printf(&b, "%-10s %s   (sqrt(1 - F_max), certified digits)\n",
                                 "purified", x);

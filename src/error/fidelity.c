@@ -11,10 +11,12 @@
  * distance apart. With the triangle inequality, the smallest purified distance reachable
  * (by LOCC for F_max, by local unitaries for the overlap) moves by at most 2 eta:
  *     |sqrt(1 - F(p)) - sqrt(1 - F(p'))| <= 2 eta.
- * Beyond explicit sizes: K <= P <= sqrt(K (2 - K)) (docs/measures.md), bounds only. */
+ * Beyond explicit sizes: K <= P <= sqrt(K (2 - K)) (docs/measures.md), bounds only; the
+ * overlap for uniform targets by the analytic engine (overlap.c). */
 #include <stdlib.h>
 #include <string.h>
 #include "embz/error.h"
+#include "impl.h"
 
 void embz_fidelity_result_init(embz_fidelity_result_t r)
 {
@@ -255,6 +257,53 @@ done:
     return status;
 }
 
+/* The overlap beyond explicit sizes, for a uniform target (overlap.c): O of the state with
+ * the negligible weights dropped, its local-unitary distance sqrt(1 - O^2) widened by 2 eta
+ * (the same metric argument as for the rounding of explicit sizes). */
+static int overlap_analytic(embz_fidelity_result_t res, const embz_family_t f, const fmpz_t n,
+                            const embz_target_t q, slong prec, embz_err_t *err)
+{
+    if (q->kind != EMBZ_TARGET_UNIFORM)
+        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                            "the overlap with a target vector needs explicit sizes (n <= %ld); "
+                            "beyond, only uniform targets (ebit, ebits:J, uniform:D)",
+                            (long) EMBZ_FIDELITY_MAX_N);
+    if (embz_family_is_levels(f))
+        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                            "a level family has levels with counts, not a weight w(i)");
+    embz_analytic_t an;
+    embz_analytic_init(an, f, prec);
+    arb_t O, x;
+    mag_t eta, eta2;
+    arb_init(O); arb_init(x);
+    mag_init(eta); mag_init(eta2);
+    embz_fidelity_how_struct how;
+    int st = _embz_overlap_analytic(O, eta, &how, an, n, q->d, err);
+    if (st == EMBZ_OK) {
+        slong wp = how.prec;
+        arb_sqr(x, O, wp);
+        arb_sub_ui(x, x, 1, wp);
+        arb_neg(x, x);
+        arb_sqrtpos(x, x, wp);                 /* sqrt(1 - O^2) */
+        mag_mul_2exp_si(eta2, eta, 1);
+        widen(res->purified, res->value, x, eta2, prec);   /* value = O^2 */
+        arb_sqrtpos(res->overlap, res->value, prec);
+        arb_indeterminate(res->purified);
+        arb_indeterminate(res->fidelity);
+        set_ends(res->lower, res->upper, res->value, prec);
+        res->measure = EMBZ_MEASURE_OVERLAP;
+        res->bounds_only = 0;
+        res->nblocks = 0;
+        arb_indeterminate(res->K);
+        res->how = how;
+        res->how.prec = prec;
+    }
+    arb_clear(O); arb_clear(x);
+    mag_clear(eta); mag_clear(eta2);
+    embz_analytic_clear(an);
+    return st;
+}
+
 int embz_fidelity(embz_fidelity_result_t res, const embz_family_t f, const fmpz_t n,
                   const embz_target_t q, int measure, int method, slong prec, embz_err_t *err)
 {
@@ -267,9 +316,7 @@ int embz_fidelity(embz_fidelity_result_t res, const embz_family_t f, const fmpz_
     if (method == EMBZ_METHOD_EXPLICIT || (method == EMBZ_METHOD_AUTO && small))
         return embz_fidelity_explicit(res, f, n, q, measure, prec, err);
     if (measure == EMBZ_MEASURE_OVERLAP)
-        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                            "the overlap measure needs explicit sizes (n <= %ld); K gives no "
-                            "lower bound for it", (long) EMBZ_FIDELITY_MAX_N);
+        return overlap_analytic(res, f, n, q, prec, err);
     embz_error_result_t e;
     embz_error_result_init(e);
     int status = embz_error(e, f, n, q, method, prec, err);
