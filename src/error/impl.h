@@ -402,6 +402,17 @@ int _embz_an_run(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
  * is not known in the form the sum needs. */
 int _embz_overlap_analytic(arb_t O, mag_t eta, embz_fidelity_how_struct *how,
                            embz_analytic_t an, const fmpz_t n, ulong d, embz_err_t *err);
+/* overlap.c, shared with fmax.c: the layout for sums over the sorted positions with a
+ * non-increasing tail (*m0: the first block of d positions past A and past every inserted head
+ * weight, at least mmin; d m0 at most max_explicit; EMBZ_ERR_UNSUPPORTED with a reason
+ * otherwise), the sum of sqrt(v_j v_ceil(j/d)) over d m0 < j <= n (weights not normalised;
+ * residue tails and B), and the allowance eta of a layout that dropped negligible weights */
+int _embz_overlap_layout(actx *c, slong *m0, embz_analytic_t an, const fmpz_t n, ulong d,
+                         slong mmin, slong max_explicit, embz_tail_struct *tail,
+                         int *have_tail, slong *wp, embz_err_t *err);
+int _embz_overlap_sum_from(arb_t res, embz_fidelity_how_struct *how, actx *c, slong m0,
+                           ulong d, slong wp, embz_err_t *err);
+void _embz_overlap_eta(mag_t eta, const actx *c);
 
 /* E_n(q) of a level family (levels.c); the evaluator's one path for such families. */
 int _embz_error_levels(embz_error_result_t res, const embz_family_t f, const fmpz_t n,

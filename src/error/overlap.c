@@ -62,95 +62,42 @@ static int residue_expr(embz_expr_t g, const embz_expr_t w, ulong d, slong beta,
     return st;
 }
 
-int _embz_overlap_analytic(arb_t O, mag_t eta, embz_fidelity_how_struct *how,
-                           embz_analytic_t an, const fmpz_t n, ulong d, embz_err_t *err)
+/* sum of sqrt(v_j v_ceil(j/d)) over the sorted positions d m0 < j <= c->n (v the layout's
+ * weights, not normalised): the residue tails up to the last tail position jT, then B term
+ * by term. Needs m0 past A and past every inserted head weight, and jT > d m0 + 2 d. */
+int _embz_overlap_sum_from(arb_t res, embz_fidelity_how_struct *how, actx *c, slong m0,
+                           ulong d, slong wp, embz_err_t *err)
 {
-    slong prec = an->prec, wp = prec + 32;
-    if (d > OVERLAP_MAX_D)
-        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                            "the overlap at large n is summed over the d residue classes of "
-                            "the target, d <= %d (here d = %lu)", OVERLAP_MAX_D,
-                            (unsigned long) d);
-    actx c;
-    embz_tail_t tail, gt;
-    int have_tail = 0;
-    fmpz_t j, jT, mhi;
-    arb_t sum, t, x;
+    int st = EMBZ_OK;
+    embz_tail_t gt;
     embz_expr_t g;
+    fmpz_t j, jT, mhi;
+    arb_t t, x, sum;
     fmpz_init(j); fmpz_init(jT); fmpz_init(mhi);
-    arb_init(sum); arb_init(t); arb_init(x);
+    arb_init(t); arb_init(x); arb_init(sum);
     embz_expr_init(g);
-    mag_zero(eta);
-    memset(how, 0, sizeof(*how));
-    _embz_an_ctx_init(&c, tail, an->f, n, d, wp);
-    c.cancel = an->cancel;
-    c.deadline = an->deadline;
-
-    int st = _embz_an_layout(&c, an, n, tail, &have_tail, &wp, err);
-    if (st != EMBZ_OK) goto out;
-    if (c.t->dir < 0) {
-        st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                          "the overlap at large n needs weights that are eventually "
-                          "non-increasing (a non-decreasing tail is sorted from n down)");
-        goto out;
-    }
-    /* past A and every inserted head weight, positions are affine in the tail index */
-    slong top = c.a;
-    if (c.nins > 0) {
-        const fmpz *last = c.ins_pos + c.nins - 1;
-        if (fmpz_bits(last) > 40 || fmpz_get_si(last) > OVERLAP_EXPLICIT_MAX) {
-            st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                              "a head weight sits too far down the sorted order for the "
-                              "overlap (at a position beyond %ld)", (long) OVERLAP_EXPLICIT_MAX);
-            goto out;
-        }
-        top = FLINT_MAX(top, fmpz_get_si(last));
-    }
-    slong m0 = top + 1, J0 = (slong) d * m0;
-    fmpz_add_si(jT, c.L, c.a + c.nins);          /* the last tail position */
-    if (J0 > OVERLAP_EXPLICIT_MAX) {
-        st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                          "the overlap would sum %ld sorted positions term by term (more than "
-                          "%ld)", (long) J0, (long) OVERLAP_EXPLICIT_MAX);
-        goto out;
-    }
-    if (fmpz_cmp_si(jT, J0 + 2 * (slong) d) <= 0) {
-        st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                          "n is too small for the overlap's analytic sum (its first %ld sorted "
-                          "positions are summed term by term; use explicit mode)", (long) J0);
-        goto out;
-    }
-    /* the first J0 positions */
+    fmpz_add_si(jT, c->L, c->a + c->nins);          /* the last tail position */
     arb_zero(sum);
-    for (slong k = 1; k <= J0 && st == EMBZ_OK; k++) {
-        fmpz_set_si(j, k);
-        st = pos_term(t, &c, j, d, wp);
-        arb_add(sum, sum, t, wp);
-    }
     /* the positions in B */
-    for (fmpz_add_ui(j, jT, 1); st == EMBZ_OK && fmpz_cmp(j, c.n) <= 0; fmpz_add_ui(j, j, 1)) {
-        st = pos_term(t, &c, j, d, wp);
+    for (fmpz_add_ui(j, jT, 1); st == EMBZ_OK && fmpz_cmp(j, c->n) <= 0; fmpz_add_ui(j, j, 1)) {
+        st = pos_term(t, c, j, d, wp);
         arb_add(sum, sum, t, wp);
     }
-    if (st != EMBZ_OK) {
-        embz_err_set(err, st, "a weight of the overlap's explicit positions is undefined");
-        goto out;
-    }
-    how->terms = J0 + c.b;
+    if (st != EMBZ_OK) embz_err_set(err, st, "a weight of the overlap's explicit positions is undefined");
     /* one residue class s at a time: m = m0 + 1 .. mhi(s), mhi = floor((jT - s)/d) + 1 */
-    slong gamma = c.M - c.a - c.nins;
+    slong gamma = c->M - c->a - c->nins;
     for (ulong s = 1; s <= d && st == EMBZ_OK; s++) {
-        if (_embz_an_should_stop(&c)) {
-            st = embz_err_set(err, EMBZ_ERR_LIMIT, "stopped: %s", c.stopped == 1
+        if (_embz_an_should_stop(c)) {
+            st = embz_err_set(err, EMBZ_ERR_LIMIT, "stopped: %s", c->stopped == 1
                               ? "cancelled by the caller" : "the time limit was reached");
             break;
         }
         fmpz_sub_ui(mhi, jT, s);
         fmpz_fdiv_q_ui(mhi, mhi, d);
         fmpz_add_ui(mhi, mhi, 1);
-        st = residue_expr(g, an->f->weight, d, gamma + (slong) s - (slong) d, gamma);
+        st = residue_expr(g, c->f->weight, d, gamma + (slong) s - (slong) d, gamma);
         if (st != EMBZ_OK) break;
-        st = embz_tail_init(gt, g, c.ntrue, m0, mhi, wp, err);
+        st = embz_tail_init(gt, g, c->ntrue, m0, mhi, wp, err);
         if (st != EMBZ_OK) {
             embz_tail_clear(gt);
             break;
@@ -175,21 +122,115 @@ int _embz_overlap_analytic(arb_t O, mag_t eta, embz_fidelity_how_struct *how,
         embz_tail_clear(gt);
         arb_add(sum, sum, t, wp);
     }
+    arb_swap(res, sum);
+    fmpz_clear(j); fmpz_clear(jT); fmpz_clear(mhi);
+    arb_clear(t); arb_clear(x); arb_clear(sum);
+    embz_expr_clear(g);
+    return st;
+}
+
+/* the layout for the overlap-type sums at size n: a non-increasing tail, and m0 (the first
+ * block past A and every inserted head weight, at least mmin) with d m0 <= max_explicit and
+ * a tail long enough beyond it */
+int _embz_overlap_layout(actx *c, slong *m0, embz_analytic_t an, const fmpz_t n, ulong d,
+                         slong mmin, slong max_explicit, embz_tail_struct *tail,
+                         int *have_tail, slong *wp, embz_err_t *err)
+{
+    if (d > OVERLAP_MAX_D)
+        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                            "the overlap at large n is summed over the d residue classes of "
+                            "the target, d <= %d (here d = %lu)", OVERLAP_MAX_D,
+                            (unsigned long) d);
+    int st = _embz_an_layout(c, an, n, tail, have_tail, wp, err);
+    if (st != EMBZ_OK) return st;
+    if (c->t->dir < 0)
+        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                            "the overlap at large n needs weights that are eventually "
+                            "non-increasing (a non-decreasing tail is sorted from n down)");
+    /* past A and every inserted head weight, positions are affine in the tail index */
+    slong top = c->a;
+    if (c->nins > 0) {
+        const fmpz *last = c->ins_pos + c->nins - 1;
+        if (fmpz_bits(last) > 40 || fmpz_get_si(last) > max_explicit)
+            return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                                "a head weight sits too far down the sorted order for the "
+                                "overlap (at a position beyond %ld)", (long) max_explicit);
+        top = FLINT_MAX(top, fmpz_get_si(last));
+    }
+    *m0 = FLINT_MAX(top + 1, mmin);
+    slong J0 = (slong) d * *m0;
+    fmpz_t jT;
+    fmpz_init(jT);
+    fmpz_add_si(jT, c->L, c->a + c->nins);          /* the last tail position */
+    if (J0 > max_explicit) {
+        st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                          "the overlap would sum %ld sorted positions term by term (more than "
+                          "%ld)", (long) J0, (long) max_explicit);
+    } else if (fmpz_cmp_si(jT, J0 + 2 * (slong) d) <= 0) {
+        st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                          "n is too small for the overlap's analytic sum (its first %ld sorted "
+                          "positions are summed term by term; use explicit mode)", (long) J0);
+    }
+    fmpz_clear(jT);
+    return st;
+}
+
+/* eta <- sqrt(neglected / W) when the layout dropped negligible weights (else 0): the
+ * purified distance between the truncated state and the true one */
+void _embz_overlap_eta(mag_t eta, const actx *c)
+{
+    mag_zero(eta);
+    if (fmpz_cmp(c->n, c->ntrue) < 0 && !mag_is_zero(c->t->neglected)) {
+        /* sqrt(1 - W'/W) <= sqrt(neglected / W') */
+        mag_t wl;
+        mag_init(wl);
+        arb_get_mag_lower(wl, c->W);
+        mag_div(eta, c->t->neglected, wl);
+        mag_sqrt(eta, eta);
+        mag_clear(wl);
+    }
+}
+
+int _embz_overlap_analytic(arb_t O, mag_t eta, embz_fidelity_how_struct *how,
+                           embz_analytic_t an, const fmpz_t n, ulong d, embz_err_t *err)
+{
+    slong prec = an->prec, wp = prec + 32, m0 = 0;
+    actx c;
+    embz_tail_t tail;
+    int have_tail = 0;
+    fmpz_t j;
+    arb_t sum, t;
+    fmpz_init(j);
+    arb_init(sum); arb_init(t);
+    mag_zero(eta);
+    memset(how, 0, sizeof(*how));
+    _embz_an_ctx_init(&c, tail, an->f, n, d, wp);
+    c.cancel = an->cancel;
+    c.deadline = an->deadline;
+    int st = _embz_overlap_layout(&c, &m0, an, n, d, 0, OVERLAP_EXPLICIT_MAX, tail, &have_tail,
+                                  &wp, err);
     if (st != EMBZ_OK) goto out;
+    slong J0 = (slong) d * m0;
+    /* the first J0 positions */
+    arb_zero(sum);
+    for (slong k = 1; k <= J0 && st == EMBZ_OK; k++) {
+        fmpz_set_si(j, k);
+        st = pos_term(t, &c, j, d, wp);
+        arb_add(sum, sum, t, wp);
+    }
+    if (st != EMBZ_OK) {
+        embz_err_set(err, st, "a weight of the overlap's explicit positions is undefined");
+        goto out;
+    }
+    st = _embz_overlap_sum_from(t, how, &c, m0, d, wp, err);
+    if (st != EMBZ_OK) goto out;
+    arb_add(sum, sum, t, wp);
+    how->terms = J0 + c.b;
     /* O = sum / (W sqrt d) */
     arb_sqrt_ui(t, d, wp);
     arb_mul(t, t, c.W, wp);
     arb_div(O, sum, t, wp);
-    if (fmpz_cmp(c.n, c.ntrue) < 0 && !mag_is_zero(c.t->neglected)) {
-        /* the truncated state (weights beyond c.n dropped) is at purified distance
-         * sqrt(1 - W'/W) <= sqrt(neglected / W') from the true one */
-        mag_t wl;
-        mag_init(wl);
-        arb_get_mag_lower(wl, c.W);
-        mag_div(eta, c.t->neglected, wl);
-        mag_sqrt(eta, eta);
-        mag_clear(wl);
-    }
+    _embz_overlap_eta(eta, &c);
     how->analytic = 1;
     how->head = c.M;
     how->residues = (slong) d;
@@ -198,8 +239,7 @@ int _embz_overlap_analytic(arb_t O, mag_t eta, embz_fidelity_how_struct *how,
 out:
     if (have_tail) embz_tail_clear(tail);
     _embz_an_ctx_clear(&c);
-    fmpz_clear(j); fmpz_clear(jT); fmpz_clear(mhi);
-    arb_clear(sum); arb_clear(t); arb_clear(x);
-    embz_expr_clear(g);
+    fmpz_clear(j);
+    arb_clear(sum); arb_clear(t);
     return st;
 }
