@@ -93,6 +93,10 @@ int embz_expr_affine(embz_expr_t out, const embz_expr_t w, const fmpq_t a, const
  * alias x or y. EMBZ_ERR_INPUT for an empty expression. */
 int embz_expr_geomean(embz_expr_t out, const embz_expr_t x, const embz_expr_t y);
 
+/* out = x op y for a binary operation (EMBZ_OP_ADD, _SUB, _MUL, _DIV, _POW, _MIN, _MAX).
+ * out may not alias x or y. EMBZ_ERR_INPUT for an empty expression or another op. */
+int embz_expr_binary(embz_expr_t out, int op, const embz_expr_t x, const embz_expr_t y);
+
 /* Wrap: e <- e^2 (used for amplitude families). */
 void embz_expr_square(embz_expr_t e);
 

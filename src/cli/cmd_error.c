@@ -258,12 +258,19 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
             cli_buf_json_key_string(&b, "value_certified", c);
             free(c);
         }
-        if (!res->bounds_only && !res->how.analytic) {
+        if (!res->bounds_only && res->how.analytic != 1) {
             json_ends(&b, "fidelity", res->fidelity);
             json_ends(&b, "purified", res->purified);
         }
         if (measure == EMBZ_MEASURE_OVERLAP) json_ends(&b, "overlap", res->overlap);
         if (res->bounds_only) json_ends(&b, "K", res->K);
+        if (res->bounds_only && res->have_tight) {
+            char *a = embz_arb_lo_string(res->tight_lo, JSON_DIGITS);
+            char *z = embz_arb_hi_string(res->tight_hi, JSON_DIGITS);
+            cli_buf_json_key_string(&b, "tight_lo", a);
+            cli_buf_json_key_string(&b, "tight_hi", z);
+            free(a); free(z);
+        }
         cli_buf_json_key_string(&b, "detail", detail);
         embz_buf_printf(&b, "}\n");
         free(pj);
@@ -300,17 +307,25 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
             embz_buf_printf(&b, "%-10s %s   (conversion distance, certified digits)\n", "K",
                             kc);
             free(kc);
+            if (res->have_tight) {
+                char *a = embz_arb_lo_string(res->tight_lo, TABLE_DIGITS);
+                char *z = embz_arb_hi_string(res->tight_hi, TABLE_DIGITS);
+                embz_buf_printf(&b, "%-10s %s <= %s <= %s   (LOCC fidelity bounds: exact hull "
+                                "of the first %ld positions, s = p and Lagrange multipliers "
+                                "beyond)\n", "tighter", a, mname, z, (long) res->how.terms);
+                free(a); free(z);
+            }
         } else {
             char *c = embz_arb_certified_string(res->value, CERT_DIGITS);
             embz_buf_printf(&b, "%-10s %s   (certified digits)\n", "value", c);
             embz_buf_printf(&b, "%-10s [%s, %s]\n", "enclosure", tl, th);
             free(c);
-            if (measure != EMBZ_MEASURE_FIDELITY && !res->how.analytic) {
+            if (measure != EMBZ_MEASURE_FIDELITY && res->how.analytic != 1) {
                 char *x = embz_arb_certified_string(res->fidelity, CERT_DIGITS);
                 embz_buf_printf(&b, "%-10s %s   (F_max, certified digits)\n", "fidelity", x);
                 free(x);
             }
-            if (measure != EMBZ_MEASURE_PURIFIED && !res->how.analytic) {
+            if (measure != EMBZ_MEASURE_PURIFIED && res->how.analytic != 1) {
                 char *x = embz_arb_certified_string(res->purified, CERT_DIGITS);
                 embz_buf_printf(&b, "%-10s %s   (sqrt(1 - F_max), certified digits)\n",
                                 "purified", x);

@@ -413,6 +413,10 @@ int _embz_overlap_layout(actx *c, slong *m0, embz_analytic_t an, const fmpz_t n,
 int _embz_overlap_sum_from(arb_t res, embz_fidelity_how_struct *how, actx *c, slong m0,
                            ulong d, slong wp, embz_err_t *err);
 void _embz_overlap_eta(mag_t eta, const actx *c);
+/* fmax.c: lo <= sqrt(F_max(p -> p (x) u_d)) <= hi at large n (non-increasing tails), for the
+ * state with the negligible weights dropped (eta as above); how->analytic = 2 */
+int _embz_fmax_analytic(arb_t lo, arb_t hi, mag_t eta, embz_fidelity_how_struct *how,
+                        embz_analytic_t an, const fmpz_t n, ulong d, embz_err_t *err);
 
 /* E_n(q) of a level family (levels.c); the evaluator's one path for such families. */
 int _embz_error_levels(embz_error_result_t res, const embz_family_t f, const fmpz_t n,

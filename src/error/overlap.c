@@ -157,11 +157,14 @@ int _embz_overlap_layout(actx *c, slong *m0, embz_analytic_t an, const fmpz_t n,
                                 "overlap (at a position beyond %ld)", (long) max_explicit);
         top = FLINT_MAX(top, fmpz_get_si(last));
     }
-    *m0 = FLINT_MAX(top + 1, mmin);
-    slong J0 = (slong) d * *m0;
     fmpz_t jT;
     fmpz_init(jT);
     fmpz_add_si(jT, c->L, c->a + c->nins);          /* the last tail position */
+    /* at most half the tail for the wished-for first blocks (a tail that ends early because
+     * its far weights are negligible may be short) */
+    if (fmpz_cmp_si(jT, 2 * (slong) d * mmin) < 0) mmin = fmpz_get_si(jT) / (2 * (slong) d);
+    *m0 = FLINT_MAX(top + 1, mmin);
+    slong J0 = (slong) d * *m0;
     if (J0 > max_explicit) {
         st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
                           "the overlap would sum %ld sorted positions term by term (more than "

@@ -186,3 +186,20 @@ int embz_expr_geomean(embz_expr_t out, const embz_expr_t x, const embz_expr_t y)
     *out = *t;
     return EMBZ_OK;
 }
+
+int embz_expr_binary(embz_expr_t out, int op, const embz_expr_t x, const embz_expr_t y)
+{
+    if (x->root < 0 || y->root < 0) return EMBZ_ERR_INPUT;
+    if (_embz_op_arity(op) != 2 || op == EMBZ_OP_BINOM) return EMBZ_ERR_INPUT;
+    embz_expr_t t;
+    embz_expr_init(t);
+    int kx = append(t, x, NULL, NULL);
+    int ky = append(t, y, NULL, NULL);
+    t->root = push(t, op, kx, ky);
+    copy_params(t, x->nparams > 0 ? x : y);
+    _embz_expr_prune(t);
+    embz_expr_fold(t);
+    embz_expr_clear(out);
+    *out = *t;
+    return EMBZ_OK;
+}

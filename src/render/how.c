@@ -80,7 +80,20 @@ char *embz_error_how_text(const embz_error_how_struct *h)
 
 char *embz_fidelity_how_text(const embz_fidelity_how_struct *h)
 {
-    if (h->analytic) {
+    if (h->analytic == 2 && !h->bounds_only) {
+        char neg[96] = "";
+        if (h->allowance_log2 > -1e299)
+            snprintf(neg, sizeof(neg), ", negligible weights dropped (allowance 2^%.0f)",
+                     h->allowance_log2);
+        return embz_strdup_printf(
+            "analytic: exact hull of the first %ld sorted positions (%ld pieces%s), beyond "
+            "them s = p below (%ld residue classes as Euler-Maclaurin tails) and Lagrange "
+            "multipliers above (%s)%s, arb %ld bits", (long) h->terms, (long) h->pieces,
+            h->splits > 0 ? ", some split to certify them" : "", (long) h->residues,
+            h->block_dual ? "one per block of d positions" : "constant from the last vertex",
+            neg, (long) h->prec);
+    }
+    if (h->analytic == 1) {
         char neg[96] = "";
         if (h->allowance_log2 > -1e299)
             snprintf(neg, sizeof(neg), ", negligible weights dropped (allowance 2^%.0f)",
