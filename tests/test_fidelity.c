@@ -727,6 +727,132 @@ START_TEST(test_van_dam_hayden_large)
 }
 END_TEST
 
+
+/* The duality behind the upper bounds of fmax.c [derived in src/error/fmax.c]: for every
+ * non-decreasing lambda > 0, sum_i r_i / (4 lambda_i) + lambda_i p_i >= sqrt(F_max(p -> r))
+ * (r restricted to the length of p), with equality for lambda_i = 1 / (2 sqrt(s_i / r_i)), s
+ * the optimal output of embz_qvec_fidelity. Random rational pairs of lengths 2..8 and random
+ * multipliers; a lambda that decreases somewhere may fall below (checked to happen). */
+START_TEST(test_fmax_duality)
+{
+    flint_rand_t state;
+    flint_randinit(state);
+    embz_qvec_t p, r, s;
+    embz_qvec_init(p); embz_qvec_init(r); embz_qvec_init(s);
+    arb_t F, D, t, u, lam;
+    arb_init(F); arb_init(D); arb_init(t); arb_init(u); arb_init(lam);
+    int below = 0;
+    for (int it = 0; it < 2000; it++) {
+        long len = 2 + (long) n_randint(state, 7);
+        random_qvec(p, state, len, 0);
+        random_qvec(r, state, len + (long) n_randint(state, 3), 0);
+        embz_qvec_sort(p);
+        embz_qvec_sort(r);
+        embz_qvec_fidelity(F, s, NULL, p, r, 128);
+        arb_sqrt(F, F, 128);
+        /* the optimal multipliers: equality */
+        arb_zero(D);
+        int ok = 1;
+        for (long i = 0; i < len && i < s->len; i++) {
+            if (fmpq_is_zero(r->p + i) || fmpq_is_zero(s->p + i)) { ok = 0; break; }
+            arb_set_fmpq(t, s->p + i, 128);
+            arb_set_fmpq(u, r->p + i, 128);
+            arb_div(lam, t, u, 128);
+            arb_sqrt(lam, lam, 128);
+            arb_mul_2exp_si(lam, lam, 1);
+            arb_inv(lam, lam, 128);                     /* 1 / (2 sqrt(s/r)) */
+            arb_div(u, u, lam, 128);
+            arb_mul_2exp_si(u, u, -2);
+            arb_add(D, D, u, 128);
+            arb_set_fmpq(t, p->p + i, 128);
+            arb_mul(t, t, lam, 128);
+            arb_add(D, D, t, 128);
+        }
+        if (ok) ck_assert_msg(arb_overlaps(D, F), "optimal multipliers, it %d", it);
+        /* random multipliers: non-decreasing ones bound from above */
+        for (int mono = 0; mono < 2; mono++) {
+            arb_zero(D);
+            double l = 0.2 + n_randint(state, 100) / 50.0;
+            for (long i = 0; i < len; i++) {
+                l = mono ? l + n_randint(state, 100) / 100.0
+                         : 0.2 + n_randint(state, 100) / 50.0;
+                arb_set_d(lam, l);
+                arb_set_fmpq(u, r->p + i, 128);
+                arb_div(u, u, lam, 128);
+                arb_mul_2exp_si(u, u, -2);
+                arb_add(D, D, u, 128);
+                arb_set_fmpq(t, p->p + i, 128);
+                arb_mul(t, t, lam, 128);
+                arb_add(D, D, t, 128);
+            }
+            if (mono) ck_assert_msg(!arb_lt(D, F), "non-decreasing multipliers, it %d", it);
+            else if (arb_lt(D, F)) below++;
+        }
+    }
+    ck_assert(below > 0);
+    arb_clear(F); arb_clear(D); arb_clear(t); arb_clear(u); arb_clear(lam);
+    embz_qvec_clear(p); embz_qvec_clear(r); embz_qvec_clear(s);
+    flint_randclear(state);
+}
+END_TEST
+
+/* F_max and P at large n (fmax.c) against the explicit exact hull (embz_fidelity_explicit)
+ * at n = 2^18 and 2^20 for every shipped family with a weight and the targets ebit and
+ * uniform:3: a value overlaps the explicit one, tighter bounds contain it. The families
+ * whose hull is tight (inverse, invamp, power, tilted, uniform, geometric) must give values. */
+START_TEST(test_fmax_analytic_explicit)
+{
+    const char *targets[] = { "ebit", "uniform:3" };
+    long sizes[] = { 1L << 18, 1L << 20 };
+    int nsizes = getenv("EMBZ_QUICK") ? 1 : 2;
+    embz_family_t f;
+    embz_family_init(f);
+    embz_target_t q;
+    embz_target_init(q);
+    embz_fidelity_result_t a, e;
+    embz_fidelity_result_init(a);
+    embz_fidelity_result_init(e);
+    fmpz_t n;
+    fmpz_init(n);
+    embz_err_t err;
+    for (int fi = 0; fi < NSHIPPED; fi++) {
+        family_set(f, SHIPPED[fi]);
+        int want_value = strcmp(SHIPPED[fi], "logpower") != 0
+                         && strcmp(SHIPPED[fi], "iterlog") != 0
+                         && strcmp(SHIPPED[fi], "nearmiss") != 0;
+        for (int ti = 0; ti < 2; ti++) {
+            tu_target_set(q, targets[ti]);
+            for (int si = 0; si < nsizes; si++) {
+                fmpz_set_si(n, sizes[si]);
+                embz_err_clear(&err);
+                ck_assert(embz_fidelity_explicit(e, f, n, q, EMBZ_MEASURE_PURIFIED, 128, &err)
+                          == EMBZ_OK);
+                int st = embz_fidelity(a, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_ANALYTIC,
+                                       128, &err);
+                ck_assert_msg(st == EMBZ_OK, "%s: %s", SHIPPED[fi], err.text);
+                if (!a->bounds_only) {
+                    ck_assert(a->how.analytic == 2);
+                    ck_assert_msg(arb_overlaps(a->purified, e->purified), "%s %s n = %ld",
+                                  SHIPPED[fi], targets[ti], sizes[si]);
+                    ck_assert(arb_overlaps(a->fidelity, e->fidelity));
+                } else {
+                    ck_assert_msg(!want_value, "%s %s n = %ld: bounds only", SHIPPED[fi],
+                                  targets[ti], sizes[si]);
+                    ck_assert(a->have_tight);
+                    ck_assert(!arb_lt(e->purified, a->tight_lo)
+                              && !arb_gt(e->purified, a->tight_hi));
+                }
+            }
+        }
+    }
+    fmpz_clear(n);
+    embz_fidelity_result_clear(a);
+    embz_fidelity_result_clear(e);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
 START_TEST(test_measure_names)
 {
     embz_err_t err;
@@ -751,6 +877,7 @@ static Suite *fidelity_suite(void)
     tcase_add_test(tc, test_catalysis);
     tcase_add_test(tc, test_relations);
     tcase_add_test(tc, test_measure_names);
+    tcase_add_test(tc, test_fmax_duality);
     suite_add_tcase(s, tc);
     TCase *tf = tcase_create("families");
     tcase_set_timeout(tf, 600);
@@ -761,6 +888,7 @@ static Suite *fidelity_suite(void)
     tcase_add_test(tf, test_overlap_analytic_explicit);
     tcase_add_test(tf, test_overlap_precisions);
     tcase_add_test(tf, test_van_dam_hayden_large);
+    tcase_add_test(tf, test_fmax_analytic_explicit);
     suite_add_tcase(s, tf);
     return s;
 }
