@@ -29,10 +29,11 @@ static const cli_spec_t error_spec = {
     "double-precision value without guarantee.\n"
     "--measure fidelity: the optimal LOCC fidelity F_max(p -> p (x) q) (fidelity = squared\n"
     "overlap); purified: sqrt(1 - F_max); overlap: the best squared overlap with local\n"
-    "unitaries only. These are values for n up to 2^20; beyond, fidelity and purified are\n"
-    "certified BOUNDS from K (K <= P <= sqrt(K(2-K))), marked as such, and the overlap is a\n"
-    "certified value from the analytic engine for uniform targets (ebit, ebits:J with J <= 8,\n"
-    "uniform:D with D <= 256) and weights that are eventually non-increasing.\n",
+    "unitaries only. These are values for n up to 2^20. Beyond, for uniform targets (ebit,\n"
+    "ebits:J with J <= 8, uniform:D with D <= 256) and weights that are eventually\n"
+    "non-increasing, the analytic engine certifies the overlap, and fidelity and purified\n"
+    "where its two-sided bounds meet; elsewhere fidelity and purified are certified BOUNDS\n"
+    "from K (K <= P <= sqrt(K(2-K))), marked as such, with tighter ones when available.\n",
     error_opts, 1, 1
 };
 

@@ -53,7 +53,7 @@ static int affine_node(embz_expr_t dst, const fmpq_t A, const fmpq_t B)
 static int append(embz_expr_t dst, const embz_expr_t src, const fmpq *A,
                   const fmpq *B)
 {
-    int *map = malloc((size_t) (src->root + 1) * sizeof(int));
+    int *map = calloc((size_t) (src->root + 1), sizeof(int));
     if (map == NULL) abort();
     for (long k = 0; k <= src->root; k++) map[k] = -1;
     int ivar = -1;
