@@ -247,6 +247,8 @@ typedef struct {
     slong splits;
     int block_dual;
     slong last_vertex;      /* F_max: the upper bound's last hull vertex before the chord to n */
+    int pairs;              /* F_max: the lower bound pairs the positions (d m, d m + 1) beyond
+                               the prefix (the weight proven log-convex there) */
     /* allowance_log2 (analytic): the weights beyond a negligible point were dropped from the
        state, which moves the value by a purified distance of at most 2^this (-1e300: none) */
 } embz_fidelity_how_struct;

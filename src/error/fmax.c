@@ -59,6 +59,182 @@ static void piece_primal(arb_t res, arb_srcptr P, arb_srcptr R, slong a, slong b
     arb_clear(x); arb_clear(y);
 }
 
+/* the upper hull of (R_k, P_k), k = 0..last, on the midpoints of the cross products; returns
+ * the number of vertices */
+static slong build_hull(slong *hull, arb_srcptr P, arb_srcptr R, slong last, slong prec)
+{
+    arb_t t;
+    arb_init(t);
+    slong h = 0;
+    for (slong k = 0; k <= last; k++) {
+        while (h >= 2) {
+            cross(t, P, R, hull[h - 2], k, hull[h - 1], prec);
+            if (arf_sgn(arb_midref(t)) < 0) break;   /* hull[h-1] strictly above: keep */
+            h--;
+        }
+        hull[h++] = k;
+    }
+    arb_clear(t);
+    return h;
+}
+
+/* The lower bound of the hull pieces hull[0..h-1]: each chord certified above the points it
+ * spans, or split in the middle (points on the chord, exactly collinear ones, cannot be
+ * certified below it: O(K0 log K0) checks, not O(K0^2)). *splits counts the splits. */
+static int certified_pieces(arb_t L, slong *splits, const slong *hull, slong h, arb_srcptr P,
+                            arb_srcptr R, slong K0, slong prec, embz_err_t *err)
+{
+    int st = EMBZ_OK;
+    slong *stack = flint_malloc(sizeof(slong) * 2 * (size_t) (K0 + 2));
+    slong work = 0;
+    arb_t t;
+    arb_init(t);
+    arb_zero(L);
+    for (slong q = h - 1; q >= 1 && st == EMBZ_OK; q--) {
+        slong sp = 0;
+        stack[sp++] = hull[q - 1];
+        stack[sp++] = hull[q];
+        while (sp > 0 && st == EMBZ_OK) {
+            slong b = stack[--sp], a = stack[--sp], bad = -1;
+            for (slong k = a + 1; k < b; k++) {
+                cross(t, P, R, a, b, k, prec);
+                if (!arb_is_nonnegative(t)) { bad = k; break; }
+            }
+            work += b - a;
+            if (work > 64 * K0) {
+                st = embz_err_set(err, EMBZ_ERR_PREC, "the hull of the first positions "
+                                  "could not be certified at this precision");
+                break;
+            }
+            if (bad < 0) {
+                piece_primal(t, P, R, a, b, prec);
+                arb_add(L, L, t, prec);
+            } else {
+                slong mid = a + (b - a) / 2;
+                (*splits)++;
+                stack[sp++] = mid; stack[sp++] = b;
+                stack[sp++] = a; stack[sp++] = mid;
+            }
+        }
+    }
+    arb_clear(t);
+    flint_free(stack);
+    return st;
+}
+
+/* f log-convex (f f'' >= f'^2) for x in [xlo, xhi]: P_0 P_2 - P_1^2 >= 0 on chunks of
+ * u = ln x (x^k f^(k) = e^(r u) P_k(u), so f f'' - f'^2 = e^(2 r u) (P_0 P_2 - P_1^2) / x^2) */
+static int log_convex(embz_tail_struct *t, slong xlo, const fmpz_t xhi, slong prec)
+{
+    if (!t->usplit) return 0;
+    arb_t u, uend, w, U, v;
+    arb_ptr Pk = _arb_vec_init(3);
+    arb_init(u); arb_init(uend); arb_init(w); arb_init(U); arb_init(v);
+    arb_set_si(u, xlo);
+    arb_log(u, u, prec);
+    arb_set_fmpz(uend, xhi);
+    arb_log(uend, uend, prec);
+    double wd = 1.0;
+    int ok = 1;
+    for (int it = 0; it < 20000 && ok; it++) {
+        if (!arb_lt(u, uend)) break;
+        arb_set_d(w, wd);
+        arb_add(v, u, w, prec);
+        if (arb_gt(v, uend)) arb_set(v, uend);
+        arb_union(U, u, v, prec);
+        int good = embz_tail_pk(Pk, t, U, 2, prec) == EMBZ_OK;
+        if (good) {
+            arb_mul(w, Pk, Pk + 2, prec);
+            arb_submul(w, Pk + 1, Pk + 1, prec);
+            good = arb_is_nonnegative(w);
+        }
+        if (good) {
+            arb_set(u, v);
+            if (wd < 64) wd *= 2;
+        } else {
+            wd /= 4;
+            if (wd < 1e-4) ok = 0;
+        }
+    }
+    if (arb_lt(u, uend)) ok = 0;
+    _arb_vec_clear(Pk, 3);
+    arb_clear(u); arb_clear(uend); arb_clear(w); arb_clear(U); arb_clear(v);
+    return ok;
+}
+
+/* sum over m0 <= m <= mP of e(m) (a tail from m0 - 1), the part beyond a negligible point as
+ * [0, its bound] */
+static int expr_sum(arb_t res, const embz_expr_t e, const actx *c, slong m0, const fmpz_t mP,
+                    slong wp, embz_err_t *err)
+{
+    embz_tail_t t;
+    arb_t x, b;
+    arb_init(x); arb_init(b);
+    int st = embz_tail_init(t, e, c->ntrue, m0 - 1, mP, wp, err);
+    if (st == EMBZ_OK) {
+        arb_set_fmpz(x, t->end);
+        st = embz_tail_sum(res, t, x, wp);
+        if (st == EMBZ_OK && fmpz_cmp(t->end, mP) < 0) {
+            arf_set_mag(arb_midref(b), t->neglected);
+            mag_set(arb_radref(b), t->neglected);
+            arb_mul_2exp_si(b, b, -1);
+            arb_add(res, res, b, wp);
+        }
+    }
+    embz_tail_clear(t);
+    arb_clear(x); arb_clear(b);
+    return st;
+}
+
+/* The pairs of positions (d m, d m + 1), m = m0 .. mP (the last of block m and the first of
+ * block m + 1, across the convex corner between the blocks), each given its own piece of s
+ * proportional to r: res = sum of sqrt(dP dR) over the pairs minus the overlap terms
+ * sqrt(p r) of their positions (so that adding res to the overlap's sum moves s from p to
+ * the pairs), all times sqrt(d). The pair is feasible (the chord above the point between)
+ * when p_(dm+1) / r_(dm+1) >= p_(dm) / r_(dm), i.e. f(x_dm + 1)/f(x_dm) >= f(x_m + 1)/f(x_m),
+ * which follows from f log-convex on the tail (the mean value theorem for ln f, x_dm > x_m):
+ * that is what the caller certifies. */
+static int pair_gain(arb_t res, const actx *c, slong m0, ulong d, const fmpz_t mP, slong wp,
+                     embz_err_t *err)
+{
+    slong gamma = c->M - c->a - c->nins;
+    embz_expr_t A, B, C, D, S1, S2, G, gd, g1;
+    fmpq_t a, b;
+    arb_t t;
+    embz_expr_init(A); embz_expr_init(B); embz_expr_init(C); embz_expr_init(D);
+    embz_expr_init(S1); embz_expr_init(S2); embz_expr_init(G); embz_expr_init(gd);
+    embz_expr_init(g1);
+    fmpq_init(a); fmpq_init(b);
+    arb_init(t);
+    const embz_expr_struct *w = c->f->weight;
+    fmpq_set_si(a, (slong) d, 1);
+    fmpq_set_si(b, gamma, 1);
+    int st = embz_expr_affine(A, w, a, b);                    /* p at d m */
+    fmpq_set_si(b, gamma + 1, 1);
+    if (st == EMBZ_OK) st = embz_expr_affine(B, w, a, b);     /* p at d m + 1 */
+    fmpq_one(a);
+    fmpq_set_si(b, gamma, 1);
+    if (st == EMBZ_OK) st = embz_expr_affine(C, w, a, b);     /* d r at d m */
+    fmpq_set_si(b, gamma + 1, 1);
+    if (st == EMBZ_OK) st = embz_expr_affine(D, w, a, b);     /* d r at d m + 1 */
+    if (st == EMBZ_OK) st = embz_expr_binary(S1, EMBZ_OP_ADD, A, B);
+    if (st == EMBZ_OK) st = embz_expr_binary(S2, EMBZ_OP_ADD, C, D);
+    if (st == EMBZ_OK) st = embz_expr_geomean(G, S1, S2);
+    if (st == EMBZ_OK) st = embz_expr_geomean(gd, A, C);
+    if (st == EMBZ_OK) st = embz_expr_geomean(g1, B, D);
+    if (st == EMBZ_OK) st = expr_sum(res, G, c, m0, mP, wp, err);
+    if (st == EMBZ_OK) st = expr_sum(t, gd, c, m0, mP, wp, err);
+    arb_sub(res, res, t, wp);
+    if (st == EMBZ_OK) st = expr_sum(t, g1, c, m0, mP, wp, err);
+    arb_sub(res, res, t, wp);
+    embz_expr_clear(A); embz_expr_clear(B); embz_expr_clear(C); embz_expr_clear(D);
+    embz_expr_clear(S1); embz_expr_clear(S2); embz_expr_clear(G); embz_expr_clear(gd);
+    embz_expr_clear(g1);
+    fmpq_clear(a); fmpq_clear(b);
+    arb_clear(t);
+    return st;
+}
+
 /* the dual term sqrt(c) dR / 2 + dP / (2 sqrt(c)) for an exact c > 0 */
 static void dual_term(arb_t res, const arb_t dP, const arb_t dR, const arf_t c, slong prec)
 {
@@ -211,7 +387,7 @@ int _embz_fmax_analytic(arb_t lo, arb_t hi, mag_t eta, embz_fidelity_how_struct 
     embz_tail_t tail;
     int have_tail = 0;
     arb_ptr V = NULL, P = NULL, R = NULL;
-    slong *hull = NULL, *stack = NULL, K0 = 0;
+    slong *hull = NULL, K0 = 0;
     fmpz_t j;
     arb_t L, U, t, u, Rn, Ua, Ub;
     arf_t cl, ct;
@@ -243,54 +419,50 @@ int _embz_fmax_analytic(arb_t lo, arb_t hi, mag_t eta, embz_fidelity_how_struct 
         embz_err_set(err, st, "a weight of the first sorted positions is undefined");
         goto out;
     }
-    /* the upper hull of (R_k, P_k), k = 0..K0, on the midpoints of the cross products */
+    /* the upper hull of (R_k, P_k), k = 0..K0 (for the upper bound) */
     hull = flint_malloc(sizeof(slong) * (size_t) (K0 + 1));
-    slong h = 0;
-    for (slong k = 0; k <= K0; k++) {
-        while (h >= 2) {
-            cross(t, P, R, hull[h - 2], k, hull[h - 1], wp);
-            if (arf_sgn(arb_midref(t)) < 0) break;   /* hull[h-1] strictly above: keep */
-            h--;
-        }
-        hull[h++] = k;
-    }
-    /* lower bound: the pieces, each certified or split */
-    stack = flint_malloc(sizeof(slong) * 2 * (size_t) (K0 + 2));
-    arb_zero(L);
-    slong work = 0, splits = 0;
-    for (slong q = h - 1; q >= 1; q--) {
-        slong sp = 0;
-        stack[sp++] = hull[q - 1];
-        stack[sp++] = hull[q];
-        while (sp > 0 && st == EMBZ_OK) {
-            slong b = stack[--sp], a = stack[--sp], bad = -1;
-            for (slong k = a + 1; k < b; k++) {
-                cross(t, P, R, a, b, k, wp);
-                if (!arb_is_nonnegative(t)) {
-                    bad = k; break; }
-            }
-            work += b - a;
-            if (work > 64 * K0) {
-                st = embz_err_set(err, EMBZ_ERR_PREC, "the hull of the first positions "
-                                  "could not be certified at this precision");
-                break;
-            }
-            if (bad < 0) {
-                piece_primal(t, P, R, a, b, wp);
+    slong h = build_hull(hull, P, R, K0, wp);
+    slong splits = 0;
+    /* lower bound, first with the pairs (d m, d m + 1) beyond the prefix where f is proven
+     * log-convex: the hull of 0..K0-1, position K0 alone, the overlap terms beyond, moved
+     * to the pairs; else the hull of 0..K0 and the overlap terms beyond */
+    {
+        fmpz_t mP;
+        fmpz_init(mP);
+        fmpz_add_si(mP, c.L, c.a + c.nins);
+        fmpz_fdiv_q_ui(mP, mP, d);
+        fmpz_sub_ui(mP, mP, 1);                 /* d mP + 1 <= the last tail position */
+        slong gamma = c.M - c.a - c.nins;
+        int pairs = 0;
+        if (fmpz_cmp_si(mP, m0 + 2) > 0 && log_convex(c.t, m0 + gamma, c.n, wp)) {
+            embz_err_t e2;
+            embz_err_clear(&e2);
+            slong *hl = flint_malloc(sizeof(slong) * (size_t) K0);
+            slong h2 = build_hull(hl, P, R, K0 - 1, wp);
+            slong sp2 = 0;
+            if (certified_pieces(L, &sp2, hl, h2, P, R, K0, wp, &e2) == EMBZ_OK
+                && pair_gain(u, &c, m0, d, mP, wp, &e2) == EMBZ_OK) {
+                /* u is sqrt(d) times the gain; position K0: sqrt(p r) */
+                arb_sqrt_ui(t, d, wp);
+                arb_div(u, u, t, wp);
+                arb_add(L, L, u, wp);
+                arb_mul(t, V + K0, V + m0, wp);
+                arb_div_ui(t, t, d, wp);
+                arb_sqrtpos(t, t, wp);
                 arb_add(L, L, t, wp);
-            } else {
-                /* split in the middle: points on the chord (exactly collinear ones cannot
-                 * be certified below it) then cost O(K0 log K0) checks, not O(K0^2) */
-                slong mid = a + (b - a) / 2;
-                (void) bad;
-                splits++;
-                stack[sp++] = mid; stack[sp++] = b;
-                stack[sp++] = a; stack[sp++] = mid;
+                pairs = 1;
+                splits = sp2;
             }
+            flint_free(hl);
+        }
+        fmpz_clear(mP);
+        how->pairs = pairs;
+        if (!pairs) {
+            st = certified_pieces(L, &splits, hull, h, P, R, K0, wp, err);
+            if (st != EMBZ_OK) goto out;
         }
     }
-    if (st != EMBZ_OK) goto out;
-    /* the rest of the lower bound: s = p beyond K0 */
+    /* the rest of the lower bound: the overlap terms beyond K0 */
     st = _embz_overlap_sum_from(t, how, &c, m0, d, wp, err);
     if (st != EMBZ_OK) goto out;
     arb_sqrt_ui(u, d, wp);
@@ -405,7 +577,6 @@ out:
     if (P) _arb_vec_clear(P, K0 + 1);
     if (R) _arb_vec_clear(R, K0 + 1);
     if (hull) flint_free(hull);
-    if (stack) flint_free(stack);
     if (have_tail) embz_tail_clear(tail);
     _embz_an_ctx_clear(&c);
     fmpz_clear(j);
