@@ -29,8 +29,10 @@
 #include "impl.h"
 
 /* positions whose hull is computed exactly (at least; rounded up to whole blocks) */
-#define FMAX_PREFIX (WORD(1) << 17)
-#define FMAX_PREFIX_MAX (WORD(1) << 18)
+#define FMAX_PREFIX (WORD(1) << 15)
+#define FMAX_PREFIX_MAX (WORD(1) << 17)
+/* the block dual's blocks, and the pairs of the lower bound, up to 2^this */
+#define FMAX_BLOCK_BITS 40
 
 /* cross = dPab (R_k - R_a) - (P_k - P_a) dRab: >= 0 when point k is on or below the chord */
 static void cross(arb_t res, arb_srcptr P, arb_srcptr R, slong a, slong b, slong k, slong prec)
@@ -305,9 +307,15 @@ static int block_dual(arb_t res, arf_t tau0, actx *c, slong m0, ulong d, arb_src
     arb_init(x); arb_init(t); arb_init(u); arb_init(v);
     arf_init(cF);
     int st = block_exprs(g, tau, c->f->weight, d, gamma);
-    /* the last full block inside the tail */
+    /* the last full block inside the tail, at most 2^FMAX_BLOCK_BITS: far out tau is flat
+     * to below the working precision (its monotonicity cannot be certified), and a constant
+     * multiplier from there on costs only the square of tau's remaining variation */
     fmpz_add_si(mF, c->L, c->a + c->nins);
     fmpz_fdiv_q_ui(mF, mF, d);
+    if (fmpz_bits(mF) > FMAX_BLOCK_BITS) {
+        fmpz_one(mF);
+        fmpz_mul_2exp(mF, mF, FMAX_BLOCK_BITS);
+    }
     /* a cheap look first: tau decreasing at a few sample points (the certificate below can
      * take seconds to fail for weights whose tau rises, such as 1/(i log(i+1)^b)) */
     if (st == EMBZ_OK) {
@@ -432,6 +440,13 @@ int _embz_fmax_analytic(arb_t lo, arb_t hi, mag_t eta, embz_fidelity_how_struct 
         fmpz_add_si(mP, c.L, c.a + c.nins);
         fmpz_fdiv_q_ui(mP, mP, d);
         fmpz_sub_ui(mP, mP, 1);                 /* d mP + 1 <= the last tail position */
+        /* pairs up to 2^FMAX_BLOCK_BITS: beyond, what they add over s = p is of the order of
+         * 1/m^3 per block, and their tails cost long integrals (seconds for an exponent
+         * that depends on n at 10^1000) */
+        if (fmpz_bits(mP) > FMAX_BLOCK_BITS) {
+            fmpz_one(mP);
+            fmpz_mul_2exp(mP, mP, FMAX_BLOCK_BITS);
+        }
         slong gamma = c.M - c.a - c.nins;
         int pairs = 0;
         if (fmpz_cmp_si(mP, m0 + 2) > 0 && log_convex(c.t, m0 + gamma, c.n, wp)) {
