@@ -853,6 +853,53 @@ START_TEST(test_fmax_analytic_explicit)
 }
 END_TEST
 
+
+/* The LOCC values at large n: two precisions overlap at 10^30 and 10^300 (inverse, power,
+ * tilted; ebit and uniform:3), and the tighter bounds of logpower contain each other's
+ * intersection (they overlap). */
+START_TEST(test_fmax_precisions)
+{
+    const char *fams[] = { "inverse", "power", "tilted", "logpower" };
+    embz_family_t f;
+    embz_family_init(f);
+    embz_target_t q;
+    embz_target_init(q);
+    embz_fidelity_result_t a, b;
+    embz_fidelity_result_init(a);
+    embz_fidelity_result_init(b);
+    fmpz_t n;
+    fmpz_init(n);
+    embz_err_t err;
+    for (int fi = 0; fi < 4; fi++) {
+        family_set(f, fams[fi]);
+        for (int ti = 0; ti < 2; ti++) {
+            tu_target_set(q, ti ? "uniform:3" : "ebit");
+            for (int e = 30; e <= 300; e += 270) {
+                fmpz_ui_pow_ui(n, 10, (ulong) e);
+                embz_err_clear(&err);
+                ck_assert(embz_fidelity(a, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO, 96,
+                                        &err) == EMBZ_OK);
+                ck_assert(embz_fidelity(b, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO,
+                                        192, &err) == EMBZ_OK);
+                if (fi < 3) {
+                    ck_assert_msg(!a->bounds_only && !b->bounds_only, "%s 10^%d", fams[fi], e);
+                    ck_assert_msg(arb_overlaps(a->value, b->value), "%s 10^%d", fams[fi], e);
+                    ck_assert(arb_overlaps(a->fidelity, b->fidelity));
+                } else {
+                    ck_assert(a->bounds_only && b->bounds_only && a->have_tight && b->have_tight);
+                    ck_assert(!arb_lt(a->tight_hi, b->tight_lo) && !arb_lt(b->tight_hi, a->tight_lo));
+                }
+            }
+        }
+    }
+    fmpz_clear(n);
+    embz_fidelity_result_clear(a);
+    embz_fidelity_result_clear(b);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
 START_TEST(test_measure_names)
 {
     embz_err_t err;
@@ -889,6 +936,7 @@ static Suite *fidelity_suite(void)
     tcase_add_test(tf, test_overlap_precisions);
     tcase_add_test(tf, test_van_dam_hayden_large);
     tcase_add_test(tf, test_fmax_analytic_explicit);
+    tcase_add_test(tf, test_fmax_precisions);
     suite_add_tcase(s, tf);
     return s;
 }
