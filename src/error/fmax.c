@@ -8,8 +8,10 @@
  *    On the first K0 = d m0 positions s follows the lower convex hull of the tail-sum points
  *    (the upper hull of (R_k, P_k)), found on midpoints; every chord is checked in ball
  *    arithmetic to lie above the points it spans (a piece that cannot be certified is split
- *    at the failing point, down to single points, where s = p). Beyond K0, s = p: those
- *    positions give the overlap terms sqrt(p_k r_k), summed by overlap.c.
+ *    in the middle, down to single points, where s = p). Beyond K0, the positions
+ *    (d m, d m + 1) across each block boundary form pieces of their own where the weight is
+ *    proven log-convex (pair_gain), and s = p elsewhere: those positions give the overlap
+ *    terms sqrt(p_k r_k), summed by overlap.c.
  *  - upper: Lagrange duality [derived here]. For every non-decreasing lambda_i > 0,
  *        sqrt(F_max) <= sum_(i <= n) ( r_i / (4 lambda_i) + lambda_i p_i ),
  *    (for s majorizing p, Abel summation gives sum_i lambda_i (s_i - p_i) >= 0, and
@@ -21,8 +23,7 @@
  *    sqrt(p↓_m B_m); valid where tau is proven non-increasing (its tail certified like a
  *    weight) and starts below the last hull slope. Also sqrt(F_max) <= sqrt(R_n)
  *    (Cauchy-Schwarz, R_n the n largest entries of r).
- * The gap between the two is what the hull does beyond K0 that s = p misses: for weights
- * near 1/i about (1 / H_n) sum_(m > m0) 1/(64 m^3): 5e-14 in F_max at m0 = 2^16 (measured). */
+ * For 1/i and one ebit the two meet to about 1e-17 in F_max (docs/engine.md, section 6). */
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
