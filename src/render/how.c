@@ -87,9 +87,11 @@ char *embz_fidelity_how_text(const embz_fidelity_how_struct *h)
                      h->allowance_log2);
         return embz_strdup_printf(
             "analytic: exact hull of the first %ld sorted positions (%ld pieces%s), beyond "
-            "them s = p below (%ld residue classes as Euler-Maclaurin tails) and Lagrange "
+            "them %ss = p below (%ld residue classes as Euler-Maclaurin tails) and Lagrange "
             "multipliers above (%s)%s, arb %ld bits", (long) h->terms, (long) h->pieces,
-            h->splits > 0 ? ", some split to certify them" : "", (long) h->residues,
+            h->splits > 0 ? ", some split to certify them" : "",
+            h->pairs ? "pieces across the block boundaries (the weight proven log-convex) "
+                       "and " : "", (long) h->residues,
             h->block_dual ? "one per block of d positions" : "constant from the last vertex",
             neg, (long) h->prec);
     }
