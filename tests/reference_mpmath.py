@@ -11,7 +11,10 @@ target vectors, from exact harmonic numbers (mpmath's digamma) at the breakpoint
 form next to the smallest weight (see corner_reference); that shortcut is itself checked against
 the plain definition at n = 3000; and `embz size` for that family and a target vector must
 return an n with E_(n-1) > eps >= E_n by these values. Third part: increasing weights i^a
-(a > 0) at n = 10^60 .. 10^300 against their large-n limit (increasing_limit).
+(a > 0) at n = 10^60 .. 10^300 against their large-n limit (increasing_limit). Fourth part:
+the local-unitary overlap O of the inverse-index family with u_d at n = 10^30 .. 10^1000
+(`--measure overlap`, field overlap_lo/hi) against an exact series (overlap_inverse), and the
+published lower bound O >= 1 - ln d / ln n.
 
 Usage: reference_mpmath.py EMBZ_BINARY
 Exit status: 0 all inside, 1 a mismatch or a failing run.
@@ -220,10 +223,67 @@ def ebit_inverse(n):
     return 1 - (harmonic(s) + mpf(r) / (2 * (s + 1))) / harmonic(n)
 
 
+def overlap_inverse(n, d):
+    """[derived here] The overlap O = d^(-1/2) sum_(j <= n) sqrt(p_j p_ceil(j/d)) of p_i = 1/(i H_n)
+    with u_d: sqrt(p_j p_m / d) = (1/(j H_n)) sqrt(j / (d m)), so
+        O = 1 - C_d(n) / H_n,   C_d(n) = sum_(j <= n) (1/j) (1 - sqrt(j / (d ceil(j/d)))),
+    a convergent series (terms O(1/j^2)), summed over blocks m = ceil(j/d) with
+    1 - sqrt(x) = (1 - x) / (1 + sqrt(x)) (no cancellation): C_d(n) = C_d(inf) - (the blocks
+    beyond n), the first by mpmath's nsum, the second (n >= 10^30) by the Euler-Maclaurin
+    formula to first order, integral + f(a)/2 (the next term is smaller by a factor of the
+    order of 1/a^2 < 10^-58)."""
+    def term(j, m):
+        return (d * m - j) / (d * m) / (1 + mpmath.sqrt(j / (d * m))) / j
+
+    def block(m):
+        m = mpf(m)
+        return mpmath.fsum(term(d * (m - 1) + s, m) for s in range(1, d + 1))
+    full = mpmath.nsum(block, [1, mpmath.inf])
+    mlast = -(-n // d)                    # the block of j = n
+    a = mpf(mlast + 1)
+    beyond = mpmath.quad(block, [a, mpmath.inf]) + block(a) / 2
+    for j in range(n + 1, d * mlast + 1):
+        beyond += term(mpf(j), mpf(mlast))
+    return 1 - (full - beyond) / harmonic(n)
+
+
+def overlap_checks(embz):
+    """The inverse family's overlap at large n against overlap_inverse, and the lower bound of
+    van Dam and Hayden, Phys. Rev. A 67, 060302 (2003), 1 - log d / log n, which holds (as
+    measured: docs/measures.md) for the unsquared overlap O."""
+    checks = failures = 0
+    for n, ntext in ((10 ** 30, "1e30"), (10 ** 300, "1e300"), (10 ** 1000, "1e1000")):
+        for d, tname in ((2, "ebit"), (3, "uniform:3"), (8, "ebits:3")):
+            cmd = [embz, "error", "1/i", "-n", ntext, "--target", tname, "--measure",
+                   "overlap", "--json"]
+            run = subprocess.run(cmd, capture_output=True, text=True)
+            checks += 1
+            if run.returncode != 0:
+                print("FAIL (exit %d): %s\n%s" % (run.returncode, " ".join(cmd), run.stderr))
+                failures += 1
+                continue
+            data = json.loads(run.stdout)
+            lo, hi = mpf(data["overlap_lo"]), mpf(data["overlap_hi"])
+            ref = overlap_inverse(n, d)
+            bound = 1 - mpmath.log(d) / mpmath.log(n)
+            if not (lo - TOL <= ref <= hi + TOL) or hi - lo > mpf("1e-30"):
+                print("FAIL: overlap of 1/i at n=%s d=%d: reference %s, [%s, %s]"
+                      % (ntext, d, mpmath.nstr(ref, 45), data["overlap_lo"], data["overlap_hi"]))
+                failures += 1
+            elif not lo > bound:
+                print("FAIL: overlap of 1/i at n=%s d=%d below 1 - log d/log n = %s"
+                      % (ntext, d, mpmath.nstr(bound, 20)))
+                failures += 1
+    return checks, failures
+
+
 def main():
     embz = sys.argv[1]
     mp.dps = 80
     checks, failures = corner_checks(embz)
+    c3, f3 = overlap_checks(embz)
+    checks += c3
+    failures += f3
     c2, f2 = increasing_checks(embz)
     checks += c2
     failures += f2

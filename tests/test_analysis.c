@@ -691,6 +691,49 @@ START_TEST(test_fact_words)
 }
 END_TEST
 
+
+/* A sweep of a fidelity measure: the sizes of embz_sweep_sizes, each point the enclosure of
+ * embz_fidelity at that size (the same call, so the same ball), explicit values up to 2^20
+ * and the analytic engine beyond; a measure that is not a fidelity measure is refused. */
+START_TEST(test_msweep)
+{
+    embz_family_t f;
+    embz_family_init(f);
+    resolve(f, "inverse", NULL);
+    embz_target_t q;
+    embz_target_init(q);
+    embz_err_t err;
+    ck_assert(embz_target_parse(q, "ebit", 0, &err) == EMBZ_OK);
+    fmpz_t a, b;
+    fmpz_init_set_ui(a, 10);
+    fmpz_init(b);
+    fmpz_ui_pow_ui(b, 10, 40);
+    embz_msweep_t s;
+    embz_msweep_init(s);
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_msweep_run(s, f, a, b, 5, q, EMBZ_MEASURE_OVERLAP, 64, NULL, NULL,
+                                     &err), EMBZ_OK);
+    ck_assert_int_eq(s->len, 5);
+    embz_fidelity_result_t r;
+    embz_fidelity_result_init(r);
+    for (slong j = 0; j < s->len; j++) {
+        ck_assert_int_eq(s->pts[j].status, EMBZ_OK);
+        ck_assert(embz_fidelity(r, f, s->pts[j].n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO,
+                                64, &err) == EMBZ_OK);
+        ck_assert(arb_equal(r->value, s->pts[j].res.value));
+        if (j > 0) ck_assert(arb_gt(s->pts[j].res.value, s->pts[j - 1].res.value));
+    }
+    ck_assert(s->pts[0].res.how.analytic == 0 && s->pts[4].res.how.analytic == 1);
+    ck_assert_int_eq(embz_msweep_run(s, f, a, b, 5, q, EMBZ_MEASURE_K, 64, NULL, NULL, &err),
+                     EMBZ_ERR_INPUT);
+    embz_fidelity_result_clear(r);
+    embz_msweep_clear(s);
+    fmpz_clear(a); fmpz_clear(b);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
 static Suite *analysis_suite(void)
 {
     Suite *s = suite_create("analysis");
@@ -714,6 +757,7 @@ static Suite *analysis_suite(void)
     tcase_add_test(tc, test_scan_shards);
     tcase_add_test(tc, test_limit_inside_interval);
     tcase_add_test(tc, test_fact_words);
+    tcase_add_test(tc, test_msweep);
     suite_add_tcase(s, tc);
     return s;
 }

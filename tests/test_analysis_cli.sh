@@ -5,6 +5,28 @@
 source "$(dirname "$0")/common.sh"
 
 # ---- sweep
+# --measure: the measure per size, the same enclosures as embz error (values where certified)
+run sweep inverse --to 10^40 --points 4 --measure purified --json
+expect_rc 0 "sweep --measure purified"
+cp "$TMP/out" "$TMP/msweep.json"
+run error inverse -n 10^40 --measure purified --prec 64 --json
+expect_rc 0 "error at the last size of the measure sweep"
+printf '%s' "$out" > "$TMP/merr.json"
+pycheck "sweep --measure purified: explicit then analytic values, P falling, matching embz error" "
+import json
+from fractions import Fraction as F
+s = json.load(open('$TMP/msweep.json')); e = json.load(open('$TMP/merr.json'))
+pts = s['points']
+assert s['measure'] == 'purified' and len(pts) == 4 and all(p['status'] == 'ok' for p in pts)
+assert pts[0]['method'] == 'explicit' and pts[-1]['method'] == 'analytic'
+assert all(not p['bounds_only'] for p in pts)
+his = [F(p['value_hi']) for p in pts]; los = [F(p['value_lo']) for p in pts]
+assert all(los[j] > his[j + 1] for j in range(3))
+assert pts[-1]['n'] == e['n'] and F(e['value_lo']) <= his[-1] and los[-1] <= F(e['value_hi'])
+"
+run sweep logpower --from 10^30 --to 10^40 --points 2 --measure fidelity
+expect_rc 0 "sweep --measure fidelity, bounds"
+expect_out "BOUNDS [" "bounds are marked in the measure sweep"
 run sweep inverse --to 10^30 --points 7 --csv
 expect_rc 0 "sweep csv"
 pycheck "sweep csv: 7 rows, sizes 10^(1+29j/6) rounded, E decreasing, no progress bar" '

@@ -334,10 +334,11 @@ assert 1 - phi**2 <= hi and 1 - plo**2 >= lo
 '
 run error inverse -n 1000 --measure purified; expect_rc 0 "purified table"
 expect_out "measure    purified" "purified table labels the measure"; expect_out "certified digits" "purified table"
-# beyond explicit sizes: bounds only, clearly marked, consistent with K from the default measure
-run error inverse -n 10^40 --measure purified --json; expect_rc 0 "purified bounds"; json_ok "purified bounds"
+# beyond explicit sizes: bounds only where the LOCC bounds stay wide (logpower), clearly
+# marked, consistent with K from the default measure, with tighter bounds inside them
+run error logpower -n 10^40 --measure purified --json; expect_rc 0 "purified bounds"; json_ok "purified bounds"
 cp "$TMP/out" "$TMP/bounds.json"
-run error inverse -n 10^40 --json; expect_rc 0 "K at 10^40"
+run error logpower -n 10^40 --json; expect_rc 0 "K at 10^40"
 printf '%s' "$out" > "$TMP/k.json"
 pycheck "bounds_only and K <= P <= sqrt(K(2-K))" "
 import json
@@ -348,10 +349,45 @@ assert k['measure'] == 'k' and k['bounds_only'] is False
 K_lo, K_hi = F(k['error_lo']), F(k['error_hi'])
 assert F(b['value_lo']) <= K_lo + F(1, 10**20)
 assert F(b['value_hi'])**2 >= K_hi * (2 - K_hi) - F(1, 10**20)
+t_lo, t_hi = F(b['tight_lo']), F(b['tight_hi'])
+assert F(b['value_lo']) <= t_lo <= t_hi <= F(b['value_hi'])
+assert t_hi / t_lo < F(105, 100)
 "
-run error inverse -n 10^40 --measure fidelity; expect_rc 0 "fidelity bounds table"
+run error logpower -n 10^40 --measure fidelity; expect_rc 0 "fidelity bounds table"
 expect_out "BOUNDS ONLY" "bounds are marked in the table"
-run error inverse -n 10^40 --measure overlap; expect_rc 1 "overlap has no bounds"; expect_err "explicit sizes" "overlap beyond explicit"
+expect_out "tighter    " "tighter bounds in the table"
+# the inverse family: a certified value with at least 10 digits, inside the bracket from K
+run error inverse -n 10^40 --measure purified --json; expect_rc 0 "purified value at 10^40"
+cp "$TMP/out" "$TMP/pval.json"
+run error inverse -n 10^40 --json; expect_rc 0 "K at 10^40"
+printf '%s' "$out" > "$TMP/k.json"
+pycheck "purified value at 10^40: analytic, 10 digits, K <= P <= sqrt(K(2-K))" "
+import json
+from fractions import Fraction as F
+b = json.load(open('$TMP/pval.json')); k = json.load(open('$TMP/k.json'))
+assert b['bounds_only'] is False and b['method'] == 'analytic'
+lo, hi = F(b['value_lo']), F(b['value_hi'])
+assert (hi - lo) / lo < F(1, 10**10)
+assert len(b['value_certified'].replace('0.', '', 1).lstrip('0')) >= 10
+K_lo, K_hi = F(k['error_lo']), F(k['error_hi'])
+assert K_hi <= lo and hi**2 <= K_lo * (2 - K_lo)
+"
+run error inverse -n 10^40 --measure overlap --json; expect_rc 0 "overlap beyond explicit sizes"
+pycheck "overlap at 10^40: an analytic value, O^2 = value, within the local-unitary bound" '
+import json, sys, math
+from fractions import Fraction as F
+d = json.load(sys.stdin)
+assert d["method"] == "analytic" and d["bounds_only"] is False
+lo, hi = F(d["overlap_lo"]), F(d["overlap_hi"])
+assert hi - lo < F(1, 10**30)
+assert F(d["value_lo"]) <= hi * hi and F(d["value_hi"]) >= lo * lo
+assert float(lo) > 1 - math.log(2) / math.log(10**40)   # van Dam-Hayden, unsquared overlap
+assert "fidelity_lo" not in d   # F_max is not computed on this path
+'
+run error inverse -n 10^40 --measure overlap; expect_rc 0 "overlap table beyond explicit sizes"
+expect_out "method     analytic (analytic:" "overlap table says analytic"
+run error inverse -n 10^40 --measure overlap --target 0.7,0.3; expect_rc 1 "overlap with a vector beyond explicit"; expect_err "only uniform targets" "overlap with a vector beyond explicit"
+run error 'i^0.3' -n 10^40 --measure overlap; expect_rc 1 "overlap of increasing weights"; expect_err "non-increasing" "overlap of increasing weights"
 run error inverse -n 100 --measure trace; expect_rc 2 "bad measure"; expect_err "unknown measure 'trace'" "bad measure"
 run error inverse -n 100 --measure fidelity --csv; expect_rc 0 "fidelity csv"
 pycheck "fidelity csv" '

@@ -359,16 +359,35 @@ START_TEST(test_how_words)
     ck_assert(strstr(s, h.reason) != NULL);
     ck_assert_int_eq(s[strlen(s) - 1], ')');
     free(s);
-    /* fidelity bounds beyond explicit sizes: the words of K's computation follow */
+    /* fidelity bounds beyond explicit sizes (logpower: the LOCC bounds are not tight
+     * enough for a value): the words of K's computation follow */
     embz_fidelity_result_t fr;
     embz_fidelity_result_init(fr);
     tu_target_set(q, "ebit");
-    ck_assert_int_eq(embz_fidelity(fr, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO, 64, &err),
-                     EMBZ_OK);
+    {
+        embz_family_t g;
+        family(g, "logpower");
+        ck_assert_int_eq(embz_fidelity(fr, g, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO,
+                                       64, &err), EMBZ_OK);
+        embz_family_clear(g);
+    }
     ck_assert(fr->how.bounds_only && fr->how.K.kind == EMBZ_HOW_KYFAN);
     s = embz_fidelity_how_text(&fr->how);
     ck_assert_msg(strstr(s, "bounds from K <= P <= sqrt(K(2-K)); K by analytic: ") != NULL, "%s",
                   s);
+    free(s);
+    /* the inverse family there: a value from the LOCC bounds, with their words */
+    ck_assert_int_eq(embz_fidelity(fr, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO, 64, &err),
+                     EMBZ_OK);
+    ck_assert(!fr->how.bounds_only && fr->how.analytic == 2);
+    s = embz_fidelity_how_text(&fr->how);
+    ck_assert_msg(strstr(s, "analytic: exact hull of the first ") != NULL, "%s", s);
+    free(s);
+    tu_target_set(q, "ebit");
+    ck_assert_int_eq(embz_fidelity(fr, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO, 64, &err),
+                     EMBZ_OK);
+    s = embz_fidelity_how_text(&fr->how);
+    ck_assert_msg(strstr(s, "residue classes as Euler-Maclaurin tails") != NULL, "%s", s);
     free(s);
     fmpz_set_ui(n, 50);
     ck_assert_int_eq(embz_fidelity(fr, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO, 64, &err),

@@ -1553,6 +1553,95 @@ START_TEST(test_fold_constants)
 }
 END_TEST
 
+
+/* embz_expr_affine and embz_expr_geomean: w(a i + b) against w evaluated at a i + b, and
+ * sqrt(x y) against the root of the product of the two values (arb's own sqrt), at many
+ * points, including expressions where the root cannot be pushed inside (odd halves, negative
+ * factors: the composed expression must then be undefined, never a different value). The
+ * substitution x = e^u of the composed inverse weight must leave no cancelling exponentials
+ * (the form the large-n engine integrates). */
+START_TEST(test_compose)
+{
+    static const char *ws[] = { "1/i", "1/(i*log(i+1)^2)", "0.9^i", "i^(-1/2)*exp(-i/50)",
+                                "1/(i*log(i+1)*log(log(i+2)))", "(i - 3)^2 + 1", "i^3/(1+i)^2",
+                                "(i - 30)^2", "2 - i/10", "(5 - i)^3", "sqrt(i) + 4/i" };
+    embz_expr_t w, x, y, g, phi;
+    fmpq_t a, b;
+    arb_t v, u, t, pt, nn;
+    embz_expr_init(w); embz_expr_init(x); embz_expr_init(y); embz_expr_init(g);
+    embz_expr_init(phi);
+    fmpq_init(a); fmpq_init(b);
+    arb_init(v); arb_init(u); arb_init(t); arb_init(pt); arb_init(nn);
+    arb_set_si(nn, 1000);
+    for (size_t k = 0; k < sizeof(ws) / sizeof(ws[0]); k++) {
+        parse_ok(w, ws[k]);
+        for (slong dd = 1; dd <= 4; dd++) {
+            for (slong bb = -3; bb <= 2; bb++) {
+                fmpq_set_si(a, dd, 1);
+                fmpq_set_si(b, bb, 2);
+                ck_assert_int_eq(embz_expr_affine(x, w, a, b), EMBZ_OK);
+                fmpq_set_si(b, bb + 1, 1);
+                fmpq_one(a);
+                ck_assert_int_eq(embz_expr_affine(y, w, a, b), EMBZ_OK);
+                ck_assert_int_eq(embz_expr_geomean(g, x, y), EMBZ_OK);
+                for (slong i = 1; i <= 60; i += 7) {
+                    /* x(i) = w(dd i + bb/2) */
+                    arb_set_si(pt, 2 * dd * i + bb);
+                    arb_mul_2exp_si(pt, pt, -1);
+                    int s1 = embz_expr_eval_arb(v, w, pt, nn, 128);
+                    arb_set_si(pt, i);
+                    int s2 = embz_expr_eval_arb(u, x, pt, nn, 128);
+                    ck_assert_int_eq(s1, s2);
+                    if (s1 == EMBZ_OK)
+                        ck_assert_msg(arb_overlaps(u, v) && arb_rel_accuracy_bits(u) > 100,
+                                      "%s: affine at %ld", ws[k], i);
+                    /* g(i) = sqrt(x(i) y(i)) wherever g is defined */
+                    int s3 = embz_expr_eval_arb(t, y, pt, nn, 128);
+                    int s4 = embz_expr_eval_arb(v, g, pt, nn, 128);
+                    if (s4 == EMBZ_OK) {
+                        ck_assert(s2 == EMBZ_OK && s3 == EMBZ_OK);
+                        arb_mul(u, u, t, 128);
+                        ck_assert(!arb_is_negative(u));
+                        arb_sqrtpos(u, u, 128);
+                        ck_assert_msg(arb_overlaps(u, v), "%s: geomean at %ld", ws[k], i);
+                        ck_assert(arb_is_nonnegative(v));
+                    } else if (s2 == EMBZ_OK && s3 == EMBZ_OK) {
+                        /* undefined only where a factor is negative */
+                        ck_assert_msg(!arb_is_positive(u) || !arb_is_positive(t),
+                                      "%s: geomean undefined at %ld", ws[k], i);
+                    }
+                }
+            }
+        }
+    }
+    /* sqrt(1/(2i - 1) * 1/i): u-form 1/sqrt(2 - e^-u) with no e^u left to cancel */
+    parse_ok(w, "1/i");
+    fmpq_set_si(a, 2, 1);
+    fmpq_set_si(b, -1, 1);
+    embz_expr_affine(x, w, a, b);
+    fmpq_one(a);
+    fmpq_zero(b);
+    embz_expr_affine(y, w, a, b);
+    embz_expr_geomean(g, x, y);
+    ck_assert_int_eq(embz_expr_log_substitute(phi, g), EMBZ_OK);
+    char *txt = embz_expr_to_string(phi);
+    ck_assert_msg(strstr(txt, "exp(i)") == NULL, "phi = %s", txt);
+    free(txt);
+    /* log(i + 1) under i -> 2 i - 1 reads log(2 i) */
+    parse_ok(w, "log(i + 1)");
+    fmpq_set_si(a, 2, 1);
+    fmpq_set_si(b, -1, 1);
+    embz_expr_affine(x, w, a, b);
+    txt = embz_expr_to_string(x);
+    ck_assert_str_eq(txt, "log(2*i)");
+    free(txt);
+    embz_expr_clear(w); embz_expr_clear(x); embz_expr_clear(y); embz_expr_clear(g);
+    embz_expr_clear(phi);
+    fmpq_clear(a); fmpq_clear(b);
+    arb_clear(v); arb_clear(u); arb_clear(t); arb_clear(pt); arb_clear(nn);
+}
+END_TEST
+
 static Suite *expr_suite(void)
 {
     Suite *s = suite_create("expr");
@@ -1574,6 +1663,7 @@ static Suite *expr_suite(void)
     tcase_add_test(tc, test_fold_constants);
     tcase_add_test(tc, test_eval_fmpq);
     tcase_add_test(tc, test_steps_binom);
+    tcase_add_test(tc, test_compose);
     suite_add_tcase(s, tc);
     return s;
 }

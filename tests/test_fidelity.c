@@ -429,8 +429,10 @@ START_TEST(test_family_precision)
 }
 END_TEST
 
-/* Bounds from K: the explicit value lies inside them, and they are flagged. Large n gives
- * bounds only; the overlap has none. */
+/* Bounds from K: the explicit value lies inside them, and they are flagged. At large n the
+ * inverse family gets values (the LOCC fidelity bounds of fmax.c are tight) inside the
+ * bracket from K, logpower bounds only with tighter ones inside the bracket; the overlap is
+ * a value there for uniform targets and refused for target vectors. */
 START_TEST(test_family_bounds)
 {
     embz_family_t f;
@@ -450,17 +452,58 @@ START_TEST(test_family_bounds)
         ck_assert(embz_fidelity(v, f, n, q, m, EMBZ_METHOD_AUTO, 128, &err) == EMBZ_OK);
         ck_assert(!v->bounds_only);
         ck_assert(embz_fidelity(b, f, n, q, m, EMBZ_METHOD_ANALYTIC, 128, &err) == EMBZ_OK);
-        ck_assert(b->bounds_only);
-        ck_assert(arb_contains(b->value, v->value));
+        /* forced past explicit sizes: an analytic value or bounds, with the explicit value */
+        if (b->bounds_only) ck_assert(arb_contains(b->value, v->value));
+        else ck_assert(b->how.analytic == 2 && arb_overlaps(b->value, v->value));
         ck_assert(!arb_lt(b->upper, b->lower));
         fmpz_set_str(n, "1000000000000000000000000000000", 10);
         ck_assert(embz_fidelity(b, f, n, q, m, EMBZ_METHOD_AUTO, 128, &err) == EMBZ_OK);
-        ck_assert(b->bounds_only);
-        /* K = ln 2 / (ln n + gamma) roughly 0.0099 here: P between about 0.0099 and 0.14 */
+        /* a value at 10^30 (fmax.c), inside the bracket from K = ln 2 / (ln n + gamma)
+         * roughly 0.0099: P between about 0.0099 and 0.14 */
+        ck_assert(!b->bounds_only && b->how.analytic == 2);
         ck_assert(arb_is_finite(b->value));
+        ck_assert(arb_rel_accuracy_bits(b->purified) > 30);
+        embz_error_result_t e;
+        embz_error_result_init(e);
+        ck_assert(embz_error(e, f, n, q, EMBZ_METHOD_AUTO, 128, &err) == EMBZ_OK);
+        arb_t t;
+        arb_init(t);
+        ck_assert(arb_ge(b->purified, e->error));        /* K <= P */
+        arb_sub_ui(t, e->error, 2, 128);
+        arb_mul(t, t, e->error, 128);
+        arb_neg(t, t);
+        arb_sqrt(t, t, 128);
+        ck_assert(arb_le(b->purified, t));               /* P <= sqrt(K (2 - K)) */
+        arb_clear(t);
+        embz_error_result_clear(e);
     }
+    /* bounds only where the LOCC bounds stay wide (1/(i log(i+1)^(1/2))), then tighter ones
+     * inside the bracket from K */
+    {
+        embz_family_t g;
+        embz_family_init(g);
+        family_set(g, "logpower");
+        ck_assert(embz_fidelity(b, g, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO, 128, &err)
+                  == EMBZ_OK);
+        ck_assert(b->bounds_only && b->have_tight);
+        ck_assert(arb_le(b->lower, b->tight_lo) && arb_le(b->tight_hi, b->upper));
+        ck_assert(arb_le(b->tight_lo, b->tight_hi));
+        /* much tighter: a few per cent against a factor of 7 */
+        arb_t t;
+        arb_init(t);
+        arb_div(t, b->tight_hi, b->tight_lo, 64);
+        ck_assert(arf_cmp_d(arb_midref(t), 1.05) < 0);
+        arb_clear(t);
+        embz_family_clear(g);
+    }
+    /* the overlap has a value there (uniform targets), not bounds */
+    ck_assert(embz_fidelity(b, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO, 128, &err)
+              == EMBZ_OK);
+    ck_assert(!b->bounds_only && b->how.analytic);
+    tu_target_set(q, "0.7,0.3");
     ck_assert(embz_fidelity(b, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO, 128, &err)
               == EMBZ_ERR_UNSUPPORTED);
+    tu_target_set(q, "ebit");
     fmpz_set_si(n, EMBZ_FIDELITY_MAX_N + 1);
     ck_assert(embz_fidelity_explicit(b, f, n, q, EMBZ_MEASURE_FIDELITY, 128, &err)
               == EMBZ_ERR_LIMIT);
@@ -525,6 +568,338 @@ START_TEST(test_van_dam_hayden)
 }
 END_TEST
 
+
+static const char *const SHIPPED[] = { "inverse", "power", "logpower", "iterlog", "nearmiss",
+                                       "uniform", "geometric", "tilted", "invamp" };
+#define NSHIPPED ((int) (sizeof(SHIPPED) / sizeof(SHIPPED[0])))
+
+/* The overlap at large n (the analytic engine, overlap.c) against the explicit certified
+ * value (exact rational vector, rounding allowance) at n = 10^3 .. 2^20, for every shipped
+ * family with a weight (the level family qubitcopies has none) and the targets ebit and
+ * uniform:3: the balls overlap and the analytic one is narrower than 1e-25. Also a weight
+ * whose head rises before it falls (head weights inserted among the tail weights). */
+START_TEST(test_overlap_analytic_explicit)
+{
+    const char *targets[] = { "ebit", "uniform:3" };
+    long sizes[] = { 1000, 30000, 1L << 20 };
+    int nsizes = getenv("EMBZ_QUICK") ? 2 : 3;
+    embz_family_t f;
+    embz_family_init(f);
+    embz_target_t q;
+    embz_target_init(q);
+    embz_fidelity_result_t a, e;
+    embz_fidelity_result_init(a);
+    embz_fidelity_result_init(e);
+    fmpz_t n;
+    fmpz_init(n);
+    embz_err_t err;
+    arb_t tiny;
+    arb_init(tiny);
+    arb_set_d(tiny, 1e-25);
+    for (int fi = 0; fi <= NSHIPPED; fi++) {
+        const char *fam = fi < NSHIPPED ? SHIPPED[fi] : "i^0.3*log(log(i+3))*i^(-0.5)";
+        family_set(f, fam);
+        for (int ti = 0; ti < 2; ti++) {
+            tu_target_set(q, targets[ti]);
+            for (int si = fi < NSHIPPED ? 0 : 2; si < nsizes; si++) {
+                fmpz_set_si(n, sizes[si]);
+                embz_err_clear(&err);
+                int st = embz_fidelity(a, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_ANALYTIC,
+                                       128, &err);
+                ck_assert_msg(st == EMBZ_OK, "%s %s n = %ld: %s", fam, targets[ti], sizes[si],
+                              err.text);
+                ck_assert(a->how.analytic && !a->bounds_only);
+                ck_assert(embz_fidelity_explicit(e, f, n, q, EMBZ_MEASURE_OVERLAP, 128, &err)
+                          == EMBZ_OK);
+                ck_assert_msg(arb_overlaps(a->overlap, e->overlap), "%s %s n = %ld", fam,
+                              targets[ti], sizes[si]);
+                ck_assert(arb_overlaps(a->value, e->value));
+                arb_t w;
+                arb_init(w);
+                arb_get_rad_arb(w, a->overlap);
+                ck_assert_msg(arb_lt(w, tiny), "%s %s n = %ld: radius too large", fam,
+                              targets[ti], sizes[si]);
+                arb_clear(w);
+            }
+        }
+    }
+    /* the level family has no weight to sum */
+    family_set(f, "qubitcopies");
+    fmpz_set_str(n, "1000000000000000000000000000000", 10);
+    ck_assert(embz_fidelity(a, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO, 128, &err)
+              != EMBZ_OK);
+    arb_clear(tiny);
+    fmpz_clear(n);
+    embz_fidelity_result_clear(a);
+    embz_fidelity_result_clear(e);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
+/* Two precisions overlap at n = 10^30 and 10^300, the higher one narrower, for families with
+ * different tails (rational, logarithmic, n-dependent, summable). */
+START_TEST(test_overlap_precisions)
+{
+    const char *fams[] = { "inverse", "logpower", "iterlog", "tilted", "nearmiss", "power" };
+    embz_family_t f;
+    embz_family_init(f);
+    embz_target_t q;
+    embz_target_init(q);
+    embz_fidelity_result_t a, b;
+    embz_fidelity_result_init(a);
+    embz_fidelity_result_init(b);
+    fmpz_t n;
+    fmpz_init(n);
+    embz_err_t err;
+    for (int fi = 0; fi < 6; fi++) {
+        family_set(f, fams[fi]);
+        for (int ti = 0; ti < 2; ti++) {
+            tu_target_set(q, ti ? "uniform:3" : "ebit");
+            for (int e = 30; e <= 300; e += 270) {
+                fmpz_ui_pow_ui(n, 10, (ulong) e);
+                embz_err_clear(&err);
+                ck_assert_msg(embz_fidelity(a, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO,
+                                            64, &err) == EMBZ_OK, "%s: %s", fams[fi], err.text);
+                ck_assert_msg(embz_fidelity(b, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO,
+                                            256, &err) == EMBZ_OK, "%s: %s", fams[fi], err.text);
+                ck_assert_msg(arb_overlaps(a->overlap, b->overlap), "%s 10^%d", fams[fi], e);
+                ck_assert(arb_overlaps(a->value, b->value));
+                ck_assert_msg(arb_rel_accuracy_bits(b->overlap)
+                              > arb_rel_accuracy_bits(a->overlap) + 100, "%s 10^%d: %ld, %ld",
+                              fams[fi], e, arb_rel_accuracy_bits(a->overlap),
+                              arb_rel_accuracy_bits(b->overlap));
+            }
+        }
+    }
+    fmpz_clear(n);
+    embz_fidelity_result_clear(a);
+    embz_fidelity_result_clear(b);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
+/* van Dam and Hayden, Phys. Rev. A 67, 060302 (2003), at astronomically large n: the
+ * inverse-index overlap satisfies O >= 1 - log d / log n (the unsquared overlap, see
+ * test_van_dam_hayden) at n = 10^30, 10^300, 10^1000 and d = 2, 3, 8, 16; the squared form
+ * fails at all of these (documents the convention). */
+START_TEST(test_van_dam_hayden_large)
+{
+    embz_family_t f;
+    embz_family_init(f);
+    family_set(f, "inverse");
+    embz_target_t q;
+    embz_target_init(q);
+    embz_fidelity_result_t res;
+    embz_fidelity_result_init(res);
+    fmpz_t n;
+    fmpz_init(n);
+    embz_err_t err;
+    arb_t bound, t;
+    arb_init(bound); arb_init(t);
+    const char *ds[] = { "ebit", "uniform:3", "ebits:3", "uniform:16" };
+    const long dv[] = { 2, 3, 8, 16 };
+    const ulong es[] = { 30, 300, 1000 };
+    for (int di = 0; di < 4; di++) {
+        tu_target_set(q, ds[di]);
+        for (int ei = 0; ei < 3; ei++) {
+            fmpz_ui_pow_ui(n, 10, es[ei]);
+            embz_err_clear(&err);
+            ck_assert_msg(embz_fidelity(res, f, n, q, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO,
+                                        128, &err) == EMBZ_OK, "%s", err.text);
+            arb_set_si(t, dv[di]);
+            arb_log(bound, t, 128);
+            arb_log_fmpz(t, n, 128);
+            arb_div(bound, bound, t, 128);
+            arb_sub_ui(bound, bound, 1, 128);
+            arb_neg(bound, bound);
+            ck_assert_msg(arb_gt(res->overlap, bound), "d = %ld, n = 10^%lu", dv[di], es[ei]);
+            ck_assert_msg(arb_lt(res->value, bound), "squared, d = %ld, n = 10^%lu", dv[di],
+                          es[ei]);
+        }
+    }
+    arb_clear(bound); arb_clear(t);
+    fmpz_clear(n);
+    embz_fidelity_result_clear(res);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
+
+/* The duality behind the upper bounds of fmax.c [derived in src/error/fmax.c]: for every
+ * non-decreasing lambda > 0, sum_i r_i / (4 lambda_i) + lambda_i p_i >= sqrt(F_max(p -> r))
+ * (r restricted to the length of p), with equality for lambda_i = 1 / (2 sqrt(s_i / r_i)), s
+ * the optimal output of embz_qvec_fidelity. Random rational pairs of lengths 2..8 and random
+ * multipliers; a lambda that decreases somewhere may fall below (checked to happen). */
+START_TEST(test_fmax_duality)
+{
+    flint_rand_t state;
+    flint_randinit(state);
+    embz_qvec_t p, r, s;
+    embz_qvec_init(p); embz_qvec_init(r); embz_qvec_init(s);
+    arb_t F, D, t, u, lam;
+    arb_init(F); arb_init(D); arb_init(t); arb_init(u); arb_init(lam);
+    int below = 0;
+    for (int it = 0; it < 2000; it++) {
+        long len = 2 + (long) n_randint(state, 7);
+        random_qvec(p, state, len, 0);
+        random_qvec(r, state, len + (long) n_randint(state, 3), 0);
+        embz_qvec_sort(p);
+        embz_qvec_sort(r);
+        embz_qvec_fidelity(F, s, NULL, p, r, 128);
+        arb_sqrt(F, F, 128);
+        /* the optimal multipliers: equality */
+        arb_zero(D);
+        int ok = 1;
+        for (long i = 0; i < len && i < s->len; i++) {
+            if (fmpq_is_zero(r->p + i) || fmpq_is_zero(s->p + i)) { ok = 0; break; }
+            arb_set_fmpq(t, s->p + i, 128);
+            arb_set_fmpq(u, r->p + i, 128);
+            arb_div(lam, t, u, 128);
+            arb_sqrt(lam, lam, 128);
+            arb_mul_2exp_si(lam, lam, 1);
+            arb_inv(lam, lam, 128);                     /* 1 / (2 sqrt(s/r)) */
+            arb_div(u, u, lam, 128);
+            arb_mul_2exp_si(u, u, -2);
+            arb_add(D, D, u, 128);
+            arb_set_fmpq(t, p->p + i, 128);
+            arb_mul(t, t, lam, 128);
+            arb_add(D, D, t, 128);
+        }
+        if (ok) ck_assert_msg(arb_overlaps(D, F), "optimal multipliers, it %d", it);
+        /* random multipliers: non-decreasing ones bound from above */
+        for (int mono = 0; mono < 2; mono++) {
+            arb_zero(D);
+            double l = 0.2 + n_randint(state, 100) / 50.0;
+            for (long i = 0; i < len; i++) {
+                l = mono ? l + n_randint(state, 100) / 100.0
+                         : 0.2 + n_randint(state, 100) / 50.0;
+                arb_set_d(lam, l);
+                arb_set_fmpq(u, r->p + i, 128);
+                arb_div(u, u, lam, 128);
+                arb_mul_2exp_si(u, u, -2);
+                arb_add(D, D, u, 128);
+                arb_set_fmpq(t, p->p + i, 128);
+                arb_mul(t, t, lam, 128);
+                arb_add(D, D, t, 128);
+            }
+            if (mono) ck_assert_msg(!arb_lt(D, F), "non-decreasing multipliers, it %d", it);
+            else if (arb_lt(D, F)) below++;
+        }
+    }
+    ck_assert(below > 0);
+    arb_clear(F); arb_clear(D); arb_clear(t); arb_clear(u); arb_clear(lam);
+    embz_qvec_clear(p); embz_qvec_clear(r); embz_qvec_clear(s);
+    flint_randclear(state);
+}
+END_TEST
+
+/* F_max and P at large n (fmax.c) against the explicit exact hull (embz_fidelity_explicit)
+ * at n = 2^18 and 2^20 for every shipped family with a weight and the targets ebit and
+ * uniform:3: a value overlaps the explicit one, tighter bounds contain it. The families
+ * whose hull is tight (inverse, invamp, power, tilted, uniform, geometric) must give values. */
+START_TEST(test_fmax_analytic_explicit)
+{
+    const char *targets[] = { "ebit", "uniform:3" };
+    long sizes[] = { 1L << 18, 1L << 20 };
+    int nsizes = getenv("EMBZ_QUICK") ? 1 : 2;
+    embz_family_t f;
+    embz_family_init(f);
+    embz_target_t q;
+    embz_target_init(q);
+    embz_fidelity_result_t a, e;
+    embz_fidelity_result_init(a);
+    embz_fidelity_result_init(e);
+    fmpz_t n;
+    fmpz_init(n);
+    embz_err_t err;
+    for (int fi = 0; fi < NSHIPPED; fi++) {
+        family_set(f, SHIPPED[fi]);
+        int want_value = strcmp(SHIPPED[fi], "logpower") != 0
+                         && strcmp(SHIPPED[fi], "iterlog") != 0
+                         && strcmp(SHIPPED[fi], "nearmiss") != 0;
+        for (int ti = 0; ti < 2; ti++) {
+            tu_target_set(q, targets[ti]);
+            for (int si = 0; si < nsizes; si++) {
+                fmpz_set_si(n, sizes[si]);
+                embz_err_clear(&err);
+                ck_assert(embz_fidelity_explicit(e, f, n, q, EMBZ_MEASURE_PURIFIED, 128, &err)
+                          == EMBZ_OK);
+                int st = embz_fidelity(a, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_ANALYTIC,
+                                       128, &err);
+                ck_assert_msg(st == EMBZ_OK, "%s: %s", SHIPPED[fi], err.text);
+                if (!a->bounds_only) {
+                    ck_assert(a->how.analytic == 2);
+                    ck_assert_msg(arb_overlaps(a->purified, e->purified), "%s %s n = %ld",
+                                  SHIPPED[fi], targets[ti], sizes[si]);
+                    ck_assert(arb_overlaps(a->fidelity, e->fidelity));
+                } else {
+                    ck_assert_msg(!want_value, "%s %s n = %ld: bounds only", SHIPPED[fi],
+                                  targets[ti], sizes[si]);
+                    ck_assert(a->have_tight);
+                    ck_assert(!arb_lt(e->purified, a->tight_lo)
+                              && !arb_gt(e->purified, a->tight_hi));
+                }
+            }
+        }
+    }
+    fmpz_clear(n);
+    embz_fidelity_result_clear(a);
+    embz_fidelity_result_clear(e);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
+
+/* The LOCC values at large n: two precisions overlap at 10^30 and 10^300 (inverse, power,
+ * tilted; ebit and uniform:3), and the tighter bounds of logpower contain each other's
+ * intersection (they overlap). */
+START_TEST(test_fmax_precisions)
+{
+    const char *fams[] = { "inverse", "power", "tilted", "logpower" };
+    embz_family_t f;
+    embz_family_init(f);
+    embz_target_t q;
+    embz_target_init(q);
+    embz_fidelity_result_t a, b;
+    embz_fidelity_result_init(a);
+    embz_fidelity_result_init(b);
+    fmpz_t n;
+    fmpz_init(n);
+    embz_err_t err;
+    for (int fi = 0; fi < 4; fi++) {
+        family_set(f, fams[fi]);
+        for (int ti = 0; ti < 2; ti++) {
+            tu_target_set(q, ti ? "uniform:3" : "ebit");
+            for (int e = 30; e <= 300; e += 270) {
+                fmpz_ui_pow_ui(n, 10, (ulong) e);
+                embz_err_clear(&err);
+                ck_assert(embz_fidelity(a, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO, 96,
+                                        &err) == EMBZ_OK);
+                ck_assert(embz_fidelity(b, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO,
+                                        192, &err) == EMBZ_OK);
+                if (fi < 3) {
+                    ck_assert_msg(!a->bounds_only && !b->bounds_only, "%s 10^%d", fams[fi], e);
+                    ck_assert_msg(arb_overlaps(a->value, b->value), "%s 10^%d", fams[fi], e);
+                    ck_assert(arb_overlaps(a->fidelity, b->fidelity));
+                } else {
+                    ck_assert(a->bounds_only && b->bounds_only && a->have_tight && b->have_tight);
+                    ck_assert(!arb_lt(a->tight_hi, b->tight_lo) && !arb_lt(b->tight_hi, a->tight_lo));
+                }
+            }
+        }
+    }
+    fmpz_clear(n);
+    embz_fidelity_result_clear(a);
+    embz_fidelity_result_clear(b);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
 START_TEST(test_measure_names)
 {
     embz_err_t err;
@@ -549,6 +924,7 @@ static Suite *fidelity_suite(void)
     tcase_add_test(tc, test_catalysis);
     tcase_add_test(tc, test_relations);
     tcase_add_test(tc, test_measure_names);
+    tcase_add_test(tc, test_fmax_duality);
     suite_add_tcase(s, tc);
     TCase *tf = tcase_create("families");
     tcase_set_timeout(tf, 600);
@@ -556,6 +932,11 @@ static Suite *fidelity_suite(void)
     tcase_add_test(tf, test_family_precision);
     tcase_add_test(tf, test_family_bounds);
     tcase_add_test(tf, test_van_dam_hayden);
+    tcase_add_test(tf, test_overlap_analytic_explicit);
+    tcase_add_test(tf, test_overlap_precisions);
+    tcase_add_test(tf, test_van_dam_hayden_large);
+    tcase_add_test(tf, test_fmax_analytic_explicit);
+    tcase_add_test(tf, test_fmax_precisions);
     suite_add_tcase(s, tf);
     return s;
 }

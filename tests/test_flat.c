@@ -252,7 +252,17 @@ START_TEST(test_analysis_calls)
     const char *sizes[] = { "100", "10^7" };
     ck_assert_int_eq(embz_flat_errors(&t, f, sizes, 2, NULL, &o, &err), EMBZ_OK);
     ck_assert_str_eq(embz_flat_get(t, 0, "bounds_only"), "0");
-    ck_assert_str_eq(embz_flat_get(t, 1, "bounds_only"), "1");
+    /* 10^7: beyond explicit sizes, a value from the analytic engine's LOCC bounds */
+    ck_assert_str_eq(embz_flat_get(t, 1, "bounds_only"), "0");
+    ck_assert_str_eq(embz_flat_get(t, 1, "method"), "analytic");
+    embz_flat_table_free(t);
+    embz_flat_family_free(f);
+    /* bounds only, with the tighter range (logpower) */
+    f = fam("logpower");
+    const char *sizes2[] = { "10^20" };
+    ck_assert_int_eq(embz_flat_errors(&t, f, sizes2, 1, NULL, &o, &err), EMBZ_OK);
+    ck_assert_str_eq(embz_flat_get(t, 0, "bounds_only"), "1");
+    ck_assert(embz_flat_get(t, 0, "tight_lo") != NULL && embz_flat_get(t, 0, "tight_hi") != NULL);
     embz_flat_table_free(t);
     embz_flat_family_free(f);
     embz_flat_thread_cleanup();

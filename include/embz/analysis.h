@@ -87,6 +87,36 @@ int embz_sweep_run_opts(embz_sweep_t s, const embz_family_t f, const fmpz_t a,
                         const embz_sweep_opts_t o, slong prec, embz_progress_fn progress,
                         void *ctx, embz_err_t *err);
 
+/* ------------------------------------------------------------------ sweeps of a measure */
+
+/* A fidelity-type measure (embz/fidelity.h: fidelity, purified, overlap) at one size. */
+typedef struct {
+    fmpz_t n;
+    int status;                        /* EMBZ_OK, or why the size has no result */
+    char note[256];                    /* the reason when status != EMBZ_OK */
+    double seconds;
+    embz_fidelity_result_struct res;   /* status EMBZ_OK: the value or the bounds */
+} embz_msweep_point_struct;
+
+typedef struct {
+    slong len;
+    int measure;
+    embz_msweep_point_struct *pts;
+} embz_msweep_struct;
+typedef embz_msweep_struct embz_msweep_t[1];
+
+void embz_msweep_init(embz_msweep_t s);
+void embz_msweep_clear(embz_msweep_t s);
+
+/* The measure at the sizes of embz_sweep_sizes(a, b, k), one embz_fidelity call per size
+ * (explicit values up to 2^20, the analytic engine's values or bounds beyond). A size that
+ * fails keeps its status and reason; returns EMBZ_OK if at least one size succeeded,
+ * EMBZ_ERR_INPUT for a bad range or a measure that is not a fidelity measure, else the
+ * status of the last failure (err filled). */
+int embz_msweep_run(embz_msweep_t s, const embz_family_t f, const fmpz_t a, const fmpz_t b,
+                    slong k, const embz_target_t q, int measure, slong prec,
+                    embz_progress_fn progress, void *ctx, embz_err_t *err);
+
 /* ------------------------------------------------------------------ fits */
 
 /* Candidate laws for E as a function of n (x = ln n). */

@@ -239,6 +239,25 @@ typedef struct {
                                bound's exponent, rounded; -1e300 for none) */
     slong prec;
     embz_error_how_struct K;
+    /* the overlap at large n by the analytic engine (analytic = 1), or F_max (analytic = 2): */
+    int analytic;
+    slong head;             /* head size M of the layout (weights i <= M placed explicitly) */
+    slong terms;            /* sorted positions summed term by term */
+    slong residues;         /* residue classes j = d (m - 1) + s, one Euler-Maclaurin tail each */
+    slong tail_order;       /* the highest Euler-Maclaurin order among those tails */
+    int tail_neglect;       /* some residue tail stopped at a point beyond which its terms are
+                               negligible (their mass bounded) */
+    slong series, integrals;/* tail series and integrals evaluated by the residue tails */
+    /* F_max at large n (analytic = 2): pieces = hull pieces of the first `terms` positions,
+       splits = pieces split to certify them, block_dual = the upper bound beyond them came
+       from constant multipliers per block of d (else one constant) */
+    slong splits;
+    int block_dual;
+    slong last_vertex;      /* F_max: the upper bound's last hull vertex before the chord to n */
+    int pairs;              /* F_max: the lower bound pairs the positions (d m, d m + 1) beyond
+                               the prefix (the weight proven log-convex there) */
+    /* allowance_log2 (analytic): the weights beyond a negligible point were dropped from the
+       state, which moves the value by a purified distance of at most 2^this (-1e300: none) */
 } embz_fidelity_how_struct;
 
 typedef struct {
@@ -251,6 +270,9 @@ typedef struct {
     arb_t purified;     /* sqrt(1 - F_max) */
     arb_t overlap;      /* overlap measure only: O (not squared); indeterminate otherwise */
     arb_t K;            /* bounds_only: the conversion distance the bounds come from */
+    int have_tight;     /* bounds_only: tighter certified bounds on the value from the LOCC
+                           fidelity bounds at large n, how.analytic = 2 says how) */
+    arb_t tight_lo, tight_hi;  /* have_tight: exact ends, tight_lo <= value <= tight_hi */
     slong nblocks;      /* pieces of the optimal output (explicit fidelity/purified) */
     embz_fidelity_how_struct how;  /* how it was computed */
 } embz_fidelity_result_struct;

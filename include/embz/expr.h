@@ -89,6 +89,20 @@ int embz_expr_log_substitute(embz_expr_t out, const embz_expr_t w);
  * bound. Returns EMBZ_OK, or EMBZ_ERR_INPUT for an empty expression. */
 int embz_expr_log_split(embz_expr_t core, embz_expr_t rate, const embz_expr_t w);
 
+/* out(i) = w(a i + b): every occurrence of the variable i replaced by a i + b (constants
+ * folded). out may not alias w. Returns EMBZ_OK, or EMBZ_ERR_INPUT for an empty expression. */
+int embz_expr_affine(embz_expr_t out, const embz_expr_t w, const fmpq_t a, const fmpq_t b);
+/* out = sqrt(x y), the geometric mean of two expressions in the same variables (used for the
+ * terms sqrt(p_j r_j) of the overlap), written as sqrt(x) sqrt(y) with the roots pushed
+ * inside products, quotients, powers and exponentials where that is exact: wherever out is
+ * defined it equals sqrt(x y) (it may be undefined where a factor is negative). out may not
+ * alias x or y. EMBZ_ERR_INPUT for an empty expression. */
+int embz_expr_geomean(embz_expr_t out, const embz_expr_t x, const embz_expr_t y);
+
+/* out = x op y for a binary operation (EMBZ_OP_ADD, _SUB, _MUL, _DIV, _POW, _MIN, _MAX).
+ * out may not alias x or y. EMBZ_ERR_INPUT for an empty expression or another op. */
+int embz_expr_binary(embz_expr_t out, int op, const embz_expr_t x, const embz_expr_t y);
+
 /* Wrap: e <- e^2 (used for amplitude families). */
 void embz_expr_square(embz_expr_t e);
 

@@ -54,6 +54,7 @@ def test_prec_and_method(cli):
 
 
 @pytest.mark.parametrize("measure,n", [("fidelity", 1000), ("purified", 500), ("overlap", 64),
+                                       ("overlap", 10 ** 30),
                                        ("fidelity", 10 ** 7)])
 def test_measures_match_cli(cli, measure, n):
     r = embz.error("inverse", n=n, measure=measure)

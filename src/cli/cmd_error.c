@@ -31,8 +31,11 @@ static const cli_spec_t error_spec = {
     "double-precision value without guarantee.\n"
     "--measure fidelity: the optimal LOCC fidelity F_max(p -> p (x) q) (fidelity = squared\n"
     "overlap); purified: sqrt(1 - F_max); overlap: the best squared overlap with local\n"
-    "unitaries only. These are values for n up to 2^20; beyond, fidelity and purified are\n"
-    "certified BOUNDS from K (K <= P <= sqrt(K(2-K))), marked as such.\n"
+    "unitaries only. These are values for n up to 2^20. Beyond, for uniform targets (ebit,\n"
+    "ebits:J with J <= 8, uniform:D with D <= 256) and weights that are eventually\n"
+    "non-increasing, the analytic engine certifies the overlap, and fidelity and purified\n"
+    "where its two-sided bounds meet; elsewhere fidelity and purified are certified BOUNDS\n"
+    "from K (K <= P <= sqrt(K(2-K))), marked as such, with tighter ones when available.\n"
     "--vs-optimal (distance K, uniform targets): the smallest error any state of rank n\n"
     "reaches (embz optimal), E_n divided by it, and the qubits per side the optimal state\n"
     "needs for the same error against ceil(log2 n).\n",
@@ -239,7 +242,7 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
         return cli_report("error", status, &err);
     }
     const char *mname = embz_measure_name(measure);
-    const char *how = res->bounds_only ? "bounds" : "explicit";
+    const char *how = res->bounds_only ? "bounds" : res->how.analytic ? "analytic" : "explicit";
     char *ns = fmpz_get_str(NULL, 10, n);
     char *w = weight_text(fam);
     char *detail = embz_fidelity_how_text(&res->how);
@@ -267,12 +270,19 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
             cli_buf_json_key_string(&b, "value_certified", c);
             free(c);
         }
-        if (!res->bounds_only) {
+        if (!res->bounds_only && res->how.analytic != 1) {
             json_ends(&b, "fidelity", res->fidelity);
             json_ends(&b, "purified", res->purified);
         }
         if (measure == EMBZ_MEASURE_OVERLAP) json_ends(&b, "overlap", res->overlap);
         if (res->bounds_only) json_ends(&b, "K", res->K);
+        if (res->bounds_only && res->have_tight) {
+            char *a = embz_arb_lo_string(res->tight_lo, JSON_DIGITS);
+            char *z = embz_arb_hi_string(res->tight_hi, JSON_DIGITS);
+            cli_buf_json_key_string(&b, "tight_lo", a);
+            cli_buf_json_key_string(&b, "tight_hi", z);
+            free(a); free(z);
+        }
         cli_buf_json_key_string(&b, "detail", detail);
         embz_buf_printf(&b, "}\n");
         free(pj);
@@ -309,17 +319,25 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
             embz_buf_printf(&b, "%-10s %s   (conversion distance, certified digits)\n", "K",
                             kc);
             free(kc);
+            if (res->have_tight) {
+                char *a = embz_arb_lo_string(res->tight_lo, TABLE_DIGITS);
+                char *z = embz_arb_hi_string(res->tight_hi, TABLE_DIGITS);
+                embz_buf_printf(&b, "%-10s %s <= %s <= %s   (LOCC fidelity bounds: exact hull "
+                                "of the first %ld positions, s = p and Lagrange multipliers "
+                                "beyond)\n", "tighter", a, mname, z, (long) res->how.terms);
+                free(a); free(z);
+            }
         } else {
             char *c = embz_arb_certified_string(res->value, CERT_DIGITS);
             embz_buf_printf(&b, "%-10s %s   (certified digits)\n", "value", c);
             embz_buf_printf(&b, "%-10s [%s, %s]\n", "enclosure", tl, th);
             free(c);
-            if (measure != EMBZ_MEASURE_FIDELITY) {
+            if (measure != EMBZ_MEASURE_FIDELITY && res->how.analytic != 1) {
                 char *x = embz_arb_certified_string(res->fidelity, CERT_DIGITS);
                 embz_buf_printf(&b, "%-10s %s   (F_max, certified digits)\n", "fidelity", x);
                 free(x);
             }
-            if (measure != EMBZ_MEASURE_PURIFIED) {
+            if (measure != EMBZ_MEASURE_PURIFIED && res->how.analytic != 1) {
                 char *x = embz_arb_certified_string(res->purified, CERT_DIGITS);
                 embz_buf_printf(&b, "%-10s %s   (sqrt(1 - F_max), certified digits)\n",
                                 "purified", x);

@@ -13,6 +13,8 @@ static const cli_opt_t sweep_opts[] = {
     CLI_OPT_SET,
     CLI_OPT_AMPLITUDE,
     { "no-fit", 0, CLI_FLAG, NULL, "do not fit decay laws" },
+    { "measure", 0, CLI_VALUE, "M",
+      "k (default), or fidelity, purified, overlap: that measure per size (no fits)" },
     CLI_OPT_JSON,
     { "csv", 0, CLI_FLAG, NULL, "print CSV: a header line and one row per size" },
     CLI_OPT_END
@@ -30,7 +32,9 @@ static const cli_spec_t sweep_spec = {
     "up to 10^300 at default precision; a progress bar appears on a terminal when the run\n"
     "takes longer than a second. A family the analytic engine cannot take (a weight not\n"
     "provably monotone) is swept up to n = 10^6 only, what explicit summation reaches, and\n"
-    "the output says so.\n",
+    "the output says so.\n"
+    "--measure fidelity|purified|overlap: that measure at each size instead (as 'embz error\n"
+    "--measure' computes it: values, or BOUNDS where only bounds are certified), no fits.\n",
     sweep_opts, 1, 1
 };
 
@@ -141,6 +145,117 @@ static void emit_fits_table(embz_buf_t *b, const embz_fitset_t fs)
     }
 }
 
+/* --measure fidelity|purified|overlap: the measure per size, no fits */
+static int run_measure(const embz_family_t fam, const fmpz_t from, const fmpz_t to,
+                       slong points, const embz_target_t q, int measure, slong prec, int json,
+                       int csv)
+{
+    embz_err_t err;
+    embz_err_clear(&err);
+    embz_msweep_t ms;
+    embz_msweep_init(ms);
+    cli_progress_t prog;
+    embz_progress_fn show = cli_progress_start(&prog, 1);
+    int status = embz_msweep_run(ms, fam, from, to, points, q, measure, prec, show, &prog, &err);
+    cli_progress_end(&prog);
+    if (status != EMBZ_OK) {
+        embz_msweep_clear(ms);
+        return cli_report("sweep", status, &err);
+    }
+    const char *mname = embz_measure_name(measure);
+    embz_buf_t b;
+    embz_buf_init(&b);
+    if (csv)
+        embz_buf_printf(&b, "n,log10_n,status,measure,method,bounds_only,value,value_lo,"
+                        "value_hi,value_certified,seconds,note\n");
+    else if (json) {
+        embz_buf_printf(&b, "{\"family\": ");
+        embz_buf_json_string(&b, fam->name);
+        cli_buf_json_key_string(&b, "weight", fam->weight_text);
+        embz_buf_printf(&b, ", \"params\": ");
+        cli_buf_json_params(&b, fam);
+        cli_buf_json_key_string(&b, "target", q->label);
+        cli_buf_json_key_string(&b, "measure", mname);
+        embz_buf_printf(&b, ", \"prec\": %ld, \"points\": [", prec);
+    } else {
+        embz_buf_printf(&b, "family   %s   target %s   measure %s   %ld sizes\n", fam->name,
+                        q->label, mname, (long) ms->len);
+        embz_buf_printf(&b, "%-16s %-34s %-9s %s\n", "n", "value (certified digits)", "method",
+                        "time");
+    }
+    for (slong j = 0; j < ms->len; j++) {
+        const embz_msweep_point_struct *p = ms->pts + j;
+        const embz_fidelity_result_struct *r = &p->res;
+        int ok = p->status == EMBZ_OK;
+        const char *meth = !ok ? "" : r->bounds_only ? "bounds"
+                           : r->how.analytic ? "analytic" : "explicit";
+        char *nfull = fmpz_get_str(NULL, 10, p->n);
+        double l10 = fmpz_dlog(p->n) / log(10.0);
+        char *lo = ok ? embz_arb_lo_string(r->lower, 30) : NULL;
+        char *hi = ok ? embz_arb_hi_string(r->upper, 30) : NULL;
+        char *ce = ok && !r->bounds_only ? embz_arb_certified_string(r->value, 30) : NULL;
+        char *how = ok ? embz_fidelity_how_text(&r->how) : NULL;
+        if (csv) {
+            embz_buf_printf(&b, "%s,%.10g,%s,%s,%s,%s,", nfull, l10, ok ? "ok" : "skipped",
+                            mname, meth, ok ? (r->bounds_only ? "true" : "false") : "");
+            if (ok && !r->bounds_only) embz_buf_printf(&b, "%.17g", embz_arb_mid_d(r->value));
+            embz_buf_printf(&b, ",%s,%s,", ok ? lo : "", ok ? hi : "");
+            cli_buf_csv_field(&b, ce ? ce : "");
+            embz_buf_printf(&b, ",%.3f,", p->seconds);
+            cli_buf_csv_field(&b, ok ? how : p->note);
+            embz_buf_printf(&b, "\n");
+        } else if (json) {
+            embz_buf_printf(&b, "%s\n  {\"n\": \"%s\", \"log10_n\": %.10g, \"status\": \"%s\"",
+                            j ? "," : "", nfull, l10, ok ? "ok" : "skipped");
+            if (ok) {
+                cli_buf_json_key_string(&b, "method", meth);
+                embz_buf_printf(&b, ", \"bounds_only\": %s", r->bounds_only ? "true" : "false");
+                cli_buf_json_key_double(&b, "value", r->bounds_only ? NAN
+                                                                  : embz_arb_mid_d(r->value));
+                cli_buf_json_key_string(&b, "value_lo", lo);
+                cli_buf_json_key_string(&b, "value_hi", hi);
+                if (ce) cli_buf_json_key_string(&b, "value_certified", ce);
+                if (r->bounds_only && r->have_tight) {
+                    char *a = embz_arb_lo_string(r->tight_lo, 30);
+                    char *z = embz_arb_hi_string(r->tight_hi, 30);
+                    cli_buf_json_key_string(&b, "tight_lo", a);
+                    cli_buf_json_key_string(&b, "tight_hi", z);
+                    free(a); free(z);
+                }
+            }
+            embz_buf_printf(&b, ", \"seconds\": %.4f", p->seconds);
+            cli_buf_json_key_string(&b, "note", ok ? how : p->note);
+            embz_buf_printf(&b, "}");
+        } else {
+            char *ns = embz_fmpz_string(p->n, 12);
+            if (!ok) embz_buf_printf(&b, "%-16s %s\n", ns, p->note);
+            else if (r->bounds_only) {
+                char *tl = embz_arb_lo_string(r->have_tight ? r->tight_lo : r->lower, 8);
+                char *th = embz_arb_hi_string(r->have_tight ? r->tight_hi : r->upper, 8);
+                char v[96];
+                snprintf(v, sizeof(v), "BOUNDS [%s, %s]", tl, th);
+                embz_buf_printf(&b, "%-16s %-34s %-9s %.2fs\n", ns, v, meth, p->seconds);
+                free(tl); free(th);
+            } else {
+                char *c18 = embz_arb_certified_string(r->value, 24);
+                embz_buf_printf(&b, "%-16s %-34s %-9s %.2fs\n", ns, c18, meth, p->seconds);
+                free(c18);
+            }
+            free(ns);
+        }
+        flint_free(nfull);
+        free(lo); free(hi); free(ce); free(how);
+    }
+    if (json) embz_buf_printf(&b, "]}\n");
+    else if (!csv)
+        embz_buf_printf(&b, "(BOUNDS: certified bounds only, the tighter ones where available; "
+                        "sizes with more than 12 digits are shown shortened)\n");
+    fputs(b.s, stdout);
+    embz_buf_clear(&b);
+    embz_msweep_clear(ms);
+    return CLI_EXIT_OK;
+}
+
 int cli_cmd_sweep(int argc, char **argv)
 {
     cli_args_t a;
@@ -175,8 +290,21 @@ int cli_cmd_sweep(int argc, char **argv)
         || (code = cli_load_family(fam, &a, a.pos[0], "sweep")) != 0
         || (code = cli_load_target(q, &a, "sweep")) != 0)
         goto done;
+    int measure = EMBZ_MEASURE_K;
+    if (cli_value(&a, "measure") != NULL) {
+        embz_err_t me;
+        embz_err_clear(&me);
+        if (embz_measure_parse(&measure, cli_value(&a, "measure"), &me) != EMBZ_OK) {
+            code = cli_usage_error(&sweep_spec, "%s", me.text);
+            goto done;
+        }
+    }
     cli_levels_range(from, to, fam, &a);
 
+    if (measure != EMBZ_MEASURE_K) {
+        code = run_measure(fam, from, to, points, q, measure, prec, json, csv);
+        goto done;
+    }
     cli_progress_t prog;
     embz_progress_fn show = cli_progress_start(&prog, 1);
     status = embz_sweep_run(sw, fam, from, to, points, q, prec, show, &prog, &err);

@@ -23,8 +23,8 @@
 /* The layout for size n: on the engine's shared tail when the weights do not use n, else on
  * a tail of its own in the storage tail (*have_tail: to be cleared), with heads of 64, 256,
  * ... weights and, where a weight that uses n needs them, the bits of n (raising *wp). */
-static int run_layout(actx *c, embz_analytic_t an, const fmpz_t n, embz_tail_struct *tail,
-                      int *have_tail, slong *wp, embz_err_t *err)
+int _embz_an_layout(actx *c, embz_analytic_t an, const fmpz_t n, embz_tail_struct *tail,
+                    int *have_tail, slong *wp, embz_err_t *err)
 {
     slong prec = an->prec;
     int st = EMBZ_ERR_UNSUPPORTED;
@@ -261,7 +261,7 @@ int _embz_an_run(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
     c.bb_budget = an->bb_budget > 0 ? an->bb_budget : BB_BUDGET;
     int have_tail = 0;      /* a tail of our own to clear */
 
-    int st = run_layout(&c, an, n, tail, &have_tail, &wp, err);
+    int st = _embz_an_layout(&c, an, n, tail, &have_tail, &wp, err);
     if (st == EMBZ_OK) {
         arf_zero(c.upper);
         if (thform)

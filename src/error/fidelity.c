@@ -11,10 +11,12 @@
  * distance apart. With the triangle inequality, the smallest purified distance reachable
  * (by LOCC for F_max, by local unitaries for the overlap) moves by at most 2 eta:
  *     |sqrt(1 - F(p)) - sqrt(1 - F(p'))| <= 2 eta.
- * Beyond explicit sizes: K <= P <= sqrt(K (2 - K)) (docs/measures.md), bounds only. */
+ * Beyond explicit sizes: K <= P <= sqrt(K (2 - K)) (docs/measures.md), bounds only; the
+ * overlap for uniform targets by the analytic engine (overlap.c). */
 #include <stdlib.h>
 #include <string.h>
 #include "embz/error.h"
+#include "impl.h"
 
 void embz_fidelity_result_init(embz_fidelity_result_t r)
 {
@@ -22,6 +24,8 @@ void embz_fidelity_result_init(embz_fidelity_result_t r)
     r->bounds_only = 0;
     arb_init(r->value); arb_init(r->lower); arb_init(r->upper);
     arb_init(r->fidelity); arb_init(r->purified); arb_init(r->overlap); arb_init(r->K);
+    arb_init(r->tight_lo); arb_init(r->tight_hi);
+    r->have_tight = 0;
     arb_indeterminate(r->value);
     arb_indeterminate(r->lower);
     arb_indeterminate(r->upper);
@@ -37,6 +41,7 @@ void embz_fidelity_result_clear(embz_fidelity_result_t r)
 {
     arb_clear(r->value); arb_clear(r->lower); arb_clear(r->upper);
     arb_clear(r->fidelity); arb_clear(r->purified); arb_clear(r->overlap); arb_clear(r->K);
+    arb_clear(r->tight_lo); arb_clear(r->tight_hi);
 }
 
 static int fmpz_cmp_desc(const void *x, const void *y)
@@ -255,6 +260,116 @@ done:
     return status;
 }
 
+/* The overlap beyond explicit sizes, for a uniform target (overlap.c): O of the state with
+ * the negligible weights dropped, its local-unitary distance sqrt(1 - O^2) widened by 2 eta
+ * (the same metric argument as for the rounding of explicit sizes). */
+static int overlap_analytic(embz_fidelity_result_t res, const embz_family_t f, const fmpz_t n,
+                            const embz_target_t q, slong prec, embz_err_t *err)
+{
+    if (q->kind != EMBZ_TARGET_UNIFORM)
+        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                            "the overlap with a target vector needs explicit sizes (n <= %ld); "
+                            "beyond, only uniform targets (ebit, ebits:J, uniform:D)",
+                            (long) EMBZ_FIDELITY_MAX_N);
+    if (embz_family_is_levels(f))
+        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
+                            "a level family has levels with counts, not a weight w(i)");
+    embz_analytic_t an;
+    embz_analytic_init(an, f, prec);
+    arb_t O, x;
+    mag_t eta, eta2;
+    arb_init(O); arb_init(x);
+    mag_init(eta); mag_init(eta2);
+    embz_fidelity_how_struct how;
+    int st = _embz_overlap_analytic(O, eta, &how, an, n, q->d, err);
+    if (st == EMBZ_OK) {
+        slong wp = how.prec;
+        arb_sqr(x, O, wp);
+        arb_sub_ui(x, x, 1, wp);
+        arb_neg(x, x);
+        arb_sqrtpos(x, x, wp);                 /* sqrt(1 - O^2) */
+        mag_mul_2exp_si(eta2, eta, 1);
+        widen(res->purified, res->value, x, eta2, prec);   /* value = O^2 */
+        arb_sqrtpos(res->overlap, res->value, prec);
+        arb_indeterminate(res->purified);
+        arb_indeterminate(res->fidelity);
+        set_ends(res->lower, res->upper, res->value, prec);
+        res->measure = EMBZ_MEASURE_OVERLAP;
+        res->bounds_only = 0;
+        res->nblocks = 0;
+        arb_indeterminate(res->K);
+        res->how = how;
+        res->how.prec = prec;
+    }
+    arb_clear(O); arb_clear(x);
+    mag_clear(eta); mag_clear(eta2);
+    embz_analytic_clear(an);
+    return st;
+}
+
+/* An enclosure counts as a value when the purified distance is known to this relative width
+ * (about 6 digits); wider ones only tighten the bounds from K. */
+#define FMAX_VALUE_REL_BITS 20
+
+/* F_max and P beyond explicit sizes for a uniform target (fmax.c): sqrt(F_max) in [L, U] for
+ * the state with the negligible weights dropped, P = sqrt(1 - F_max) widened by 2 eta.
+ * Returns EMBZ_OK with *is_value = 1 and res filled as a value when P is known to
+ * FMAX_VALUE_REL_BITS bits; else *is_value = 0 and [Plo, Phi] hold the certified range of P
+ * (when the bounds could be computed, *have = 1). */
+static int fmax_analytic(embz_fidelity_result_t res, int *is_value, int *have, arb_t Plo,
+                         arb_t Phi, embz_fidelity_how_struct *how, const embz_family_t f,
+                         const fmpz_t n, const embz_target_t q, int measure, slong prec)
+{
+    *is_value = 0;
+    *have = 0;
+    if (q->kind != EMBZ_TARGET_UNIFORM || embz_family_is_levels(f)) return EMBZ_OK;
+    embz_err_t e2;
+    embz_err_clear(&e2);
+    embz_analytic_t an;
+    embz_analytic_init(an, f, prec);
+    arb_t L, U, x, y;
+    mag_t eta, eta2;
+    arb_init(L); arb_init(U); arb_init(x); arb_init(y);
+    mag_init(eta); mag_init(eta2);
+    int st = _embz_fmax_analytic(L, U, eta, how, an, n, q->d, &e2);
+    if (st == EMBZ_OK) {
+        slong wp = how->prec;
+        arf_t lo, hi;
+        arf_init(lo); arf_init(hi);
+        /* P' in [sqrt(1 - U^2), sqrt(1 - L^2)] */
+        arb_sqr(x, U, wp); arb_sub_ui(x, x, 1, wp); arb_neg(x, x); arb_sqrtpos(x, x, wp);
+        arb_sqr(y, L, wp); arb_sub_ui(y, y, 1, wp); arb_neg(y, y); arb_sqrtpos(y, y, wp);
+        arb_get_lbound_arf(lo, x, wp);
+        arb_get_ubound_arf(hi, y, wp);
+        if (arf_sgn(lo) < 0) arf_zero(lo);
+        arb_set_interval_arf(x, lo, hi, wp);
+        mag_mul_2exp_si(eta2, eta, 1);
+        widen(res->purified, res->fidelity, x, eta2, prec);
+        arb_get_lbound_arf(lo, res->purified, prec);
+        arb_get_ubound_arf(hi, res->purified, prec);
+        arb_set_arf(Plo, lo);
+        arb_set_arf(Phi, hi);
+        *have = 1;
+        if (arb_rel_accuracy_bits(res->purified) >= FMAX_VALUE_REL_BITS) {
+            *is_value = 1;
+            arb_set(res->value, measure == EMBZ_MEASURE_FIDELITY ? res->fidelity : res->purified);
+            set_ends(res->lower, res->upper, res->value, prec);
+            res->measure = measure;
+            res->bounds_only = 0;
+            res->nblocks = how->pieces;
+            arb_indeterminate(res->overlap);
+            arb_indeterminate(res->K);
+            res->how = *how;
+            res->how.prec = prec;
+        }
+        arf_clear(lo); arf_clear(hi);
+    }
+    arb_clear(L); arb_clear(U); arb_clear(x); arb_clear(y);
+    mag_clear(eta); mag_clear(eta2);
+    embz_analytic_clear(an);
+    return EMBZ_OK;   /* a failure only means: no tighter bounds */
+}
+
 int embz_fidelity(embz_fidelity_result_t res, const embz_family_t f, const fmpz_t n,
                   const embz_target_t q, int measure, int method, slong prec, embz_err_t *err)
 {
@@ -267,9 +382,17 @@ int embz_fidelity(embz_fidelity_result_t res, const embz_family_t f, const fmpz_
     if (method == EMBZ_METHOD_EXPLICIT || (method == EMBZ_METHOD_AUTO && small))
         return embz_fidelity_explicit(res, f, n, q, measure, prec, err);
     if (measure == EMBZ_MEASURE_OVERLAP)
-        return embz_err_set(err, EMBZ_ERR_UNSUPPORTED,
-                            "the overlap measure needs explicit sizes (n <= %ld); K gives no "
-                            "lower bound for it", (long) EMBZ_FIDELITY_MAX_N);
+        return overlap_analytic(res, f, n, q, prec, err);
+    int is_value = 0, have_tight = 0;
+    arb_t Plo, Phi;
+    embz_fidelity_how_struct fhow;
+    arb_init(Plo); arb_init(Phi);
+    memset(&fhow, 0, sizeof(fhow));
+    fmax_analytic(res, &is_value, &have_tight, Plo, Phi, &fhow, f, n, q, measure, prec);
+    if (is_value) {
+        arb_clear(Plo); arb_clear(Phi);
+        return EMBZ_OK;
+    }
     embz_error_result_t e;
     embz_error_result_init(e);
     int status = embz_error(e, f, n, q, method, prec, err);
@@ -315,7 +438,6 @@ int embz_fidelity(embz_fidelity_result_t res, const embz_family_t f, const fmpz_
         }
         arb_set_arf(res->lower, l);
         arb_set_arf(res->upper, h);
-        arf_clear(pl); arf_clear(ph);
         arb_indeterminate(res->overlap);
         res->measure = measure;
         res->bounds_only = 1;
@@ -324,9 +446,46 @@ int embz_fidelity(embz_fidelity_result_t res, const embz_family_t f, const fmpz_
         res->how.bounds_only = 1;
         res->how.prec = prec;
         res->how.K = e->how;
+        res->have_tight = 0;
+        if (have_tight) {
+            /* the LOCC fidelity bounds, intersected with those from K */
+            arf_t a, b;
+            arf_init(a); arf_init(b);
+            arf_set(a, arb_midref(Plo));
+            arf_set(b, arb_midref(Phi));
+            if (arf_cmp(a, pl) < 0) arf_set(a, pl);
+            if (arf_cmp(b, ph) > 0) arf_set(b, ph);
+            if (arf_cmp(a, b) <= 0) {
+                res->have_tight = 1;
+                if (measure == EMBZ_MEASURE_PURIFIED) {
+                    arb_set_arf(res->tight_lo, a);
+                    arb_set_arf(res->tight_hi, b);
+                } else {
+                    /* F = 1 - P^2, decreasing in P */
+                    arb_set_arf(t, b);
+                    arb_sqr(t, t, prec); arb_sub_ui(t, t, 1, prec); arb_neg(t, t);
+                    arb_get_lbound_arf(l, t, prec);
+                    if (arf_sgn(l) < 0) arf_zero(l);
+                    arb_set_arf(res->tight_lo, l);
+                    arb_set_arf(t, a);
+                    arb_sqr(t, t, prec); arb_sub_ui(t, t, 1, prec); arb_neg(t, t);
+                    arb_get_ubound_arf(h, t, prec);
+                    if (arf_cmp_si(h, 1) > 0) arf_one(h);
+                    arb_set_arf(res->tight_hi, h);
+                }
+                embz_error_how_struct kh = res->how.K;
+                res->how = fhow;
+                res->how.bounds_only = 1;
+                res->how.prec = prec;
+                res->how.K = kh;
+            }
+            arf_clear(a); arf_clear(b);
+        }
+        arf_clear(pl); arf_clear(ph);
         arf_clear(l); arf_clear(h);
         arb_clear(K); arb_clear(t);
     }
     embz_error_result_clear(e);
+    arb_clear(Plo); arb_clear(Phi);
     return status;
 }

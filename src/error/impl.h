@@ -386,9 +386,37 @@ int _embz_an_threshold_search(arf_t lo, arf_t hi, actx *c, const th_target *q, s
 int _embz_an_vector_target_bounds(embz_error_result_t res, embz_analytic_t an,
                                   const fmpz_t n, const embz_target_t q, embz_err_t *err);
 
+/* analytic.c: the layout for size n (the engine's shared tail when the weights do not use n,
+ * else a tail of its own in the storage tail, *have_tail then 1: the caller clears it), at
+ * working precision *wp (raised where a weight that uses n needs the bits of n) */
+int _embz_an_layout(actx *c, embz_analytic_t an, const fmpz_t n, embz_tail_struct *tail,
+                    int *have_tail, slong *wp, embz_err_t *err);
 /* analytic.c: the engine for one size (uniform targets or the threshold form) */
 int _embz_an_run(embz_error_result_t res, embz_analytic_t an, const fmpz_t n,
                  const embz_target_t q, embz_err_t *err);
+
+/* overlap.c: O = sum_j sqrt(p↓_j (p (x) u_d)↓_j) at large n (non-increasing tails), for
+ * the state whose weights beyond a negligible point are dropped; eta bounds the purified
+ * distance between that state and the true one (0 when nothing was dropped). how receives
+ * the counts (how->analytic = 1). EMBZ_ERR_UNSUPPORTED with a reason where the sorted order
+ * is not known in the form the sum needs. */
+int _embz_overlap_analytic(arb_t O, mag_t eta, embz_fidelity_how_struct *how,
+                           embz_analytic_t an, const fmpz_t n, ulong d, embz_err_t *err);
+/* overlap.c, shared with fmax.c: the layout for sums over the sorted positions with a
+ * non-increasing tail (*m0: the first block of d positions past A and past every inserted head
+ * weight, at least mmin; d m0 at most max_explicit; EMBZ_ERR_UNSUPPORTED with a reason
+ * otherwise), the sum of sqrt(v_j v_ceil(j/d)) over d m0 < j <= n (weights not normalised;
+ * residue tails and B), and the allowance eta of a layout that dropped negligible weights */
+int _embz_overlap_layout(actx *c, slong *m0, embz_analytic_t an, const fmpz_t n, ulong d,
+                         slong mmin, slong max_explicit, embz_tail_struct *tail,
+                         int *have_tail, slong *wp, embz_err_t *err);
+int _embz_overlap_sum_from(arb_t res, embz_fidelity_how_struct *how, actx *c, slong m0,
+                           ulong d, slong wp, embz_err_t *err);
+void _embz_overlap_eta(mag_t eta, const actx *c);
+/* fmax.c: lo <= sqrt(F_max(p -> p (x) u_d)) <= hi at large n (non-increasing tails), for the
+ * state with the negligible weights dropped (eta as above); how->analytic = 2 */
+int _embz_fmax_analytic(arb_t lo, arb_t hi, mag_t eta, embz_fidelity_how_struct *how,
+                        embz_analytic_t an, const fmpz_t n, ulong d, embz_err_t *err);
 
 /* E_n(q) of a level family (levels.c); the evaluator's one path for such families. */
 int _embz_error_levels(embz_error_result_t res, const embz_family_t f, const fmpz_t n,

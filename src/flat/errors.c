@@ -55,13 +55,24 @@ static void fidelity_row(embz_flat_table *t, long r, const embz_fidelity_result_
         free(c);
         _flat_set_d(t, r, "mid", embz_arb_mid_d(res->value));
         _flat_set_d(t, r, "radius", mag_get_d(arb_radref(res->value)));
-        _flat_set_ends(t, r, "fidelity", res->fidelity, digits);
-        _flat_set_ends(t, r, "purified", res->purified, digits);
+        if (res->how.analytic != 1) {   /* the analytic overlap does not compute F_max */
+            _flat_set_ends(t, r, "fidelity", res->fidelity, digits);
+            _flat_set_ends(t, r, "purified", res->purified, digits);
+        }
         if (res->measure == EMBZ_MEASURE_OVERLAP) _flat_set_ends(t, r, "overlap", res->overlap, digits);
     } else {
         _flat_set_ends(t, r, "K", res->K, digits);
     }
-    _flat_set(t, r, "method", res->bounds_only ? "bounds" : "explicit");
+    if (res->bounds_only && res->have_tight) {
+        char *a = embz_arb_lo_string(res->tight_lo, digits);
+        char *z = embz_arb_hi_string(res->tight_hi, digits);
+        _flat_set(t, r, "tight_lo", a);
+        _flat_set(t, r, "tight_hi", z);
+        free(a);
+        free(z);
+    }
+    _flat_set(t, r, "method", res->bounds_only ? "bounds"
+                              : res->how.analytic ? "analytic" : "explicit");
     char *how = embz_fidelity_how_text(&res->how);
     _flat_set(t, r, "how", how);
     free(how);

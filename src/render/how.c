@@ -80,6 +80,33 @@ char *embz_error_how_text(const embz_error_how_struct *h)
 
 char *embz_fidelity_how_text(const embz_fidelity_how_struct *h)
 {
+    if (h->analytic == 2 && !h->bounds_only) {
+        char neg[96] = "";
+        if (h->allowance_log2 > -1e299)
+            snprintf(neg, sizeof(neg), ", negligible weights dropped (allowance 2^%.0f)",
+                     h->allowance_log2);
+        return embz_strdup_printf(
+            "analytic: exact hull of the first %ld sorted positions (%ld pieces%s), beyond "
+            "them %ss = p below (%ld residue classes as Euler-Maclaurin tails) and Lagrange "
+            "multipliers above (%s)%s, arb %ld bits", (long) h->terms, (long) h->pieces,
+            h->splits > 0 ? ", some split to certify them" : "",
+            h->pairs ? "pieces across the block boundaries (the weight proven log-convex) "
+                       "and " : "", (long) h->residues,
+            h->block_dual ? "one per block of d positions" : "constant from the last vertex",
+            neg, (long) h->prec);
+    }
+    if (h->analytic == 1) {
+        char neg[96] = "";
+        if (h->allowance_log2 > -1e299)
+            snprintf(neg, sizeof(neg), ", negligible weights dropped (allowance 2^%.0f)",
+                     h->allowance_log2);
+        return embz_strdup_printf(
+            "analytic: %ld head weights placed, %ld sorted positions summed term by term, "
+            "%ld residue class%s as Euler-Maclaurin tails of sqrt(p_j p_ceil(j/d)) (order up "
+            "to %ld%s)%s, arb %ld bits", (long) h->head, (long) h->terms, (long) h->residues,
+            h->residues == 1 ? "" : "es", (long) h->tail_order,
+            h->tail_neglect ? ", negligible ends bounded" : "", neg, (long) h->prec);
+    }
     if (!h->bounds_only)
         return embz_strdup_printf(
             "explicit: weights rounded to %ld-bit integers, exact lower convex hull "
