@@ -41,6 +41,17 @@ static const cli_spec_t sweep_spec = {
 #define DEFAULT_PREC 64
 #define DEFAULT_POINTS 24
 
+
+/* {"family": ..., "weight": ..., "params": ..., "target": ... (the object left open) */
+static void json_head(embz_buf_t *b, const embz_family_t fam, const embz_target_t q)
+{
+    embz_buf_printf(b, "{\"family\": ");
+    embz_buf_json_string(b, fam->name);
+    cli_buf_json_key_string(b, "weight", fam->weight_text);
+    embz_buf_printf(b, ", \"params\": ");
+    cli_buf_json_params(b, fam);
+    cli_buf_json_key_string(b, "target", q->label);
+}
 static const char *method_name(int m)
 {
     return m == EMBZ_METHOD_EXPLICIT ? "explicit" : m == EMBZ_METHOD_ANALYTIC ? "analytic"
@@ -169,12 +180,7 @@ static int run_measure(const embz_family_t fam, const fmpz_t from, const fmpz_t 
         embz_buf_printf(&b, "n,log10_n,status,measure,method,bounds_only,value,value_lo,"
                         "value_hi,value_certified,seconds,note\n");
     else if (json) {
-        embz_buf_printf(&b, "{\"family\": ");
-        embz_buf_json_string(&b, fam->name);
-        cli_buf_json_key_string(&b, "weight", fam->weight_text);
-        embz_buf_printf(&b, ", \"params\": ");
-        cli_buf_json_params(&b, fam);
-        cli_buf_json_key_string(&b, "target", q->label);
+        json_head(&b, fam, q);
         cli_buf_json_key_string(&b, "measure", mname);
         embz_buf_printf(&b, ", \"prec\": %ld, \"points\": [", prec);
     } else {
@@ -348,12 +354,7 @@ int cli_cmd_sweep(int argc, char **argv)
             point_text_clear(&t);
         }
     } else if (json) {
-        embz_buf_printf(&b, "{\"family\": ");
-        embz_buf_json_string(&b, fam->name);
-        cli_buf_json_key_string(&b, "weight", fam->weight_text);
-        embz_buf_printf(&b, ", \"params\": ");
-        cli_buf_json_params(&b, fam);
-        cli_buf_json_key_string(&b, "target", q->label);
+        json_head(&b, fam, q);
         embz_buf_printf(&b, ", \"prec\": %ld", prec);
         if (narrow != NULL) {
             embz_buf_printf(&b, ", \"narrowed_to\": \"%ld\"", (long) sw->reach);

@@ -13,20 +13,6 @@ static int push(embz_expr_t e, int op, int a, int b)
     return k;
 }
 
-/* the parameter names of src into dst (which has none) */
-static void copy_params(embz_expr_t dst, const embz_expr_t src)
-{
-    if (src->nparams <= 0) return;
-    dst->params = malloc((size_t) src->nparams * sizeof(char *));
-    if (dst->params == NULL) abort();
-    for (long k = 0; k < src->nparams; k++) {
-        size_t l = strlen(src->params[k]) + 1;
-        dst->params[k] = malloc(l);
-        if (dst->params[k] == NULL) abort();
-        memcpy(dst->params[k], src->params[k], l);
-    }
-    dst->nparams = src->nparams;
-}
 
 /* the affine node A i + B in dst */
 static int affine_node(embz_expr_t dst, const fmpq_t A, const fmpq_t B)
@@ -160,7 +146,7 @@ int embz_expr_affine(embz_expr_t out, const embz_expr_t w, const fmpq_t a, const
     embz_expr_t t;
     embz_expr_init(t);
     t->root = append(t, w, a, b);
-    copy_params(t, w);
+    _embz_expr_copy_params(t, w);
     _embz_expr_prune(t);
     embz_expr_fold(t);
     embz_expr_clear(out);
@@ -179,7 +165,7 @@ int embz_expr_geomean(embz_expr_t out, const embz_expr_t x, const embz_expr_t y)
     kx = half_node(t, kx);
     ky = half_node(t, ky);
     t->root = push(t, EMBZ_OP_MUL, kx, ky);
-    copy_params(t, x->nparams > 0 ? x : y);
+    _embz_expr_copy_params(t, x->nparams > 0 ? x : y);
     _embz_expr_prune(t);
     embz_expr_fold(t);
     embz_expr_clear(out);
@@ -196,7 +182,7 @@ int embz_expr_binary(embz_expr_t out, int op, const embz_expr_t x, const embz_ex
     int kx = append(t, x, NULL, NULL);
     int ky = append(t, y, NULL, NULL);
     t->root = push(t, op, kx, ky);
-    copy_params(t, x->nparams > 0 ? x : y);
+    _embz_expr_copy_params(t, x->nparams > 0 ? x : y);
     _embz_expr_prune(t);
     embz_expr_fold(t);
     embz_expr_clear(out);

@@ -59,17 +59,21 @@ void embz_expr_set(embz_expr_t dst, const embz_expr_t src)
     }
     dst->root = src->root;
     dst->notes = src->notes;
-    if (src->nparams > 0) {
-        dst->params = malloc((size_t) src->nparams * sizeof(char *));
-        if (dst->params == NULL) abort();
-        for (long k = 0; k < src->nparams; k++) {
-            size_t l = strlen(src->params[k]) + 1;
-            dst->params[k] = malloc(l);
-            if (dst->params[k] == NULL) abort();
-            memcpy(dst->params[k], src->params[k], l);
-        }
-        dst->nparams = src->nparams;
+    _embz_expr_copy_params(dst, src);
+}
+
+void _embz_expr_copy_params(embz_expr_t dst, const embz_expr_t src)
+{
+    if (src->nparams <= 0) return;
+    dst->params = malloc((size_t) src->nparams * sizeof(char *));
+    if (dst->params == NULL) abort();
+    for (long k = 0; k < src->nparams; k++) {
+        size_t l = strlen(src->params[k]) + 1;
+        dst->params[k] = malloc(l);
+        if (dst->params[k] == NULL) abort();
+        memcpy(dst->params[k], src->params[k], l);
     }
+    dst->nparams = src->nparams;
 }
 
 /* largest |exponent| and result size of an integer power folded exactly */

@@ -6,6 +6,8 @@
 
 /* Appends a node (num set to 0) and returns its index, or -1 when out of memory. */
 int _embz_expr_push(embz_expr_t e, int op, int a, int b, long col);
+/* the parameter names of src into dst (which has none) */
+void _embz_expr_copy_params(embz_expr_t dst, const embz_expr_t src);
 
 /* Drop the nodes the root does not reach (the evaluators walk every node up to the root),
  * keeping the order. */
