@@ -576,10 +576,45 @@ static void style_series(embz_plot_t fig, slong panel, slong s, long i)
     fig->panels[panel].series[s].marker = (int) ((i + i / EMBZ_PLOT_NCOLOURS) % 6);
 }
 
-/* Error against n (xmode 0) or against ln n (xmode 1), both on log axes, with the fits. */
-static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfam,
-                        const char *target_label, int xmode)
+/* The optimum's curve OPT_n (exact closed form, docs/optimal.md) at the sizes of the first
+ * computed sweep, as a dashed grey line labelled 'optimum'; uniform targets only. */
+static void optimum_series(embz_plot_t fig, slong p, const cli_compare_row_t *rows, long nfam,
+                           const embz_target_t q, int xmode)
 {
+    if (q->kind != EMBZ_TARGET_UNIFORM) return;
+    const embz_sweep_struct *sw = NULL;
+    for (long i = 0; i < nfam && sw == NULL; i++)
+        if (rows[i].d.status == EMBZ_OK) sw = target_sweep(rows + i);
+    if (sw == NULL) return;
+    slong s = embz_plot_add_series(fig, p, "optimum", EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED,
+                                   EMBZ_PLOT_GREY);
+    embz_optimal_result_t res;
+    embz_err_t err;
+    arb_t x;
+    arb_init(x);
+    for (slong j = 0; j < sw->len; j++) {
+        const embz_sweep_point_struct *pt = sw->pts + j;
+        if (!(pt->log_n > 0)) continue;
+        embz_optimal_result_init(res);
+        embz_err_clear(&err);
+        if (embz_optimal_closed(res, pt->n, q, &err) == EMBZ_OK) {
+            double lo, mid, hi;
+            arb_set_fmpq(x, res->upper, 64);
+            arb_log10_d(&lo, &mid, &hi, x);
+            double xx = xmode == 0 ? pt->log_n / log(10.0) : log10(pt->log_n);
+            if (isfinite(mid)) embz_plot_push(fig, p, s, xx, mid, NAN, NAN);
+        }
+        embz_optimal_result_clear(res);
+    }
+    arb_clear(x);
+}
+
+/* Error against n (xmode 0) or against ln n (xmode 1), both on log axes, with the fits and,
+ * for a uniform target, the optimum. */
+static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfam,
+                        const embz_target_t q, int xmode)
+{
+    const char *target_label = q->label;
     char title[200];
     snprintf(title, sizeof(title), "%s, target %s", xmode == 0 ? "Error against size"
                                                                : "Error against ln n",
@@ -619,6 +654,7 @@ static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfa
             embz_plot_push(fig, p, sf, x, v > 0 ? log10(v) : NAN, NAN, NAN);
         }
     }
+    optimum_series(fig, p, rows, nfam, q, xmode);
 }
 
 static void weights_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfam,
@@ -875,13 +911,16 @@ void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare
 
     /* figure 1: error against n and against ln n */
     embz_plot_init(figs + 0, NULL);
-    error_panel(figs + 0, rows, nfam, q->label, 0);
-    error_panel(figs + 0, rows, nfam, q->label, 1);
+    error_panel(figs + 0, rows, nfam, q, 0);
+    error_panel(figs + 0, rows, nfam, q, 1);
     figs[0].columns = 2;
-    char cap[400];
+    char cap[600];
     snprintf(cap, sizeof(cap), "Certified error E_n for the target %s against n and against "
              "ln n (log axes). Dashed: the best fitted law over the points it was fitted to "
-             "(an estimate). A law C (ln n)^-g is a straight line in the right-hand panel.", q->label);
+             "(an estimate). A law C (ln n)^-g is a straight line in the right-hand panel.%s",
+             q->label, q->kind == EMBZ_TARGET_UNIFORM
+             ? " Dashed grey: the optimum OPT_n over all states of Schmidt rank n (exact closed "
+               "form, docs/optimal.md), which no family can go below." : "");
     embz_report_add_figure(r, cap, figs + 0);
     /* figure 2: weights */
     embz_plot_init(figs + 1, NULL);
@@ -914,38 +953,63 @@ static void pad(embz_buf_t *b, const char *s, long width)
 void cli_compare_text(embz_buf_t *b, const cli_compare_row_t *rows, const long *order,
                       long nfam, const cli_compare_opts_t *o)
 {
+    if (o->ngoals > 0) {
+        /* the optimum does not depend on the family: one line above the table */
+        embz_target_t q;
+        embz_err_t err;
+        embz_target_init(q);
+        embz_err_clear(&err);
+        if (o->target_text != NULL) embz_target_parse(q, o->target_text, 0, &err);
+        fmpz_t m;
+        fmpz_init(m);
+        long oq;
+        int st = optimum_rank(m, &oq, q, o->goal_text[0]);
+        if (st == EMBZ_OK) {
+            char *mt = size_text(m, 1);
+            embz_buf_printf(b, "Optimum over all states (docs/optimal.md, exact): %ld qubits/side "
+                            "for E<=%s (Schmidt rank %s)\n\n", oq, o->goal_text[0], mt);
+            free(mt);
+        } else {
+            embz_buf_printf(b, "Optimum over all states (docs/optimal.md): n/a for the target %s "
+                            "(known for uniform targets only)\n\n", q->label);
+        }
+        fmpz_clear(m);
+        embz_target_clear(q);
+    }
     char h2[80], h3[80];
     snprintf(h2, sizeof(h2), "qubits/side E<=%s", o->ngoals > 0 ? o->goal_text[0] : "-");
     snprintf(h3, sizeof(h3), "E at n=%s", o->nsizes > 0 ? o->size_text[0] : "-");
-    const char *head[5] = { "family", "verdict", h2, h3, "why" };
-    long width[5];
-    for (int k = 0; k < 5; k++) width[k] = uwidth(head[k]);
-    const char **cells = calloc((size_t) nfam * 5 + 1, sizeof(char *));
+    enum { NC = 6 };
+    const char *head[NC] = { "family", "verdict", h2, "extra", h3, "why" };
+    long width[NC];
+    for (int k = 0; k < NC; k++) width[k] = uwidth(head[k]);
+    const char **cells = calloc((size_t) nfam * NC + 1, sizeof(char *));
     for (long ii = 0; ii < nfam; ii++) {
         const cli_compare_row_t *r = rows + (order ? order[ii] : ii);
-        const char **c = cells + 5 * ii;
+        const char **c = cells + NC * ii;
         c[0] = r->label;
         c[1] = r->verdict;
         c[2] = o->ngoals > 0 && r->need_q_text[0] ? r->need_q_text[0]
              : o->ngoals > 0 && r->need_n_text[0] ? r->need_n_text[0] : "-";
-        c[3] = o->nsizes > 0 && r->error_text[0] ? r->error_text[0] : "-";
-        c[4] = r->why ? r->why : "";
-        for (int k = 0; k < 4; k++)
+        c[3] = o->ngoals > 0 && r->extra_q_text[0] ? r->extra_q_text[0] : "-";
+        c[4] = o->nsizes > 0 && r->error_text[0] ? r->error_text[0] : "-";
+        c[5] = r->why ? r->why : "";
+        for (int k = 0; k < NC - 1; k++)
             if (uwidth(c[k]) > width[k]) width[k] = uwidth(c[k]);
     }
-    for (int k = 0; k < 5; k++) {
-        if (k < 4) pad(b, head[k], width[k] + 2);
+    for (int k = 0; k < NC; k++) {
+        if (k < NC - 1) pad(b, head[k], width[k] + 2);
         else embz_buf_printf(b, "%s\n", head[k]);
     }
-    for (int k = 0; k < 4; k++) {
+    for (int k = 0; k < NC - 1; k++) {
         for (long m = 0; m < width[k]; m++) embz_buf_printf(b, "-");
         embz_buf_printf(b, "  ");
     }
     embz_buf_printf(b, "---\n");
     for (long ii = 0; ii < nfam; ii++) {
-        const char **c = cells + 5 * ii;
-        for (int k = 0; k < 4; k++) pad(b, c[k], width[k] + 2);
-        embz_buf_printf(b, "%s\n", c[4]);
+        const char **c = cells + NC * ii;
+        for (int k = 0; k < NC - 1; k++) pad(b, c[k], width[k] + 2);
+        embz_buf_printf(b, "%s\n", c[NC - 1]);
     }
     free(cells);
 }
