@@ -766,7 +766,7 @@ static void add_optimum_row(embz_report_t r, const cli_compare_opts_t *o, const 
     char *w = optimum_weight(q->d);
     embz_report_set(&f->weight, w);
     free(w);
-    embz_report_set(&f->verdict, "the optimum (proven)");
+    embz_report_set(&f->verdict, "optimum (proven)");
     embz_report_set(&f->law, "1/\xcf\x88" "(n), exact");
     embz_report_set(&f->limit_lo, "0 (proven)");
     embz_buf_t nb;
