@@ -888,10 +888,11 @@ void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare
     if (q->kind == EMBZ_TARGET_UNIFORM)
         embz_buf_printf(&b, "\n\nThe last row is the optimum over all states of Schmidt rank "
             "n, from the closed form OPT_n = 1/\xcf\x88" "(n) proven in docs/optimal.md (exact): "
-            "its error columns hold OPT_n, its size columns the smallest rank whose optimum "
-            "reaches each goal and its qubits per side. \"extra qubits\" is a family's qubits "
-            "per side for the goal minus the optimum's (exact, as both are; a dash where the "
-            "family's size was not found).");
+            "its error columns hold OPT_n%s", o->ngoals > 0
+            ? ", its size columns the smallest rank whose optimum reaches each goal and its "
+              "qubits per side. \"extra qubits\" is a family's qubits per side for the goal "
+              "minus the optimum's (exact, as both are; a dash where the family's size was not "
+              "found)." : ".");
     else
         embz_buf_printf(&b, "\n\nThe optimum over all states of Schmidt rank n "
             "(docs/optimal.md) is known for uniform targets only (ebit, ebits:J, uniform:D), "
