@@ -30,6 +30,16 @@ fi
 # a very wide range uses the analytic engine and still plots
 check "plot 10^300" "$EMBZ" plot inverse --from 10 --to 10^300 --points 2 -o "$T/w.svg"
 check "wide svg parses" xml_ok "$T/w.svg"
+# --optimum adds one dashed series (the optimum's exact curve) and changes nothing else
+check "plot --optimum" "$EMBZ" plot inverse --to 10^300 --points 8 --optimum -o "$T/o1.svg"
+check "plot without --optimum" "$EMBZ" plot inverse --to 10^300 --points 8 -o "$T/o0.svg"
+check "optimum svg parses" xml_ok "$T/o1.svg"
+check "--optimum adds a dashed line" test "$(grep -o 'stroke-dasharray' "$T/o1.svg" | wc -l)" -gt \
+    "$(grep -o 'stroke-dasharray' "$T/o0.svg" | wc -l)"
+if command -v pdftotext >/dev/null; then
+    check "plot --optimum pdf" "$EMBZ" plot inverse --to 10^6 --points 5 --optimum -o "$T/o.pdf"
+    check "the legend names the optimum" bash -c "pdftotext '$T/o.pdf' - | grep -qx optimum"
+fi
 
 # usage errors: exit 2, nothing written
 "$EMBZ" plot inverse -o "$T/x.gif" 2>/dev/null; check "bad extension exit 2" test $? -eq 2
@@ -85,6 +95,8 @@ for f in inverse power geometric; do
     done
     "$EMBZ" size $f --eps 0.05 --qubits --prec 64 --json > "$T/size-$f.json"
 done
+"$EMBZ" optimal --eps 0.05 --json > "$T/opt-eps.json"
+for n in 1000 10^30; do "$EMBZ" optimal -n $n --json > "$T/opt-${n/^/_}.json"; done
 check "table matches --json" /usr/bin/python3 - "$T" <<'PY'
 import json, re, sys
 from fractions import Fraction
@@ -99,8 +111,24 @@ for line in open(T + "/cmp.md", encoding="utf-8"):
         head = cells
     else:
         rows[cells[0].split(" ")[0]] = dict(zip(head, cells))
-assert set(rows) == {"inverse", "power", "geometric"}, rows.keys()
+assert set(rows) == {"inverse", "power", "geometric", "optimal"}, rows.keys()
 bad = []
+# the optimum's row: the closed form of docs/optimal.md as `embz optimal` prints it (its
+# theorem is checked against the certified linear program in tests/test_optimal.c)
+opt = rows.pop("optimal")
+o = json.load(open(T + "/opt-eps.json"))
+if opt["qubits for E ≤ 0.05"] != str(o["qubits_per_side"]) or opt["n for E ≤ 0.05"] != o["n"]:
+    bad.append(("optimal", "rank", opt["n for E ≤ 0.05"], opt["qubits for E ≤ 0.05"], o))
+# [derived, docs/optimal.md section 3]: OPT_(2^18) = 1/(18 + 2) = 0.05 exactly, so the goal 0.05
+# takes rank 2^18, 18 qubits per side
+if o["n"] != str(2 ** 18) or o["qubits_per_side"] != 18:
+    bad.append(("optimal", "2^18", o))
+for n, key in (("1000", "E at n = 1000"), ("10_30", "E at n = 10^30")):
+    j = json.load(open("%s/opt-%s.json" % (T, n)))
+    shown = opt[key]
+    digits = len(shown.split(".")[1])
+    if abs(Fraction(j["optimum_fraction_lo"]) - Fraction(shown)) > Fraction(1, 10 ** digits):
+        bad.append(("optimal", n, shown, j["optimum_fraction_lo"]))
 for fam, row in rows.items():
     for n, key in (("1000", "E at n = 1000"), ("10_30", "E at n = 10^30")):
         j = json.load(open("%s/err-%s-%s.json" % (T, fam, n)))
@@ -122,7 +150,12 @@ for fam, row in rows.items():
             ok = num == s["n"]
         if not ok:
             bad.append((fam, "n", ncell, s["n"]))
+        # extra qubits: the family's qubits minus the optimum's, as `embz size --vs-optimal`
+        if row["extra qubits for E ≤ 0.05"] != str(s["qubits"] - o["qubits_per_side"]):
+            bad.append((fam, "extra", row["extra qubits for E ≤ 0.05"], s["qubits"]))
     else:
+        if row["extra qubits for E ≤ 0.05"] != "–":
+            bad.append((fam, "extra when not found", row["extra qubits for E ≤ 0.05"]))
         if s["status"] != "not_reached" or ncell not in ("never", "not by 10^924"):
             bad.append((fam, "status", ncell, s["status"]))
 # [derived, docs/math.md section 5]: the power family a = -1/2 never gets below 1 - 1/sqrt 2
@@ -135,6 +168,20 @@ if bad:
     print(bad)
     sys.exit(1)
 PY
+
+check "every format has the extra column" bash -c "grep -q 'extra qubits for E' '$T/cmp.html' \
+    && grep -q 'extra qubits for E' '$T/cmp.tex' && grep -q 'optimal state (dyadic)' '$T/cmp.tex'"
+if command -v pdftotext >/dev/null; then
+    check "pdf table has the optimum's row" bash -c "pdftotext '$T/cmp.pdf' - | grep -q 'optimal state'"
+fi
+check "report notes name docs/optimal.md" grep -q "docs/optimal.md" "$T/cmp.md"
+check "report figure caption names the optimum" grep -q "Dashed grey: the optimum" "$T/cmp.html"
+# a target that is not uniform: the optimum is not known, the cells say n/a
+check "report for a target vector" "$EMBZ" report inverse --target 0.6,0.4 --from 10 --to 10^6 \
+    --points 5 --sizes 1000 --eps 0.1 -q -o "$T/vec.md"
+check "target vector: extra qubits n/a" bash -c "grep '^| inverse ' '$T/vec.md' | grep -q '| n/a |$'"
+check "target vector: the optimum's row n/a" bash -c "grep '^| optimal state ' '$T/vec.md' | grep -q 'n/a'"
+check "target vector: no optimum in the caption" bash -c "! grep -q 'Dashed grey' '$T/vec.md'"
 
 # escaping: a family file whose name is markup
 printf 'name = <script>alert(1)</script>\ndescription = markup in a name\nweight = 1/i\n' > "$T/evil.fam"
@@ -187,6 +234,23 @@ check "demo prints the table" grep -q "^family .*verdict .*qubits/side" "$T/demo
 # family needs n near 10^600 (about 2000 qubits) for 1e-3 and the power family never
 check "demo: inverse needs about 2000 qubits" bash -c "grep '^inverse ' '$T/demo/out.txt' | grep -Eq ' (199[0-9]|200[0-9]) '"
 check "demo: power never" bash -c "grep '^power ' '$T/demo/out.txt' | grep -q never"
+# the optimum's line equals `embz optimal --eps`, and the inverse family's extra qubits are its
+# qubits minus the optimum's
+"$EMBZ" optimal --eps 1e-3 --target ebits:2 --json > "$T/opt-demo.json"
+check "demo: the optimum's qubits" /usr/bin/python3 - "$T" <<'PY'
+import json, re, sys
+T = sys.argv[1]
+o = json.load(open(T + "/opt-demo.json"))
+text = open(T + "/demo/out.txt", encoding="utf-8").read()
+m = re.search(r"^Optimum over all states .*: (\d+) qubits/side for E<=1e-3", text, re.M)
+assert m and int(m.group(1)) == o["qubits_per_side"], (m and m.group(1), o)
+head = next(l for l in text.splitlines() if l.startswith("family "))
+inv = next(l for l in text.splitlines() if l.startswith("inverse "))
+cols = re.split(r"\s{2,}", inv)
+names = re.split(r"\s{2,}", head)
+row = dict(zip(names, cols))
+assert int(row["extra"]) == int(row["qubits/side E<=1e-3"]) - o["qubits_per_side"], row
+PY
 check "demo names the report" grep -q "embz-demo.html" "$T/demo/out.txt"
 check "demo wrote the html" grep -q "<table" "$T/demo/embz-demo.html"
 check "demo leaves no temporary file" no_temp "$T/demo"

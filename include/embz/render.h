@@ -156,6 +156,8 @@ typedef struct {
     char **error_at;         /* report->nsizes entries */
     char **need_n;           /* report->ngoals entries */
     char **need_qubits;      /* report->ngoals entries */
+    char **extra_qubits;     /* report->ngoals entries: qubits per side beyond the optimum's
+                                (a column per goal only when report->extra_columns) */
     char *notes;             /* free text (paragraphs separated by blank lines) */
 } embz_report_family_struct;
 
@@ -180,6 +182,8 @@ typedef struct {
     slong nfig;
     embz_report_figure_struct *fig;
     char *footer;            /* e.g. how the numbers were computed */
+    int extra_columns;       /* 1: each goal gets a third column, "extra qubits for E <= e"
+                                (the family's qubits per side minus the optimum's) */
     size_t fail_after;       /* testing: file writes fail after this many bytes (0: never) */
 } embz_report_struct;
 typedef embz_report_struct embz_report_t[1];

@@ -199,6 +199,8 @@ typedef struct {
     char *label;                 /* name with its parameter values */
     char *verdict, *law, *exponent, *limit_text;
     char **error_text, **need_n_text, **need_q_text;
+    char **extra_q_text;         /* per goal: qubits per side beyond the optimum's (uniform
+                                    targets), "n/a" for other targets */
     char *why;                   /* one line, for the terminal table */
     char *notes;                 /* paragraphs, for the document */
 } cli_compare_row_t;
@@ -217,8 +219,8 @@ void cli_compare_rows_clear(cli_compare_row_t *rows, long nfam, const cli_compar
  * figs must hold 3 initialised figures; grid panels are added by the caller. */
 void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare_row_t *rows,
                       long nfam, const cli_compare_opts_t *o);
-/* The plain-text summary for a terminal: family, verdict, qubits for goal 0, error at size
- * 0, why. order: row indices in display order (NULL: as given). */
+/* The plain-text summary for a terminal: a line on the optimum for goal 0, then family,
+ * verdict, qubits for goal 0, extra qubits against the optimum, error at size 0, why. order: row indices in display order (NULL: as given). */
 void cli_compare_text(embz_buf_t *b, const cli_compare_row_t *rows, const long *order,
                       long nfam, const cli_compare_opts_t *o);
 /* Format from --format or the extension of path (-1 when neither says). */

@@ -182,6 +182,7 @@ int cli_cmd_demo(int argc, char **argv)
         embz_buf_printf(&b,
             "Verdicts and limits: one-ebit classification; fitted values are estimates.\n"
             "Errors: certified digits only. Qubits: size search at qubit resolution.\n"
+            "'extra': the family's qubits per side minus the optimum's (exact, docs/optimal.md).\n"
             "'never': the one-ebit error tends to a limit above 1e-3 (derived formula);\n"
             "'not by 10^924': the search, which ends at n = 2^3072, found no size.\n");
         /* with the report on standard output, the table goes to standard error */

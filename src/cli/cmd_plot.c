@@ -14,6 +14,7 @@ static const cli_opt_t plot_opts[] = {
     { "points", 'k', CLI_VALUE, "K", "number of log-spaced sizes (default 12)" },
     { "target", 't', CLI_VALUE, "T", "target state: ebit (default), ebits:J, uniform:D, ..." },
     { "weights", 0, CLI_FLAG, NULL, "add a panel: weights against x^(-1-eps) and x^(-1+eps)" },
+    { "optimum", 0, CLI_FLAG, NULL, "also the optimum OPT_n over all states (uniform targets)" },
     { "envelope", 0, CLI_VALUE, "EPS", "exponent offset of the weight envelopes (default 0.1)" },
     { "eps", 0, CLI_VALUE, "EPS", "old name of --envelope (elsewhere --eps is an error goal)" },
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter of the families that have it" },
@@ -30,6 +31,9 @@ static const cli_spec_t plot_spec = {
     "enough to see. Sizes above 4096 use the analytic engine (one per family, reused for\n"
     "all sizes). --weights adds the normalised weights w(x)/w(1) (with n = B when the\n"
     "weight depends on n) against the envelopes x^(-1-eps) and x^(-1+eps).\n"
+    "--optimum adds the smallest error any state of Schmidt rank n reaches, OPT_n, at the\n"
+    "same sizes: the exact closed form of docs/optimal.md, a dashed grey line labelled\n"
+    "'optimum' (uniform targets only: ebit, ebits:J, uniform:D).\n"
     "Output: -o - (or /dev/stdout) streams the figure to standard output (svg unless\n"
     "--format says otherwise). Any other FILE is written as 'embz report --help' describes\n"
     "(atomically, links followed, mode kept): an interrupted run leaves no partial or\n"
@@ -193,6 +197,14 @@ int cli_cmd_plot(int argc, char **argv)
         || (code = cli_compare_load(fam, nfam, a.pos, &a, &plot_spec)) != 0)
         goto done;
 
+    int optimum = cli_flag(&a, "optimum");
+    if (optimum && q->kind != EMBZ_TARGET_UNIFORM) {
+        code = cli_usage_error(&plot_spec, "--optimum needs a uniform target (ebit, ebits:J, "
+                               "uniform:D): the optimum is not known for the target %s",
+                               q->label);
+        goto done;
+    }
+
     slong ns = log_sizes(sizes, A, B, points);
     char title[160];
     snprintf(title, sizeof(title), "Embezzlement error, target %s", q->label);
@@ -227,6 +239,33 @@ int cli_cmd_plot(int argc, char **argv)
             code = cli_exit_code(status);
             goto done;
         }
+    }
+
+    if (optimum) {
+        /* OPT_n = 1/psi_d(n), exact at each plotted size (docs/optimal.md) */
+        slong so = embz_plot_add_series(fig, pe, "optimum", EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED,
+                                        EMBZ_PLOT_GREY);
+        embz_optimal_result_t res;
+        arb_t x;
+        arb_init(x);
+        for (slong j = 0; j < ns; j++) {
+            embz_optimal_result_init(res);
+            embz_err_clear(&err);
+            status = embz_optimal_closed(res, sizes + j, q, &err);
+            if (status == EMBZ_OK) {
+                double lo, mid, hi;
+                arb_set_fmpq(x, res->upper, 64);
+                arb_log10_d(&lo, &mid, &hi, x);
+                embz_plot_push(fig, pe, so, fmpz_log10_d(sizes + j), mid, NAN, NAN);
+            }
+            embz_optimal_result_clear(res);
+            if (status != EMBZ_OK) {
+                arb_clear(x);
+                code = cli_report("plot", status, &err);
+                goto done;
+            }
+        }
+        arb_clear(x);
     }
 
     if (cli_flag(&a, "weights")) {

@@ -146,6 +146,7 @@ static void row_init(cli_compare_row_t *r, embz_family_struct *f, const cli_comp
     r->error_text = calloc((size_t) o->nsizes + 1, sizeof(char *));
     r->need_n_text = calloc((size_t) o->ngoals + 1, sizeof(char *));
     r->need_q_text = calloc((size_t) o->ngoals + 1, sizeof(char *));
+    r->extra_q_text = calloc((size_t) o->ngoals + 1, sizeof(char *));
 }
 
 static void free_strings(char **s, slong n)
@@ -169,6 +170,7 @@ void cli_compare_rows_clear(cli_compare_row_t *rows, long nfam, const cli_compar
         free_strings(r->error_text, o->nsizes);
         free_strings(r->need_n_text, o->ngoals);
         free_strings(r->need_q_text, o->ngoals);
+        free_strings(r->extra_q_text, o->ngoals);
         free(r->why);
         free(r->notes);
     }
@@ -424,6 +426,46 @@ static void goal_fmpq(fmpq_t g, const char *text)
     if (embz_number_parse(g, text) != EMBZ_OK) fmpq_zero(g);
 }
 
+/* The optimum for a goal: m <- the smallest rank with OPT_m(q) <= goal (the closed form of
+ * docs/optimal.md, exact) and *qubits <- ceil(log2 m). Returns EMBZ_OK, EMBZ_ERR_UNSUPPORTED
+ * for a target that is not uniform, or embz_optimal_eps's status. */
+static int optimum_rank(fmpz_t m, long *qubits, const embz_target_t q, const char *goal_text)
+{
+    if (q->kind != EMBZ_TARGET_UNIFORM) return EMBZ_ERR_UNSUPPORTED;
+    fmpq_t g;
+    fmpq_init(g);
+    goal_fmpq(g, goal_text);
+    embz_err_t err;
+    embz_err_clear(&err);
+    int status = fmpq_sgn(g) > 0 ? embz_optimal_eps(m, g, q, &err) : EMBZ_ERR_INPUT;
+    fmpq_clear(g);
+    *qubits = status == EMBZ_OK && fmpz_cmp_ui(m, 1) > 0 ? (long) fmpz_clog_ui(m, 2) : 0;
+    return status;
+}
+
+/* The extra qubits per side of each goal: the family's (when its size was found) minus the
+ * optimum's; "n/a" for a target that is not uniform (the optimum is not known there). */
+static void make_extra_texts(cli_compare_row_t *r, const cli_compare_opts_t *o,
+                             const embz_target_t q)
+{
+    if (r->d.status != EMBZ_OK) return;
+    fmpz_t m;
+    fmpz_init(m);
+    for (slong j = 0; j < o->ngoals; j++) {
+        long oq;
+        int st = optimum_rank(m, &oq, q, o->goal_text[j]);
+        if (st == EMBZ_ERR_UNSUPPORTED) {
+            r->extra_q_text[j] = sdup("n/a");
+            continue;
+        }
+        if (st != EMBZ_OK || r->d.need_status[j] != EMBZ_OK
+            || r->d.need[j].status != EMBZ_SIZE_FOUND)
+            continue;
+        r->extra_q_text[j] = embz_strdup_printf("%ld", (long) r->d.need[j].qubits - oq);
+    }
+    fmpz_clear(m);
+}
+
 typedef struct {
     const cli_compare_row_t *rows;
     const cli_compare_opts_t *o;
@@ -479,6 +521,7 @@ int cli_compare_run(cli_compare_row_t *rows, embz_family_struct *fam, long nfam,
     }
     for (long i = 0; i < nfam; i++) {
         make_texts(rows + i, o, q);
+        make_extra_texts(rows + i, o, q);
         if (rows[i].d.status != EMBZ_OK) {
             fprintf(stderr, "embz %s: %s: %s\n", o->cmd, rows[i].label, rows[i].d.message);
             int c = cli_exit_code(rows[i].d.status);
@@ -533,10 +576,45 @@ static void style_series(embz_plot_t fig, slong panel, slong s, long i)
     fig->panels[panel].series[s].marker = (int) ((i + i / EMBZ_PLOT_NCOLOURS) % 6);
 }
 
-/* Error against n (xmode 0) or against ln n (xmode 1), both on log axes, with the fits. */
-static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfam,
-                        const char *target_label, int xmode)
+/* The optimum's curve OPT_n (exact closed form, docs/optimal.md) at the sizes of the first
+ * computed sweep, as a dashed grey line labelled 'optimum'; uniform targets only. */
+static void optimum_series(embz_plot_t fig, slong p, const cli_compare_row_t *rows, long nfam,
+                           const embz_target_t q, int xmode)
 {
+    if (q->kind != EMBZ_TARGET_UNIFORM) return;
+    const embz_sweep_struct *sw = NULL;
+    for (long i = 0; i < nfam && sw == NULL; i++)
+        if (rows[i].d.status == EMBZ_OK) sw = target_sweep(rows + i);
+    if (sw == NULL) return;
+    slong s = embz_plot_add_series(fig, p, "optimum", EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED,
+                                   EMBZ_PLOT_GREY);
+    embz_optimal_result_t res;
+    embz_err_t err;
+    arb_t x;
+    arb_init(x);
+    for (slong j = 0; j < sw->len; j++) {
+        const embz_sweep_point_struct *pt = sw->pts + j;
+        if (!(pt->log_n > 0)) continue;
+        embz_optimal_result_init(res);
+        embz_err_clear(&err);
+        if (embz_optimal_closed(res, pt->n, q, &err) == EMBZ_OK) {
+            double lo, mid, hi;
+            arb_set_fmpq(x, res->upper, 64);
+            arb_log10_d(&lo, &mid, &hi, x);
+            double xx = xmode == 0 ? pt->log_n / log(10.0) : log10(pt->log_n);
+            if (isfinite(mid)) embz_plot_push(fig, p, s, xx, mid, NAN, NAN);
+        }
+        embz_optimal_result_clear(res);
+    }
+    arb_clear(x);
+}
+
+/* Error against n (xmode 0) or against ln n (xmode 1), both on log axes, with the fits and,
+ * for a uniform target, the optimum. */
+static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfam,
+                        const embz_target_t q, int xmode)
+{
+    const char *target_label = q->label;
     char title[200];
     snprintf(title, sizeof(title), "%s, target %s", xmode == 0 ? "Error against size"
                                                                : "Error against ln n",
@@ -576,6 +654,7 @@ static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfa
             embz_plot_push(fig, p, sf, x, v > 0 ? log10(v) : NAN, NAN, NAN);
         }
     }
+    optimum_series(fig, p, rows, nfam, q, xmode);
 }
 
 static void weights_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfam,
@@ -647,6 +726,98 @@ static void weights_panel(embz_plot_t fig, const cli_compare_row_t *rows, long n
     fmpz_clear(one);
 }
 
+/* The weight of the optimal state for u_d, d^(-ceil(log_d i)), as an expression. */
+static char *optimum_weight(ulong d)
+{
+    if (d == 2) return sdup("2^(-ceil(log2(i)))");
+    if ((d & (d - 1)) == 0) {
+        int j = 0;
+        while ((1UL << j) < d) j++;
+        return embz_strdup_printf("2^(-%d*ceil(log2(i)/%d))", j, j);
+    }
+    return embz_strdup_printf("%lu^(-ceil(log(i)/log(%lu)))", d, d);
+}
+
+/* One row for the optimum over all states (it does not depend on the family): OPT_n at the
+ * table's sizes and the smallest rank for each goal, all exact from the closed form of
+ * docs/optimal.md; every cell "n/a" for a target that is not uniform. */
+static void add_optimum_row(embz_report_t r, const cli_compare_opts_t *o, const embz_target_t q)
+{
+    int uniform = q->kind == EMBZ_TARGET_UNIFORM;
+    embz_report_family_struct *f = embz_report_add_family(r, uniform && q->d == 2
+                                                          ? "optimal state (dyadic)"
+                                                          : "optimal state");
+    if (!uniform) {
+        embz_report_set(&f->verdict, "n/a");
+        for (slong j = 0; j < o->nsizes; j++) embz_report_set(f->error_at + j, "n/a");
+        for (slong j = 0; j < o->ngoals; j++) {
+            embz_report_set(f->need_n + j, "n/a");
+            embz_report_set(f->need_qubits + j, "n/a");
+            embz_report_set(f->extra_qubits + j, "n/a");
+        }
+        char *t = embz_strdup_printf("The optimum over all states of Schmidt rank n "
+            "(docs/optimal.md) is known for uniform targets only (ebit, ebits:J, uniform:D), "
+            "not for the target %s: its cells and the extra qubits of the families say n/a.",
+            q->label);
+        embz_report_set(&f->notes, t);
+        free(t);
+        return;
+    }
+    char *w = optimum_weight(q->d);
+    embz_report_set(&f->weight, w);
+    free(w);
+    embz_report_set(&f->verdict, "optimum (proven)");
+    embz_report_set(&f->law, "1/\xcf\x88" "(n), exact");
+    embz_report_set(&f->limit_lo, "0 (proven)");
+    embz_buf_t nb;
+    embz_buf_init(&nb);
+    embz_buf_printf(&nb, "The smallest error any state of Schmidt rank n reaches for the target "
+        "%s: OPT_n = 1/\xcf\x88" "(n) with \xcf\x88" "(n) = j + 1 + n/(%lu^j (%lu \xe2\x88\x92" " 1)), "
+        "j = floor(log_%lu n), an exact fraction (the closed form proven in docs/optimal.md; "
+        "the state of weight %s reaches it at every n). It does not depend on the family, so "
+        "it is shown once, as this row.", q->label, q->d, q->d, q->d, f->weight);
+    embz_optimal_result_t res;
+    embz_err_t err;
+    arb_t x;
+    arb_init(x);
+    for (slong j = 0; j < o->nsizes; j++) {
+        embz_optimal_result_init(res);
+        embz_err_clear(&err);
+        if (embz_optimal_closed(res, o->sizes + j, q, &err) == EMBZ_OK) {
+            arb_set_fmpq(x, res->upper, o->prec > 64 ? o->prec : 64);
+            char *t = embz_arb_certified_string(x, 6);
+            embz_report_set(f->error_at + j, t);
+            free(t);
+        }
+        embz_optimal_result_clear(res);
+    }
+    arb_clear(x);
+    fmpz_t m;
+    fmpz_init(m);
+    for (slong j = 0; j < o->ngoals; j++) {
+        long oq;
+        int st = optimum_rank(m, &oq, q, o->goal_text[j]);
+        if (st != EMBZ_OK) {
+            embz_buf_printf(&nb, "\n\nGoal %s: the optimal rank is not computed (%s).",
+                            o->goal_text[j], st == EMBZ_ERR_LIMIT
+                            ? "it would need more than 200000 bits" : "a bad goal");
+            continue;
+        }
+        char *mt = size_text(m, 1), *qt = embz_strdup_printf("%ld", oq);
+        embz_report_set(f->need_n + j, mt);
+        embz_report_set(f->need_qubits + j, qt);
+        embz_buf_printf(&nb, "\n\nGoal %s: rank %s is the smallest whose optimum reaches the "
+                        "goal (exact; every larger rank reaches it too), %ld qubits per side. "
+                        "The extra qubits of a family are its qubits per side for the goal "
+                        "minus these %ld.", o->goal_text[j], mt, oq, oq);
+        free(mt);
+        free(qt);
+    }
+    fmpz_clear(m);
+    embz_report_set(&f->notes, nb.s);
+    embz_buf_clear(&nb);
+}
+
 void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare_row_t *rows,
                       long nfam, const cli_compare_opts_t *o)
 {
@@ -658,6 +829,7 @@ void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare
 
     embz_report_set_sizes(r, o->nsizes, o->size_text);
     embz_report_set_goals(r, o->ngoals, o->goal_text);
+    r->extra_columns = o->ngoals > 0;
     for (long i = 0; i < nfam; i++) {
         const cli_compare_row_t *w = rows + i;
         embz_report_family_struct *f = embz_report_add_family(r, w->label);
@@ -675,9 +847,11 @@ void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare
         for (slong j = 0; j < o->ngoals; j++) {
             embz_report_set(f->need_n + j, w->need_n_text[j]);
             embz_report_set(f->need_qubits + j, w->need_q_text[j]);
+            embz_report_set(f->extra_qubits + j, w->extra_q_text[j]);
         }
         embz_report_set(&f->notes, w->notes);
     }
+    add_optimum_row(r, o, q);
 
     char *from = size_text(o->from, 0), *to = size_text(o->to, 0);
     embz_buf_t b;
@@ -711,6 +885,18 @@ void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare
             "last size); \"never\" means in addition that the one-ebit error tends to a limit "
             "above the goal (derived formula), which no target of several ebits can beat.",
             search_decades(), EMBZ_SIZE_MAX_LOG2);
+    if (q->kind == EMBZ_TARGET_UNIFORM)
+        embz_buf_printf(&b, "\n\nThe last row is the optimum over all states of Schmidt rank "
+            "n, from the closed form OPT_n = 1/\xcf\x88" "(n) proven in docs/optimal.md (exact): "
+            "its error columns hold OPT_n%s", o->ngoals > 0
+            ? ", its size columns the smallest rank whose optimum reaches each goal and its "
+              "qubits per side. \"extra qubits\" is a family's qubits per side for the goal "
+              "minus the optimum's (exact, as both are; a dash where the family's size was not "
+              "found)." : ".");
+    else
+        embz_buf_printf(&b, "\n\nThe optimum over all states of Schmidt rank n "
+            "(docs/optimal.md) is known for uniform targets only (ebit, ebits:J, uniform:D), "
+            "so for the target %s its row and the \"extra qubits\" columns say n/a.", q->label);
     embz_report_set(&r->intro, b.s);
     embz_buf_clear(&b);
 
@@ -726,13 +912,16 @@ void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare
 
     /* figure 1: error against n and against ln n */
     embz_plot_init(figs + 0, NULL);
-    error_panel(figs + 0, rows, nfam, q->label, 0);
-    error_panel(figs + 0, rows, nfam, q->label, 1);
+    error_panel(figs + 0, rows, nfam, q, 0);
+    error_panel(figs + 0, rows, nfam, q, 1);
     figs[0].columns = 2;
-    char cap[400];
+    char cap[600];
     snprintf(cap, sizeof(cap), "Certified error E_n for the target %s against n and against "
              "ln n (log axes). Dashed: the best fitted law over the points it was fitted to "
-             "(an estimate). A law C (ln n)^-g is a straight line in the right-hand panel.", q->label);
+             "(an estimate). A law C (ln n)^-g is a straight line in the right-hand panel.%s",
+             q->label, q->kind == EMBZ_TARGET_UNIFORM
+             ? " Dashed grey: the optimum OPT_n over all states of Schmidt rank n (exact closed "
+               "form, docs/optimal.md), which no family can go below." : "");
     embz_report_add_figure(r, cap, figs + 0);
     /* figure 2: weights */
     embz_plot_init(figs + 1, NULL);
@@ -765,38 +954,63 @@ static void pad(embz_buf_t *b, const char *s, long width)
 void cli_compare_text(embz_buf_t *b, const cli_compare_row_t *rows, const long *order,
                       long nfam, const cli_compare_opts_t *o)
 {
+    if (o->ngoals > 0) {
+        /* the optimum does not depend on the family: one line above the table */
+        embz_target_t q;
+        embz_err_t err;
+        embz_target_init(q);
+        embz_err_clear(&err);
+        if (o->target_text != NULL) embz_target_parse(q, o->target_text, 0, &err);
+        fmpz_t m;
+        fmpz_init(m);
+        long oq;
+        int st = optimum_rank(m, &oq, q, o->goal_text[0]);
+        if (st == EMBZ_OK) {
+            char *mt = size_text(m, 1);
+            embz_buf_printf(b, "Optimum over all states (docs/optimal.md, exact): %ld qubits/side "
+                            "for E<=%s (Schmidt rank %s)\n\n", oq, o->goal_text[0], mt);
+            free(mt);
+        } else {
+            embz_buf_printf(b, "Optimum over all states (docs/optimal.md): n/a for the target %s "
+                            "(known for uniform targets only)\n\n", q->label);
+        }
+        fmpz_clear(m);
+        embz_target_clear(q);
+    }
     char h2[80], h3[80];
     snprintf(h2, sizeof(h2), "qubits/side E<=%s", o->ngoals > 0 ? o->goal_text[0] : "-");
     snprintf(h3, sizeof(h3), "E at n=%s", o->nsizes > 0 ? o->size_text[0] : "-");
-    const char *head[5] = { "family", "verdict", h2, h3, "why" };
-    long width[5];
-    for (int k = 0; k < 5; k++) width[k] = uwidth(head[k]);
-    const char **cells = calloc((size_t) nfam * 5 + 1, sizeof(char *));
+    enum { NC = 6 };
+    const char *head[NC] = { "family", "verdict", h2, "extra", h3, "why" };
+    long width[NC];
+    for (int k = 0; k < NC; k++) width[k] = uwidth(head[k]);
+    const char **cells = calloc((size_t) nfam * NC + 1, sizeof(char *));
     for (long ii = 0; ii < nfam; ii++) {
         const cli_compare_row_t *r = rows + (order ? order[ii] : ii);
-        const char **c = cells + 5 * ii;
+        const char **c = cells + NC * ii;
         c[0] = r->label;
         c[1] = r->verdict;
         c[2] = o->ngoals > 0 && r->need_q_text[0] ? r->need_q_text[0]
              : o->ngoals > 0 && r->need_n_text[0] ? r->need_n_text[0] : "-";
-        c[3] = o->nsizes > 0 && r->error_text[0] ? r->error_text[0] : "-";
-        c[4] = r->why ? r->why : "";
-        for (int k = 0; k < 4; k++)
+        c[3] = o->ngoals > 0 && r->extra_q_text[0] ? r->extra_q_text[0] : "-";
+        c[4] = o->nsizes > 0 && r->error_text[0] ? r->error_text[0] : "-";
+        c[5] = r->why ? r->why : "";
+        for (int k = 0; k < NC - 1; k++)
             if (uwidth(c[k]) > width[k]) width[k] = uwidth(c[k]);
     }
-    for (int k = 0; k < 5; k++) {
-        if (k < 4) pad(b, head[k], width[k] + 2);
+    for (int k = 0; k < NC; k++) {
+        if (k < NC - 1) pad(b, head[k], width[k] + 2);
         else embz_buf_printf(b, "%s\n", head[k]);
     }
-    for (int k = 0; k < 4; k++) {
+    for (int k = 0; k < NC - 1; k++) {
         for (long m = 0; m < width[k]; m++) embz_buf_printf(b, "-");
         embz_buf_printf(b, "  ");
     }
     embz_buf_printf(b, "---\n");
     for (long ii = 0; ii < nfam; ii++) {
-        const char **c = cells + 5 * ii;
-        for (int k = 0; k < 4; k++) pad(b, c[k], width[k] + 2);
-        embz_buf_printf(b, "%s\n", c[4]);
+        const char **c = cells + NC * ii;
+        for (int k = 0; k < NC - 1; k++) pad(b, c[k], width[k] + 2);
+        embz_buf_printf(b, "%s\n", c[NC - 1]);
     }
     free(cells);
 }

@@ -36,6 +36,7 @@ void embz_report_clear(embz_report_t r)
         free_strings(f->error_at, r->nsizes);
         free_strings(f->need_n, r->ngoals);
         free_strings(f->need_qubits, r->ngoals);
+        free_strings(f->extra_qubits, r->ngoals);
     }
     free(r->fam);
     for (slong i = 0; i < r->nfig; i++) {
@@ -86,6 +87,7 @@ embz_report_family_struct *embz_report_add_family(embz_report_t r, const char *n
     f->error_at = copy_strings(r->nsizes, NULL);
     f->need_n = copy_strings(r->ngoals, NULL);
     f->need_qubits = copy_strings(r->ngoals, NULL);
+    f->extra_qubits = copy_strings(r->ngoals, NULL);
     return f;
 }
 
@@ -145,6 +147,7 @@ static const char *const tex_unicode[][2] = {
     { "\xc2\xb1", "$\\pm$" },         { "\xe2\x80\x93", "--" },
     { "\xe2\x80\x94", "---" },        { "\xe2\x80\xa6", "\\ldots{}" },
     { "\xe2\x88\x9e", "$\\infty$" },  { "\xce\xb5", "$\\varepsilon$" },
+    { "\xcf\x88", "$\\psi$" },
 };
 
 char *embz_latex_escape(const char *text)
@@ -218,7 +221,7 @@ static char *fmt(const char *f, const char *a, const char *b)
 
 void embz_report_table_build(table_t *t, const embz_report_struct *r)
 {
-    t->ncols = 6 + r->nsizes + 2 * r->ngoals;
+    t->ncols = 6 + r->nsizes + (r->extra_columns ? 3 : 2) * r->ngoals;
     t->nrows = r->nfam;
     t->head = calloc(t->ncols, sizeof(char *));
     t->numeric = calloc(t->ncols, sizeof(int));
@@ -242,6 +245,11 @@ void embz_report_table_build(table_t *t, const embz_report_struct *r)
         t->numeric[c] = 1;
         t->head[c++] = fmt("qubits for E \xe2\x89\xa4 %s", r->goals[j] ? r->goals[j] : "?",
                            NULL);
+        if (r->extra_columns) {
+            t->numeric[c] = 1;
+            t->head[c++] = fmt("extra qubits for E \xe2\x89\xa4 %s",
+                               r->goals[j] ? r->goals[j] : "?", NULL);
+        }
     }
     for (slong i = 0; i < t->nrows; i++) {
         const embz_report_family_struct *f = r->fam + i;
@@ -262,6 +270,8 @@ void embz_report_table_build(table_t *t, const embz_report_struct *r)
         for (slong j = 0; j < r->ngoals; j++) {
             row[c++] = f->need_n ? f->need_n[j] : NULL;
             row[c++] = f->need_qubits ? f->need_qubits[j] : NULL;
+            if (r->extra_columns)
+                row[c++] = f->extra_qubits ? f->extra_qubits[j] : NULL;
         }
     }
 }
