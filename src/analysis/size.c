@@ -253,6 +253,67 @@ static int same_qubits(const fmpz_t nlo, const fmpz_t nhi)
     return r;
 }
 
+/* A measure with a structural gap (its bounds meet to a fixed width, not to the precision)
+ * leaves a zone of sizes around the crossing undecided. Shrink the certified bracket around
+ * the undecided size u: bisect (nlo, lowest undecided) and (highest undecided, nhi) in turn,
+ * at most SIZE_NARROW_STEPS evaluations. und receives the lowest undecided size. */
+#define SIZE_NARROW_STEPS 48
+static void mid_size(fmpz_t m, const fmpz_t a, const fmpz_t b)
+{
+    /* geometric midpoint while the ratio is large, else arithmetic; strictly inside (a, b) */
+    fmpz_mul_2exp(m, a, 1);
+    if (fmpz_cmp(b, m) > 0) {
+        fmpz_mul(m, a, b);
+        fmpz_sqrt(m, m);
+    } else {
+        fmpz_add(m, a, b);
+        fmpz_fdiv_q_2exp(m, m, 1);
+    }
+}
+
+static int narrow(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, fmpz_t und,
+                  embz_err_t *err)
+{
+    fmpz_t ulo, uhi, cand, g;
+    arb_t E;
+    fmpz_init_set(ulo, und); fmpz_init_set(uhi, und); fmpz_init(cand); fmpz_init(g);
+    arb_init(E);
+    int st = EMBZ_OK;
+    for (int it = 0; it < SIZE_NARROW_STEPS; it++) {
+        int below = it % 2 == 0;
+        fmpz_sub(g, below ? ulo : nhi, below ? nlo : uhi);
+        if (fmpz_cmp_ui(g, 1) <= 0) {
+            below = !below;
+            fmpz_sub(g, below ? ulo : nhi, below ? nlo : uhi);
+            if (fmpz_cmp_ui(g, 1) <= 0) break;
+        }
+        if (below) mid_size(cand, nlo, ulo);
+        else mid_size(cand, uhi, nhi);
+        int sd;
+        st = side(&sd, E, c, cand, err);
+        if (st != EMBZ_OK) break;
+        if (sd == 0) fmpz_set(below ? ulo : uhi, cand);
+        else if (sd > 0 && below) { fmpz_set(nlo, cand); arb_set(Elo, E); }
+        else if (sd < 0 && !below) { fmpz_set(nhi, cand); arb_set(Ehi, E); }
+        else if (sd < 0) {
+            /* below the undecided zone the goal is reached: the bracket moves down */
+            fmpz_set(nhi, cand); arb_set(Ehi, E);
+            fmpz_set(uhi, cand); fmpz_sub_ui(uhi, uhi, 1);
+            if (fmpz_cmp(ulo, uhi) > 0) break;
+        } else {
+            /* above it the goal is missed: the bracket moves up */
+            fmpz_set(nlo, cand); arb_set(Elo, E);
+            fmpz_add_ui(ulo, cand, 1);
+            if (fmpz_cmp(ulo, uhi) > 0) break;
+        }
+    }
+    if (fmpz_cmp(ulo, uhi) <= 0) fmpz_set(und, ulo);
+    else fmpz_add_ui(und, nlo, 1);
+    fmpz_clear(ulo); fmpz_clear(uhi); fmpz_clear(cand); fmpz_clear(g);
+    arb_clear(E);
+    return st;
+}
+
 static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *undecided,
                   fmpz_t und, embz_err_t *err)
 {
@@ -318,6 +379,8 @@ static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *un
         if (sd == 0) {
             *undecided = 1;
             fmpz_set(und, cand);
+            if (c->measure != EMBZ_MEASURE_K)
+                st = narrow(c, nlo, Elo, nhi, Ehi, und, err);
             break;
         }
         if (sd < 0) {
