@@ -58,8 +58,9 @@ typedef struct {
     int bounds_seen;      /* purified: at some size the measure was known by bounds only (its
                              range, not a value; a side is still taken only when the whole
                              range lies on it) */
-    int undecided_bounds; /* UNDECIDED where the measure had bounds only at the size left open
-                             (a value there would be needed to decide it) */
+    int undecided_bounds; /* UNDECIDED where the measure had bounds only at a size left open
+                             (a value there would be needed to decide it); the bracket is then
+                             not narrowed further */
 } embz_size_result_struct;
 typedef embz_size_result_struct embz_size_result_t[1];
 

@@ -30,7 +30,7 @@ typedef struct {
     fmpq_t qeps;
     int measure;         /* EMBZ_MEASURE_K or EMBZ_MEASURE_PURIFIED (embz/fidelity.h) */
     int bounds_seen;     /* a measure's enclosure came from bounds only (no value) */
-    int undecided_bounds;/* the last undecided size had bounds only */
+    int undecided_bounds;/* a size left undecided had bounds only */
     int used_fid_explicit, used_fid_analytic;
 } sctx;
 
@@ -208,7 +208,7 @@ static int measure_side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *e
             arb_set_interval_arf(E, lo, hi, 4 * p);
             if (arb_le(E, c->eps)) *sd = -1;
             else if (arb_gt(E, c->eps)) *sd = 1;
-            c->undecided_bounds = *sd == 0 && fr->bounds_only;
+            if (*sd == 0 && fr->bounds_only) c->undecided_bounds = 1;
             mag_set(w, arb_radref(E));
         }
         embz_fidelity_result_clear(fr);
@@ -379,7 +379,8 @@ static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *un
         if (sd == 0) {
             *undecided = 1;
             fmpz_set(und, cand);
-            if (c->measure != EMBZ_MEASURE_K)
+            /* (bounds only there: the caller takes another route, no narrowing) */
+            if (c->measure != EMBZ_MEASURE_K && !c->undecided_bounds)
                 st = narrow(c, nlo, Elo, nhi, Ehi, und, err);
             break;
         }
