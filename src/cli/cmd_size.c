@@ -504,8 +504,11 @@ int cli_cmd_size(int argc, char **argv)
             embz_size_result_init(r);
             int status = embz_size_solve_measure(r, fam, g[0], q, EMBZ_MEASURE_PURIFIED,
                                                  cli_flag(&a, "qubits"), prec, &err);
+            /* found; undecided only where P had a value; not reached on values of P alone */
             direct = status == EMBZ_OK
-                     && !(r->status == EMBZ_SIZE_UNDECIDED && r->undecided_bounds);
+                     && (r->status == EMBZ_SIZE_FOUND
+                         || (r->status == EMBZ_SIZE_UNDECIDED && !r->undecided_bounds)
+                         || (r->status == EMBZ_SIZE_NOT_REACHED && !r->bounds_seen));
             if (direct) {
                 n_direct++;
                 if (r->status == EMBZ_SIZE_NOT_REACHED && limit_known < 0)
