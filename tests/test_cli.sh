@@ -167,6 +167,24 @@ pycheck "no error at n - 1 for n = 1" 'import json, sys; g = json.load(sys.stdin
 run size inverse --eps 0.1 --json; expect_rc 0 "size --json at n > 1"
 pycheck "error at n - 1 above the goal" 'import json, sys; from fractions import Fraction as F; g = json.load(sys.stdin)["goals"][0]; assert int(g["n"]) > 1 and F(g["error_at_n_minus_1"][0]) > F("0.1") >= F(g["error_at_n"][1]), g'
 
+# size --measure purified: certified enclosures of P where P has values (1/i, one ebit: n = 58
+# for 0.4, the smallest, equal to the scan in tests/test_size.c), else the bracket from K as before
+run size inverse --eps 0.4 --measure purified; expect_rc 0 "size purified, direct"
+expect_out "measure    purified distance P (certified enclosures of P)" "direct route named"
+expect_out "goal P <= 0.4" "direct route: P goal"; expect_out "smallest   yes" "direct: exhaustive"
+expect_out "  n          58" "direct: n"
+run size inverse --eps 0.4 --measure purified --json; expect_rc 0 "size purified --json"
+pycheck "direct route in JSON, P at n - 1 above the goal" 'import json, sys; from fractions import Fraction as F; g = json.load(sys.stdin)["goals"][0]; assert g["route"] == "enclosures of P" and g["n"] == "58" and F(g["error_at_n_minus_1"][0]) > F("0.4") >= F(g["error_at_n"][1]), g'
+run size inverse --eps 0.4 --measure purified --csv; expect_rc 0 "size purified --csv"
+expect_out "inverse,ebit,purified,direct,0.4,found,58," "direct route in CSV"
+run size logpower --eps 0.1; klines=$(printf '%s\n' "$out" | sed -n '/^goal/,/^  method/p')
+run size logpower --eps 0.1 --measure purified; expect_rc 0 "size purified, fallback"
+expect_out "measure    purified distance P (from bounds on K)" "fallback route named"
+flines=$(printf '%s\n' "$out" | sed -n '/^goal E <= 0.1$/,/^  method/p')
+if [ -n "$klines" ] && [ "$klines" = "$flines" ]; then ok; else fail "fallback: the K part differs from size --eps 0.1"; fi
+expect_out "and at most the size for K <= 1 - sqrt(1 - eps^2)" "fallback: upper part"
+if printf '%s' "$out" | grep -q "^goal P"; then fail "fallback printed a P goal"; else ok; fi
+
 # ---------------------------------------------------------------- convert
 # Jonathan & Plenio, Phys. Rev. Lett. 83, 3566 (1999): (0.4,0.4,0.1,0.1) cannot be turned
 # into (0.5,0.25,0.25) by LOCC, but can with the catalyst (0.6,0.4).

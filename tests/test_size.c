@@ -8,7 +8,12 @@
  *  - the sizes quoted in docs/math.md for one ebit: 15 for 0.2 and 570 for 0.1 ([derived]),
  *    and n near 7e29 for 0.01;
  *  - the power family i^-1/2 tends to the positive limit 1 - 2^-1/2 for one ebit (docs/math.md
- *    section 5, [derived]), so a goal below it is never reached. */
+ *    section 5, [derived]), so a goal below it is never reached;
+ *  - the purified distance (embz_size_solve_measure): a plain scan of embz_fidelity over every
+ *    n of the exhaustive range, and P at the size found and the size below recomputed exactly
+ *    from the rational weights 1/i with FLINT's rationals (embz_qvec_purified: the exact lower
+ *    convex hull); at large n, fresh enclosures of P at both ends of the answer, at two
+ *    precisions. */
 #include <check.h>
 #include <stdlib.h>
 #include <math.h>
@@ -545,6 +550,162 @@ START_TEST(test_undecided_bracket)
 }
 END_TEST
 
+/* P = sqrt(1 - F_max) of p -> p (x) (1/2, 1/2) for the exact weights 1/i, i <= n (FLINT's
+ * rationals; only the final square roots in arb) */
+static void inverse_purified_exact(arb_t P, slong n)
+{
+    embz_qvec_t p, r;
+    embz_qvec_init(p); embz_qvec_init(r);
+    p->p = _fmpq_vec_init(n);
+    p->len = n;
+    fmpq_t W;
+    fmpq_init(W);
+    for (slong i = 0; i < n; i++) {
+        fmpq_set_si(p->p + i, 1, i + 1);
+        fmpq_add(W, W, p->p + i);
+    }
+    for (slong i = 0; i < n; i++) fmpq_div(p->p + i, p->p + i, W);
+    r->p = _fmpq_vec_init(2 * n);
+    r->len = 2 * n;
+    for (slong i = 0; i < n; i++) {
+        fmpq_div_fmpz(r->p + 2 * i, p->p + i, (fmpz_t) {2});
+        fmpq_set(r->p + 2 * i + 1, r->p + 2 * i);
+    }
+    embz_qvec_purified(P, p, r, 256);
+    fmpq_clear(W);
+    embz_qvec_clear(p); embz_qvec_clear(r);
+}
+
+/* smallest n <= nmax with P_n <= eps certified by embz_fidelity, every smaller one > eps
+ * certified (0: none) */
+static slong purified_scan(const embz_family_t f, const arb_t eps, const embz_target_t q,
+                           slong nmax)
+{
+    embz_err_t err;
+    embz_err_clear(&err);
+    fmpz_t n;
+    fmpz_init(n);
+    slong found = 0;
+    for (slong k = 1; k <= nmax && !found; k++) {
+        embz_fidelity_result_t fr;
+        embz_fidelity_result_init(fr);
+        fmpz_set_si(n, k);
+        ck_assert_int_eq(embz_fidelity(fr, f, n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO, 128,
+                                       &err), EMBZ_OK);
+        ck_assert(!fr->bounds_only);
+        if (arb_le(fr->upper, eps)) found = k;
+        else ck_assert_msg(arb_gt(fr->lower, eps), "n = %ld undecided", (long) k);
+        embz_fidelity_result_clear(fr);
+    }
+    fmpz_clear(n);
+    return found;
+}
+
+START_TEST(test_purified_small_scan)
+{
+    /* goals whose size lies in the exhaustive range: the solver against a plain scan */
+    const char *fams[4] = { "inverse", "inverse", "power", "inverse" };
+    const char *goals[4] = { "0.4", "0.45", "0.6", "0.32" };
+    const ulong dims[4] = { 2, 3, 2, 2 };
+    for (int k = 0; k < 4; k++) {
+        embz_family_t f;
+        embz_target_t q;
+        embz_size_result_t r;
+        arb_t eps;
+        fmpq_t e;
+        embz_err_t err;
+        embz_err_clear(&err);
+        family(f, fams[k]);
+        target_uniform(q, dims[k]);
+        embz_size_result_init(r);
+        arb_init(eps);
+        fmpq_init(e);
+        ck_assert_int_eq(embz_number_parse(e, goals[k]), EMBZ_OK);
+        arb_set_fmpq(eps, e, 256);
+        ck_assert_int_eq(embz_size_solve_measure(r, f, eps, q, EMBZ_MEASURE_PURIFIED, 0, 128,
+                                                 &err), EMBZ_OK);
+        ck_assert_int_eq(r->status, EMBZ_SIZE_FOUND);
+        ck_assert(r->exhaustive);
+        ck_assert_int_eq(r->measure, EMBZ_MEASURE_PURIFIED);
+        slong want = purified_scan(f, eps, q, EMBZ_SIZE_EXHAUSTIVE);
+        ck_assert_msg(want > 1 && fmpz_equal_si(r->n, want), "%s %s: n = %ld, scan %ld",
+                      fams[k], goals[k], fmpz_get_si(r->n), (long) want);
+        ck_assert(arb_le(r->err_n, eps) && arb_gt(r->err_prev, eps));
+        if (k == 0 || k == 3) {
+            /* exact rationals at n and n - 1 (the hull of the exact vectors) */
+            arb_t P;
+            arb_init(P);
+            inverse_purified_exact(P, want);
+            ck_assert(arb_le(P, eps) && arb_overlaps(P, r->err_n));
+            inverse_purified_exact(P, want - 1);
+            ck_assert(arb_gt(P, eps) && arb_overlaps(P, r->err_prev));
+            arb_clear(P);
+        }
+        arb_clear(eps);
+        fmpq_clear(e);
+        embz_size_result_clear(r);
+        embz_target_clear(q);
+        embz_family_clear(f);
+    }
+}
+END_TEST
+
+START_TEST(test_purified_large)
+{
+    /* P for 1/i and one ebit falls through 0.06 near n = 10^94: the bounds of the analytic
+     * engine meet to about 1e-17, far wider than P_n - P_(n-1), so the answer is a certified
+     * bracket (or, with a sharper engine, the exact size); both ends are checked afresh */
+    embz_family_t f;
+    embz_target_t q;
+    embz_size_result_t r;
+    arb_t eps;
+    embz_err_t err;
+    embz_err_clear(&err);
+    family(f, "inverse");
+    target_uniform(q, 2);
+    embz_size_result_init(r);
+    arb_init(eps);
+    arb_set_ui(eps, 6);
+    arb_div_ui(eps, eps, 100, 256);
+    ck_assert_int_eq(embz_size_solve_measure(r, f, eps, q, EMBZ_MEASURE_PURIFIED, 0, 128, &err),
+                     EMBZ_OK);
+    ck_assert(r->status == EMBZ_SIZE_FOUND || (r->status == EMBZ_SIZE_UNDECIDED && r->bracket));
+    ck_assert(!r->undecided_bounds);
+    ck_assert(r->used & EMBZ_SIZE_USED_FID_ANALYTIC);
+    long digits = (long) fmpz_sizeinbase(r->n, 10);
+    ck_assert_msg(digits >= 31 && digits <= 101, "n has %ld digits", digits);
+    ck_assert(fmpz_cmp(r->n_low, r->n) < 0);
+    for (int k = 0; k < 2; k++) {
+        slong prec = k == 0 ? 128 : 256;
+        embz_fidelity_result_t fr;
+        embz_fidelity_result_init(fr);
+        ck_assert_int_eq(embz_fidelity(fr, f, r->n, q, EMBZ_MEASURE_PURIFIED, EMBZ_METHOD_AUTO,
+                                       prec, &err), EMBZ_OK);
+        ck_assert(!fr->bounds_only && arb_le(fr->upper, eps));
+        embz_fidelity_result_clear(fr);
+        embz_fidelity_result_init(fr);
+        ck_assert_int_eq(embz_fidelity(fr, f, r->n_low, q, EMBZ_MEASURE_PURIFIED,
+                                       EMBZ_METHOD_AUTO, prec, &err), EMBZ_OK);
+        ck_assert(!fr->bounds_only && arb_gt(fr->lower, eps));
+        embz_fidelity_result_clear(fr);
+    }
+    /* the bracket is narrow: its ends agree to 10 digits */
+    fmpz_t g;
+    fmpz_init(g);
+    fmpz_sub(g, r->n, r->n_low);
+    fmpz_mul_ui(g, g, 10000000000UL);
+    ck_assert(fmpz_cmp(g, r->n) < 0);
+    fmpz_clear(g);
+    /* a measure that is not a distance is refused */
+    ck_assert_int_eq(embz_size_solve_measure(r, f, eps, q, EMBZ_MEASURE_OVERLAP, 0, 128, &err),
+                     EMBZ_ERR_INPUT);
+    arb_clear(eps);
+    embz_size_result_clear(r);
+    embz_target_clear(q);
+    embz_family_clear(f);
+}
+END_TEST
+
 int main(void)
 {
     Suite *s = suite_create("size");
@@ -560,6 +721,8 @@ int main(void)
     tcase_add_test(tc, test_exact_ties);
     tcase_add_test(tc, test_explicit_only);
     tcase_add_test(tc, test_undecided_bracket);
+    tcase_add_test(tc, test_purified_small_scan);
+    tcase_add_test(tc, test_purified_large);
     suite_add_tcase(s, tc);
     return tu_run_suite(s);
 }

@@ -4,6 +4,7 @@
 
 #include "embz/measure.h"
 #include "embz/error.h"
+#include "embz/fidelity.h"
 
 typedef enum {
     EMBZ_SIZE_FOUND = 0,      /* n found: E_n <= eps certified, E > eps certified at n_low
@@ -14,6 +15,10 @@ typedef enum {
 } embz_size_status_t;
 
 #define EMBZ_SIZE_USED_EXACT (1 << 8)
+/* a fidelity-type measure (embz_size_solve_measure): sizes decided by its explicit values
+ * (n <= EMBZ_FIDELITY_MAX_N), and beyond by the analytic engine's values or bounds */
+#define EMBZ_SIZE_USED_FID_EXPLICIT (1 << 9)
+#define EMBZ_SIZE_USED_FID_ANALYTIC (1 << 10)
 
 typedef struct {
     int status;
@@ -48,6 +53,14 @@ typedef struct {
                              1 << EMBZ_METHOD_ANALYTIC (the engine in decision mode), and
                              EMBZ_SIZE_USED_EXACT (an exact tie decided in rational
                              arithmetic) */
+    int measure;          /* the measure searched: EMBZ_MEASURE_K or EMBZ_MEASURE_PURIFIED;
+                             "E" above means that measure */
+    int bounds_seen;      /* purified: at some size the measure was known by bounds only (its
+                             range, not a value; a side is still taken only when the whole
+                             range lies on it) */
+    int undecided_bounds; /* UNDECIDED where the measure had bounds only at a size left open
+                             (a value there would be needed to decide it); the bracket is then
+                             not narrowed further */
 } embz_size_result_struct;
 typedef embz_size_result_struct embz_size_result_t[1];
 
@@ -85,6 +98,19 @@ int embz_size_solve_qubits(embz_size_result_t res, const embz_family_t f, const 
 int embz_size_solve_exact_goal(embz_size_result_t res, const embz_family_t f, const fmpq_t eps,
                                const embz_target_t q, slong prec, int qubits_only,
                                embz_err_t *err);
+
+/* The same search (qubits_only as in embz_size_solve_qubits) for a measure of embz/fidelity.h:
+ * EMBZ_MEASURE_K (as embz_size_solve) or EMBZ_MEASURE_PURIFIED, the purified distance
+ * P = sqrt(1 - F_max). Every side of eps is taken from the certified range of P that
+ * embz_fidelity gives at that size: a value (explicit sizes; beyond, the analytic engine's
+ * where its bounds meet) or two-sided bounds; the side is taken only when the whole range
+ * lies on it, else the precision is raised (prec, 2 prec, 4 prec, stopping early when the
+ * range does not shrink with it) and then the size is undecided. The bound
+ * E_m >= p_1 (1 - q_max) excludes small sizes for P too (P >= K). No exact ties. Other
+ * measures (fidelity, overlap: larger is better) are EMBZ_ERR_INPUT. */
+int embz_size_solve_measure(embz_size_result_t res, const embz_family_t f, const arb_t eps,
+                            const embz_target_t q, int measure, int qubits_only, slong prec,
+                            embz_err_t *err);
 
 /* ---- goals no size reaches ---- */
 /* 1 when the target is majorized by one ebit, that is its largest entry is at most 1/2 (every

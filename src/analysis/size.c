@@ -9,6 +9,7 @@
 #include <string.h>
 #include "embz/size.h"
 #include "embz/error.h"
+#include "embz/fidelity.h"
 #include "sum/sum.h"
 
 #define SIZE_PREC_STEPS 3         /* prec, 2 prec, 4 prec */
@@ -27,6 +28,10 @@ typedef struct {
     long evals;
     int have_qeps;       /* the goal as an exact rational (qeps), for exact ties */
     fmpq_t qeps;
+    int measure;         /* EMBZ_MEASURE_K or EMBZ_MEASURE_PURIFIED (embz/fidelity.h) */
+    int bounds_seen;     /* a measure's enclosure came from bounds only (no value) */
+    int undecided_bounds;/* a size left undecided had bounds only */
+    int used_fid_explicit, used_fid_analytic;
 } sctx;
 
 /* Exact E_n for small n when every weight is rational (embz_expr_eval_fmpq) and the target
@@ -144,8 +149,11 @@ static int analytic_declines(char *why, size_t len, const sctx *c, const fmpz_t 
 
 /* Which side of eps E_n lies on: -1 (E_n <= eps), +1 (E_n > eps), 0 undecided even at the
  * highest precision tried. E receives the last enclosure. Returns a status. */
+static int measure_side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err);
+
 static int side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
 {
+    if (c->measure != EMBZ_MEASURE_K) return measure_side(sd, E, c, n, err);
     embz_error_result_t res;
     embz_error_result_init(res);
     int st = embz_eval_side(sd, res, c->ev, c->work, n, c->q, c->eps, c->decision, err);
@@ -165,6 +173,56 @@ static int side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
         fmpq_clear(Eq);
     }
     embz_error_result_clear(res);
+    return st;
+}
+
+/* The side of eps for a fidelity-type distance (the purified distance P): its certified range
+ * [lo, hi] from embz_fidelity: the value's ends, or for bounds only the tightest certified
+ * bounds (those from K, intersected with the LOCC fidelity bounds where available). A side is
+ * taken only when the whole range lies on it; else the precision is raised (prec, 2 prec,
+ * 4 prec), as for K. E receives the range as a ball. */
+static int measure_side(int *sd, arb_t E, sctx *c, const fmpz_t n, embz_err_t *err)
+{
+    int st = EMBZ_OK;
+    *sd = 0;
+    arf_t lo, hi;
+    arf_init(lo); arf_init(hi);
+    mag_t w, wprev;
+    mag_init(w); mag_init(wprev);
+    for (int step = 0; step < SIZE_PREC_STEPS; step++) {
+        slong p = c->prec << step;
+        embz_fidelity_result_t fr;
+        embz_fidelity_result_init(fr);
+        st = embz_fidelity(fr, c->f, n, c->q, c->measure, EMBZ_METHOD_AUTO, p, err);
+        c->evals++;
+        if (st == EMBZ_OK) {
+            arb_get_lbound_arf(lo, fr->lower, p);
+            arb_get_ubound_arf(hi, fr->upper, p);
+            if (fr->bounds_only && fr->have_tight) {
+                if (arf_cmp(arb_midref(fr->tight_lo), lo) > 0) arf_set(lo, arb_midref(fr->tight_lo));
+                if (arf_cmp(arb_midref(fr->tight_hi), hi) < 0) arf_set(hi, arb_midref(fr->tight_hi));
+            }
+            if (fr->bounds_only) c->bounds_seen = 1;
+            if (fr->how.analytic || fr->bounds_only) c->used_fid_analytic = 1;
+            else c->used_fid_explicit = 1;
+            arb_set_interval_arf(E, lo, hi, 4 * p);
+            if (arb_le(E, c->eps)) *sd = -1;
+            else if (arb_gt(E, c->eps)) *sd = 1;
+            if (*sd == 0 && fr->bounds_only) c->undecided_bounds = 1;
+            mag_set(w, arb_radref(E));
+        }
+        embz_fidelity_result_clear(fr);
+        if (st != EMBZ_OK || *sd != 0) break;
+        /* a range that did not halve with the precision is limited by the bounds, not by
+         * the arithmetic: more precision would not decide it */
+        if (step > 0) {
+            mag_mul_2exp_si(wprev, wprev, -1);
+            if (mag_cmp(w, wprev) > 0) break;
+        }
+        mag_set(wprev, w);
+    }
+    mag_clear(w); mag_clear(wprev);
+    arf_clear(lo); arf_clear(hi);
     return st;
 }
 
@@ -193,6 +251,67 @@ static int same_qubits(const fmpz_t nlo, const fmpz_t nhi)
     int r = fmpz_bits(a) == fmpz_bits(b);
     fmpz_clear(a); fmpz_clear(b);
     return r;
+}
+
+/* A measure with a structural gap (its bounds meet to a fixed width, not to the precision)
+ * leaves a zone of sizes around the crossing undecided. Shrink the certified bracket around
+ * the undecided size u: bisect (nlo, lowest undecided) and (highest undecided, nhi) in turn,
+ * at most SIZE_NARROW_STEPS evaluations. und receives the lowest undecided size. */
+#define SIZE_NARROW_STEPS 48
+static void mid_size(fmpz_t m, const fmpz_t a, const fmpz_t b)
+{
+    /* geometric midpoint while the ratio is large, else arithmetic; strictly inside (a, b) */
+    fmpz_mul_2exp(m, a, 1);
+    if (fmpz_cmp(b, m) > 0) {
+        fmpz_mul(m, a, b);
+        fmpz_sqrt(m, m);
+    } else {
+        fmpz_add(m, a, b);
+        fmpz_fdiv_q_2exp(m, m, 1);
+    }
+}
+
+static int narrow(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, fmpz_t und,
+                  embz_err_t *err)
+{
+    fmpz_t ulo, uhi, cand, g;
+    arb_t E;
+    fmpz_init_set(ulo, und); fmpz_init_set(uhi, und); fmpz_init(cand); fmpz_init(g);
+    arb_init(E);
+    int st = EMBZ_OK;
+    for (int it = 0; it < SIZE_NARROW_STEPS; it++) {
+        int below = it % 2 == 0;
+        fmpz_sub(g, below ? ulo : nhi, below ? nlo : uhi);
+        if (fmpz_cmp_ui(g, 1) <= 0) {
+            below = !below;
+            fmpz_sub(g, below ? ulo : nhi, below ? nlo : uhi);
+            if (fmpz_cmp_ui(g, 1) <= 0) break;
+        }
+        if (below) mid_size(cand, nlo, ulo);
+        else mid_size(cand, uhi, nhi);
+        int sd;
+        st = side(&sd, E, c, cand, err);
+        if (st != EMBZ_OK) break;
+        if (sd == 0) fmpz_set(below ? ulo : uhi, cand);
+        else if (sd > 0 && below) { fmpz_set(nlo, cand); arb_set(Elo, E); }
+        else if (sd < 0 && !below) { fmpz_set(nhi, cand); arb_set(Ehi, E); }
+        else if (sd < 0) {
+            /* below the undecided zone the goal is reached: the bracket moves down */
+            fmpz_set(nhi, cand); arb_set(Ehi, E);
+            fmpz_set(uhi, cand); fmpz_sub_ui(uhi, uhi, 1);
+            if (fmpz_cmp(ulo, uhi) > 0) break;
+        } else {
+            /* above it the goal is missed: the bracket moves up */
+            fmpz_set(nlo, cand); arb_set(Elo, E);
+            fmpz_add_ui(ulo, cand, 1);
+            if (fmpz_cmp(ulo, uhi) > 0) break;
+        }
+    }
+    if (fmpz_cmp(ulo, uhi) <= 0) fmpz_set(und, ulo);
+    else fmpz_add_ui(und, nlo, 1);
+    fmpz_clear(ulo); fmpz_clear(uhi); fmpz_clear(cand); fmpz_clear(g);
+    arb_clear(E);
+    return st;
 }
 
 static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *undecided,
@@ -260,6 +379,9 @@ static int refine(sctx *c, fmpz_t nlo, arb_t Elo, fmpz_t nhi, arb_t Ehi, int *un
         if (sd == 0) {
             *undecided = 1;
             fmpz_set(und, cand);
+            /* (bounds only there: the caller takes another route, no narrowing) */
+            if (c->measure != EMBZ_MEASURE_K && !c->undecided_bounds)
+                st = narrow(c, nlo, Elo, nhi, Ehi, und, err);
             break;
         }
         if (sd < 0) {
@@ -321,7 +443,7 @@ static int small_sizes_excluded(sctx *c, slong N)
 }
 
 static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
-                      const fmpq *qeps, const embz_target_t q, slong prec,
+                      const fmpq *qeps, const embz_target_t q, int measure, slong prec,
                       int qubits_only, embz_err_t *err);
 
 /* Full enclosures (no decision mode) at the sizes the result reports. */
@@ -344,13 +466,13 @@ static int final_enclosures(embz_size_result_t res, sctx *c, embz_err_t *err)
 int embz_size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
                     const embz_target_t q, slong prec, embz_err_t *err)
 {
-    return size_solve(res, f, eps, NULL, q, prec, 0, err);
+    return size_solve(res, f, eps, NULL, q, EMBZ_MEASURE_K, prec, 0, err);
 }
 
 int embz_size_solve_qubits(embz_size_result_t res, const embz_family_t f, const arb_t eps,
                            const embz_target_t q, slong prec, embz_err_t *err)
 {
-    return size_solve(res, f, eps, NULL, q, prec, 1, err);
+    return size_solve(res, f, eps, NULL, q, EMBZ_MEASURE_K, prec, 1, err);
 }
 
 int embz_size_solve_exact_goal(embz_size_result_t res, const embz_family_t f, const fmpq_t eps,
@@ -360,13 +482,24 @@ int embz_size_solve_exact_goal(embz_size_result_t res, const embz_family_t f, co
     arb_t e;
     arb_init(e);
     arb_set_fmpq(e, eps, 4 * prec);
-    int st = size_solve(res, f, e, eps, q, prec, qubits_only, err);
+    int st = size_solve(res, f, e, eps, q, EMBZ_MEASURE_K, prec, qubits_only, err);
     arb_clear(e);
     return st;
 }
 
+int embz_size_solve_measure(embz_size_result_t res, const embz_family_t f, const arb_t eps,
+                            const embz_target_t q, int measure, int qubits_only, slong prec,
+                            embz_err_t *err)
+{
+    if (measure != EMBZ_MEASURE_K && measure != EMBZ_MEASURE_PURIFIED)
+        return embz_err_set(err, EMBZ_ERR_INPUT, "the size search takes the measures k and "
+                            "purified (a distance, smaller is better), not '%s'",
+                            embz_measure_name(measure));
+    return size_solve(res, f, eps, NULL, q, measure, prec, qubits_only, err);
+}
+
 static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t eps,
-                      const fmpq *qeps, const embz_target_t q, slong prec,
+                      const fmpq *qeps, const embz_target_t q, int measure, slong prec,
                       int qubits_only, embz_err_t *err)
 {
     sctx c;
@@ -382,6 +515,10 @@ static int size_solve(embz_size_result_t res, const embz_family_t f, const arb_t
     c.f = f;
     c.q = q;
     c.prec = prec;
+    c.measure = measure;
+    res->measure = measure;
+    res->bounds_seen = 0;
+    res->undecided_bounds = 0;
     arb_init(c.eps);
     arb_set(c.eps, eps);
     embz_eval_opts_t eo;
@@ -593,7 +730,11 @@ done:
     res->evaluations = c.evals;
     res->used = (c.used_explicit ? 1 << EMBZ_METHOD_EXPLICIT : 0)
               | (c.used_analytic ? 1 << EMBZ_METHOD_ANALYTIC : 0)
-              | (c.used_exact ? EMBZ_SIZE_USED_EXACT : 0);
+              | (c.used_exact ? EMBZ_SIZE_USED_EXACT : 0)
+              | (c.used_fid_explicit ? EMBZ_SIZE_USED_FID_EXPLICIT : 0)
+              | (c.used_fid_analytic ? EMBZ_SIZE_USED_FID_ANALYTIC : 0);
+    res->bounds_seen = c.bounds_seen;
+    res->undecided_bounds = res->status == EMBZ_SIZE_UNDECIDED && c.undecided_bounds;
     fmpq_clear(c.qeps);
     embz_eval_work_clear(c.work);
     embz_eval_clear(c.ev);

@@ -29,8 +29,13 @@ static const cli_spec_t size_spec = {
     "only (E_n need not be monotone in n), and so is whether the error stays below the goal\n"
     "for larger sizes: the output says which. The search goes up to n = 2^3072 (~10^925),\n"
     "or n = 10^6 (explicit summation's reach) for a family the analytic engine cannot take.\n"
-    "--measure purified: the purified distance P obeys K <= P <= sqrt(K(2-K)), so the size for\n"
-    "P <= eps lies between the sizes for K <= eps and K <= 1 - sqrt(1 - eps^2); both are shown.\n"
+    "--measure purified: the same search on certified enclosures of the purified distance P\n"
+    "(explicit values up to 2^20, the analytic engine's beyond: uniform targets, eventually\n"
+    "non-increasing weights); a side is taken only when the whole enclosure lies on it. Its\n"
+    "bounds meet to about 1e-17, so at huge n the answer is a certified bracket (--qubits: a\n"
+    "size at qubit resolution). Where P has bounds only at the size left open, the size lies\n"
+    "between the sizes for K <= eps and K <= 1 - sqrt(1 - eps^2) (K <= P <= sqrt(K(2-K))),\n"
+    "both shown as before; the measure line says which route was used.\n"
     "--vs-optimal (distance K, uniform targets): the smallest Schmidt rank with which any state\n"
     "reaches each goal (embz optimal --eps), its qubits per side, and how many more the\n"
     "size found needs.\n",
@@ -55,6 +60,14 @@ static void size_numbers(double *l10, long *qubits, const embz_size_result_struc
 /* How the sizes were decided, in words (from the result's flags). */
 static void method_words(char *buf, size_t len, const embz_size_result_t r)
 {
+    if (r->measure == EMBZ_MEASURE_PURIFIED) {
+        int fe = (r->used & EMBZ_SIZE_USED_FID_EXPLICIT) != 0;
+        int fa = (r->used & EMBZ_SIZE_USED_FID_ANALYTIC) != 0;
+        snprintf(buf, len, "enclosures of P: %s%s%s%s", fe ? "explicit" : "",
+                 fe && fa ? " and " : "", fa ? "analytic" : "",
+                 r->bounds_seen ? " (bounds only at some sizes)" : "");
+        return;
+    }
     int ex = (r->used & (1 << EMBZ_METHOD_EXPLICIT)) != 0;
     int an = (r->used & (1 << EMBZ_METHOD_ANALYTIC)) != 0;
     snprintf(buf, len, "%s%s%s%s", ex ? "explicit" : "", ex && an ? " and " : "",
@@ -201,7 +214,9 @@ static void csv_result(embz_buf_t *b, const char *fam, const char *tgt, const ch
 static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_t r,
                         const char *never_reason)
 {
-    embz_buf_printf(b, "goal E <= %s\n", goal);
+    /* the measure's letter: E for the error K, P for the purified distance */
+    const char *S = r->measure == EMBZ_MEASURE_PURIFIED ? "P" : "E";
+    embz_buf_printf(b, "goal %s <= %s\n", S, goal);
     if (r->status == EMBZ_SIZE_FOUND) {
         char *ns = embz_fmpz_string(r->n, INT_DIGITS);
         double l10;
@@ -225,9 +240,9 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
                 slong d = sep;
                 char *a = embz_arb_lo_string(r->err_n, d), *bb = embz_arb_hi_string(r->err_n, d);
                 char *c = embz_arb_lo_string(r->err_prev, d), *dd = embz_arb_hi_string(r->err_prev, d);
-                crossing = embz_strdup_printf("  E at n     in [%s, %s]   (certified, <= goal)\n"
-                                                  "  E below    in [%s, %s]   (certified, > goal, "
-                                                  "at n_low)\n", a, bb, c, dd);
+                crossing = embz_strdup_printf("  %s at n     in [%s, %s]   (certified, <= goal)\n"
+                                                  "  %s below    in [%s, %s]   (certified, > goal, "
+                                                  "at n_low)\n", S, a, bb, S, c, dd);
                 free(a); free(bb); free(c); free(dd);
             }
         }
@@ -241,32 +256,32 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
             free(crossing);
         } else if (r->qubits_only && !r->exhaustive) {
             char *nl = embz_fmpz_string(r->n_low, INT_DIGITS);
-            embz_buf_printf(b, "  E at n     %s   E at %s%s  %s   (certified)\n", e,
+            embz_buf_printf(b, "  %s at n     %s   %s at %s%s  %s   (certified)\n", S, e, S,
                             fmpz_sizeinbase(r->n_low, 10) > INT_DIGITS ? "~" : "", nl, ep);
             embz_buf_printf(b, "  resolution the smallest size lies in (%s%s, n]: same qubits\n",
                             fmpz_sizeinbase(r->n_low, 10) > INT_DIGITS ? "~" : "", nl);
             free(nl);
         } else if (fmpz_is_one(r->n))
-            embz_buf_printf(b, "  E at n     %s   (certified)   E at n-1  not applicable "
-                               "(n = 1 is the smallest size)\n", e);
+            embz_buf_printf(b, "  %s at n     %s   (certified)   %s at n-1  not applicable "
+                               "(n = 1 is the smallest size)\n", S, e, S);
         else
-            embz_buf_printf(b, "  E at n     %s   E at n-1  %s   (certified)\n", e, ep);
+            embz_buf_printf(b, "  %s at n     %s   %s at n-1  %s   (certified)\n", S, e, S, ep);
         if (r->small_by_bound && !r->exhaustive)
             embz_buf_printf(b, "  small n    every n <= 2048 excluded at once: E_n >= p_1 (1 - q_max) > goal\n");
         if (r->exhaustive)
             embz_buf_printf(b, "  smallest   yes: every smaller size was checked\n");
         else
-            embz_buf_printf(b, "  smallest   first crossing of a bracketing search; E > goal checked at %ld "
-                               "smaller sizes%s (samples, not all)\n", r->checked_below,
+            embz_buf_printf(b, "  smallest   first crossing of a bracketing search; %s > goal checked at %ld "
+                               "smaller sizes%s (samples, not all)\n", S, r->checked_below,
                             r->small_by_bound ? " and, by the bound above, at every n <= 2048" : "");
         if (!fmpz_is_zero(r->again_above)) {
             char *ag = embz_fmpz_string(r->again_above, INT_DIGITS);
-            embz_buf_printf(b, "  stays      no: E exceeds the goal again at n = %s\n", ag);
+            embz_buf_printf(b, "  stays      no: %s exceeds the goal again at n = %s\n", S, ag);
             free(ag);
         } else {
             char *to = embz_fmpz_string(r->stay_checked_to, INT_DIGITS);
-            embz_buf_printf(b, "  stays      E <= goal at all %ld sampled sizes up to %s%s (not a proof)\n",
-                            r->stay_samples, fmpz_sizeinbase(r->stay_checked_to, 10) > INT_DIGITS ? "~" : "", to);
+            embz_buf_printf(b, "  stays      %s <= goal at all %ld sampled sizes up to %s%s (not a proof)\n",
+                            S, r->stay_samples, fmpz_sizeinbase(r->stay_checked_to, 10) > INT_DIGITS ? "~" : "", to);
             free(to);
         }
         free(ns); free(e); free(ep);
@@ -275,17 +290,17 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
         embz_buf_printf(b, "  n          %s\n", never_reason != NULL ? "never" : "not reached");
         if (r->explicit_only) {
             char *ls = embz_fmpz_string(r->largest, INT_DIGITS);
-            embz_buf_printf(b, "  largest    n = %s: E = %s (certified)\n", ls, e);
+            embz_buf_printf(b, "  largest    n = %s: %s = %s (certified)\n", ls, S, e);
             free(ls);
         } else {
-            embz_buf_printf(b, "  largest    n = 2^%ld: E = %s (certified)\n",
-                            (long) fmpz_bits(r->largest) - 1, e);
+            embz_buf_printf(b, "  largest    n = 2^%ld: %s = %s (certified)\n",
+                            (long) fmpz_bits(r->largest) - 1, S, e);
         }
         if (never_reason != NULL) embz_buf_printf(b, "  why        %s\n", never_reason);
         free(e);
     } else {
         char *u = embz_fmpz_string(r->undecided_lo, INT_DIGITS);
-        embz_buf_printf(b, "  undecided  at n = %s the enclosure of E straddles the goal even at raised precision\n", u);
+        embz_buf_printf(b, "  undecided  at n = %s the enclosure of %s straddles the goal even at raised precision\n", u, S);
         free(u);
         if (r->bracket) {
             /* the ends differ by little against n: the gap says more than two long numbers */
@@ -293,8 +308,8 @@ static void text_result(embz_buf_t *b, const char *goal, const embz_size_result_
             fmpz_init(gap);
             fmpz_sub(gap, r->n, r->n_low);
             char *hi = embz_fmpz_string(r->n, INT_DIGITS), *g = embz_fmpz_string(gap, INT_DIGITS);
-            embz_buf_printf(b, "  bracket    E > goal at n - %s and E <= goal at n = %s%s (both "
-                               "certified): a crossing lies in between\n", g,
+            embz_buf_printf(b, "  bracket    %s > goal at n - %s and %s <= goal at n = %s%s (both "
+                               "certified): a crossing lies in between\n", S, g, S,
                             fmpz_sizeinbase(r->n, 10) > INT_DIGITS ? "~" : "", hi);
             if (r->qubits >= 0)
                 embz_buf_printf(b, "  qubits     %ld per side (ceil(log2 n)): the same for every "
@@ -418,10 +433,9 @@ int cli_cmd_size(int argc, char **argv)
         embz_buf_printf(&out, ", \"target\": ");
         embz_buf_json_string(&out, q->label);
         embz_buf_printf(&out, ", \"measure\": \"%s\", \"goals\": [", purified ? "purified" : "k");
-    } else {
-        embz_buf_printf(&out, "family     %s\ntarget     %s\nmeasure    %s\n\n", fam->name, q->label,
-                        purified ? "purified distance P (from bounds on K)" : "conversion distance K");
     }
+    /* text: the header is written last, when the route of every goal is known */
+    int n_direct = 0, n_bracket = 0;
     /* the goals, all checked before any is solved: an empty one (",," or a comma at either
      * end) is refused rather than skipped */
     {
@@ -478,7 +492,54 @@ int cli_cmd_size(int argc, char **argv)
             arb_set_arf(g[1], lo);
             arf_clear(lo);
         }
-        for (int part = 0; part < (purified ? 2 : 1); part++) {
+        /* --measure purified: the search on certified enclosures of P itself; where it is
+         * left undecided at a size with bounds only (no value of P there), the bracket
+         * between two searches on K below */
+        int direct = 0;
+        if (purified) {
+            embz_size_result_t r;
+            embz_err_t err;
+            char reason[300];
+            embz_err_clear(&err);
+            embz_size_result_init(r);
+            int status = embz_size_solve_measure(r, fam, g[0], q, EMBZ_MEASURE_PURIFIED,
+                                                 cli_flag(&a, "qubits"), prec, &err);
+            /* found; undecided only where P had a value; not reached on values of P alone */
+            direct = status == EMBZ_OK
+                     && (r->status == EMBZ_SIZE_FOUND
+                         || (r->status == EMBZ_SIZE_UNDECIDED && !r->undecided_bounds)
+                         || (r->status == EMBZ_SIZE_NOT_REACHED && !r->bounds_seen));
+            if (direct) {
+                n_direct++;
+                if (r->status == EMBZ_SIZE_NOT_REACHED && limit_known < 0)
+                    limit_known = embz_family_ebit_limit(limit, fam, 128);
+                /* P >= K: where K never reaches the goal, neither does P */
+                int nev = embz_size_never(r, limit_known > 0, limit, q, g[0]);
+                if (nev) never_words(reason, sizeof(reason), limit, q);
+                if (csv) {
+                    csv_result(&out, fam->name, q->label, "purified", "direct", tok, r, nev);
+                } else if (json) {
+                    embz_buf_printf(&out, "%s", first ? "" : ", ");
+                    json_result(&out, tok, r);
+                    out.len--;   /* reopen the object */
+                    out.s[out.len] = '\0';
+                    embz_buf_printf(&out, ", \"route\": \"enclosures of P\"");
+                    if (nev) {
+                        embz_buf_printf(&out, ", \"never\": true, \"never_reason\": ");
+                        embz_buf_json_string(&out, reason);
+                    }
+                    embz_buf_printf(&out, "}");
+                } else {
+                    embz_buf_printf(&out, "P <= eps decided on certified enclosures of P itself:\n");
+                    text_result(&out, tok, r, nev ? reason : NULL);
+                    embz_buf_printf(&out, "\n");
+                }
+                first = 0;
+            }
+            embz_size_result_clear(r);
+            if (!direct) n_bracket++;
+        }
+        for (int part = 0; part < (purified ? 2 : 1) && !direct; part++) {
             embz_size_result_t r;
             embz_err_t err;
             char reason[300];
@@ -549,6 +610,12 @@ int cli_cmd_size(int argc, char **argv)
         fmpq_clear(e);
     }
     if (json) embz_buf_printf(&out, "]}\n");
+    if (!json && !csv)
+        printf("family     %s\ntarget     %s\nmeasure    %s\n\n", fam->name, q->label,
+               !purified ? "conversion distance K"
+               : n_direct == 0 ? "purified distance P (from bounds on K)"
+               : n_bracket == 0 ? "purified distance P (certified enclosures of P)"
+               : "purified distance P (per goal: certified enclosures of P, else bounds on K)");
     fputs(out.s, stdout);
 done:
     free(goals);
