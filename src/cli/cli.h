@@ -168,6 +168,15 @@ void cli_buf_json_verdicts(embz_buf_t *b, const embz_classify_struct *c);
 void cli_buf_csv_fields(embz_buf_t *b, const char *const *fields, int n);
 /* ",value" with 10 significant digits, or "," alone when x is not finite (not available) */
 void cli_buf_csv_num(embz_buf_t *b, double x);
+/* Figures shared by plot and report (src/cli/compare_report.c): the weight envelopes
+ * x^(-1 -+ eps) (eps_label the text of eps in the legend) on a log-log panel up to 10^LB, with the y range fitted to the weights seen
+ * (ymin, ymax, clipped far below the envelopes); and the optimum OPT_n (exact closed form) at
+ * sizes ns drawn at xs, a dashed grey series 'optimum' (strict: the first failure is returned,
+ * else such sizes are left out). */
+void cli_plot_envelopes(embz_plot_t fig, slong pw, double eps, const char *eps_label,
+                        double LB, double ymin, double ymax);
+int cli_plot_optimum(embz_plot_t fig, slong p, const fmpz *ns, const double *xs, slong len,
+                     const embz_target_t q, int strict, embz_err_t *err);
 /* A note on stderr when a --grid axis was written in the old LO:HI:COUNT form. */
 void cli_note_old_grid(const char *cmd, const char *text, const embz_grid_axis_struct *axis);
 /* ==== shared command helpers ==== end ==== */

@@ -243,29 +243,14 @@ int cli_cmd_plot(int argc, char **argv)
 
     if (optimum) {
         /* OPT_n = 1/psi_d(n), exact at each plotted size (docs/optimal.md) */
-        slong so = embz_plot_add_series(fig, pe, "optimum", EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED,
-                                        EMBZ_PLOT_GREY);
-        embz_optimal_result_t res;
-        arb_t x;
-        arb_init(x);
-        for (slong j = 0; j < ns; j++) {
-            embz_optimal_result_init(res);
-            embz_err_clear(&err);
-            status = embz_optimal_closed(res, sizes + j, q, &err);
-            if (status == EMBZ_OK) {
-                double lo, mid, hi;
-                arb_set_fmpq(x, res->upper, 64);
-                arb_log10_d(&lo, &mid, &hi, x);
-                embz_plot_push(fig, pe, so, fmpz_log10_d(sizes + j), mid, NAN, NAN);
-            }
-            embz_optimal_result_clear(res);
-            if (status != EMBZ_OK) {
-                arb_clear(x);
-                code = cli_report("plot", status, &err);
-                goto done;
-            }
+        double *xs = malloc((size_t) (ns > 0 ? ns : 1) * sizeof(double));
+        for (slong j = 0; j < ns; j++) xs[j] = fmpz_log10_d(sizes + j);
+        status = cli_plot_optimum(fig, pe, sizes, xs, ns, q, 1, &err);
+        free(xs);
+        if (status != EMBZ_OK) {
+            code = cli_report("plot", status, &err);
+            goto done;
         }
-        arb_clear(x);
     }
 
     if (cli_flag(&a, "weights")) {
@@ -312,23 +297,7 @@ int cli_cmd_plot(int argc, char **argv)
             }
             free(label);
         }
-        char l1[64], l2[64];
-        snprintf(l1, sizeof(l1), "x^(-1-%s)", eps_text);
-        snprintf(l2, sizeof(l2), "x^(-1+%s)", eps_text);
-        slong e1 = embz_plot_add_series(fig, pw, l1, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED,
-                                        EMBZ_PLOT_GREY);
-        slong e2 = embz_plot_add_series(fig, pw, l2, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED,
-                                        EMBZ_PLOT_DARK);
-        embz_plot_push(fig, pw, e1, 0, 0, NAN, NAN);
-        embz_plot_push(fig, pw, e1, LB, (-1 - eps) * LB, NAN, NAN);
-        embz_plot_push(fig, pw, e2, 0, 0, NAN, NAN);
-        embz_plot_push(fig, pw, e2, LB, (-1 + eps) * LB, NAN, NAN);
-        /* keep the envelopes readable: weights falling far below them are clipped */
-        double lo_env = (-1 - eps) * LB, floor_y = 3 * lo_env - 1;
-        double y0 = ymin < lo_env ? (ymin > floor_y ? ymin : floor_y) : lo_env;
-        double y1 = ymax > 0 ? ymax : 0;
-        double pad = 0.04 * (y1 - y0 + 1e-9);
-        embz_plot_set_yrange(fig, pw, y0 - pad, y1 + pad);
+        cli_plot_envelopes(fig, pw, eps, eps_text, LB, ymin, ymax);
         arb_clear(w);
         arb_clear(w1);
         fmpz_clear(one);

@@ -42,6 +42,53 @@ static double fmpz_log10_d(const fmpz_t n)
     return d;
 }
 
+void cli_plot_envelopes(embz_plot_t fig, slong pw, double eps, const char *eps_label,
+                        double LB, double ymin, double ymax)
+{
+    char l1[96], l2[96];
+    snprintf(l1, sizeof(l1), "x^(-1-%.60s)", eps_label);
+    snprintf(l2, sizeof(l2), "x^(-1+%.60s)", eps_label);
+    slong e1 = embz_plot_add_series(fig, pw, l1, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED, EMBZ_PLOT_GREY);
+    slong e2 = embz_plot_add_series(fig, pw, l2, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED, EMBZ_PLOT_DARK);
+    embz_plot_push(fig, pw, e1, 0, 0, NAN, NAN);
+    embz_plot_push(fig, pw, e1, LB, (-1 - eps) * LB, NAN, NAN);
+    embz_plot_push(fig, pw, e2, 0, 0, NAN, NAN);
+    embz_plot_push(fig, pw, e2, LB, (-1 + eps) * LB, NAN, NAN);
+    /* weights that fall far below the envelopes are clipped, so the envelopes stay readable */
+    double lo_env = (-1 - eps) * LB, floor_y = 3 * lo_env - 1;
+    double y0 = ymin < lo_env ? (ymin > floor_y ? ymin : floor_y) : lo_env;
+    double y1 = ymax > 0 ? ymax : 0;
+    double pad = 0.04 * (y1 - y0 + 1e-9);
+    embz_plot_set_yrange(fig, pw, y0 - pad, y1 + pad);
+}
+
+int cli_plot_optimum(embz_plot_t fig, slong p, const fmpz *ns, const double *xs, slong len,
+                     const embz_target_t q, int strict, embz_err_t *err)
+{
+    slong s = embz_plot_add_series(fig, p, "optimum", EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED,
+                                   EMBZ_PLOT_GREY);
+    embz_optimal_result_t res;
+    arb_t x;
+    arb_init(x);
+    int st = EMBZ_OK;
+    for (slong j = 0; j < len && st == EMBZ_OK; j++) {
+        embz_optimal_result_init(res);
+        embz_err_clear(err);
+        int sj = embz_optimal_closed(res, ns + j, q, err);
+        if (sj == EMBZ_OK) {
+            double lo, mid, hi;
+            arb_set_fmpq(x, res->upper, 64);
+            arb_log10_d(&lo, &mid, &hi, x);
+            if (isfinite(mid)) embz_plot_push(fig, p, s, xs[j], mid, NAN, NAN);
+        } else if (strict) {
+            st = sj;
+        }
+        embz_optimal_result_clear(res);
+    }
+    arb_clear(x);
+    return st;
+}
+
 static void style_series(embz_plot_t fig, slong panel, slong s, long i)
 {
     fig->panels[panel].series[s].marker = (int) ((i + i / EMBZ_PLOT_NCOLOURS) % 6);
@@ -57,27 +104,20 @@ static void optimum_series(embz_plot_t fig, slong p, const cli_compare_row_t *ro
     for (long i = 0; i < nfam && sw == NULL; i++)
         if (rows[i].d.status == EMBZ_OK) sw = _cli_cmp_target_sweep(rows + i);
     if (sw == NULL) return;
-    slong s = embz_plot_add_series(fig, p, "optimum", EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED,
-                                   EMBZ_PLOT_GREY);
-    embz_optimal_result_t res;
-    embz_err_t err;
-    arb_t x;
-    arb_init(x);
+    fmpz *ns = _fmpz_vec_init(sw->len);
+    double *xs = malloc((size_t) (sw->len > 0 ? sw->len : 1) * sizeof(double));
+    slong m = 0;
     for (slong j = 0; j < sw->len; j++) {
         const embz_sweep_point_struct *pt = sw->pts + j;
         if (!(pt->log_n > 0)) continue;
-        embz_optimal_result_init(res);
-        embz_err_clear(&err);
-        if (embz_optimal_closed(res, pt->n, q, &err) == EMBZ_OK) {
-            double lo, mid, hi;
-            arb_set_fmpq(x, res->upper, 64);
-            arb_log10_d(&lo, &mid, &hi, x);
-            double xx = xmode == 0 ? pt->log_n / log(10.0) : log10(pt->log_n);
-            if (isfinite(mid)) embz_plot_push(fig, p, s, xx, mid, NAN, NAN);
-        }
-        embz_optimal_result_clear(res);
+        fmpz_set(ns + m, pt->n);
+        xs[m++] = xmode == 0 ? pt->log_n / log(10.0) : log10(pt->log_n);
     }
-    arb_clear(x);
+    embz_err_t err;
+    embz_err_clear(&err);
+    cli_plot_optimum(fig, p, ns, xs, m, q, 0, &err);
+    free(xs);
+    _fmpz_vec_clear(ns, sw->len);
 }
 
 /* Error against n (xmode 0) or against ln n (xmode 1), both on log axes, with the fits and,
@@ -176,21 +216,9 @@ static void weights_panel(embz_plot_t fig, const cli_compare_row_t *rows, long n
             ymax = mid > ymax ? mid : ymax;
         }
     }
-    char l1[64], l2[64];
-    snprintf(l1, sizeof(l1), "x^(-1-%g)", o->envelope);
-    snprintf(l2, sizeof(l2), "x^(-1+%g)", o->envelope);
-    slong e1 = embz_plot_add_series(fig, pw, l1, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED, EMBZ_PLOT_GREY);
-    slong e2 = embz_plot_add_series(fig, pw, l2, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED, EMBZ_PLOT_DARK);
-    embz_plot_push(fig, pw, e1, 0, 0, NAN, NAN);
-    embz_plot_push(fig, pw, e1, LB, (-1 - o->envelope) * LB, NAN, NAN);
-    embz_plot_push(fig, pw, e2, 0, 0, NAN, NAN);
-    embz_plot_push(fig, pw, e2, LB, (-1 + o->envelope) * LB, NAN, NAN);
-    /* weights that fall far below the envelopes are clipped, so the envelopes stay readable */
-    double lo_env = (-1 - o->envelope) * LB, floor_y = 3 * lo_env - 1;
-    double y0 = ymin < lo_env ? (ymin > floor_y ? ymin : floor_y) : lo_env;
-    double y1 = ymax > 0 ? ymax : 0;
-    double pad = 0.04 * (y1 - y0 + 1e-9);
-    embz_plot_set_yrange(fig, pw, y0 - pad, y1 + pad);
+    char env[32];
+    snprintf(env, sizeof(env), "%g", o->envelope);
+    cli_plot_envelopes(fig, pw, o->envelope, env, LB, ymin, ymax);
     arb_clear(w);
     arb_clear(w1);
     fmpz_clear(x);
