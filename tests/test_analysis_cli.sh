@@ -27,7 +27,7 @@ assert pts[-1]['n'] == e['n'] and F(e['value_lo']) <= his[-1] and los[-1] <= F(e
 run sweep logpower --from 10^30 --to 10^40 --points 2 --measure fidelity
 expect_rc 0 "sweep --measure fidelity, bounds"
 expect_out "BOUNDS [" "bounds are marked in the measure sweep"
-run sweep inverse --to 10^30 --points 7 --csv
+run sweep inverse --from 10 --to 10^30 --points 7 --csv
 expect_rc 0 "sweep csv"
 pycheck "sweep csv: 7 rows, sizes 10^(1+29j/6) rounded, E decreasing, no progress bar" '
 import csv, sys, math
@@ -118,7 +118,7 @@ assert F(e["error_hi"]) - F(e["error_lo"]) < F(1, 10**30)
 run sweep "1/(i*(2+sin(i)))" --to 10^100 --points 4 --no-fit
 expect_rc 0 "sweep narrowed"
 expect_out "sizes limited to n <= 1000000, the reach of explicit summation" "sweep narrowed: the line"
-run sweep "1/(i*(2+sin(i)))" --to 10^100 --points 4 --no-fit --csv
+run sweep "1/(i*(2+sin(i)))" --from 10 --to 10^100 --points 4 --no-fit --csv
 pycheck "sweep narrowed, csv: 4 computed sizes from 10 to 10^6, a note on stderr" '
 import csv, sys
 rows = list(csv.DictReader(sys.stdin))
