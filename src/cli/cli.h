@@ -272,5 +272,12 @@ int cli_cmd_optimal(int argc, char **argv);
 int cli_cmd_plot(int argc, char **argv);
 int cli_cmd_report(int argc, char **argv);
 int cli_cmd_demo(int argc, char **argv);
+/* embz completion SHELL: the script for the commands' option tables specs[0..nspecs-1]. */
+int cli_cmd_completion(int argc, char **argv, const cli_spec_t *const *specs, long nspecs);
+/* Each command's option table (defined at the end of its cmd_NAME.c). */
+extern const cli_spec_t *const cli_spec_families, *const cli_spec_convert,
+    *const cli_spec_error, *const cli_spec_sweep, *const cli_spec_classify,
+    *const cli_spec_scan, *const cli_spec_size, *const cli_spec_optimal,
+    *const cli_spec_plot, *const cli_spec_report, *const cli_spec_demo;
 
 #endif

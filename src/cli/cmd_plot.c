@@ -328,3 +328,6 @@ done:
     embz_render_release_caches();
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_plot = &plot_spec;

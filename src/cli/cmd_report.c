@@ -360,3 +360,6 @@ done:
     embz_render_release_caches();
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_report = &report_spec;
