@@ -27,7 +27,9 @@ typedef enum {
                             the majorization bracket */
     EMBZ_HOW_BRACKET,    /* analytic, target vector: the majorization bracket alone (the
                             threshold search gave no value: reason) */
-    EMBZ_HOW_LEVELS      /* a level family, level by level (embz/levels.h) */
+    EMBZ_HOW_LEVELS,     /* a level family, level by level (embz/levels.h) */
+    EMBZ_HOW_BLOCKS      /* a weight constant on blocks (i only inside floor and ceil): its
+                            blocks up to n, level by level */
 } embz_how_kind_t;
 
 typedef enum {
@@ -63,7 +65,7 @@ typedef struct {
                                    search */
     embz_how_run_struct upper;  /* GENERAL, BRACKET: the run for the bracket's upper end */
     ulong bracket_lo, bracket_hi;  /* GENERAL, BRACKET: E(uniform:lo) <= E(q) <= E(uniform:hi) */
-    /* EMBZ_HOW_LEVELS */
+    /* EMBZ_HOW_LEVELS, EMBZ_HOW_BLOCKS (levels: the number of blocks) */
     slong levels;        /* number of levels with a non-zero count */
     slong dim_bits;      /* the dimension (sum of the counts) has this many bits */
     int fallback;        /* embz_how_fallback_t */
@@ -304,6 +306,9 @@ int embz_fidelity(embz_fidelity_result_t res, const embz_family_t f, const fmpz_
 
 /* Most levels formed for one size. */
 #define EMBZ_LEVELS_MAX 10000000L
+/* Most blocks of a weight constant on blocks (floor and ceil of i) summed for one size: the
+ * cost is about a hundred evaluations of the weight's floor/ceil arguments per block. */
+#define EMBZ_STEPS_MAX_BLOCKS 1000000L
 
 /* x <- the levels of f at size n (values as balls at prec, counts exact). Errors:
  * EMBZ_ERR_DOMAIN for a count that is not a non-negative integer, a value that is negative or

@@ -160,6 +160,16 @@ double embz_binom_d(double a, double k);
  * x^y needs x > 0, or x >= 0 and y > 0 (negative bases with fractional exponents are
  * DOMAIN errors). An unbound parameter gives EMBZ_ERR_INPUT. */
 int embz_expr_eval_arb(arb_t res, const embz_expr_t e, const arb_t i, const arb_t n, slong prec);
+/* The same for the subtree at node (an index into e->nodes). */
+int embz_expr_eval_arb_node(arb_t res, const embz_expr_t e, long node, const arb_t i,
+                            const arb_t n, slong prec);
+
+/* Step structure: when every occurrence of i lies inside the argument of a floor or ceil,
+ * the value depends on i only through those floor/ceil nodes, so it is constant on every
+ * run of indices where they are. Stores the outermost such nodes (at most max) in nodes and
+ * returns their number: 0 when i does not occur, -1 when i occurs outside every floor and
+ * ceil, max + 1 when there are more than max. */
+slong embz_expr_step_nodes(long *nodes, slong max, const embz_expr_t e);
 
 /* Taylor-mode evaluation: x is a power series (len coefficients) substituted for i; n a ball.
  * res receives len coefficients of the composed series, each a ball. Non-smooth operations
@@ -168,6 +178,9 @@ int embz_expr_eval_arb(arb_t res, const embz_expr_t e, const arb_t i, const arb_
  * otherwise EMBZ_ERR_NONSMOOTH. Domain failures give EMBZ_ERR_DOMAIN. res must not alias x. */
 int embz_expr_eval_series(arb_ptr res, const embz_expr_t e, arb_srcptr x,
                           const arb_t n, slong len, slong prec);
+/* The same for the subtree at node. */
+int embz_expr_eval_series_node(arb_ptr res, const embz_expr_t e, long node, arb_srcptr x,
+                               const arb_t n, slong len, slong prec);
 /* Details: subexpressions not depending on i follow the scalar rules of embz_expr_eval_arb.
  * Integer powers use exact truncated products (negative: inverse series first); other
  * powers, log, sqrt, lgamma need a certainly positive constant term. With len == 1 the

@@ -109,6 +109,7 @@ int embz_eval_prepare(embz_eval_t ev, embz_eval_work_t w, const fmpz_t nmax, emb
     ev->analytic_ok = 1;
     ev->prep_reason[0] = '\0';
     if (embz_family_is_levels(ev->f)) return EMBZ_OK;   /* evaluated level by level */
+    if (_embz_steps_applies(ev->f)) return EMBZ_OK;     /* block by block, at any n */
     if (w->eng == NULL) w->eng = calloc(1, sizeof(eval_work));
     eval_work *ew = w->eng;
     if (!ew->have[0]) {
@@ -170,6 +171,15 @@ static int explicit_at(embz_error_result_t res, const embz_eval_t ev, const fmpz
     return st;
 }
 
+/* A weight constant on blocks, block by block (steps.c). */
+static int blocks_at(embz_error_result_t res, const embz_eval_t ev, const fmpz_t n,
+                     const embz_target_t q, slong wp, embz_err_t *err)
+{
+    int st = _embz_error_steps(res, ev->f, n, q, wp, err);
+    if (st == EMBZ_OK) res->used |= 1 << EMBZ_METHOD_ANALYTIC;
+    return st;
+}
+
 /* One evaluation at precision step s (working precision prec 2^s) under the options. goal
  * (may be NULL) is the decision threshold of the analytic engine, side_goal (may be NULL) the
  * goal whose side is wanted. */
@@ -189,14 +199,21 @@ static int eval_step(embz_error_result_t res, const embz_eval_t ev, embz_eval_wo
         return st;
     }
     if (o->method == EMBZ_METHOD_EXPLICIT) return explicit_at(res, ev, n, q, wp, err);
-    if (o->method == EMBZ_METHOD_ANALYTIC) return analytic_own(res, ev, n, q, goal, wp, err);
+    int steps = _embz_steps_applies(ev->f);
+    if (o->method == EMBZ_METHOD_ANALYTIC)
+        return steps ? blocks_at(res, ev, n, q, wp, err)
+                     : analytic_own(res, ev, n, q, goal, wp, err);
     if (o->method != EMBZ_METHOD_AUTO)
         return embz_err_set(err, EMBZ_ERR_INPUT, "unknown method %d", o->method);
     slong up_to = o->explicit_up_to == 0 ? EMBZ_EVAL_EXPLICIT_UP_TO : o->explicit_up_to;
     if (up_to > 0 && fmpz_cmp_si(n, up_to) <= 0) return explicit_at(res, ev, n, q, wp, err);
 
     int st = EMBZ_ERR_UNSUPPORTED;
-    if (!ev->analytic_ok) {
+    if (steps) {
+        /* a weight constant on blocks: the analytic engine has no Taylor expansion to use,
+         * the blocks are what it is made of */
+        st = blocks_at(res, ev, n, q, wp, err);
+    } else if (!ev->analytic_ok) {
         st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED, "%s", ev->prep_reason);
     } else {
         embz_analytic_struct *a;

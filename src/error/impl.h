@@ -4,6 +4,7 @@
 #define EMBZ_ERROR_IMPL_H
 
 #include "embz/error.h"
+#include "embz/levels.h"
 #include "sum/sum.h"
 
 /* The analytic engine for one family, reusable across sizes: for weights that do not depend on
@@ -421,5 +422,18 @@ int _embz_fmax_analytic(arb_t lo, arb_t hi, mag_t eta, embz_fidelity_how_struct 
 /* E_n(q) of a level family (levels.c); the evaluator's one path for such families. */
 int _embz_error_levels(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
                        const embz_target_t q, slong prec, embz_err_t *err);
+/* E_n(q) of the state with the levels x (values at least prec + 32 bits): K(x -> x (x) q)
+ * level by level, how.kind EMBZ_HOW_LEVELS (levels.c). */
+int _embz_error_of_levels(embz_error_result_t res, const embz_levels_t x,
+                          const embz_target_t q, slong prec, embz_err_t *err);
+
+/* Weights constant on blocks (steps.c): 1 when every i of the weight lies inside a floor or
+ * ceil (at most 8 outermost ones); the blocks up to n as levels (at most max_blocks, <= 0:
+ * EMBZ_STEPS_MAX_BLOCKS); E_n(q) from them (method analytic, how.kind EMBZ_HOW_BLOCKS). */
+int _embz_steps_applies(const embz_family_t f);
+int _embz_steps_levels(embz_levels_t x, const embz_family_t f, const fmpz_t n, slong prec,
+                       slong max_blocks, embz_err_t *err);
+int _embz_error_steps(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
+                      const embz_target_t q, slong prec, embz_err_t *err);
 
 #endif

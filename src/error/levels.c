@@ -6,6 +6,7 @@
 #include <math.h>
 #include "embz/error.h"
 #include "embz/levels.h"
+#include "impl.h"
 
 /* count = binom(n, i) exactly (the counts of tensor powers): then each count follows from the
  * one before, C(n, i + 1) = C(n, i) (n - i) / (i + 1), instead of a binomial of n bits at
@@ -104,14 +105,24 @@ out:
 int _embz_error_levels(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
                        const embz_target_t q, slong prec, embz_err_t *err)
 {
-    embz_levels_t x, y;
-    arb_t W;
+    embz_levels_t x;
     embz_levels_init(x);
+    int st = embz_family_levels(x, f, n, prec + 32, err);
+    if (st == EMBZ_OK) st = _embz_error_of_levels(res, x, q, prec, err);
+    embz_levels_clear(x);
+    return st;
+}
+
+int _embz_error_of_levels(embz_error_result_t res, const embz_levels_t x,
+                          const embz_target_t q, slong prec, embz_err_t *err)
+{
+    embz_levels_t y;
+    arb_t W;
     embz_levels_init(y);
     arb_init(W);
     slong wp = prec + 32;
-    int st = embz_family_levels(x, f, n, wp, err);
-    if (st == EMBZ_OK) {
+    int st = EMBZ_OK;
+    {
         embz_levels_total(W, x, wp);
         if (!arb_is_positive(W))
             st = embz_err_set(err, EMBZ_ERR_DOMAIN, "the levels' total weight is not positive");
@@ -139,7 +150,6 @@ int _embz_error_levels(embz_error_result_t res, const embz_family_t f, const fmp
         fmpz_clear(dim);
     }
     arb_clear(W);
-    embz_levels_clear(x);
     embz_levels_clear(y);
     return st;
 }

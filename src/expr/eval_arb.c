@@ -188,6 +188,13 @@ int _embz_expr_eval_arb_node(arb_t res, const embz_expr_t e, long node, const ar
     return status;
 }
 
+int embz_expr_eval_arb_node(arb_t res, const embz_expr_t e, long node, const arb_t i,
+                            const arb_t n, slong prec)
+{
+    if (node < 0 || node >= e->len) { arb_indeterminate(res); return EMBZ_ERR_INPUT; }
+    return _embz_expr_eval_arb_node(res, e, node, i, n, prec);
+}
+
 int embz_expr_eval_arb(arb_t res, const embz_expr_t e, const arb_t i, const arb_t n, slong prec)
 {
     if (e->root < 0) { arb_indeterminate(res); return EMBZ_ERR_INPUT; }

@@ -210,10 +210,18 @@ static int series_op(arb_ptr r, int op, arb_srcptr a, arb_srcptr b, slong len, s
 int embz_expr_eval_series(arb_ptr res, const embz_expr_t e, arb_srcptr x,
                           const arb_t n, slong len, slong prec)
 {
-    int status = EMBZ_OK;
     if (len <= 0) return EMBZ_OK;
     if (e->root < 0) { _arb_vec_indeterminate(res, len); return EMBZ_ERR_INPUT; }
-    long nn = e->root + 1;
+    return embz_expr_eval_series_node(res, e, e->root, x, n, len, prec);
+}
+
+int embz_expr_eval_series_node(arb_ptr res, const embz_expr_t e, long node, arb_srcptr x,
+                               const arb_t n, slong len, slong prec)
+{
+    int status = EMBZ_OK;
+    if (len <= 0) return EMBZ_OK;
+    if (node < 0 || node >= e->len) { _arb_vec_indeterminate(res, len); return EMBZ_ERR_INPUT; }
+    long nn = node + 1;
     arb_ptr v = _arb_vec_init(nn * len);
     char *dep = calloc((size_t) nn, 1);   /* node depends on i */
     if (dep == NULL) abort();
@@ -242,7 +250,7 @@ int embz_expr_eval_series(arb_ptr res, const embz_expr_t e, arb_srcptr x,
             if (status == EMBZ_OK && !vec_finite(r, len)) status = EMBZ_ERR_DOMAIN;
         }
     }
-    if (status == EMBZ_OK) _arb_vec_set(res, v + e->root * len, len);
+    if (status == EMBZ_OK) _arb_vec_set(res, v + node * len, len);
     else _arb_vec_indeterminate(res, len);
     _arb_vec_clear(v, nn * len);
     free(dep);

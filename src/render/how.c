@@ -62,6 +62,11 @@ static char *main_text(const embz_error_how_struct *h)
             "levels: %ld levels, dimension of %ld bits, Ky Fan norms bounded from the ends of "
             "the level values, arb %ld bits", (long) h->levels, (long) h->dim_bits,
             (long) h->prec);
+    case EMBZ_HOW_BLOCKS:
+        return embz_strdup_printf(
+            "blocks: the weight is constant on %ld blocks of indices up to n (every i inside "
+            "floor or ceil; each block proven constant), then level by level, arb %ld bits",
+            (long) h->levels, (long) h->prec);
     default:
         return embz_strdup_printf("%s", "");
     }
