@@ -223,6 +223,9 @@ char *embz_markdown_escape(const char *text);
  * (embz_sweep_struct.narrowed); NULL when it was not. */
 char *embz_sweep_narrow_text(const embz_sweep_struct *s);
 char *embz_classify_fact_text(const embz_classify_fact_struct *f);
+/* The distance a measure's classification fits (embz_mclassify): "P", "1 - F_max",
+ * "1 - O". */
+const char *embz_mclassify_distance_name(int measure);
 /* How a value was computed (malloc'ed; the caller frees it): the method, its budgets and
  * counts, and the reason behind a fallback or a bracket, in full. */
 char *embz_error_how_text(const embz_error_how_struct *h);
