@@ -240,6 +240,10 @@ typedef enum {
     EMBZ_FACT_M_HARMONIC,         /* weight 1/i, d = k1: 1 - O = C_d(n)/H_n exactly, C_d
                                      convergent; C_d(N) in [s0, s1] at n = s2 (certified),
                                      1 - O ~ C_d / ln n */
+    EMBZ_FACT_M_HARMONIC_P,       /* weight 1/i (fidelity, purified): 1 - F_max <= 1 - O^2 <=
+                                     2 C_2 / H_n, so P <= sqrt(2 C_2 / H_n) at every n; C_2 in
+                                     [s0, s1]; s2 the certified ratio (1 - F_max) / (1 - O^2)
+                                     at the largest size with a value, as "[lo, hi]" */
     EMBZ_FACT_M_AGREE,            /* the fit agrees with the proven verdict */
     EMBZ_FACT_M_DISAGREE          /* the fit (v2, EMBZ_CONVERGE_*) against the proven verdict
                                      v1: the proven one is kept */

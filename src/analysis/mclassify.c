@@ -329,7 +329,41 @@ int embz_mclassify(embz_mclassify_t c, const embz_family_t f, int measure,
         arb_clear(CN);
         proven_verdict = EMBZ_CONVERGE_YES;
         proven = 1;
-    } else if (c->k_verdict != EMBZ_VERDICT_INCONCLUSIVE
+    } else if (last_val >= 0 && weight_is_harmonic(f)) {
+        /* 1 - F_max <= 1 - O^2 (F_max >= O^2) with the overlap's exact law at the same size */
+        const embz_msweep_point_struct *p = c->sweep->pts + last_val;
+        embz_fidelity_result_t ro;
+        embz_err_t eo;
+        embz_err_clear(&eo);
+        embz_fidelity_result_init(ro);
+        embz_target_t q1;
+        embz_target_init(q1);
+        if (embz_fidelity(ro, f, p->n, q1, EMBZ_MEASURE_OVERLAP, EMBZ_METHOD_AUTO, prec, &eo)
+            == EMBZ_OK && !ro->bounds_only) {
+            arb_t CN, r, t;
+            arb_init(CN); arb_init(r); arb_init(t);
+            c->harmonic = 1;
+            harmonic_constant(c->harmonic_c, CN, ro->overlap, p->n, 2, prec);
+            arb_sqr(t, ro->overlap, prec);
+            arb_sub_ui(t, t, 1, prec);
+            arb_neg(t, t);                          /* 1 - O^2 */
+            arb_sub_ui(r, p->res.fidelity, 1, prec);
+            arb_neg(r, r);                          /* 1 - F_max */
+            arb_div(r, r, t, prec);
+            char *lo = embz_arb_lo_string(c->harmonic_c, 12);
+            char *hi = embz_arb_hi_string(c->harmonic_c, 12);
+            char *rlo = embz_arb_lo_string(r, 6), *rhi = embz_arb_hi_string(r, 6);
+            char *rr = embz_strdup_printf("[%s, %s]", rlo, rhi);
+            mfact_sx(c, EMBZ_FACT_M_HARMONIC_P, -1, lo, hi, rr, 0, NULL);
+            free(lo); free(hi); free(rlo); free(rhi); free(rr);
+            arb_clear(CN); arb_clear(r); arb_clear(t);
+        }
+        embz_target_clear(q1);
+        embz_fidelity_result_clear(ro);
+    }
+    if (proven_verdict == EMBZ_CONVERGE_INCONCLUSIVE && !(measure == EMBZ_MEASURE_OVERLAP
+                                                          && c->harmonic)
+        && c->k_verdict != EMBZ_VERDICT_INCONCLUSIVE
                && (measure != EMBZ_MEASURE_OVERLAP
                    || c->k_verdict == EMBZ_VERDICT_NOT_EMBEZZLER)) {
         proven_verdict = c->k_verdict == EMBZ_VERDICT_EMBEZZLER ? EMBZ_CONVERGE_YES
@@ -383,8 +417,12 @@ int embz_mclassify(embz_mclassify_t c, const embz_family_t f, int measure,
         c->limit_lo = 0;
         c->limit_hi = DNhi != NULL ? atof(DNhi) : NAN;
     } else if (c->verdict == EMBZ_CONVERGE_NO && !isfinite(c->limit_lo)) {
-        /* decided by K alone: D_n >= K_n (purified) is all that is known; no fitted limit */
-        c->limit_lo = c->limit_hi = NAN;
+        /* decided by K alone, no fitted limit: P >= K, so (purified) the limit of K is a lower
+           end; 1 - F_max >= K^2; for the overlap only "positive" is known */
+        double kl = c->kc->limit_lo;
+        c->limit_lo = !isfinite(kl) ? NAN : measure == EMBZ_MEASURE_PURIFIED ? kl
+                    : measure == EMBZ_MEASURE_FIDELITY ? kl * kl : NAN;
+        c->limit_hi = NAN;
     }
     free(DNhi);
     return EMBZ_OK;

@@ -127,7 +127,8 @@ static int run_measure(const embz_family_t fam, int measure, const embz_classify
         embz_buf_printf(&b, ", \"estimates_not_certified\": [\"fit_verdict\", \"limit\", "
                         "\"law\", \"exponent\", \"coefficient\"], \"harmonic_law\": ");
         if (c->harmonic) {
-            embz_buf_printf(&b, "{\"d\": 2, \"law\": \"1 - O = C_d(n) / H_n\"");
+            embz_buf_printf(&b, "{\"d\": 2, \"law\": \"%s\"", measure == EMBZ_MEASURE_OVERLAP
+                            ? "1 - O = C_d(n) / H_n" : "1 - F_max <= 2 C_d / H_n");
             cli_buf_json_key_string(&b, "limit_c_lo", hlo);
             cli_buf_json_key_string(&b, "limit_c_hi", hhi);
             embz_buf_printf(&b, "}");
@@ -175,16 +176,25 @@ static int run_measure(const embz_family_t fam, int measure, const embz_classify
         else if (isfinite(c->limit_lo) && isfinite(c->limit_hi))
             embz_buf_printf(&b, "limit      in [%.8g, %.8g]   (estimate)\n", c->limit_lo,
                             c->limit_hi);
+        else if (isfinite(c->limit_lo))
+            embz_buf_printf(&b, "limit      at least %.8g   (%s; estimate)\n", c->limit_lo,
+                            measure == EMBZ_MEASURE_FIDELITY
+                                ? "1 - F_max >= K^2: the square of the K classification's "
+                                  "lower end of the limit of K"
+                                : "P >= K: the K classification's lower end of the limit of K");
         else
-            embz_buf_printf(&b, "limit      not estimated\n");
+            embz_buf_printf(&b, "limit      positive, not estimated\n");
         if (c->law && isfinite(c->coeff) && isfinite(c->exponent) && isfinite(c->exponent_lo)
             && isfinite(c->exponent_hi))
             embz_buf_printf(&b, "law        %s ~ %s, C = %.5g, g = %.5g [%.5g, %.5g]   "
                             "(fitted estimate)\n", dname, embz_law_formula(c->law), c->coeff,
                             c->exponent, c->exponent_lo, c->exponent_hi);
-        if (c->harmonic)
+        if (c->harmonic && measure == EMBZ_MEASURE_OVERLAP)
             embz_buf_printf(&b, "derived    1 - O = C_2(n) / H_n, C_2 in [%s, %s] (certified), "
                             "so 1 - O ~ C_2 / ln n\n", hlo, hhi);
+        else if (c->harmonic)
+            embz_buf_printf(&b, "derived    1 - F_max <= 2 C_2 / H_n, so P <= sqrt(2 C_2 / H_n) "
+                            "(proven), C_2 in [%s, %s] (certified)\n", hlo, hhi);
         embz_buf_printf(&b, "sizes      %ld: %ld with values, %ld with bounds only, %ld failed\n",
                         (long) c->sweep->len, (long) c->nvalues, (long) c->nbounds,
                         (long) c->nfailed);

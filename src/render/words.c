@@ -119,6 +119,10 @@ char *embz_classify_fact_text(const embz_classify_fact_struct *f)
                    "estimate)", embz_mclassify_distance_name(f->v1), law, x[0], x[1], x[2], x[3], x[4], x[5],
                    f->k1, x[6]);
     case EMBZ_FACT_M_FIT_LIMIT:
+        if (f->law <= 0)
+            return embz_strdup_printf("the distance is constant to relative 1e-9 over the fit "
+                       "range, near %.8g: a positive limit, does not converge (fitted "
+                       "estimate)", x[0]);
         return embz_strdup_printf("the best law by BIC, %s, has a positive limit %.4g [%.4g, %.4g] "
                    "(%.4g at the largest size): %s (fitted estimate)", law, x[0], x[1], x[2],
                    x[3], f->k1 ? "does not converge" : "inconclusive, the approach is too slow "
@@ -151,6 +155,12 @@ char *embz_classify_fact_text(const embz_classify_fact_struct *f)
                    "exactly, with C_%ld(n) increasing to a finite limit C_%ld in [%s, %s] "
                    "(certified from n = %s); so O converges (proven) and 1 - O ~ C_%ld / ln n",
                    f->k1, f->k1, f->k1, f->k1, txt(f->s[0]), txt(f->s[1]), txt(f->s[2]), f->k1);
+    case EMBZ_FACT_M_HARMONIC_P:
+        return embz_strdup_printf("law (derived for the weight 1/i, one ebit): F_max >= O^2 and 1 - O = "
+                   "C_2(n) / H_n give 1 - F_max <= 2 C_2 / H_n, so P <= sqrt(2 C_2 / H_n) at "
+                   "every n (proven, order (ln n)^-1/2), with C_2 in [%s, %s]; P >= K = E_n, "
+                   "about ln 2 / ln n (proven). Certified (1 - F_max) / (1 - O^2) = %s at the "
+                   "largest size with a value", txt(f->s[0]), txt(f->s[1]), txt(f->s[2]));
     case EMBZ_FACT_M_AGREE:
         return embz_strdup_printf("the fit agrees");
     case EMBZ_FACT_M_DISAGREE:
