@@ -245,8 +245,9 @@ typedef enum {
                                      [s0, s1]; s2 the certified ratio (1 - F_max) / (1 - O^2)
                                      at the largest size with a value, as "[lo, hi]" */
     EMBZ_FACT_M_AGREE,            /* the fit agrees with the proven verdict */
-    EMBZ_FACT_M_DISAGREE          /* the fit (v2, EMBZ_CONVERGE_*) against the proven verdict
-                                     v1: the proven one is kept */
+    EMBZ_FACT_M_DISAGREE          /* the fit (v2, EMBZ_CONVERGE_*) against the verdict v1 from
+                                     K (k1: proven, kept; else inconclusive); k2: against K's
+                                     fitted positive limit (K inconclusive) */
 } embz_fact_t;
 
 typedef struct {
@@ -326,6 +327,9 @@ typedef struct {
     int k_verdict;               /* EMBZ_VERDICT_* of the K classification (one ebit) */
     int k_by_criterion;          /* that verdict rests on the analytic route's criterion */
     slong nvalues, nbounds, nfailed;   /* sizes with a value, with bounds only, failed */
+    int narrowed;                /* the engine declined the large sizes (fewer than 5 sizes
+                                    had a result): the measure was swept up to
+                                    EMBZ_FIDELITY_MAX_N instead (fact EMBZ_FACT_NARROWED) */
     int law;                     /* fitted law of D (EMBZ_LAW_*), an estimate */
     double exponent, exponent_lo, exponent_hi, coeff;
     double limit_lo, limit_hi;   /* limit of D: [0, certified D at the largest size] when
@@ -347,7 +351,8 @@ void embz_mclassify_init(embz_mclassify_t c);
 void embz_mclassify_clear(embz_mclassify_t c);
 
 /* The measure's classification for one ebit over the sizes of o (embz_classify_opts_t): the
- * sweep of the measure (embz_msweep_run), fits of D over the sizes with values (bounds-only
+ * sweep of the measure (embz_msweep_run; over [from, EMBZ_FIDELITY_MAX_N] instead when the
+ * analytic engine declines the large sizes and fewer than 5 have a result), fits of D over the sizes with values (bounds-only
  * sizes are reported, never fitted), the K classification embz_classify(f, o), and the
  * derived law for the weight 1/i (overlap). Verdict: for fidelity and purified, P -> 0
  * exactly when K -> 0 (K <= P <= sqrt(K (2 - K))), so a definite K verdict decides it; for the

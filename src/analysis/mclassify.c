@@ -218,8 +218,35 @@ int embz_mclassify(embz_mclassify_t c, const embz_family_t f, int measure,
     embz_target_init(q);
     int st = embz_msweep_run(c->sweep, f, o->from, o->to, o->points, q, measure, prec,
                              progress, ctx, err);
+    /* the analytic engine declined the family at large sizes (not a value and not bounds):
+       sweep the explicit range instead, as the K sweep narrows its range, and say so */
+    char narrow_why[256] = "";
+    fmpz_t reach;
+    fmpz_init_set_si(reach, EMBZ_FIDELITY_MAX_N);
+    if (st == EMBZ_OK && fmpz_cmp(o->to, reach) > 0 && fmpz_cmp(o->from, reach) < 0) {
+        slong good = 0, declined = 0;
+        for (slong j = 0; j < c->sweep->len; j++) {
+            const embz_msweep_point_struct *p = c->sweep->pts + j;
+            if (p->status == EMBZ_OK) good++;
+            else if (p->status != EMBZ_ERR_DOMAIN && fmpz_cmp(p->n, reach) > 0) {
+                if (!declined) snprintf(narrow_why, sizeof(narrow_why), "%s", p->note);
+                declined++;
+            }
+        }
+        if (good < 5 && declined > 0) {
+            st = embz_msweep_run(c->sweep, f, o->from, reach, o->points, q, measure, prec,
+                                 progress, ctx, err);
+            c->narrowed = 1;
+        }
+    }
+    fmpz_clear(reach);
     embz_target_clear(q);
     if (st != EMBZ_OK) return st;
+    if (c->narrowed) {
+        embz_classify_fact_struct *fn = mfact_sx(c, EMBZ_FACT_NARROWED, -1, narrow_why, NULL,
+                                                 NULL, 0, NULL);
+        if (fn != NULL) fn->k1 = (long) EMBZ_FIDELITY_MAX_N;
+    }
     st = embz_classify(c->kc, f, o, NULL, NULL, err);
     if (st != EMBZ_OK) return st;
     c->k_verdict = c->kc->verdict;
@@ -376,6 +403,16 @@ int embz_mclassify(embz_mclassify_t c, const embz_family_t f, int measure,
             fk->k1 = c->k_by_criterion;
             fk->k2 = measure == EMBZ_MEASURE_OVERLAP;
         }
+    } else if (c->k_verdict == EMBZ_VERDICT_INCONCLUSIVE) {
+        /* K undecided: its fitted limit (an estimate) is a lower end for P's (P >= K) */
+        double x[2] = { c->kc->limit_lo, c->kc->limit_hi };
+        embz_classify_fact_struct *fk = mfact_sx(c, EMBZ_FACT_M_BY_K, -1, NULL, NULL, NULL, 2,
+                                                 x);
+        if (fk != NULL) {
+            fk->v1 = EMBZ_CONVERGE_INCONCLUSIVE;
+            fk->v2 = c->k_verdict;
+            fk->k2 = measure == EMBZ_MEASURE_OVERLAP;
+        }
     } else if (measure == EMBZ_MEASURE_OVERLAP && c->k_verdict == EMBZ_VERDICT_EMBEZZLER) {
         /* K -> 0 does not decide the overlap: O^2 <= F_max only bounds it from above */
         embz_classify_fact_struct *fk = mfact(c, EMBZ_FACT_M_BY_K);
@@ -406,14 +443,16 @@ int embz_mclassify(embz_mclassify_t c, const embz_family_t f, int measure,
             if (fd != NULL) { fd->v1 = proven_verdict; fd->v2 = c->fit_verdict; fd->k1 = proven; }
             if (!proven) c->verdict = EMBZ_CONVERGE_INCONCLUSIVE;
         }
+    } else if (c->fit_verdict == EMBZ_CONVERGE_YES && c->k_verdict == EMBZ_VERDICT_INCONCLUSIVE
+               && measure != EMBZ_MEASURE_OVERLAP && c->kc->limit_lo > 0) {
+        /* two estimates at odds: P >= K, and K's fit has a positive limit */
+        c->verdict = EMBZ_CONVERGE_INCONCLUSIVE;
+        embz_classify_fact_struct *fd = mfact(c, EMBZ_FACT_M_DISAGREE);
+        if (fd != NULL) { fd->v1 = EMBZ_CONVERGE_NO; fd->v2 = c->fit_verdict; fd->k2 = 1; }
     } else {
         c->verdict = c->fit_verdict;
     }
     if (c->verdict == EMBZ_CONVERGE_YES) {
-        c->limit_lo = 0;
-        c->limit_hi = DNhi != NULL ? atof(DNhi) : NAN;
-    } else if (c->verdict == EMBZ_CONVERGE_INCONCLUSIVE && c->fit_verdict
-               == EMBZ_CONVERGE_INCONCLUSIVE && !isfinite(c->limit_lo)) {
         c->limit_lo = 0;
         c->limit_hi = DNhi != NULL ? atof(DNhi) : NAN;
     } else if (c->verdict == EMBZ_CONVERGE_NO && !isfinite(c->limit_lo)) {

@@ -166,7 +166,7 @@ static int run_measure(const embz_family_t fam, int measure, const embz_classify
         embz_buf_printf(&b, "family     %s\nweight     %s\n", fam->name, fam->weight_text);
         embz_buf_printf(&b, "measure    %s   (distance %s, one ebit)\n", mname, dname);
         embz_buf_printf(&b, "verdict    %s   (%s)\n", embz_converge_id(c->verdict),
-                        c->verdict == EMBZ_CONVERGE_INCONCLUSIVE ? "neither proven nor fitted"
+                        c->verdict == EMBZ_CONVERGE_INCONCLUSIVE ? "see the reasons"
                                                                  : how);
         embz_buf_printf(&b, "K verdict  %s   (%s)\n", embz_verdict_id(c->k_verdict),
                         c->k_by_criterion ? "analytic criterion" : "numeric estimate");
@@ -182,8 +182,10 @@ static int run_measure(const embz_family_t fam, int measure, const embz_classify
                                 ? "1 - F_max >= K^2: the square of the K classification's "
                                   "lower end of the limit of K"
                                 : "P >= K: the K classification's lower end of the limit of K");
-        else
+        else if (c->verdict == EMBZ_CONVERGE_NO)
             embz_buf_printf(&b, "limit      positive, not estimated\n");
+        else
+            embz_buf_printf(&b, "limit      not estimated\n");
         if (c->law && isfinite(c->coeff) && isfinite(c->exponent) && isfinite(c->exponent_lo)
             && isfinite(c->exponent_hi))
             embz_buf_printf(&b, "law        %s ~ %s, C = %.5g, g = %.5g [%.5g, %.5g]   "

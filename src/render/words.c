@@ -132,6 +132,10 @@ char *embz_classify_fact_text(const embz_classify_fact_struct *f)
                    "g = %.3g [%.3g, %.3g]) and no positive limit resolved: the fit is "
                    "inconclusive", law, x[0], x[1], x[2]);
     case EMBZ_FACT_M_BY_K:
+        if (f->v2 == EMBZ_VERDICT_INCONCLUSIVE)
+            return embz_strdup_printf("K classification: inconclusive (its limit estimated in "
+                       "[%.4g, %.4g]); %s, so the verdict rests on the fit of the measure "
+                       "alone", x[0], x[1], f->k2 ? "O^2 <= 1 - K^2" : "P >= K");
         if (f->k2 && f->v1 == EMBZ_CONVERGE_INCONCLUSIVE)
             return embz_strdup_printf("K classification: %s%s; O^2 <= F_max only bounds the overlap "
                        "from above, so this does not decide it", embz_verdict_id(f->v2),
@@ -164,6 +168,9 @@ char *embz_classify_fact_text(const embz_classify_fact_struct *f)
     case EMBZ_FACT_M_AGREE:
         return embz_strdup_printf("the fit agrees");
     case EMBZ_FACT_M_DISAGREE:
+        if (f->k2)
+            return embz_strdup_printf("the fit says %s, but K's fitted limit is positive and P >= K: "
+                       "the estimates disagree, inconclusive", embz_converge_id(f->v2));
         return embz_strdup_printf("the fit says %s against %s%s", embz_converge_id(f->v2),
                    embz_converge_id(f->v1), f->k1 ? " (proven; kept)" : ": inconclusive");
     default:
