@@ -52,6 +52,9 @@ slong embz_plot_ticks(embz_plot_tick_t *ticks, double lo, double hi, int logscal
 #define EMBZ_PLOT_LINE 2     /* a polyline through the points (NaN y breaks it) */
 #define EMBZ_PLOT_DASHED 4   /* dashed line */
 #define EMBZ_PLOT_BAND 8     /* lo/hi drawn as a shaded band (else as error bars) */
+#define EMBZ_PLOT_INTERVALS 16 /* lo/hi drawn as a vertical interval with caps at every point,
+                                however short; y may be NaN (bounds, no value), and the
+                                intervals count for the axis range */
 
 typedef struct {
     char *label;             /* legend text; NULL or "" keeps it out of the legend */
