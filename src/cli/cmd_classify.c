@@ -13,7 +13,7 @@ static const cli_opt_t classify_opts[] = {
     CLI_OPT_AMPLITUDE,
     { "numeric-only", 0, CLI_FLAG, NULL, "skip the analytic (asymptotic expansion) route" },
     { "measure", 0, CLI_VALUE, "M",
-      "k (default), or fidelity, purified, overlap: does that measure converge, how fast" },
+      "k (default), or fidelity, purified, overlap: does it converge, how fast" },
     CLI_OPT_JSON,
     { "csv", 0, CLI_FLAG, NULL, "print a CSV header line and one row (the reasons joined by '; ')" },
     CLI_OPT_END
