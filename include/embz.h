@@ -12,6 +12,7 @@
 #include "embz/error.h"
 #include "embz/fidelity.h"
 #include "embz/util.h"
+#include "embz/defaults.h"
 #include "embz/analysis.h"
 #include "embz/render.h"
 #include "embz/asym.h"

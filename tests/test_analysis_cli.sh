@@ -73,7 +73,7 @@ run classify geometric --measure fidelity --to 10^40 --points 6
 expect_rc 0 "classify --measure fidelity of a summable weight"
 expect_out "verdict    does_not_converge" "F_max stays away from 1 when K stays away from 0"
 
-run sweep inverse --to 10^30 --points 7 --csv
+run sweep inverse --from 10 --to 10^30 --points 7 --csv
 expect_rc 0 "sweep csv"
 pycheck "sweep csv: 7 rows, sizes 10^(1+29j/6) rounded, E decreasing, no progress bar" '
 import csv, sys, math
@@ -164,7 +164,7 @@ assert F(e["error_hi"]) - F(e["error_lo"]) < F(1, 10**30)
 run sweep "1/(i*(2+sin(i)))" --to 10^100 --points 4 --no-fit
 expect_rc 0 "sweep narrowed"
 expect_out "sizes limited to n <= 1000000, the reach of explicit summation" "sweep narrowed: the line"
-run sweep "1/(i*(2+sin(i)))" --to 10^100 --points 4 --no-fit --csv
+run sweep "1/(i*(2+sin(i)))" --from 10 --to 10^100 --points 4 --no-fit --csv
 pycheck "sweep narrowed, csv: 4 computed sizes from 10 to 10^6, a note on stderr" '
 import csv, sys
 rows = list(csv.DictReader(sys.stdin))

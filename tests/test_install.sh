@@ -38,6 +38,7 @@ done
 [ -n "$(find "$D/root" -name 'libembz.so*' | head -1)" ] || { echo "FAIL no shared library"; fail=1; }
 [ -n "$(find "$D/root" -name 'libembz.a' | head -1)" ] || { echo "FAIL no static library"; fail=1; }
 [ -n "$(find "$D/root" -name 'embz.1*' | head -1)" ] || { echo "FAIL no man page"; fail=1; }
+[ -n "$(find "$D/root" -path '*bash-completion/completions/embz' | head -1)" ] || { echo "FAIL no bash completion"; fail=1; }
 [ -n "$(find "$D/root" -path '*embz/families/inverse.fam' | head -1)" ] || { echo "FAIL no family library"; fail=1; }
 flags=$(PKG_CONFIG_PATH="$D/pc" pkg-config --cflags --libs embz) || { echo "FAIL pkg-config"; exit 1; }
 case "$flags" in *"$BUILD"*|*"$SRC"*) echo "FAIL pkg-config points into the build or source tree: $flags"; fail=1;; esac

@@ -8,7 +8,7 @@ source "$(dirname "$0")/common.sh"
 D=$TMP/d
 mkdir "$D"
 # a small report: well under a second
-R=(inverse --from 10 --to 10^4 --points 5 --sizes 1000 --eps 0.1 -q)
+R=(inverse --from 10 --to 10^4 --points 5 -n 1000 --eps 0.1 -q)
 P=(inverse --to 1000 --points 3)
 
 expect() {  # expect DESCRIPTION COMMAND...: the command must succeed
@@ -189,7 +189,7 @@ PY
 mkdir "$D/sig"
 for s in INT TERM; do
     if $PY "$TMP/interrupt.py" "$D/sig" $s "$D/sig/r.pdf" 8 \
-           "$EMBZ" report inverse geometric --from 10 --to 10^4 --points 5 --sizes 1000 \
+           "$EMBZ" report inverse geometric --from 10 --to 10^4 --points 5 -n 1000 \
            --eps 0.1 -j 2 -q -o "$D/sig/r.pdf"; then ok; else fail "SIG$s during report"; fi
 done
 if $PY "$TMP/interrupt.py" "$D/sig" INT "$D/sig/d.pdf" 3 "$EMBZ" demo -q -o "$D/sig/d.pdf"; then

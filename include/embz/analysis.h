@@ -289,10 +289,11 @@ void embz_classify_clear(embz_classify_t c);
 
 /* Options of a classification. */
 typedef struct {
-    fmpz_t from, to;             /* sweep range (default 10^2 .. 10^120) */
+    fmpz_t from, to;             /* sweep range (default 10^2 .. 10^120, embz/defaults.h) */
     slong points;                /* default 16 */
     slong prec;                  /* default 64 */
     int use_analytic;            /* 1: also run the asymptotic route when it applies */
+    int threads;                 /* sizes of the sweep at a time (<= 0: every OpenMP thread) */
 } embz_classify_opts_struct;
 typedef embz_classify_opts_struct embz_classify_opts_t[1];
 

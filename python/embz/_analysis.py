@@ -141,11 +141,12 @@ class Sweep:
                 "</caption>%s</table>" % (html.escape(best), fits))
 
 
-def sweep(family, start=10, stop=10 ** 300, points=24, target=None, *, prec=None, digits=None,
+def sweep(family, start=None, stop=None, points=None, target=None, *, prec=None, digits=None,
           seconds=None, cancel=None, threads=None, amplitude=False, params=None,
           **parameters):
-    """E_n(q) at ``points`` log-spaced sizes from start to stop (the sweep policy of
-    ``embz sweep``: precision 64 bits by default, retried at higher precision when too few
+    """E_n(q) at ``points`` log-spaced sizes from start to stop (the defaults of every sweep:
+    16 sizes from 10^2 to 10^120; the sweep policy of ``embz sweep``: precision 64 bits by
+    default, retried at higher precision when too few
     digits are certified) and the fitted decay laws: a :class:`Sweep`. ``threads`` sizes are
     computed at a time (default 1). A family the analytic engine cannot take is swept up to
     the reach of explicit summation instead (``Sweep.narrowed_to``). It can be stopped by
@@ -154,7 +155,7 @@ def sweep(family, start=10, stop=10 ** 300, points=24, target=None, *, prec=None
     q = as_target(target)
     a, b = _opt_size(start), _opt_size(stop)
     o = make_opts(prec=prec, digits=digits, seconds=seconds, threads=threads)
-    rows = call_table(lambda out, e: lib.embz_flat_sweep(out, fam._h, a, b, int(points), q._h,
+    rows = call_table(lambda out, e: lib.embz_flat_sweep(out, fam._h, a, b, int(points or 0), q._h,
                                                          o, e), o, cancel)
     return Sweep(rows, fam.label, q.label)
 

@@ -7,6 +7,7 @@
 #include <math.h>
 #include "embz/analysis.h"
 #include "embz/util.h"
+#include "embz/defaults.h"
 #include "classify_impl.h"
 
 /* ANALYTIC ROUTE HOOK: set to 0 to build the numeric route alone (without the asymptotic
@@ -26,11 +27,11 @@ void embz_classify_opts_init(embz_classify_opts_t o)
 {
     fmpz_init(o->from);
     fmpz_init(o->to);
-    fmpz_set_ui(o->from, 100);
-    fmpz_ui_pow_ui(o->to, 10, 120);
-    o->points = 16;
-    o->prec = 64;
+    embz_default_range(o->from, o->to);
+    o->points = EMBZ_RANGE_POINTS;
+    o->prec = EMBZ_PREC_MANY;
     o->use_analytic = 1;
+    o->threads = 0;
 }
 
 void embz_classify_opts_clear(embz_classify_opts_t o)
@@ -88,8 +89,11 @@ static int numeric_route(embz_classify_t c, const embz_family_t f, const embz_cl
 {
     embz_target_t q;
     embz_target_init(q);
-    int st = embz_sweep_run(c->sweep, f, o->from, o->to, o->points, q, o->prec, progress, ctx,
-                            err);
+    embz_sweep_opts_t so;
+    embz_sweep_opts_init(so);
+    so->threads = o->threads;
+    int st = embz_sweep_run_opts(c->sweep, f, o->from, o->to, o->points, q, so, o->prec,
+                                 progress, ctx, err);
     embz_target_clear(q);
     c->numeric_verdict = EMBZ_VERDICT_INCONCLUSIVE;
     if (st != EMBZ_OK) return st;

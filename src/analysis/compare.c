@@ -8,6 +8,7 @@
 #endif
 #include "embz/compare.h"
 #include "embz/asym.h"
+#include "embz/defaults.h"
 
 static double now_s(void)
 {
@@ -28,11 +29,11 @@ int embz_threads_available(void)
 void embz_compare_opts_init(embz_compare_opts_t o)
 {
     memset(o, 0, sizeof(*o));
-    fmpz_init_set_ui(o->from, 100);
+    fmpz_init(o->from);
     fmpz_init(o->to);
-    fmpz_ui_pow_ui(o->to, 10, 60);
-    o->points = 12;
-    o->prec = 64;
+    embz_default_range(o->from, o->to);
+    o->points = EMBZ_RANGE_POINTS;
+    o->prec = EMBZ_PREC_MANY;
     o->threads = 1;
 }
 

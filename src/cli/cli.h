@@ -105,6 +105,22 @@ int cli_load_prec(long *prec, const cli_args_t *a, const cli_spec_t *spec);
                             "the expression gives amplitudes; weights are squares" }
 #define CLI_OPT_JSON { "json", 0, CLI_FLAG, NULL, "print one JSON object" }
 #define CLI_OPT_END { NULL, 0, 0, NULL, NULL }
+/* The rows behind the shared defaults of embz/defaults.h (docs/cli.md, "Defaults"): every
+ * command that has the option shows the same line. */
+#define CLI_STR_(x) #x
+#define CLI_STR(x) CLI_STR_(x)
+#define CLI_OPT_PREC_ONE(MORE) { "prec", 'p', CLI_VALUE, "BITS", \
+    "working precision in bits (default " CLI_STR(EMBZ_PREC_ONE) MORE ")" }
+#define CLI_OPT_PREC_MANY { "prec", 'p', CLI_VALUE, "BITS", \
+    "working precision in bits, per size (default " CLI_STR(EMBZ_PREC_MANY) ")" }
+#define CLI_OPT_FROM { "from", 0, CLI_VALUE, "A", \
+    "smallest size of the sweep (default " CLI_STR(EMBZ_RANGE_FROM) ")" }
+#define CLI_OPT_TO { "to", 0, CLI_VALUE, "B", \
+    "largest size of the sweep (default 10^" CLI_STR(EMBZ_RANGE_TO_EXP10) ")" }
+#define CLI_OPT_POINTS { "points", 'k', CLI_VALUE, "K", \
+    "number of log-spaced sizes (default " CLI_STR(EMBZ_RANGE_POINTS) ")" }
+#define CLI_OPT_THREADS(WHAT) { "threads", 'j', CLI_VALUE, "T", \
+    WHAT " at a time (default: every processor; 1 to " CLI_STR(EMBZ_THREADS_MAX) ")" }
 
 /* cli_parse for a command's main: 1 when the command goes on (*code = CLI_EXIT_OK), 0 when
  * it returns *code at once (0 after --help, CLI_EXIT_USAGE after a usage error; a is then
@@ -121,6 +137,9 @@ typedef struct {
 int cli_settings_load(cli_settings_t *s, const cli_args_t *a, const char *cmd);
 void cli_settings_clear(cli_settings_t *s);
 /* --prec in [16, max_bits] (unchanged when absent); usage error on a bad value, else 0. */
+/* The -j option: every processor (embz_threads_available) when absent, else 1 to
+ * EMBZ_THREADS_MAX; usage error on a bad value, 0 on success. */
+int cli_load_threads(int *threads, const cli_args_t *a, const cli_spec_t *spec);
 int cli_load_prec_upto(long *prec, const cli_args_t *a, const cli_spec_t *spec,
                        long max_bits);
 /* n <- the size written in text (any form embz_size_parse takes, n >= 1); a bad one is a
@@ -253,5 +272,12 @@ int cli_cmd_optimal(int argc, char **argv);
 int cli_cmd_plot(int argc, char **argv);
 int cli_cmd_report(int argc, char **argv);
 int cli_cmd_demo(int argc, char **argv);
+/* embz completion SHELL: the script for the commands' option tables specs[0..nspecs-1]. */
+int cli_cmd_completion(int argc, char **argv, const cli_spec_t *const *specs, long nspecs);
+/* Each command's option table (defined at the end of its cmd_NAME.c). */
+extern const cli_spec_t *const cli_spec_families, *const cli_spec_convert,
+    *const cli_spec_error, *const cli_spec_sweep, *const cli_spec_classify,
+    *const cli_spec_scan, *const cli_spec_size, *const cli_spec_optimal,
+    *const cli_spec_plot, *const cli_spec_report, *const cli_spec_demo;
 
 #endif

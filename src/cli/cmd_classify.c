@@ -5,10 +5,11 @@
 #include "cli.h"
 
 static const cli_opt_t classify_opts[] = {
-    { "from", 0, CLI_VALUE, "A", "smallest size of the sweep (default 100)" },
-    { "to", 0, CLI_VALUE, "B", "largest size of the sweep (default 10^120)" },
-    { "points", 'k', CLI_VALUE, "K", "number of log-spaced sizes (default 16)" },
-    { "prec", 'p', CLI_VALUE, "BITS", "working precision of the ball arithmetic (default 64)" },
+    CLI_OPT_FROM,
+    CLI_OPT_TO,
+    CLI_OPT_POINTS,
+    CLI_OPT_PREC_MANY,
+    CLI_OPT_THREADS("sizes"),
     CLI_OPT_SET,
     CLI_OPT_AMPLITUDE,
     { "numeric-only", 0, CLI_FLAG, NULL, "skip the analytic (asymptotic expansion) route" },
@@ -225,7 +226,7 @@ int cli_cmd_classify(int argc, char **argv)
     embz_family_t fam;
     embz_classify_t c;
     embz_classify_opts_t o;
-    long prec = 64, points = 16;
+    long prec = EMBZ_PREC_MANY, points = EMBZ_RANGE_POINTS;
 
     embz_family_init(fam);
     embz_classify_init(c);
@@ -237,6 +238,7 @@ int cli_cmd_classify(int argc, char **argv)
         goto done;
     }
     if ((code = cli_load_prec_upto(&prec, &a, &classify_spec, 1L << 16)) != 0
+        || (code = cli_load_threads(&o->threads, &a, &classify_spec)) != 0
         || (code = cli_load_range(o->from, o->to, &points, 5, 100000, &a, &classify_spec)) != 0
         || (code = cli_load_family(fam, &a, a.pos[0], "classify")) != 0)
         goto done;
@@ -405,3 +407,6 @@ done:
     cli_args_clear(&a);
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_classify = &classify_spec;

@@ -9,7 +9,7 @@
 static const cli_opt_t demo_opts[] = {
     { "output", 'o', CLI_VALUE, "FILE", "the report (default embz-demo.html; - for stdout)" },
     { "format", 'f', CLI_VALUE, "F", "html, md, tex or pdf (default: from the extension of FILE)" },
-    { "threads", 'j', CLI_VALUE, "T", "families computed at once (default: the processors)" },
+    CLI_OPT_THREADS("families"),
     { "quiet", 'q', CLI_FLAG, NULL, "no progress lines on stderr" },
     { NULL, 0, 0, NULL, NULL }
 };
@@ -70,7 +70,6 @@ int cli_cmd_demo(int argc, char **argv)
     cli_compare_opts_t o;
     cli_compare_opts_init(&o);
     o.cmd = "demo";
-    o.threads = embz_threads_available();
     static const char *const goals[] = { "1e-3" };
     static const char *const size_text[] = { "10^30", "10^100" };
     fmpz sizes[2];
@@ -84,8 +83,8 @@ int cli_cmd_demo(int argc, char **argv)
     o.sizes = sizes;
     o.size_text = size_text;
     o.target_text = "ebits:2";
-    o.points = 10;
-    o.prec = 64;
+    o.points = 10;                 /* the scenario's sweeps (docs/report.md), not the defaults */
+    o.prec = EMBZ_PREC_MANY;
     fmpz_set_ui(o.from, 100);
     fmpz_ui_pow_ui(o.to, 10, 60);
 
@@ -95,7 +94,6 @@ int cli_cmd_demo(int argc, char **argv)
     embz_report_t rep;
     embz_plot_struct figs[2];
     int nfigs = 0;
-    const char *t;
     for (long i = 0; i < NDEMO; i++) embz_family_init(fam + i);
     embz_report_init(rep, "Embezzling two ebits at error 1e-3: which family is cheapest?");
 
@@ -117,14 +115,7 @@ int cli_cmd_demo(int argc, char **argv)
                                                 "embz-demo.tex", "embz-demo.pdf" };
     if (out == NULL) out = default_out[format];
     if ((code = cli_check_output(out, "demo")) != 0) goto done;
-    if ((t = cli_value(&a, "threads")) != NULL) {
-        long th;
-        if (cli_parse_long(&th, t, 1, 256)) {
-            code = cli_usage_error(&demo_spec, "bad number of threads '%s' (1 to 256)", t);
-            goto done;
-        }
-        o.threads = (int) th;
-    }
+    if ((code = cli_load_threads(&o.threads, &a, &demo_spec)) != 0) goto done;
     if ((code = cli_compare_load(fam, NDEMO, demo_families, &a, &demo_spec)) != 0) goto done;
 
     o.progress = !cli_flag(&a, "quiet") && isatty(fileno(stderr));
@@ -204,3 +195,6 @@ done:
     embz_render_release_caches();
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_demo = &demo_spec;

@@ -8,7 +8,7 @@ static const cli_opt_t error_opts[] = {
     { "size", 'n', CLI_VALUE, "N", "size n of the state: 1000, 1e6, 10^6, 2^20 (required)" },
     { "target", 't', CLI_VALUE, "T",
       "target state: ebit (default), ebits:J, uniform:D, or a list/file of numbers" },
-    { "prec", 'p', CLI_VALUE, "BITS", "working precision of the ball arithmetic (default 128; more bits show more certified digits)" },
+    CLI_OPT_PREC_ONE("; more bits show more certified digits"),
     { "method", 'm', CLI_VALUE, "M", "auto (default), explicit or analytic" },
     { "measure", 0, CLI_VALUE, "M",
       "k (default: the distance K), fidelity, purified or overlap" },
@@ -42,7 +42,7 @@ static const cli_spec_t error_spec = {
     error_opts, 1, 1
 };
 
-#define DEFAULT_PREC 128
+#define DEFAULT_PREC EMBZ_PREC_ONE
 #define JSON_DIGITS_DEFAULT 45
 #define TABLE_DIGITS 20
 #define CERT_DIGITS_DEFAULT 30
@@ -574,3 +574,6 @@ done:
     cli_args_clear(&a);
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_error = &error_spec;

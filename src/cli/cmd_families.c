@@ -5,6 +5,7 @@
 
 static const cli_opt_t families_opts[] = {
     { "json", 0, CLI_FLAG, NULL, "print a JSON array instead of the table" },
+    { "names", 0, CLI_FLAG, NULL, "print only the names, one per line (for scripts)" },
     CLI_OPT_END
 };
 
@@ -34,8 +35,9 @@ int cli_cmd_families(int argc, char **argv)
     cli_args_t a;
     int pr;
     if (!cli_begin(&a, &families_spec, argc, argv, &pr)) return pr;
-    int json = cli_flag(&a, "json");
+    int json = cli_flag(&a, "json"), names = cli_flag(&a, "names");
     cli_args_clear(&a);
+    if (json && names) return cli_usage_error(&families_spec, "--json and --names exclude each other");
 
     char **paths = NULL;
     long count = 0;
@@ -59,7 +61,10 @@ int cli_cmd_families(int argc, char **argv)
 
     embz_buf_t out;
     embz_buf_init(&out);
-    if (json) {
+    if (names) {
+        for (long k = 0; k < count; k++)
+            if (ok[k]) embz_buf_printf(&out, "%s\n", fams[k]->name);
+    } else if (json) {
         embz_buf_printf(&out, "[");
         int first = 1;
         for (long k = 0; k < count; k++) {
@@ -122,3 +127,6 @@ int cli_cmd_families(int argc, char **argv)
     free(paths);
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_families = &families_spec;

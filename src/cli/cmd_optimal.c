@@ -379,3 +379,6 @@ done:
     cli_args_clear(&a);
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_optimal = &optimal_spec;

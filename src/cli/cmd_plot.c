@@ -9,16 +9,16 @@
 static const cli_opt_t plot_opts[] = {
     { "output", 'o', CLI_VALUE, "FILE", "the figure: .svg, .pdf or .png, or - for stdout (required)" },
     { "format", 'f', CLI_VALUE, "F", "svg, pdf or png (default: from the extension of FILE; svg for -)" },
-    { "from", 0, CLI_VALUE, "A", "smallest size n (default 10)" },
-    { "to", 0, CLI_VALUE, "B", "largest size n (default 10^6)" },
-    { "points", 'k', CLI_VALUE, "K", "number of log-spaced sizes (default 12)" },
+    CLI_OPT_FROM,
+    CLI_OPT_TO,
+    CLI_OPT_POINTS,
     { "target", 't', CLI_VALUE, "T", "target state: ebit (default), ebits:J, uniform:D, ..." },
     { "weights", 0, CLI_FLAG, NULL, "add a panel: weights against x^(-1-eps) and x^(-1+eps)" },
     { "optimum", 0, CLI_FLAG, NULL, "also the optimum OPT_n over all states (uniform targets)" },
     { "envelope", 0, CLI_VALUE, "EPS", "exponent offset of the weight envelopes (default 0.1)" },
     { "eps", 0, CLI_VALUE, "EPS", "old name of --envelope (elsewhere --eps is an error goal)" },
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter of the families that have it" },
-    { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 64)" },
+    CLI_OPT_PREC_MANY,
     { "title", 0, CLI_VALUE, "TEXT", "title of the figure" },
     { "measure", 0, CLI_VALUE, "M", "k (default), or fidelity, purified, overlap: plot that measure" },
     CLI_OPT_END
@@ -220,7 +220,7 @@ int cli_cmd_plot(int argc, char **argv)
                         "weight envelopes); --eps means an error goal in size and report\n");
     }
     if (eps_text == NULL) eps_text = "0.1";
-    long points = 12, prec = 64;
+    long points = EMBZ_RANGE_POINTS, prec = EMBZ_PREC_MANY;
     double eps = 0.1;
     long nfam = a.npos;
     embz_family_struct *fam = calloc(nfam, sizeof(embz_family_struct));
@@ -228,9 +228,9 @@ int cli_cmd_plot(int argc, char **argv)
     fmpz_t A, B;
     embz_target_t q;
     embz_plot_t fig;
-    fmpz_init_set_ui(A, 10);
+    fmpz_init(A);
     fmpz_init(B);
-    fmpz_ui_pow_ui(B, 10, 6);
+    embz_default_range(A, B);
     embz_target_init(q);
     for (long i = 0; i < nfam; i++)
         embz_family_init(fam + i);
@@ -447,3 +447,6 @@ done:
     embz_render_release_caches();
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_plot = &plot_spec;

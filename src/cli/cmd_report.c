@@ -10,15 +10,16 @@ static const cli_opt_t report_opts[] = {
     { "format", 'f', CLI_VALUE, "F", "html, md, tex or pdf (default: from the extension of FILE)" },
     { "eps", 'e', CLI_VALUE, "E[,E2,...]", "error goals for the size columns (default 0.01,1e-3)" },
     { "target", 't', CLI_VALUE, "T", "target state: ebit (default), ebits:J, uniform:D, ..." },
-    { "sizes", 'n', CLI_VALUE, "N[,N2,...]", "sizes of the error columns (default 10^6,10^30,10^100)" },
-    { "from", 0, CLI_VALUE, "A", "smallest size of the sweeps (default 100)" },
-    { "to", 0, CLI_VALUE, "B", "largest size of the sweeps (default 10^60)" },
-    { "points", 'k', CLI_VALUE, "K", "sizes per sweep (default 12)" },
+    { "size", 'n', CLI_VALUE, "N[,N2,...]", "sizes of the error columns (default 10^6,10^30,10^100)" },
+    { "sizes", 0, CLI_VALUE, "N[,N2,...]", NULL },   /* the old name of --size, with a note */
+    CLI_OPT_FROM,
+    CLI_OPT_TO,
+    CLI_OPT_POINTS,
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter of the families that have it" },
-    { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 64)" },
+    CLI_OPT_PREC_MANY,
     { "envelope", 0, CLI_VALUE, "EPS", "exponent offset of the weight envelopes (default 0.1)" },
     { "grid", 'g', CLI_LIST, "NAME=LO..HI,count=COUNT", "add a verdict map over a parameter grid (at most two)" },
-    { "threads", 'j', CLI_VALUE, "T", "families computed at once (default: the processors)" },
+    CLI_OPT_THREADS("families"),
     { "title", 0, CLI_VALUE, "TEXT", "title of the document" },
     { "quiet", 'q', CLI_FLAG, NULL, "no progress lines on stderr" },
     { NULL, 0, 0, NULL, NULL }
@@ -68,11 +69,6 @@ static long split_list(char ***items, char **buf, const char *text)
         if (c == NULL) return k + 1;
         t = c + 1;
     }
-}
-
-static int default_threads(void)
-{
-    return embz_threads_available();
 }
 
 static char *value_label(const fmpq_t v)
@@ -181,7 +177,6 @@ int cli_cmd_report(int argc, char **argv)
     cli_compare_opts_t o;
     cli_compare_opts_init(&o);
     o.cmd = "report";
-    o.threads = default_threads();
     long nfam = a.npos, ngrid = 0;
     const char *const *grids = cli_list(&a, "grid", &ngrid);
     embz_grid_axis_struct axes[2];
@@ -229,18 +224,7 @@ int cli_cmd_report(int argc, char **argv)
 
     /* numbers */
     if ((code = cli_load_prec(&o.prec, &a, &report_spec)) != 0) goto done;
-    if ((t = cli_value(&a, "points")) != NULL && cli_parse_long(&o.points, t, 5, 1000)) {
-        code = cli_usage_error(&report_spec, "bad number of points '%s' (5 to 1000)", t);
-        goto done;
-    }
-    if ((t = cli_value(&a, "threads")) != NULL) {
-        long th;
-        if (cli_parse_long(&th, t, 1, 256)) {
-            code = cli_usage_error(&report_spec, "bad number of threads '%s' (1 to 256)", t);
-            goto done;
-        }
-        o.threads = (int) th;
-    }
+    if ((code = cli_load_threads(&o.threads, &a, &report_spec)) != 0) goto done;
     if ((t = cli_value(&a, "envelope")) != NULL) {
         char *end;
         o.envelope = strtod(t, &end);
@@ -249,20 +233,13 @@ int cli_cmd_report(int argc, char **argv)
             goto done;
         }
     }
-    {
-        const char *names[2] = { "from", "to" };
-        fmpz *vals[2] = { o.from, o.to };
-        for (int k = 0; k < 2; k++) {
-            char what[8];
-            snprintf(what, sizeof(what), "--%s", names[k]);
-            if ((t = cli_value(&a, names[k])) != NULL
-                && (code = cli_load_size(vals[k], t, what, &report_spec)) != CLI_EXIT_OK)
-                goto done;
-        }
-        if (fmpz_cmp(o.from, o.to) >= 0) {
-            code = cli_usage_error(&report_spec, "need --from < --to");
-            goto done;
-        }
+    long points = o.points;
+    if ((code = cli_load_range(o.from, o.to, &points, 5, 1000, &a, &report_spec)) != 0)
+        goto done;
+    o.points = points;
+    if (fmpz_cmp(o.from, o.to) >= 0) {
+        code = cli_usage_error(&report_spec, "need --from < --to");
+        goto done;
     }
     ngoals = split_list(&goals, &goals_buf, cli_value(&a, "eps") ? cli_value(&a, "eps")
                                                                   : "0.01,1e-3");
@@ -283,16 +260,20 @@ int cli_cmd_report(int argc, char **argv)
             goto done;
         }
     }
-    nsizes = split_list(&sizes_text, &sizes_buf, cli_value(&a, "sizes")
-                        ? cli_value(&a, "sizes") : "10^6,10^30,10^100");
+    const char *size_opt = cli_value(&a, "size"), *size_name = "--size";
+    if (cli_value(&a, "sizes") != NULL) {
+        fprintf(stderr, "embz report: note: --sizes is now --size (-n), as in embz error\n");
+        if (size_opt == NULL) size_opt = cli_value(&a, "sizes"), size_name = "--sizes";
+    }
+    nsizes = split_list(&sizes_text, &sizes_buf, size_opt ? size_opt : "10^6,10^30,10^100");
     if (nsizes < 0) {
-        code = cli_usage_error(&report_spec, "size %ld of --sizes is empty", -nsizes);
+        code = cli_usage_error(&report_spec, "size %ld of %s is empty", -nsizes, size_name);
         nsizes = 0;
         goto done;
     }
     sizes = _fmpz_vec_init(nsizes > 0 ? nsizes : 1);
     for (long j = 0; j < nsizes; j++) {
-        if ((code = cli_load_size(sizes + j, sizes_text[j], "--sizes", &report_spec))
+        if ((code = cli_load_size(sizes + j, sizes_text[j], size_name, &report_spec))
             != CLI_EXIT_OK)
             goto done;
     }
@@ -379,3 +360,6 @@ done:
     embz_render_release_caches();
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_report = &report_spec;

@@ -8,11 +8,11 @@ static const cli_opt_t scan_opts[] = {
     { "grid", 'g', CLI_LIST, "NAME=LO..HI,count=COUNT",
       "scan parameter NAME over COUNT equally spaced values from LO to HI" },
     { "shard", 0, CLI_VALUE, "I/N", "compute only block I of N (1 <= I <= N) of the grid" },
-    { "threads", 'j', CLI_VALUE, "T", "worker threads (OpenMP; default 1)" },
-    { "from", 0, CLI_VALUE, "A", "smallest size of each sweep (default 100)" },
-    { "to", 0, CLI_VALUE, "B", "largest size of each sweep (default 10^60)" },
-    { "points", 'k', CLI_VALUE, "K", "sizes per sweep (default 12)" },
-    { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 64)" },
+    CLI_OPT_THREADS("grid points"),
+    CLI_OPT_FROM,
+    CLI_OPT_TO,
+    CLI_OPT_POINTS,
+    CLI_OPT_PREC_MANY,
     { "set", 's', CLI_LIST, "NAME=VALUE", "fix a parameter that is not scanned" },
     CLI_OPT_AMPLITUDE,
     { "numeric-only", 0, CLI_FLAG, NULL, "skip the analytic (asymptotic expansion) route" },
@@ -42,7 +42,8 @@ int cli_cmd_scan(int argc, char **argv)
     embz_family_t fam;
     embz_classify_opts_t o;
     embz_scan_t sc;
-    long ngrid = 0, prec = 64, points = 12, threads = 1, shard = 1, nshards = 1;
+    long ngrid = 0, prec = EMBZ_PREC_MANY, points = EMBZ_RANGE_POINTS, shard = 1, nshards = 1;
+    int threads = 1;
     const char *const *grids = cli_list(&a, "grid", &ngrid);
     cli_settings_t set = { NULL, NULL, 0 };
     embz_grid_axis_struct *axes = calloc((size_t) (ngrid > 0 ? ngrid : 1),
@@ -54,7 +55,6 @@ int cli_cmd_scan(int argc, char **argv)
     embz_classify_opts_init(o);
     embz_scan_init(sc);
     embz_err_clear(&err);
-    fmpz_ui_pow_ui(o->to, 10, 60);
 
     int json = cli_flag(&a, "json");
     if (json && cli_flag(&a, "csv")) {
@@ -66,10 +66,7 @@ int cli_cmd_scan(int argc, char **argv)
         goto done;
     }
     if ((code = cli_load_prec_upto(&prec, &a, &scan_spec, 1L << 16)) != 0) goto done;
-    if ((t = cli_value(&a, "threads")) != NULL && cli_parse_long(&threads, t, 1, 1024)) {
-        code = cli_usage_error(&scan_spec, "bad thread count '%s' (1 to 1024)", t);
-        goto done;
-    }
+    if ((code = cli_load_threads(&threads, &a, &scan_spec)) != 0) goto done;
     if ((t = cli_value(&a, "shard")) != NULL) {
         char buf[64];
         snprintf(buf, sizeof(buf), "%s", t);
@@ -226,3 +223,6 @@ done:
     cli_args_clear(&a);
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_scan = &scan_spec;

@@ -11,7 +11,7 @@ static const cli_opt_t size_opts[] = {
     { "qubits", 0, CLI_FLAG, NULL, "stop once the qubits per side are decided (faster at huge n)" },
     { "vs-optimal", 0, CLI_FLAG, NULL,
       "also the smallest rank any state needs (embz optimal) and the extra qubits per side" },
-    { "prec", 'p', CLI_VALUE, "BITS", "working precision (default 128; raised where undecided)" },
+    CLI_OPT_PREC_ONE("; raised where undecided"),
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter" },
     CLI_OPT_AMPLITUDE,
     CLI_OPT_JSON,
@@ -385,7 +385,7 @@ int cli_cmd_size(int argc, char **argv)
     cli_args_t a;
     int code;
     if (!cli_begin(&a, &size_spec, argc, argv, &code)) return code;
-    long prec = 128;
+    long prec = EMBZ_PREC_ONE;
     embz_family_t fam;
     embz_target_t q;
     embz_buf_t out;
@@ -626,3 +626,6 @@ done:
     cli_args_clear(&a);
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_size = &size_spec;

@@ -5,11 +5,12 @@
 #include "cli.h"
 
 static const cli_opt_t sweep_opts[] = {
-    { "from", 0, CLI_VALUE, "A", "smallest size (default 10)" },
-    { "to", 0, CLI_VALUE, "B", "largest size (default 10^300; up to 10^1000 is practical)" },
-    { "points", 'k', CLI_VALUE, "K", "number of log-spaced sizes (default 24)" },
+    CLI_OPT_FROM,
+    CLI_OPT_TO,
+    CLI_OPT_POINTS,
     { "target", 't', CLI_VALUE, "T", "target: ebit (default), ebits:J, uniform:D, or a vector" },
-    { "prec", 'p', CLI_VALUE, "BITS", "working precision of the ball arithmetic (default 64)" },
+    CLI_OPT_PREC_MANY,
+    CLI_OPT_THREADS("sizes"),
     CLI_OPT_SET,
     CLI_OPT_AMPLITUDE,
     { "no-fit", 0, CLI_FLAG, NULL, "do not fit decay laws" },
@@ -27,9 +28,9 @@ static const cli_spec_t sweep_spec = {
     "Sizes are the integers nearest to A^(1-t) B^t, t = 0, 1/(K-1), ..., 1. Each E_n is a\n"
     "certified enclosure (one reusable analytic engine for all sizes; explicit summation for\n"
     "small n). The fitted parameters, their jackknife intervals and the model choice (lowest\n"
-    "BIC on relative residuals) are estimates, not certified. Sizes run in parallel on the\n"
-    "OpenMP threads (OMP_NUM_THREADS). Time: about 10-50 ms per size for the inverse family\n"
-    "up to 10^300 at default precision; a progress bar appears on a terminal when the run\n"
+    "BIC on relative residuals) are estimates, not certified. Sizes run in parallel (-j).\n"
+    "Time: about 10-50 ms per size for the inverse family up to 10^300 (10^1000 is\n"
+    "practical) at default precision; a progress bar appears on a terminal when the run\n"
     "takes longer than a second. A family the analytic engine cannot take (a weight not\n"
     "provably monotone) is swept up to n = 10^6 only, what explicit summation reaches, and\n"
     "the output says so.\n"
@@ -38,8 +39,6 @@ static const cli_spec_t sweep_spec = {
     sweep_opts, 1, 1
 };
 
-#define DEFAULT_PREC 64
-#define DEFAULT_POINTS 24
 
 
 /* {"family": ..., "weight": ..., "params": ..., "target": ... (the object left open) */
@@ -273,7 +272,8 @@ int cli_cmd_sweep(int argc, char **argv)
     embz_target_t q;
     embz_sweep_t sw;
     embz_fitset_t fs;
-    long prec = DEFAULT_PREC, points = DEFAULT_POINTS;
+    long prec = EMBZ_PREC_MANY, points = EMBZ_RANGE_POINTS;
+    int threads = 1;
     int have_fit = 0;
 
     fmpz_init(from);
@@ -289,9 +289,9 @@ int cli_cmd_sweep(int argc, char **argv)
         code = cli_usage_error(&sweep_spec, "--json and --csv exclude each other");
         goto done;
     }
-    fmpz_set_ui(from, 10);
-    fmpz_ui_pow_ui(to, 10, 300);
+    embz_default_range(from, to);
     if ((code = cli_load_prec_upto(&prec, &a, &sweep_spec, 1L << 16)) != 0
+        || (code = cli_load_threads(&threads, &a, &sweep_spec)) != 0
         || (code = cli_load_range(from, to, &points, 1, 100000, &a, &sweep_spec)) != 0
         || (code = cli_load_family(fam, &a, a.pos[0], "sweep")) != 0
         || (code = cli_load_target(q, &a, "sweep")) != 0)
@@ -313,7 +313,10 @@ int cli_cmd_sweep(int argc, char **argv)
     }
     cli_progress_t prog;
     embz_progress_fn show = cli_progress_start(&prog, 1);
-    status = embz_sweep_run(sw, fam, from, to, points, q, prec, show, &prog, &err);
+    embz_sweep_opts_t so;
+    embz_sweep_opts_init(so);
+    so->threads = threads;
+    status = embz_sweep_run_opts(sw, fam, from, to, points, q, so, prec, show, &prog, &err);
     cli_progress_end(&prog);
     if (status != EMBZ_OK) {
         code = cli_report("sweep", status, &err);
@@ -434,3 +437,6 @@ done:
     cli_args_clear(&a);
     return code;
 }
+
+/* the option table, for the shell completion (completion.c) */
+const cli_spec_t *const cli_spec_sweep = &sweep_spec;

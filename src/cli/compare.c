@@ -23,11 +23,11 @@ char *_cli_cmp_sdup(const char *s)
 void cli_compare_opts_init(cli_compare_opts_t *o)
 {
     memset(o, 0, sizeof(*o));
-    fmpz_init_set_ui(o->from, 100);
+    fmpz_init(o->from);
     fmpz_init(o->to);
-    fmpz_ui_pow_ui(o->to, 10, 60);
-    o->points = 12;
-    o->prec = 64;
+    embz_default_range(o->from, o->to);
+    o->points = EMBZ_RANGE_POINTS;
+    o->prec = EMBZ_PREC_MANY;
     o->envelope = 0.1;
     o->threads = 1;
     o->cmd = "report";

@@ -110,6 +110,17 @@ int cli_load_prec_upto(long *prec, const cli_args_t *a, const cli_spec_t *spec,
     return CLI_EXIT_OK;
 }
 
+int cli_load_threads(int *threads, const cli_args_t *a, const cli_spec_t *spec)
+{
+    const char *text = cli_value(a, "threads");
+    long t = embz_threads_available();
+    if (text != NULL && cli_parse_long(&t, text, 1, EMBZ_THREADS_MAX))
+        return cli_usage_error(spec, "bad number of threads '%s' (1 to %d)", text,
+                               EMBZ_THREADS_MAX);
+    *threads = (int) t;
+    return CLI_EXIT_OK;
+}
+
 int cli_load_prec(long *prec, const cli_args_t *a, const cli_spec_t *spec)
 {
     return cli_load_prec_upto(prec, a, spec, 1L << 20);

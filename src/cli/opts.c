@@ -40,6 +40,7 @@ void cli_print_help(FILE *out, const cli_spec_t *spec)
         /* the last row is the --help every command has */
         const cli_opt_t help = { "help", 'h', CLI_FLAG, NULL, "show this help and exit" };
         const cli_opt_t *o = (k < n) ? &spec->opts[k] : &help;
+        if (o->help == NULL) continue;      /* an old name, still accepted */
         char head[96];
         int w;
         if (o->short_name)

@@ -16,7 +16,7 @@ static int range_opts(embz_classify_opts_t co, const char *from, const char *to,
     if (st == EMBZ_OK && points > 0 && (points < 5 || points > 100000))
         st = _flat_err_set(err, EMBZ_ERR_INPUT, "bad number of points %ld (5 to 100000)", points);
     co->points = points > 0 ? points : default_points;
-    co->prec = o->prec > 0 ? o->prec : 64;
+    co->prec = o->prec > 0 ? o->prec : EMBZ_PREC_MANY;
     co->use_analytic = 1;
     return st;
 }
@@ -53,7 +53,7 @@ int embz_flat_classify(embz_flat_table **out, const embz_flat_family *f, const c
     _flat_opts_get(&o, given);
     embz_classify_opts_t co;
     embz_classify_opts_init(co);
-    int st = range_opts(co, from, to, points, 16, &o, err);
+    int st = range_opts(co, from, to, points, EMBZ_RANGE_POINTS, &o, err);
     if (st != EMBZ_OK) {
         embz_classify_opts_clear(co);
         return st;
@@ -93,8 +93,7 @@ int embz_flat_scan(embz_flat_table **out, const embz_flat_family *f, const char 
     _flat_opts_get(&o, given);
     embz_classify_opts_t co;
     embz_classify_opts_init(co);
-    fmpz_ui_pow_ui(co->to, 10, 60);          /* the defaults of embz scan */
-    int st = range_opts(co, from, to, points, 12, &o, err);
+    int st = range_opts(co, from, to, points, EMBZ_RANGE_POINTS, &o, err);
     if (st == EMBZ_OK && naxes < 1) st = _flat_err_set(err, EMBZ_ERR_INPUT, "no grid axis given");
     embz_grid_axis_struct *ax = calloc((size_t) (naxes > 0 ? naxes : 1), sizeof(*ax));
     if (ax == NULL) abort();
@@ -203,7 +202,7 @@ int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char 
     *out = NULL;
     embz_flat_opts o;
     _flat_opts_get(&o, given);
-    slong prec = o.prec > 0 ? o.prec : 64;
+    slong prec = o.prec > 0 ? o.prec : EMBZ_PREC_ONE;
     slong digits = o.digits > 0 ? o.digits : 20;
     fmpq_t e;
     fmpq_init(e);
@@ -266,7 +265,7 @@ int embz_flat_size_measure(embz_flat_table **out, const embz_flat_family *f, con
     }
     embz_flat_opts o;
     _flat_opts_get(&o, given);
-    slong prec = o.prec > 0 ? o.prec : 128;   /* embz size's default */
+    slong prec = o.prec > 0 ? o.prec : EMBZ_PREC_ONE;   /* embz size's default */
     slong digits = o.digits > 0 ? o.digits : 20;
     fmpq_t e;
     fmpq_init(e);

@@ -85,7 +85,7 @@ int embz_flat_errors(embz_flat_table **out, const embz_flat_family *f,
     *out = NULL;
     embz_flat_opts o;
     _flat_opts_get(&o, given);
-    slong prec = o.prec > 0 ? o.prec : 128;
+    slong prec = o.prec > 0 ? o.prec : EMBZ_PREC_ONE;
     slong digits = _flat_end_digits(&o, prec);
     if (o.method < EMBZ_METHOD_AUTO || o.method > EMBZ_METHOD_ANALYTIC)
         return _flat_err_set(err, EMBZ_ERR_INPUT, "bad method %d (0 auto, 1 explicit, 2 analytic)",

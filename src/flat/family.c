@@ -110,7 +110,7 @@ int embz_flat_family_weights(embz_flat_table **out, const embz_flat_family *f,
     *out = NULL;
     embz_flat_opts o;
     _flat_opts_get(&o, given);
-    slong prec = o.prec > 0 ? o.prec : 128;
+    slong prec = o.prec > 0 ? o.prec : EMBZ_PREC_ONE;
     slong digits = _flat_end_digits(&o, prec);
     fmpz_t fi, fn;
     fmpz_init(fi);

@@ -58,16 +58,17 @@ int embz_flat_sweep(embz_flat_table **out, const embz_flat_family *f, const char
     *out = NULL;
     embz_flat_opts o;
     _flat_opts_get(&o, given);
-    slong prec = o.prec > 0 ? o.prec : 64;
+    slong prec = o.prec > 0 ? o.prec : EMBZ_PREC_MANY;
     slong digits = _flat_end_digits(&o, 128);
-    if (points <= 0) points = 24;        /* the defaults of embz sweep */
+    if (points <= 0) points = EMBZ_RANGE_POINTS;     /* embz/defaults.h */
     if (points > 100000)
         return _flat_err_set(err, EMBZ_ERR_INPUT, "too many points %ld (at most 100000)", points);
     fmpz_t a, b;
     fmpz_init(a);
     fmpz_init(b);
-    int st = _flat_size_parse(a, from ? from : "10", "size 'from'", err);
-    if (st == EMBZ_OK) st = _flat_size_parse(b, to ? to : "10^300", "size 'to'", err);
+    embz_default_range(a, b);
+    int st = from != NULL ? _flat_size_parse(a, from, "size 'from'", err) : EMBZ_OK;
+    if (st == EMBZ_OK && to != NULL) st = _flat_size_parse(b, to, "size 'to'", err);
     if (st == EMBZ_OK && fmpz_cmp(a, b) > 0)
         st = _flat_err_set(err, EMBZ_ERR_INPUT, "'from' must not exceed 'to'");
     if (st != EMBZ_OK) {
