@@ -424,15 +424,10 @@ def size(family, eps, target=None, *, qubits=False, prec=None, amplitude=False, 
     fam = as_family(family, params, amplitude, **parameters)
     q = as_target(target)
     ce = _ffi.cstr(_num.number_text(eps))
-    o = make_opts(prec=prec)
-    if measure in (None, "k"):
-        rows = call_table(lambda out, e: lib.embz_flat_size(out, fam._h, ce, q._h,
-                                                            1 if qubits else 0, o, e), o)
-        return SizeResult(rows[0], fam.label, q.label)
-    cm = _ffi.cstr(str(measure))
-    rows = call_table(lambda out, e: lib.embz_flat_size_measure(out, fam._h, ce, q._h, cm,
-                                                                1 if qubits else 0, o, e), o)
-    if rows[0]["route"] == "direct":
+    o = make_opts(prec=prec, measure="k" if measure is None else measure)
+    rows = call_table(lambda out, e: lib.embz_flat_size(out, fam._h, ce, q._h,
+                                                        1 if qubits else 0, o, e), o)
+    if rows[0].get("route", "direct") == "direct":
         return SizeResult(rows[0], fam.label, q.label)
     lower = SizeResult(rows[0], fam.label, q.label)
     upper = SizeResult(rows[1], fam.label, q.label)

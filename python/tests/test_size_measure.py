@@ -60,7 +60,7 @@ def test_measure_k_and_refusals():
     """measure='k' is the plain search; fidelity and overlap are no goals (InputError)."""
     a = embz.size("inverse", "0.1")
     b = embz.size("inverse", "0.1", measure="k")
-    assert a.n == b.n == 570 and b.route == "k"
+    assert a.n == b.n == 570 and a.route == b.route == "k" and b.measure == "k"
     for m in ("fidelity", "overlap", "bogus"):
         with pytest.raises(embz.InputError):
             embz.size("inverse", "0.1", measure=m)

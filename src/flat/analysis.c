@@ -195,6 +195,10 @@ static int parse_goal(fmpq_t e, const char *eps, embz_flat_err *err)
     return EMBZ_OK;
 }
 
+static int size_purified(embz_flat_table **out, const embz_flat_family *f, const char *eps,
+                         const embz_flat_target *q, int qubits_only, const embz_flat_opts *given,
+                         embz_flat_err *err);
+
 int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char *eps,
                    const embz_flat_target *q, int qubits_only, const embz_flat_opts *given,
                    embz_flat_err *err)
@@ -202,6 +206,12 @@ int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char 
     *out = NULL;
     embz_flat_opts o;
     _flat_opts_get(&o, given);
+    if (o.measure == EMBZ_MEASURE_PURIFIED)
+        return size_purified(out, f, eps, q, qubits_only, given, err);
+    if (o.measure != EMBZ_MEASURE_K)
+        return _flat_err_set(err, EMBZ_ERR_INPUT, "the size search takes the measures k and "
+                             "purified (%s, a fidelity, larger is better, is no goal of it)",
+                             embz_measure_name(o.measure));
     slong prec = o.prec > 0 ? o.prec : EMBZ_PREC_ONE;
     slong digits = o.digits > 0 ? o.digits : 20;
     fmpq_t e;
@@ -238,31 +248,12 @@ int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char 
     return st;
 }
 
-int embz_flat_size_measure(embz_flat_table **out, const embz_flat_family *f, const char *eps,
-                           const embz_flat_target *q, const char *measure, int qubits_only,
-                           const embz_flat_opts *given, embz_flat_err *err)
+/* embz_flat_size with o->measure = purified (embz size --measure purified). */
+static int size_purified(embz_flat_table **out, const embz_flat_family *f, const char *eps,
+                         const embz_flat_target *q, int qubits_only, const embz_flat_opts *given,
+                         embz_flat_err *err)
 {
     *out = NULL;
-    int m = EMBZ_MEASURE_K;
-    if (measure != NULL) {
-        embz_err_t me;
-        embz_err_clear(&me);
-        if (embz_measure_parse(&m, measure, &me) != EMBZ_OK) {
-            _flat_err_from(err, EMBZ_ERR_INPUT, &me);
-            return EMBZ_ERR_INPUT;
-        }
-    }
-    if (m != EMBZ_MEASURE_K && m != EMBZ_MEASURE_PURIFIED)
-        return _flat_err_set(err, EMBZ_ERR_INPUT, "the size search takes the measures k and "
-                             "purified (a fidelity, larger is better, is no goal of it)");
-    if (m == EMBZ_MEASURE_K) {
-        int st = embz_flat_size(out, f, eps, q, qubits_only, given, err);
-        if (st == EMBZ_OK) {
-            _flat_set(*out, 0, "measure", "k");
-            _flat_set(*out, 0, "route", "k");
-        }
-        return st;
-    }
     embz_flat_opts o;
     _flat_opts_get(&o, given);
     slong prec = o.prec > 0 ? o.prec : EMBZ_PREC_ONE;   /* embz size's default */
