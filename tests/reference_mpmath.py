@@ -277,6 +277,46 @@ def overlap_checks(embz):
     return checks, failures
 
 
+def classify_law_checks(embz):
+    """classify --measure overlap|purified of 1/i: the certified enclosure of the limit C_2 of
+    C_2(n) = (1 - O) H_n (docs/measures.md) against the full series by mpmath's nsum, and the
+    derived bound P <= sqrt(2 C_2 / H_n) at every size of the sweep."""
+    checks = failures = 0
+    d = 2
+
+    def block(m):
+        m = mpf(m)
+        return mpmath.fsum((d * m - j) / (d * m) / (1 + mpmath.sqrt(j / (d * m))) / j
+                           for j in (d * (m - 1) + s for s in range(1, d + 1)))
+    c2 = mpmath.nsum(block, [1, mpmath.inf])
+    for measure in ("overlap", "purified"):
+        cmd = [embz, "classify", "inverse", "--measure", measure, "--to", "1e60", "--points",
+               "8", "--json"]
+        run = subprocess.run(cmd, capture_output=True, text=True)
+        checks += 1
+        if run.returncode != 0:
+            print("FAIL (exit %d): %s\n%s" % (run.returncode, " ".join(cmd), run.stderr))
+            failures += 1
+            continue
+        data = json.loads(run.stdout)
+        law = data["harmonic_law"]
+        lo, hi = mpf(law["limit_c_lo"]), mpf(law["limit_c_hi"])
+        if not (lo - TOL <= c2 <= hi + TOL) or data["verdict"] != "converges":
+            print("FAIL: classify --measure %s of 1/i: C_2 = %s not in [%s, %s] or verdict %s"
+                  % (measure, mpmath.nstr(c2, 30), law["limit_c_lo"], law["limit_c_hi"],
+                     data["verdict"]))
+            failures += 1
+        if measure == "purified":
+            for p in data["points"]:
+                checks += 1
+                bound = mpmath.sqrt(2 * c2 / harmonic(int(p["n"])))
+                if not mpf(p["distance_lo"]) <= bound:
+                    print("FAIL: P of 1/i at n=%s above sqrt(2 C_2 / H_n) = %s"
+                          % (p["n"], mpmath.nstr(bound, 20)))
+                    failures += 1
+    return checks, failures
+
+
 def main():
     embz = sys.argv[1]
     mp.dps = 80
@@ -284,6 +324,9 @@ def main():
     c3, f3 = overlap_checks(embz)
     checks += c3
     failures += f3
+    c4, f4 = classify_law_checks(embz)
+    checks += c4
+    failures += f4
     c2, f2 = increasing_checks(embz)
     checks += c2
     failures += f2

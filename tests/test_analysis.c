@@ -734,6 +734,165 @@ START_TEST(test_msweep)
 }
 END_TEST
 
+/* C_2 = sum_j (1/j)(1 - sqrt(j / (2 ceil(j/2)))), only odd j = 2m - 1 contribute: the partial
+ * sum over m <= M in arb plus the tail, at most sum over odd j > 2M of 1/j^2 <= 1/(4M - 2)
+ * [derived: 1 - sqrt(1 - t) <= t with t = 1/(2m)]. A reference for the law of
+ * docs/measures.md computed without the engine. */
+static void c2_reference(arb_t c, slong M, slong prec)
+{
+    arb_t t, u;
+    arb_init(t);
+    arb_init(u);
+    arb_zero(c);
+    for (slong m = M; m >= 1; m--) {
+        arb_set_si(t, 2 * m - 1);
+        arb_div_si(t, t, 2 * m, prec);
+        arb_sqrt(t, t, prec);
+        arb_sub_ui(t, t, 1, prec);
+        arb_neg(t, t);
+        arb_div_si(t, t, 2 * m - 1, prec);
+        arb_add(c, c, t, prec);
+    }
+    arb_set_ui(u, 1);
+    arb_div_si(u, u, 4 * M - 2, prec);
+    arb_mul_2exp_si(u, u, -1);
+    arb_add_error(u, u);
+    arb_add(c, c, u, prec);
+    arb_clear(t);
+    arb_clear(u);
+}
+
+static void mopts(embz_classify_opts_t o, ulong from, ulong exp10, slong points)
+{
+    embz_classify_opts_init(o);
+    fmpz_set_ui(o->from, from);
+    fmpz_ui_pow_ui(o->to, 10, exp10);
+    o->points = points;
+}
+
+/* the overlap of 1/i: proven convergence by the exact law, C_2 against an independent sum */
+START_TEST(test_mclassify_overlap_inverse)
+{
+    embz_family_t f;
+    embz_family_init(f);
+    resolve(f, "inverse", NULL);
+    embz_classify_opts_t o;
+    mopts(o, 100, 60, 10);
+    embz_mclassify_t c;
+    embz_mclassify_init(c);
+    embz_err_t err;
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_mclassify(c, f, EMBZ_MEASURE_OVERLAP, o, NULL, NULL, &err), EMBZ_OK);
+    ck_assert_int_eq(c->verdict, EMBZ_CONVERGE_YES);
+    ck_assert(c->proven && c->harmonic);
+    ck_assert_int_eq(c->nvalues, 10);
+    arb_t ref;
+    arb_init(ref);
+    c2_reference(ref, 1000000, 128);
+    ck_assert(arb_overlaps(ref, c->harmonic_c));
+    /* the engine's enclosure is far tighter than the reference's tail bound */
+    ck_assert(arb_rel_accuracy_bits(c->harmonic_c) > 30);
+    /* [memory] C_2 = 0.3939430581787..., also tests/reference_mpmath.py */
+    ck_assert(fabs(arf_get_d(arb_midref(c->harmonic_c), ARF_RND_NEAR) - 0.39394305817871) < 1e-12);
+    /* D = 1 - O from the sweep's overlap at every size */
+    for (slong j = 0; j < c->sweep->len; j++) {
+        arb_t d;
+        arb_init(d);
+        arb_sub_ui(d, c->sweep->pts[j].res.overlap, 1, 64);
+        arb_neg(d, d);
+        ck_assert(arb_overlaps(d, c->dist + j));
+        arb_clear(d);
+    }
+    /* the fit is an estimate of 1 - O ~ C_2 / ln n: exponent near 1 */
+    ck_assert(c->law == EMBZ_LAW_LOG || c->law == EMBZ_LAW_LOGLOG);
+    embz_mclassify_clear(c);
+    ck_assert_int_eq(embz_mclassify(c, f, EMBZ_MEASURE_K, o, NULL, NULL, &err), EMBZ_ERR_INPUT);
+    arb_clear(ref);
+    embz_mclassify_clear(c);
+    embz_classify_opts_clear(o);
+    embz_family_clear(f);
+}
+END_TEST
+
+/* the purified distance of 1/i: K <= P at every size (docs/measures.md), the derived bound
+ * P <= sqrt(2 C_2 / H_n), and the verdict from the K criterion */
+START_TEST(test_mclassify_purified_inverse)
+{
+    embz_family_t f;
+    embz_family_init(f);
+    resolve(f, "inverse", NULL);
+    embz_classify_opts_t o;
+    mopts(o, 100, 40, 8);
+    embz_mclassify_t c;
+    embz_mclassify_init(c);
+    embz_err_t err;
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_mclassify(c, f, EMBZ_MEASURE_PURIFIED, o, NULL, NULL, &err), EMBZ_OK);
+    ck_assert_int_eq(c->verdict, EMBZ_CONVERGE_YES);
+    ck_assert(c->proven && c->k_by_criterion && c->harmonic);
+    ck_assert_int_eq(c->k_verdict, EMBZ_VERDICT_EMBEZZLER);
+    ck_assert_int_eq(c->sweep->len, c->kc->sweep->len);
+    arb_t c2, H, t;
+    arb_init(c2); arb_init(H); arb_init(t);
+    c2_reference(c2, 100000, 128);
+    for (slong j = 0; j < c->sweep->len; j++) {
+        const embz_sweep_point_struct *k = c->kc->sweep->pts + j;
+        ck_assert(fmpz_equal(k->n, c->sweep->pts[j].n));
+        ck_assert(!arb_lt(c->dist + j, k->error));           /* K <= P */
+        /* P <= sqrt(2 C_2 / H_n), H_n = psi(n + 1) + gamma */
+        arb_set_fmpz(t, k->n);
+        arb_add_ui(t, t, 1, 128);
+        arb_digamma(H, t, 128);
+        arb_const_euler(t, 128);
+        arb_add(H, H, t, 128);
+        arb_mul_2exp_si(t, c2, 1);
+        arb_div(t, t, H, 128);
+        arb_sqrt(t, t, 128);
+        ck_assert(!arb_gt(c->dist + j, t));
+    }
+    arb_clear(c2); arb_clear(H); arb_clear(t);
+    embz_mclassify_clear(c);
+    embz_classify_opts_clear(o);
+    embz_family_clear(f);
+}
+END_TEST
+
+/* a summable weight whose large sizes have bounds only: the bounds are counted, never fitted,
+ * and the verdict comes from the K criterion (P >= K stays away from 0) */
+START_TEST(test_mclassify_bounds_only)
+{
+    embz_family_t f;
+    embz_family_init(f);
+    resolve(f, "nearmiss", NULL);
+    embz_classify_opts_t o;
+    mopts(o, 100, 60, 6);
+    embz_mclassify_t c;
+    embz_mclassify_init(c);
+    embz_err_t err;
+    embz_err_clear(&err);
+    ck_assert_int_eq(embz_mclassify(c, f, EMBZ_MEASURE_PURIFIED, o, NULL, NULL, &err), EMBZ_OK);
+    ck_assert(c->nbounds >= 4);
+    ck_assert_int_eq(c->nvalues + c->nbounds + c->nfailed, c->sweep->len);
+    ck_assert_int_eq(c->fit_verdict, EMBZ_CONVERGE_INCONCLUSIVE);   /* too few values */
+    ck_assert_int_eq(c->verdict, EMBZ_CONVERGE_NO);
+    ck_assert(c->proven);
+    ck_assert(!c->harmonic);
+    int saw = 0;
+    for (slong k = 0; k < c->nfacts; k++) saw |= c->facts[k].kind == EMBZ_FACT_M_BOUNDS;
+    ck_assert(saw);
+    for (slong j = 0; j < c->sweep->len; j++)
+        if (c->sweep->pts[j].res.bounds_only) {
+            const embz_fidelity_result_struct *r = &c->sweep->pts[j].res;
+            /* the distance covers the tighter certified bounds */
+            ck_assert(arb_contains(c->dist + j, r->have_tight ? r->tight_lo : r->lower));
+            ck_assert(arb_contains(c->dist + j, r->have_tight ? r->tight_hi : r->upper));
+        }
+    embz_mclassify_clear(c);
+    embz_classify_opts_clear(o);
+    embz_family_clear(f);
+}
+END_TEST
+
 static Suite *analysis_suite(void)
 {
     Suite *s = suite_create("analysis");
@@ -758,6 +917,9 @@ static Suite *analysis_suite(void)
     tcase_add_test(tc, test_limit_inside_interval);
     tcase_add_test(tc, test_fact_words);
     tcase_add_test(tc, test_msweep);
+    tcase_add_test(tc, test_mclassify_overlap_inverse);
+    tcase_add_test(tc, test_mclassify_purified_inverse);
+    tcase_add_test(tc, test_mclassify_bounds_only);
     suite_add_tcase(s, tc);
     return s;
 }

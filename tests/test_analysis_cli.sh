@@ -27,6 +27,52 @@ assert pts[-1]['n'] == e['n'] and F(e['value_lo']) <= his[-1] and los[-1] <= F(e
 run sweep logpower --from 10^30 --to 10^40 --points 2 --measure fidelity
 expect_rc 0 "sweep --measure fidelity, bounds"
 expect_out "BOUNDS [" "bounds are marked in the measure sweep"
+# ---- classify --measure: the distance per size as sweep --measure certifies it, the verdict
+# from the K criterion (K <= P <= sqrt(K (2 - K)), docs/measures.md), the 1/i law
+run classify inverse --measure purified --to 10^60 --points 8 --json
+expect_rc 0 "classify --measure purified"
+cp "$TMP/out" "$TMP/mcls.json"
+run sweep inverse --from 100 --to 10^60 --points 8 --measure purified --json
+expect_rc 0 "sweep --measure purified at classify's sizes"
+cp "$TMP/out" "$TMP/mcls_sweep.json"
+run classify inverse --to 10^60 --points 8 --json
+expect_rc 0 "classify (K) at the same sizes"
+printf '%s' "$out" > "$TMP/kcls.json"
+pycheck "classify --measure purified: same enclosures as sweep --measure, K <= P, proven verdict, fits marked" "
+import json
+from fractions import Fraction as F
+c = json.load(open('$TMP/mcls.json')); s = json.load(open('$TMP/mcls_sweep.json'))
+k = json.load(open('$TMP/kcls.json'))
+assert c['measure'] == 'purified' and c['distance'] == 'P' and c['verdict'] == 'converges'
+assert c['verdict_proven'] and c['k_verdict'] == k['verdict'] == 'embezzler'
+assert 'exponent' in c['estimates_not_certified'] and c['harmonic_law'] is not None
+assert len(c['points']) == len(s['points']) == len(k['points']) == 8
+for p, q, e in zip(c['points'], s['points'], k['points']):
+    assert p['n'] == q['n'] == e['n'] and not p['bounds_only']
+    assert F(p['distance_lo']) <= F(q['value_hi']) and F(q['value_lo']) <= F(p['distance_hi'])
+    assert F(e['error_lo']) <= F(p['distance_hi'])
+"
+run classify inverse --measure overlap --to 10^40 --points 6
+expect_rc 0 "classify --measure overlap, text"
+expect_out "verdict    converges   (proven)" "the overlap of 1/i converges by its exact law"
+expect_out "1 - O = C_2(n) / H_n" "the derived law is shown"
+expect_out "(fitted estimate)" "the fitted rate is marked as an estimate"
+run classify logpower --measure purified --to 10^60 --points 6 --csv
+expect_rc 0 "classify --measure purified, bounds-only sizes, CSV"
+pycheck "classify --measure purified of logpower: bounds-only sizes counted, not fitted, one row" '
+import csv, sys
+rows = list(csv.DictReader(sys.stdin))
+assert len(rows) == 1, rows
+r = rows[0]
+assert r["measure"] == "purified" and int(r["sizes_bounds_only"]) >= 4
+assert int(r["sizes_values"]) + int(r["sizes_bounds_only"]) + int(r["sizes_failed"]) == 6
+assert "certified bounds only" in r["reasons"] and r["fit_verdict"] == "inconclusive"
+assert r["verdict"] == "converges" and r["verdict_proven"] == "1"
+'
+run classify geometric --measure fidelity --to 10^40 --points 6
+expect_rc 0 "classify --measure fidelity of a summable weight"
+expect_out "verdict    does_not_converge" "F_max stays away from 1 when K stays away from 0"
+
 run sweep inverse --from 10 --to 10^30 --points 7 --csv
 expect_rc 0 "sweep csv"
 pycheck "sweep csv: 7 rows, sizes 10^(1+29j/6) rounded, E decreasing, no progress bar" '

@@ -40,6 +40,20 @@ if command -v pdftotext >/dev/null; then
     check "plot --optimum pdf" "$EMBZ" plot inverse --to 10^6 --points 5 --optimum -o "$T/o.pdf"
     check "the legend names the optimum" bash -c "pdftotext '$T/o.pdf' - | grep -qx optimum"
 fi
+# --measure: the measure's values as points, bounds-only sizes (logpower beyond 2^20) as
+# intervals with a legend entry of their own, the axis naming the measure
+check "plot --measure overlap svg" "$EMBZ" plot inverse power --to 10^40 --points 5 --measure overlap -o "$T/m.svg"
+check "measure svg parses" xml_ok "$T/m.svg"
+if command -v pdftotext >/dev/null; then
+    check "plot --measure purified pdf" "$EMBZ" plot inverse logpower --to 10^40 --points 5 \
+        --measure purified -o "$T/m.pdf"
+    check "the title and axis name the purified distance" bash -c \
+        "pdftotext '$T/m.pdf' - | grep -q 'Purified distance P, target ebit' && pdftotext '$T/m.pdf' - | grep -q 'F_max) (certified)'"
+    check "bounds-only sizes have their legend entry" bash -c \
+        "pdftotext '$T/m.pdf' - | grep -qF 'logpower (b=1/2) (bounds only)'"
+    check "a family with values only has none" bash -c \
+        "! pdftotext '$T/m.pdf' - | grep -qF 'inverse (bounds only)'"
+fi
 
 # usage errors: exit 2, nothing written
 "$EMBZ" plot inverse -o "$T/x.gif" 2>/dev/null; check "bad extension exit 2" test $? -eq 2

@@ -216,8 +216,38 @@ typedef enum {
     EMBZ_FACT_FROM_ANALYTIC,      /* the verdict comes from the analytic route alone */
     EMBZ_FACT_DISAGREE,           /* analytic verdict v1 against numeric v2 (EMBZ_VERDICT_*) */
     EMBZ_FACT_AGREE,              /* both routes agree */
-    EMBZ_FACT_NARROWED            /* the sweep was cut to sizes n <= k1, the reach of explicit
+    EMBZ_FACT_NARROWED,           /* the sweep was cut to sizes n <= k1, the reach of explicit
                                      summation; s0 why the analytic engine declined */
+    /* facts of a measure's classification (embz_mclassify); D is its distance (see there) */
+    EMBZ_FACT_M_LAST,             /* certified s0 <= D_n <= s1 at the largest size with a value,
+                                     n = s2 (k1: shortened); v1 the measure */
+    EMBZ_FACT_M_BOUNDS,           /* k1 of k2 sizes have certified bounds only (the largest
+                                     n = s0, s1 <= D_n <= s2 there): used as bounds, not fitted;
+                                     v1 the measure */
+    EMBZ_FACT_M_NO_VALUES,        /* no size has a value (bounds only or failed): no fit */
+    EMBZ_FACT_M_FIT,              /* D decays like `law` with C = x0 [x1, x2], g = x3 [x4, x5],
+                                     largest relative residual x6, k1 points; v1 the measure */
+    EMBZ_FACT_M_FIT_LIMIT,        /* best law `law` has a positive limit x0 [x1, x2] against
+                                     D_N = x3; k1: resolved (does not converge), else too slow */
+    EMBZ_FACT_M_FIT_NONE,         /* no decay exponent visible (g = x0 [x1, x2] of `law`) */
+    EMBZ_FACT_M_BY_K,             /* the K classification's verdict v2 (EMBZ_VERDICT_*), k1: it
+                                     rests on the analytic criterion; with K <= P <= sqrt(K (2 -
+                                     K)) (fidelity, purified) or O^2 <= F_max <= 1 - K^2
+                                     (overlap, k2 = 1) the measure's verdict v1 */
+    EMBZ_FACT_M_SANDWICH_RATE,    /* K fitted like `law` with g = x0 [x1, x2]: P lies between
+                                     that law and its square root, exponent in [x0/2, x0]
+                                     (1 - F_max: [x0, 2 x0]; k1 = 1) */
+    EMBZ_FACT_M_HARMONIC,         /* weight 1/i, d = k1: 1 - O = C_d(n)/H_n exactly, C_d
+                                     convergent; C_d(N) in [s0, s1] at n = s2 (certified),
+                                     1 - O ~ C_d / ln n */
+    EMBZ_FACT_M_HARMONIC_P,       /* weight 1/i (fidelity, purified): 1 - F_max <= 1 - O^2 <=
+                                     2 C_2 / H_n, so P <= sqrt(2 C_2 / H_n) at every n; C_2 in
+                                     [s0, s1]; s2 the certified ratio (1 - F_max) / (1 - O^2)
+                                     at the largest size with a value, as "[lo, hi]" */
+    EMBZ_FACT_M_AGREE,            /* the fit agrees with the proven verdict */
+    EMBZ_FACT_M_DISAGREE          /* the fit (v2, EMBZ_CONVERGE_*) against the verdict v1 from
+                                     K (k1: proven, kept; else inconclusive); k2: against K's
+                                     fitted positive limit (K inconclusive) */
 } embz_fact_t;
 
 typedef struct {
@@ -275,6 +305,65 @@ void embz_classify_opts_clear(embz_classify_opts_t o);
  * distinct objects. */
 int embz_classify(embz_classify_t c, const embz_family_t f, const embz_classify_opts_t o,
                   embz_progress_fn progress, void *ctx, embz_err_t *err);
+
+/* ------------------------------------------------------------------ classification of a
+ * fidelity measure */
+
+/* Does a fidelity-type measure reach a perfect conversion as n grows, and how fast? Its
+ * distance D_n is P_n (purified), 1 - F_max (fidelity) or 1 - O_n with O the unsquared
+ * local-unitary overlap (overlap); "converges" means D_n -> 0. */
+enum {
+    EMBZ_CONVERGE_INCONCLUSIVE = 0,
+    EMBZ_CONVERGE_YES,
+    EMBZ_CONVERGE_NO
+};
+const char *embz_converge_id(int v);   /* "inconclusive", "converges", "does_not_converge" */
+
+typedef struct {
+    int measure;                 /* EMBZ_MEASURE_FIDELITY, _PURIFIED, _OVERLAP */
+    int verdict;                 /* combined: EMBZ_CONVERGE_* */
+    int proven;                  /* the verdict follows from theorems (the K criterion with
+                                    the K bracket, or the exact law of 1/i), not from fits */
+    int fit_verdict;             /* from the fit of D over the sizes with values */
+    int k_verdict;               /* EMBZ_VERDICT_* of the K classification (one ebit) */
+    int k_by_criterion;          /* that verdict rests on the analytic route's criterion */
+    slong nvalues, nbounds, nfailed;   /* sizes with a value, with bounds only, failed */
+    int narrowed;                /* the engine declined the large sizes (fewer than 5 sizes
+                                    had a result): the measure was swept up to
+                                    EMBZ_FIDELITY_MAX_N instead (fact EMBZ_FACT_NARROWED) */
+    int law;                     /* fitted law of D (EMBZ_LAW_*), an estimate */
+    double exponent, exponent_lo, exponent_hi, coeff;
+    double limit_lo, limit_hi;   /* limit of D: [0, certified D at the largest size] when
+                                    converging, else the fitted interval (estimate); NaN */
+    int harmonic;                /* the weight is 1/i: the law 1 - O = C_d(n)/H_n holds */
+    arb_t harmonic_c;            /* harmonic: C_d(N) = (1 - O_N) H_N at the largest size N */
+    embz_classify_fact_struct facts[EMBZ_CLASSIFY_MAX_REASONS];
+    slong nfacts;
+    embz_msweep_t sweep;         /* the measure at the sizes */
+    embz_fitset_t fits;          /* fits of D (sizes with values only) */
+    arb_ptr dist;                /* D per size (sweep.len): the value's ball, or for bounds
+                                    only a ball covering the certified bounds; indeterminate
+                                    where the size failed */
+    embz_classify_t kc;          /* the K classification behind k_verdict */
+} embz_mclassify_struct;
+typedef embz_mclassify_struct embz_mclassify_t[1];
+
+void embz_mclassify_init(embz_mclassify_t c);
+void embz_mclassify_clear(embz_mclassify_t c);
+
+/* The measure's classification for one ebit over the sizes of o (embz_classify_opts_t): the
+ * sweep of the measure (embz_msweep_run; over [from, EMBZ_FIDELITY_MAX_N] instead when the
+ * analytic engine declines the large sizes and fewer than 5 have a result), fits of D over the sizes with values (bounds-only
+ * sizes are reported, never fitted), the K classification embz_classify(f, o), and the
+ * derived law for the weight 1/i (overlap). Verdict: for fidelity and purified, P -> 0
+ * exactly when K -> 0 (K <= P <= sqrt(K (2 - K))), so a definite K verdict decides it; for the
+ * overlap a K that does not go to 0 decides "does not converge" (O^2 <= F_max <= 1 - K^2) and
+ * the weight 1/i decides "converges" (exact law); otherwise the fit, marked as an estimate.
+ * Returns EMBZ_OK, EMBZ_ERR_INPUT for a measure that is not a fidelity measure, or the
+ * failure of the sweeps (err filled). */
+int embz_mclassify(embz_mclassify_t c, const embz_family_t f, int measure,
+                   const embz_classify_opts_t o, embz_progress_fn progress, void *ctx,
+                   embz_err_t *err);
 
 /* ------------------------------------------------------------------ scans */
 

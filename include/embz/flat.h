@@ -150,7 +150,13 @@ int embz_flat_scan(embz_flat_table **out, const embz_flat_family *f, const char 
  * qubits_only != 0: stop once ceil(log2 n) is decided). One row: status (found,
  * not_reached, undecided), n, n_hex, qubits, n_low, exhaustive, checked_below,
  * stay_checked_to, again_above, err_lo, err_hi, prev_lo, prev_hi, largest, largest_lo,
- * largest_hi, undecided_lo, undecided_hi, never, evaluations. */
+ * largest_hi, undecided_lo, undecided_hi, never, evaluations.
+ * o->measure = 2 (purified) searches P_n <= eps as embz size --measure purified: first on
+ * certified enclosures of P (one row, measure "purified", route "direct", goal, bounds_seen;
+ * err_* enclose P); where that search was left open at a size with bounds only, the bracket
+ * between two searches on K instead, two rows: route "lower" (K <= eps, needed since P >= K)
+ * and route "upper" (K <= 1 - sqrt(1 - eps^2), enough since P <= sqrt(K (2 - K)); goal_lo,
+ * goal_hi that goal). Measures 1 and 3 (fidelities: larger is better) are EMBZ_ERR_INPUT. */
 int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char *eps,
                    const embz_flat_target *q, int qubits_only, const embz_flat_opts *o,
                    embz_flat_err *err);

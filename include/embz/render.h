@@ -52,6 +52,9 @@ slong embz_plot_ticks(embz_plot_tick_t *ticks, double lo, double hi, int logscal
 #define EMBZ_PLOT_LINE 2     /* a polyline through the points (NaN y breaks it) */
 #define EMBZ_PLOT_DASHED 4   /* dashed line */
 #define EMBZ_PLOT_BAND 8     /* lo/hi drawn as a shaded band (else as error bars) */
+#define EMBZ_PLOT_INTERVALS 16 /* lo/hi drawn as a vertical interval with caps at every point,
+                                however short; y may be NaN (bounds, no value), and the
+                                intervals count for the axis range */
 
 typedef struct {
     char *label;             /* legend text; NULL or "" keeps it out of the legend */
@@ -223,6 +226,9 @@ char *embz_markdown_escape(const char *text);
  * (embz_sweep_struct.narrowed); NULL when it was not. */
 char *embz_sweep_narrow_text(const embz_sweep_struct *s);
 char *embz_classify_fact_text(const embz_classify_fact_struct *f);
+/* The distance a measure's classification fits (embz_mclassify): "P", "1 - F_max",
+ * "1 - O". */
+const char *embz_mclassify_distance_name(int measure);
 /* How a value was computed (malloc'ed; the caller frees it): the method, its budgets and
  * counts, and the reason behind a fallback or a bracket, in full. */
 char *embz_error_how_text(const embz_error_how_struct *h);

@@ -16,7 +16,7 @@ from ._ffi import Cancel, LIBRARY_PATH
 from ._errors import (EmbzError, InputError, DomainError, ComputeError, Cancelled)
 from ._core import (Family, Target, Ball, ErrorResult, ErrorSeries, SizeFailure, error,
                     errors, families)
-from ._analysis import (Conversion, Fit, Sweep, Verdict, ScanResult, SizeResult,
+from ._analysis import (Conversion, Fit, Sweep, Verdict, ScanResult, SizeResult, SizeBracket,
                         Comparison, convert, sweep, classify, scan, size, compare)
 from ._render import plot_svg, plot_errorbars, report, report_html
 from ._ffi import lib as _lib, text as _text
@@ -26,5 +26,6 @@ __version__ = _text(_lib.embz_flat_version())
 __all__ = ["Cancel", "EmbzError", "InputError", "DomainError", "ComputeError", "Cancelled",
            "Family", "Target", "Ball", "ErrorResult", "ErrorSeries", "SizeFailure", "error",
            "errors", "families", "Conversion", "Fit", "Sweep", "Verdict", "ScanResult",
-           "SizeResult", "Comparison", "convert", "sweep", "classify", "scan", "size",
+           "SizeResult", "SizeBracket", "Comparison", "convert", "sweep", "classify", "scan",
+           "size",
            "compare", "plot_svg", "plot_errorbars", "report", "report_html", "LIBRARY_PATH"]

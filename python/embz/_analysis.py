@@ -331,6 +331,11 @@ class SizeResult:
         self.explicit_only = row.get("explicit_only") == "1"
         self.reach = int(row["reach"]) if self.explicit_only else None
         self.why = row.get("why", "")
+        # the measure searched: 'k', or 'purified' decided on enclosures of P ('direct') or
+        # one side of the bracket from K ('lower', 'upper'; see SizeBracket)
+        self.measure = row.get("measure", "k")
+        self.route = row.get("route", "k")
+        self.bounds_seen = row.get("bounds_seen") == "1"
         self.n = self.qubits = self.n_low = None
         self.never = False
         self.exhaustive = False
@@ -375,17 +380,59 @@ class SizeResult:
         return _html_table([("goal", "E <= %s" % self.eps), ("result", str(self))])
 
 
+class SizeBracket:
+    """The smallest n with P_n <= eps bracketed between two searches on K (``embz size
+    --measure purified`` where P has certified bounds only at the size that matters):
+    ``status`` is 'bracket', ``lower`` the :class:`SizeResult` for K <= eps (P >= K, so P needs
+    at least that size) and ``upper`` the one for K <= 1 - sqrt(1 - eps^2) (P <= sqrt(K (2 -
+    K)), so that size suffices; its goal in ``upper_goal``, a :class:`Ball`). ``n_min`` and
+    ``n_max`` are the two sizes where found, else None."""
+
+    def __init__(self, lower, upper, upper_goal, family, target, eps):
+        self.status = "bracket"
+        self.measure = "purified"
+        self.route = "bracket"
+        self.family = family
+        self.target = target
+        self.eps = eps
+        self.lower = lower
+        self.upper = upper
+        self.upper_goal = upper_goal
+        self.n_min = lower.n if lower.status == "found" else None
+        self.n_max = upper.n if upper.status == "found" else None
+
+    def __str__(self):
+        lo = _num.show_int(self.n_min) if self.n_min is not None else "?"
+        hi = _num.show_int(self.n_max) if self.n_max is not None else "?"
+        return "P <= %s for %s, target %s: the smallest n lies in [%s, %s] (from K)" % (
+            self.eps, self.family, self.target, lo, hi)
+
+    def __repr__(self):
+        return "SizeBracket(n_min=%s, n_max=%s)" % (self.n_min, self.n_max)
+
+    def _repr_html_(self):
+        return _html_table([("goal", "P <= %s" % self.eps), ("result", str(self))])
+
+
 def size(family, eps, target=None, *, qubits=False, prec=None, amplitude=False, params=None,
-         **parameters):
+         measure="k", **parameters):
     """The smallest n with E_n(q) <= eps (eps an exact number: 0.01, '1e-3', Fraction(1, 100)):
-    a :class:`SizeResult`. qubits=True stops once the qubits per side are decided."""
+    a :class:`SizeResult`. qubits=True stops once the qubits per side are decided.
+    measure='purified' searches P_n <= eps instead (as ``embz size --measure purified``): a
+    :class:`SizeResult` decided on certified enclosures of P (``route`` 'direct'), or, where P
+    has bounds only at the size left open, a :class:`SizeBracket` from two searches on K."""
     fam = as_family(family, params, amplitude, **parameters)
     q = as_target(target)
     ce = _ffi.cstr(_num.number_text(eps))
-    o = make_opts(prec=prec)
+    o = make_opts(prec=prec, measure="k" if measure is None else measure)
     rows = call_table(lambda out, e: lib.embz_flat_size(out, fam._h, ce, q._h,
                                                         1 if qubits else 0, o, e), o)
-    return SizeResult(rows[0], fam.label, q.label)
+    if rows[0].get("route", "direct") == "direct":
+        return SizeResult(rows[0], fam.label, q.label)
+    lower = SizeResult(rows[0], fam.label, q.label)
+    upper = SizeResult(rows[1], fam.label, q.label)
+    return SizeBracket(lower, upper, Ball(rows[1], "goal"), fam.label, q.label,
+                       rows[0]["eps"])
 
 
 # ------------------------------------------------------------------ comparisons

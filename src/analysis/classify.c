@@ -8,6 +8,7 @@
 #include "embz/analysis.h"
 #include "embz/util.h"
 #include "embz/defaults.h"
+#include "classify_impl.h"
 
 /* ANALYTIC ROUTE HOOK: set to 0 to build the numeric route alone (without the asymptotic
  * engine of include/embz/asym.h and src/analysis/asym*.c). */
@@ -15,13 +16,6 @@
 #if EMBZ_CLASSIFY_WITH_ASYM
 #include "embz/asym.h"
 #endif
-
-/* Decision constants of the numeric route (estimates; see docs/analysis.md). */
-#define G_MIN 0.03          /* smallest fitted decay exponent counted as visible decay */
-#define FLAT_REL 1e-9       /* relative spread of E over the fit range counted as "flat" */
-#define LIMIT_NEAR 0.5      /* a fitted limit L counts as reached when L_lo > LIMIT_NEAR E_N */
-#define LIMIT_SMALL 0.1     /* a fitted limit below LIMIT_SMALL E_N counts as 0 */
-#define G_SLOW 0.75         /* slowest resolved approach (ln n)^-g to a positive limit */
 
 const char *embz_verdict_id(int v)
 {
@@ -48,43 +42,18 @@ void embz_classify_opts_clear(embz_classify_opts_t o)
 
 static void clear_facts(embz_classify_t c)
 {
-    for (slong k = 0; k < c->nfacts; k++)
-        for (int j = 0; j < 3; j++) free(c->facts[k].s[j]);
-    c->nfacts = 0;
+    _embz_facts_clear(c->facts, &c->nfacts);
 }
 
-static char *dup_text(const char *t)
-{
-    if (t == NULL) return NULL;
-    size_t l = strlen(t) + 1;
-    char *d = malloc(l);
-    memcpy(d, t, l);
-    return d;
-}
-
-/* A new fact of this kind (all numbers NaN, no texts), or NULL when the list is full. */
 static embz_classify_fact_struct *fact(embz_classify_t c, int kind)
 {
-    if (c->nfacts >= EMBZ_CLASSIFY_MAX_REASONS) return NULL;
-    embz_classify_fact_struct *f = c->facts + c->nfacts++;
-    memset(f, 0, sizeof(*f));
-    f->kind = kind;
-    f->law = -1;
-    for (int j = 0; j < 8; j++) f->x[j] = NAN;
-    return f;
+    return _embz_fact_new(c->facts, &c->nfacts, kind);
 }
 
-/* A fact with up to three texts and eight numbers (n of them given). */
 static void fact_sx(embz_classify_t c, int kind, int law, const char *s0, const char *s1,
                     const char *s2, int n, const double *x)
 {
-    embz_classify_fact_struct *f = fact(c, kind);
-    if (f == NULL) return;
-    f->law = law;
-    f->s[0] = dup_text(s0);
-    f->s[1] = dup_text(s1);
-    f->s[2] = dup_text(s2);
-    for (int j = 0; j < n && j < 8; j++) f->x[j] = x[j];
+    _embz_fact_add(c->facts, &c->nfacts, kind, law, s0, s1, s2, n, x);
 }
 
 void embz_classify_init(embz_classify_t c)

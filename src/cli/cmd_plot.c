@@ -20,6 +20,7 @@ static const cli_opt_t plot_opts[] = {
     { "set", 's', CLI_LIST, "NAME=VALUE", "set a parameter of the families that have it" },
     CLI_OPT_PREC_MANY,
     { "title", 0, CLI_VALUE, "TEXT", "title of the figure" },
+    { "measure", 0, CLI_VALUE, "M", "k (default), or fidelity, purified, overlap: plot that measure" },
     CLI_OPT_END
 };
 
@@ -34,6 +35,11 @@ static const cli_spec_t plot_spec = {
     "--optimum adds the smallest error any state of Schmidt rank n reaches, OPT_n, at the\n"
     "same sizes: the exact closed form of docs/optimal.md, a dashed grey line labelled\n"
     "'optimum' (uniform targets only: ebit, ebits:J, uniform:D).\n"
+    "--measure fidelity|purified|overlap plots that measure instead, each size as 'embz\n"
+    "error --measure' certifies it: values as points (with bars where visible), sizes with\n"
+    "certified bounds only as vertical intervals without a point (their own legend entry,\n"
+    "'bounds only'). P is drawn on a log axis, F_max and O^2 on a linear one; the axis label\n"
+    "names the measure. Not with --optimum (the optimum is known for K only).\n"
     "Output: -o - (or /dev/stdout) streams the figure to standard output (svg unless\n"
     "--format says otherwise). Any other FILE is written as 'embz report --help' describes\n"
     "(atomically, links followed, mode kept): an interrupted run leaves no partial or\n"
@@ -120,6 +126,83 @@ static slong log_sizes(fmpz *out, const fmpz_t a, const fmpz_t b, slong k)
     return len;
 }
 
+/* The axis coordinate of a value of the measure: log10 on the purified distance's log axis,
+ * the value itself on the linear axis of a fidelity. */
+static void measure_coords(double *lo, double *mid, double *hi, const arb_t lo_b,
+                           const arb_t mid_b, const arb_t hi_b, int ylog)
+{
+    if (ylog) {
+        double a, b, c;
+        arb_log10_d(&a, &b, &c, lo_b);
+        *lo = a;
+        arb_log10_d(&a, &b, &c, mid_b);
+        *mid = b;
+        arb_log10_d(&a, &b, &c, hi_b);
+        *hi = c;
+        return;
+    }
+    arf_t t;
+    arf_init(t);
+    arb_get_lbound_arf(t, lo_b, 64);
+    *lo = arf_get_d(t, ARF_RND_DOWN);
+    *mid = arf_get_d(arb_midref(mid_b), ARF_RND_NEAR);
+    arb_get_ubound_arf(t, hi_b, 64);
+    *hi = arf_get_d(t, ARF_RND_UP);
+    arf_clear(t);
+}
+
+/* --measure: one family's series of the measure at the sizes (values), and a series of
+ * vertical intervals for the sizes with certified bounds only. Returns EMBZ_ERR_DOMAIN when
+ * the weight is invalid (the caller stops), else EMBZ_OK; other failures leave a size out. */
+static int plot_measure(embz_plot_t fig, slong pe, const embz_family_struct *fam,
+                        const char *label, const fmpz *sizes, slong ns, const embz_target_t q,
+                        int measure, int ylog, slong prec, long *skipped)
+{
+    slong s = embz_plot_add_series(fig, pe, label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE, -1000);
+    slong sb = -1;
+    embz_fidelity_result_t r;
+    embz_fidelity_result_init(r);
+    int status = EMBZ_OK;
+    for (slong j = 0; j < ns; j++) {
+        embz_err_t e;
+        embz_err_clear(&e);
+        int st = embz_fidelity(r, fam, sizes + j, q, measure, EMBZ_METHOD_AUTO, prec, &e);
+        double x = fmpz_log10_d(sizes + j), lo, mid, hi;
+        if (st != EMBZ_OK) {
+            char buf[3000], *ns_text = embz_fmpz_string(sizes + j, 30);
+            embz_err_format(buf, sizeof(buf), &e);
+            fprintf(stderr, "embz plot: %s: n = %s left out: %s\n", label, ns_text, buf);
+            free(ns_text);
+            (*skipped)++;
+            embz_plot_push(fig, pe, s, NAN, NAN, NAN, NAN);     /* break the line there */
+            if (st == EMBZ_ERR_DOMAIN) {
+                status = st;
+                break;
+            }
+            continue;
+        }
+        if (!r->bounds_only) {
+            measure_coords(&lo, &mid, &hi, r->value, r->value, r->value, ylog);
+            embz_plot_push(fig, pe, s, x, mid, lo, hi);
+            continue;
+        }
+        if (sb < 0) {
+            char bl[200];
+            snprintf(bl, sizeof(bl), "%s (bounds only)", label);
+            sb = embz_plot_add_series(fig, pe, bl, EMBZ_PLOT_INTERVALS,
+                                      fig->panels[pe].series[s].colour);
+        }
+        if (r->have_tight)
+            measure_coords(&lo, &mid, &hi, r->tight_lo, r->value, r->tight_hi, ylog);
+        else
+            measure_coords(&lo, &mid, &hi, r->lower, r->value, r->upper, ylog);
+        embz_plot_push(fig, pe, sb, x, NAN, lo, hi);
+        embz_plot_push(fig, pe, s, NAN, NAN, NAN, NAN);         /* no value: break the line */
+    }
+    embz_fidelity_result_clear(r);
+    return status;
+}
+
 int cli_cmd_plot(int argc, char **argv)
 {
     cli_args_t a;
@@ -198,6 +281,20 @@ int cli_cmd_plot(int argc, char **argv)
         goto done;
 
     int optimum = cli_flag(&a, "optimum");
+    int measure = EMBZ_MEASURE_K;
+    if (cli_value(&a, "measure") != NULL) {
+        embz_err_t me;
+        embz_err_clear(&me);
+        if (embz_measure_parse(&measure, cli_value(&a, "measure"), &me) != EMBZ_OK) {
+            code = cli_usage_error(&plot_spec, "%s", me.text);
+            goto done;
+        }
+        if (measure != EMBZ_MEASURE_K && optimum) {
+            code = cli_usage_error(&plot_spec, "--optimum is known for the distance K only, "
+                                   "not with --measure %s", embz_measure_name(measure));
+            goto done;
+        }
+    }
     if (optimum && q->kind != EMBZ_TARGET_UNIFORM) {
         code = cli_usage_error(&plot_spec, "--optimum needs a uniform target (ebit, ebits:J, "
                                "uniform:D): the optimum is not known for the target %s",
@@ -207,37 +304,59 @@ int cli_cmd_plot(int argc, char **argv)
 
     slong ns = log_sizes(sizes, A, B, points);
     char title[160];
-    snprintf(title, sizeof(title), "Embezzlement error, target %s", q->label);
-    slong pe = embz_plot_add_panel(fig, title, "size n",
-                                   "E\xe2\x82\x99(q) (certified; bars where visible)", 1, 1);
     long skipped = 0;
-    for (long i = 0; i < nfam; i++) {
-        char *label = cli_family_label(fam + i);
-        slong s = embz_plot_add_series(fig, pe, label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE, -1000);
-        arb_ptr E = _arb_vec_init(ns);
-        int *st = calloc((size_t) ns, sizeof(int));
-        embz_err_t *errs = calloc((size_t) ns, sizeof(embz_err_t));
-        status = embz_errors_at(E, st, errs, fam + i, sizes, ns, q, prec);
-        for (slong j = 0; j < ns && st[j] != -1; j++) {
-            if (st[j] == EMBZ_OK) {
-                double lo, mid, hi;
-                arb_log10_d(&lo, &mid, &hi, E + j);
-                embz_plot_push(fig, pe, s, fmpz_log10_d(sizes + j), mid, lo, hi);
-            } else {
-                char buf[3000], *ns_text = embz_fmpz_string(sizes + j, 30);
-                embz_err_format(buf, sizeof(buf), errs + j);
-                fprintf(stderr, "embz plot: %s: n = %s left out: %s\n", label, ns_text, buf);
-                free(ns_text);
-                skipped++;
+    slong pe;
+    if (measure != EMBZ_MEASURE_K) {
+        static const char *const names[] = { "", "Optimal LOCC fidelity F_max",
+                                             "Purified distance P", "Local-unitary fidelity O\xc2\xb2" };
+        static const char *const ylabels[] = {
+            "", "F_max (certified)", "P = \xe2\x88\x9a(1 - F_max) (certified)",
+            "O\xc2\xb2, local unitaries only (certified)" };
+        int ylog = measure == EMBZ_MEASURE_PURIFIED;
+        snprintf(title, sizeof(title), "%s, target %s", names[measure], q->label);
+        pe = embz_plot_add_panel(fig, title, "size n", ylabels[measure], 1, ylog);
+        for (long i = 0; i < nfam; i++) {
+            char *label = cli_family_label(fam + i);
+            status = plot_measure(fig, pe, fam + i, label, sizes, ns, q, measure, ylog, prec,
+                                  &skipped);
+            free(label);
+            if (status == EMBZ_ERR_DOMAIN) {
+                code = cli_exit_code(status);
+                goto done;
             }
         }
-        _arb_vec_clear(E, ns);
-        free(st);
-        free(errs);
-        free(label);
-        if (status == EMBZ_ERR_DOMAIN) {
-            code = cli_exit_code(status);
-            goto done;
+    } else {
+        snprintf(title, sizeof(title), "Embezzlement error, target %s", q->label);
+        pe = embz_plot_add_panel(fig, title, "size n",
+                                       "E\xe2\x82\x99(q) (certified; bars where visible)", 1, 1);
+        for (long i = 0; i < nfam; i++) {
+            char *label = cli_family_label(fam + i);
+            slong s = embz_plot_add_series(fig, pe, label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE, -1000);
+            arb_ptr E = _arb_vec_init(ns);
+            int *st = calloc((size_t) ns, sizeof(int));
+            embz_err_t *errs = calloc((size_t) ns, sizeof(embz_err_t));
+            status = embz_errors_at(E, st, errs, fam + i, sizes, ns, q, prec);
+            for (slong j = 0; j < ns && st[j] != -1; j++) {
+                if (st[j] == EMBZ_OK) {
+                    double lo, mid, hi;
+                    arb_log10_d(&lo, &mid, &hi, E + j);
+                    embz_plot_push(fig, pe, s, fmpz_log10_d(sizes + j), mid, lo, hi);
+                } else {
+                    char buf[3000], *ns_text = embz_fmpz_string(sizes + j, 30);
+                    embz_err_format(buf, sizeof(buf), errs + j);
+                    fprintf(stderr, "embz plot: %s: n = %s left out: %s\n", label, ns_text, buf);
+                    free(ns_text);
+                    skipped++;
+                }
+            }
+            _arb_vec_clear(E, ns);
+            free(st);
+            free(errs);
+            free(label);
+            if (status == EMBZ_ERR_DOMAIN) {
+                code = cli_exit_code(status);
+                goto done;
+            }
         }
     }
 

@@ -136,6 +136,69 @@ int embz_flat_scan(embz_flat_table **out, const embz_flat_family *f, const char 
     return st;
 }
 
+/* The fields of one solved goal (embz_flat_size and embz_flat_size_measure). */
+static void size_fields(embz_flat_table *t, long row, const embz_size_result_t r,
+                        const embz_family_t f, const embz_target_t tq, const arb_t goal,
+                        slong digits)
+{
+    _flat_set(t, row, "status", embz_size_status_id(r->status));
+    _flat_set_l(t, row, "qubits_only", r->qubits_only);
+    _flat_set_l(t, row, "evaluations", r->evaluations);
+    _flat_set_l(t, row, "explicit_only", r->explicit_only);
+    if (r->explicit_only) {
+        _flat_set_l(t, row, "reach", (long) r->reach);
+        _flat_set(t, row, "why", r->why);
+    }
+    if (r->status == EMBZ_SIZE_FOUND) {
+        _flat_set_size(t, row, "n", r->n);
+        /* the library's count: ceil(log2) of the Schmidt rank (a level family's
+         * dimension, not n) */
+        _flat_set_l(t, row, "qubits", r->qubits);
+        _flat_set_size(t, row, "n_low", r->n_low);
+        _flat_set_l(t, row, "exhaustive", r->exhaustive);
+        _flat_set_l(t, row, "checked_below", r->checked_below);
+        _flat_set_size(t, row, "stay_checked_to", r->stay_checked_to);
+        _flat_set_l(t, row, "stay_samples", r->stay_samples);
+        _flat_set_size(t, row, "again_above", r->again_above);
+        _flat_set_ends(t, row, "err", r->err_n, digits);
+        _flat_set_ends(t, row, "prev", r->err_prev, digits);
+    } else if (r->status == EMBZ_SIZE_NOT_REACHED) {
+        _flat_set_size(t, row, "largest", r->largest);
+        _flat_set_ends(t, row, "largest", r->err_largest, digits);
+        arb_t L;
+        arb_init(L);
+        /* P >= K: where K never reaches the goal, neither does P */
+        int known = embz_family_ebit_limit(L, f, 128);
+        int never = embz_size_never(r, known > 0, L, tq, goal);
+        _flat_set_l(t, row, "never", never);
+        if (known > 0) _flat_set_ends(t, row, "limit", L, digits);
+        arb_clear(L);
+    } else {
+        _flat_set_size(t, row, "undecided_lo", r->undecided_lo);
+        _flat_set_size(t, row, "undecided_hi", r->undecided_hi);
+        _flat_set_l(t, row, "bracket", r->bracket);
+        if (r->bracket) {
+            _flat_set_size(t, row, "n_low", r->n_low);
+            _flat_set_size(t, row, "n", r->n);
+            _flat_set_l(t, row, "qubits", r->qubits);
+        }
+    }
+}
+
+static int parse_goal(fmpq_t e, const char *eps, embz_flat_err *err)
+{
+    char shown[300];
+    if (eps == NULL || embz_number_parse(e, eps) != EMBZ_OK || fmpq_sgn(e) <= 0
+        || fmpq_cmp_ui(e, 1) >= 0)
+        return _flat_err_set(err, EMBZ_ERR_INPUT, "bad error goal '%s' (a number between 0 and 1)",
+                             eps ? embz_err_quote(shown, sizeof(shown), eps, 100) : "");
+    return EMBZ_OK;
+}
+
+static int size_purified(embz_flat_table **out, const embz_flat_family *f, const char *eps,
+                         const embz_flat_target *q, int qubits_only, const embz_flat_opts *given,
+                         embz_flat_err *err);
+
 int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char *eps,
                    const embz_flat_target *q, int qubits_only, const embz_flat_opts *given,
                    embz_flat_err *err)
@@ -143,16 +206,19 @@ int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char 
     *out = NULL;
     embz_flat_opts o;
     _flat_opts_get(&o, given);
+    if (o.measure == EMBZ_MEASURE_PURIFIED)
+        return size_purified(out, f, eps, q, qubits_only, given, err);
+    if (o.measure != EMBZ_MEASURE_K)
+        return _flat_err_set(err, EMBZ_ERR_INPUT, "the size search takes the measures k and "
+                             "purified (%s, a fidelity, larger is better, is no goal of it)",
+                             embz_measure_name(o.measure));
     slong prec = o.prec > 0 ? o.prec : EMBZ_PREC_ONE;
     slong digits = o.digits > 0 ? o.digits : 20;
     fmpq_t e;
     fmpq_init(e);
-    char shown[300];
-    if (eps == NULL || embz_number_parse(e, eps) != EMBZ_OK || fmpq_sgn(e) <= 0
-        || fmpq_cmp_ui(e, 1) >= 0) {
+    if (parse_goal(e, eps, err) != EMBZ_OK) {
         fmpq_clear(e);
-        return _flat_err_set(err, EMBZ_ERR_INPUT, "bad error goal '%s' (a number between 0 and 1)",
-                             eps ? embz_err_quote(shown, sizeof(shown), eps, 100) : "");
+        return EMBZ_ERR_INPUT;
     }
     embz_target_t one;
     embz_target_init(one);
@@ -166,55 +232,112 @@ int embz_flat_size(embz_flat_table **out, const embz_flat_family *f, const char 
     else {
         embz_flat_table *t = _flat_table_new();
         long row = _flat_row_add(t);
+        arb_t g;
+        arb_init(g);
+        arb_set_fmpq(g, e, 4 * prec);
         _flat_set(t, row, "status", embz_size_status_id(r->status));
         _flat_set(t, row, "eps", eps);
         _flat_set(t, row, "target", tq->label);
-        _flat_set_l(t, row, "qubits_only", r->qubits_only);
-        _flat_set_l(t, row, "evaluations", r->evaluations);
-        _flat_set_l(t, row, "explicit_only", r->explicit_only);
-        if (r->explicit_only) {
-            _flat_set_l(t, row, "reach", (long) r->reach);
-            _flat_set(t, row, "why", r->why);
-        }
-        if (r->status == EMBZ_SIZE_FOUND) {
-            _flat_set_size(t, row, "n", r->n);
-            /* the library's count: ceil(log2) of the Schmidt rank (a level family's
-             * dimension, not n) */
-            _flat_set_l(t, row, "qubits", r->qubits);
-            _flat_set_size(t, row, "n_low", r->n_low);
-            _flat_set_l(t, row, "exhaustive", r->exhaustive);
-            _flat_set_l(t, row, "checked_below", r->checked_below);
-            _flat_set_size(t, row, "stay_checked_to", r->stay_checked_to);
-            _flat_set_l(t, row, "stay_samples", r->stay_samples);
-            _flat_set_size(t, row, "again_above", r->again_above);
-            _flat_set_ends(t, row, "err", r->err_n, digits);
-            _flat_set_ends(t, row, "prev", r->err_prev, digits);
-        } else if (r->status == EMBZ_SIZE_NOT_REACHED) {
-            _flat_set_size(t, row, "largest", r->largest);
-            _flat_set_ends(t, row, "largest", r->err_largest, digits);
-            arb_t L, g;
-            arb_init(L);
-            arb_init(g);
-            arb_set_fmpq(g, e, 4 * prec);
-            int known = embz_family_ebit_limit(L, f->f, 128);
-            int never = embz_size_never(r, known > 0, L, tq, g);
-            _flat_set_l(t, row, "never", never);
-            if (known > 0) _flat_set_ends(t, row, "limit", L, digits);
-            arb_clear(L);
-            arb_clear(g);
-        } else {
-            _flat_set_size(t, row, "undecided_lo", r->undecided_lo);
-            _flat_set_size(t, row, "undecided_hi", r->undecided_hi);
-            _flat_set_l(t, row, "bracket", r->bracket);
-            if (r->bracket) {
-                _flat_set_size(t, row, "n_low", r->n_low);
-                _flat_set_size(t, row, "n", r->n);
-                _flat_set_l(t, row, "qubits", r->qubits);
-            }
-        }
+        size_fields(t, row, r, f->f, tq, g, digits);
+        arb_clear(g);
         *out = t;
     }
     embz_size_result_clear(r);
+    embz_target_clear(one);
+    fmpq_clear(e);
+    return st;
+}
+
+/* embz_flat_size with o->measure = purified (embz size --measure purified). */
+static int size_purified(embz_flat_table **out, const embz_flat_family *f, const char *eps,
+                         const embz_flat_target *q, int qubits_only, const embz_flat_opts *given,
+                         embz_flat_err *err)
+{
+    *out = NULL;
+    embz_flat_opts o;
+    _flat_opts_get(&o, given);
+    slong prec = o.prec > 0 ? o.prec : EMBZ_PREC_ONE;   /* embz size's default */
+    slong digits = o.digits > 0 ? o.digits : 20;
+    fmpq_t e;
+    fmpq_init(e);
+    if (parse_goal(e, eps, err) != EMBZ_OK) {
+        fmpq_clear(e);
+        return EMBZ_ERR_INPUT;
+    }
+    embz_target_t one;
+    embz_target_init(one);
+    const embz_target_struct *tq = q != NULL ? q->q : one;
+    /* the goals: eps for P (and for K, since P >= K), and for K <= 1 - sqrt(1 - eps^2) (then
+     * P <= sqrt(K (2 - K)) <= eps), its lower end so that the size found certainly suffices */
+    arb_t g0, g1;
+    arb_init(g0);
+    arb_init(g1);
+    arb_set_fmpq(g0, e, 4 * prec);
+    arb_sqr(g1, g0, 4 * prec);
+    arb_sub_ui(g1, g1, 1, 4 * prec);
+    arb_neg(g1, g1);
+    arb_sqrt(g1, g1, 4 * prec);
+    arb_sub_ui(g1, g1, 1, 4 * prec);
+    arb_neg(g1, g1);
+    {
+        arf_t lo;
+        arf_init(lo);
+        arb_get_lbound_arf(lo, g1, 4 * prec);
+        arb_set_arf(g1, lo);
+        arf_clear(lo);
+    }
+    embz_size_result_t r;
+    embz_size_result_init(r);
+    embz_err_t ee;
+    embz_err_clear(&ee);
+    embz_flat_table *t = NULL;
+    int st = embz_size_solve_measure(r, f->f, g0, tq, EMBZ_MEASURE_PURIFIED, qubits_only != 0,
+                                     prec, &ee);
+    /* as embz size --measure purified: the search on enclosures of P decides unless it was
+     * left open where P had bounds only; then the bracket between two searches on K */
+    int direct = st == EMBZ_OK
+                 && (r->status == EMBZ_SIZE_FOUND
+                     || (r->status == EMBZ_SIZE_UNDECIDED && !r->undecided_bounds)
+                     || (r->status == EMBZ_SIZE_NOT_REACHED && !r->bounds_seen));
+    if (st == EMBZ_OK) {
+        t = _flat_table_new();
+        if (direct) {
+            long row = _flat_row_add(t);
+            _flat_set(t, row, "status", embz_size_status_id(r->status));
+            _flat_set(t, row, "eps", eps);
+            _flat_set(t, row, "target", tq->label);
+            _flat_set(t, row, "measure", "purified");
+            _flat_set(t, row, "route", "direct");
+            _flat_set(t, row, "goal", eps);
+            _flat_set_l(t, row, "bounds_seen", r->bounds_seen);
+            size_fields(t, row, r, f->f, tq, g0, digits);
+        }
+    }
+    for (int part = 0; st == EMBZ_OK && !direct && part < 2; part++) {
+        embz_size_result_clear(r);
+        embz_size_result_init(r);
+        st = part == 0 ? embz_size_solve_exact_goal(r, f->f, e, tq, prec, qubits_only != 0, &ee)
+           : qubits_only ? embz_size_solve_qubits(r, f->f, g1, tq, prec, &ee)
+           : embz_size_solve(r, f->f, g1, tq, prec, &ee);
+        if (st != EMBZ_OK) break;
+        long row = _flat_row_add(t);
+        _flat_set(t, row, "status", embz_size_status_id(r->status));
+        _flat_set(t, row, "eps", eps);
+        _flat_set(t, row, "target", tq->label);
+        _flat_set(t, row, "measure", "purified");
+        _flat_set(t, row, "route", part == 0 ? "lower" : "upper");
+        if (part == 0) _flat_set(t, row, "goal", eps);
+        else _flat_set_ends(t, row, "goal", g1, digits);
+        size_fields(t, row, r, f->f, tq, part == 0 ? g0 : g1, digits);
+    }
+    if (st != EMBZ_OK) {
+        _flat_err_from(err, st, &ee);
+        if (t != NULL) embz_flat_table_free(t);
+    } else
+        *out = t;
+    embz_size_result_clear(r);
+    arb_clear(g0);
+    arb_clear(g1);
     embz_target_clear(one);
     fmpq_clear(e);
     return st;

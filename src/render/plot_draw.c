@@ -109,7 +109,8 @@ static void data_range(double *lo, double *hi, const embz_plot_panel_struct *P, 
         for (slong i = 0; i < S->len; i++) {
             double v[3] = { yaxis ? S->y[i] : S->x[i], yaxis ? S->lo[i] : NAN,
                             yaxis ? S->hi[i] : NAN };
-            if (!isfinite(S->x[i]) || !isfinite(S->y[i]))
+            if (!isfinite(S->x[i])
+                || (!isfinite(S->y[i]) && !(S->style & EMBZ_PLOT_INTERVALS)))
                 continue;
             for (int k = 0; k < 3; k++)
                 if (isfinite(v[k])) {
@@ -326,6 +327,18 @@ static double legend(cairo_t *cr, const embz_plot_panel_struct *P, double x0, do
                 }
                 if (S->style & EMBZ_PLOT_POINTS)
                     draw_marker(cr, S->marker, x + LEGEND_SAMPLE / 2, y, e[i].colour);
+                if (S->style & EMBZ_PLOT_INTERVALS) {
+                    double xm = x + LEGEND_SAMPLE / 2;
+                    cairo_move_to(cr, xm, y - 6);
+                    cairo_line_to(cr, xm, y + 6);
+                    cairo_move_to(cr, xm - 3, y - 6);
+                    cairo_line_to(cr, xm + 3, y - 6);
+                    cairo_move_to(cr, xm - 3, y + 6);
+                    cairo_line_to(cr, xm + 3, y + 6);
+                    rgb(cr, e[i].colour);
+                    cairo_set_line_width(cr, 1.0);
+                    cairo_stroke(cr);
+                }
             }
             grey(cr, 0.15);
             font(cr, LEGEND_FONT, 0);
@@ -415,7 +428,7 @@ static void draw_series(cairo_t *cr, const frame_t *F, const embz_plot_series_st
             if (!isfinite(S->x[i]) || isnan(S->lo[i]) || isnan(S->hi[i]))
                 continue;
             double x = fx(F, S->x[i]), a = fy(F, S->lo[i]), b = fy(F, S->hi[i]);
-            if (fabs(a - b) < 2 * MARKER_R + 1)
+            if (fabs(a - b) < 2 * MARKER_R + 1 && !(S->style & EMBZ_PLOT_INTERVALS))
                 continue;
             cairo_move_to(cr, x, a);
             cairo_line_to(cr, x, b);

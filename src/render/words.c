@@ -11,6 +11,12 @@ static const char *txt(const char *s)
     return s != NULL ? s : "";
 }
 
+const char *embz_mclassify_distance_name(int measure)
+{
+    return measure == EMBZ_MEASURE_FIDELITY ? "1 - F_max"
+         : measure == EMBZ_MEASURE_OVERLAP ? "1 - O" : "P";
+}
+
 char *embz_classify_fact_text(const embz_classify_fact_struct *f)
 {
     const double *x = f->x;
@@ -97,6 +103,76 @@ char *embz_classify_fact_text(const embz_classify_fact_struct *f)
                    "analytic engine cannot take this family (%s)", f->k1, txt(f->s[0]));
     case EMBZ_FACT_AGREE:
         return embz_strdup_printf("analytic and numeric routes agree");
+    case EMBZ_FACT_M_LAST:
+        return embz_strdup_printf("certified: %s <= %s <= %s at the largest size with a value, n = "
+                   "%s%s", txt(f->s[0]), embz_mclassify_distance_name(f->v1), txt(f->s[1]), txt(f->s[2]),
+                   f->k1 ? " (n shortened)" : "");
+    case EMBZ_FACT_M_BOUNDS:
+        return embz_strdup_printf("%ld of %ld sizes have certified bounds only (the largest: %s <= %s "
+                   "<= %s at n = %s): used as bounds, left out of the fits", f->k1, f->k2,
+                   txt(f->s[1]), embz_mclassify_distance_name(f->v1), txt(f->s[2]), txt(f->s[0]));
+    case EMBZ_FACT_M_NO_VALUES:
+        return embz_strdup_printf("no size has a certified value (bounds only or failed): no fit");
+    case EMBZ_FACT_M_FIT:
+        return embz_strdup_printf("%s decays like %s with C = %.4g [%.4g, %.4g], g = %.4g [%.4g, %.4g] "
+                   "(jackknife, %ld sizes); largest relative residual %.2g: converges (fitted "
+                   "estimate)", embz_mclassify_distance_name(f->v1), law, x[0], x[1], x[2], x[3], x[4], x[5],
+                   f->k1, x[6]);
+    case EMBZ_FACT_M_FIT_LIMIT:
+        if (f->law <= 0)
+            return embz_strdup_printf("the distance is constant to relative 1e-9 over the fit "
+                       "range, near %.8g: a positive limit, does not converge (fitted "
+                       "estimate)", x[0]);
+        return embz_strdup_printf("the best law by BIC, %s, has a positive limit %.4g [%.4g, %.4g] "
+                   "(%.4g at the largest size): %s (fitted estimate)", law, x[0], x[1], x[2],
+                   x[3], f->k1 ? "does not converge" : "inconclusive, the approach is too slow "
+                   "to tell");
+    case EMBZ_FACT_M_FIT_NONE:
+        return embz_strdup_printf("no decay law with a visible exponent (best zero-limit law %s has "
+                   "g = %.3g [%.3g, %.3g]) and no positive limit resolved: the fit is "
+                   "inconclusive", law, x[0], x[1], x[2]);
+    case EMBZ_FACT_M_BY_K:
+        if (f->v2 == EMBZ_VERDICT_INCONCLUSIVE)
+            return embz_strdup_printf("K classification: inconclusive (its limit estimated in "
+                       "[%.4g, %.4g]); %s, so the verdict rests on the fit of the measure "
+                       "alone", x[0], x[1], f->k2 ? "O^2 <= 1 - K^2" : "P >= K");
+        if (f->k2 && f->v1 == EMBZ_CONVERGE_INCONCLUSIVE)
+            return embz_strdup_printf("K classification: %s%s; O^2 <= F_max only bounds the overlap "
+                       "from above, so this does not decide it", embz_verdict_id(f->v2),
+                       f->k1 ? " (by the analytic criterion)" : " (numeric estimate)");
+        return embz_strdup_printf("K classification: %s%s; since %s, the measure %s%s",
+                   embz_verdict_id(f->v2),
+                   f->k1 ? " (by the analytic criterion)" : " (numeric estimate)",
+                   f->k2 ? "O^2 <= F_max <= 1 - K^2 (a K that stays away from 0 keeps the "
+                           "overlap away from 1)"
+                         : "K <= P <= sqrt(K (2 - K)) (P -> 0 exactly when K -> 0)",
+                   f->v1 == EMBZ_CONVERGE_YES ? "converges" : "does not converge",
+                   f->k1 ? " (proven)" : " (as certain as the K verdict, an estimate)");
+    case EMBZ_FACT_M_SANDWICH_RATE:
+        return embz_strdup_printf("rate: K fits %s with g = %.4g [%.4g, %.4g] (estimate); since K <= "
+                   "P <= sqrt(2 K), %s decays with an exponent between %.4g and %.4g of that law "
+                   "(the bracket is a theorem, the exponent a fit)", law, x[0], x[1], x[2],
+                   f->k1 ? "1 - F_max = P^2" : "P", f->k1 ? x[0] : x[0] / 2,
+                   f->k1 ? 2 * x[0] : x[0]);
+    case EMBZ_FACT_M_HARMONIC:
+        return embz_strdup_printf("law (derived for the weight 1/i, d = %ld): 1 - O = C_%ld(n) / H_n "
+                   "exactly, with C_%ld(n) increasing to a finite limit C_%ld in [%s, %s] "
+                   "(certified from n = %s); so O converges (proven) and 1 - O ~ C_%ld / ln n",
+                   f->k1, f->k1, f->k1, f->k1, txt(f->s[0]), txt(f->s[1]), txt(f->s[2]), f->k1);
+    case EMBZ_FACT_M_HARMONIC_P:
+        return embz_strdup_printf("law (derived for the weight 1/i, one ebit): F_max >= O^2 and 1 - O = "
+                   "C_2(n) / H_n give 1 - F_max <= 2 C_2 / H_n, so P <= sqrt(2 C_2 / H_n) at "
+                   "every n (proven, order (ln n)^-1/2), with C_2 in [%s, %s]; P >= K = E_n, "
+                   "about ln 2 / ln n (proven). Certified (1 - F_max) / (1 - O^2) = %s at the "
+                   "largest size with a value", txt(f->s[0]), txt(f->s[1]), txt(f->s[2]));
+    case EMBZ_FACT_M_AGREE:
+        return embz_strdup_printf("the fit agrees");
+    case EMBZ_FACT_M_DISAGREE:
+        if (f->k2)
+            return embz_strdup_printf("the fit says %s, but K's fitted limit is positive and P >= K: "
+                       "the estimates disagree, inconclusive", embz_converge_id(f->v2));
+        return embz_strdup_printf("the fit says %s against %s%s", embz_converge_id(f->v2),
+                   embz_converge_id(f->v1), f->k1 ? " (proven; kept)" : ": inconclusive");
     default:
         return embz_strdup_printf("(unknown fact %d)", f->kind);
     }
