@@ -536,7 +536,10 @@ START_TEST(test_report_html)
     ck_assert_ptr_nonnull(strstr(h, "Comparison &amp; summary"));
     ck_assert_ptr_nonnull(strstr(h, "<svg"));
     const char *nums[] = { "0.0478318", "0.00300954", "1.234567890e+451", "1499", "[0, 0.0031]",
-                           "0.293107062", "10^100", "1e-3" };
+                           "0.293107062", "1e-3",
+                           /* the size 10^100 in a column head, as MathML */
+                           "<math><msup><mrow><mn>10</mn></mrow><mrow><mn>100</mn></mrow></msup>"
+                           "</math>" };
     for (size_t k = 0; k < sizeof(nums) / sizeof(nums[0]); k++)
         ck_assert_msg(strstr(h, nums[k]) != NULL, "%s missing", nums[k]);
     /* the document is well-formed enough for an XML parser (void tags aside: none used
@@ -583,8 +586,10 @@ START_TEST(test_report_md_tex)
         ck_assert_msg(strstr(m, nums[k]) != NULL, "md: %s missing", nums[k]);
         ck_assert_msg(strstr(t, nums[k]) != NULL, "tex: %s missing", nums[k]);
     }
-    /* Markdown: one table row per family plus head and rule, same column count */
-    int rows = 0, cols = -1;
+    /* Markdown: three tables (key, classification, errors and sizes), each with one row per
+     * family plus head and rule and the same column count in every row */
+    int rows = 0, cols = -1, tables = 0;
+    const int want_cols[3] = { 1 + 5, 1 + 6, 1 + 1 + 2 + 2 };
     for (char *line = m; line && *line; ) {
         char *e = strchr(line, '\n');
         if (line[0] == '|') {
@@ -596,14 +601,24 @@ START_TEST(test_report_md_tex)
                 cols = c;
             ck_assert_int_eq(c, cols);
             rows++;
+        } else if (cols >= 0) {
+            ck_assert_int_lt(tables, 3);
+            ck_assert_int_eq(rows, 4);
+            ck_assert_int_eq(cols, want_cols[tables]);
+            tables++;
+            rows = 0;
+            cols = -1;
         }
         line = e ? e + 1 : NULL;
     }
-    ck_assert_int_eq(rows, 4);
-    ck_assert_int_eq(cols, 6 + 2 + 2 + 1);
+    ck_assert_int_eq(tables, 3);
+    /* the key table links each name to its notes, which carry the anchor */
+    ck_assert_ptr_nonnull(strstr(m, "| [inverse](#fam-1) |"));
+    ck_assert_ptr_nonnull(strstr(m, "<a id=\"fam-1\"></a>"));
     ck_assert_ptr_nonnull(strstr(m, "\\<script\\>"));
     for (const char *p = m; (p = strchr(p, '<')) != NULL; p++)
-        ck_assert(p > m && p[-1] == '\\');
+        ck_assert(!strncmp(p, "<a id=\"fam-", 11) || (!strncmp(p, "</a>", 4) && p[-1] == '>')
+                  || (p > m && p[-1] == '\\'));
     /* LaTeX: booktabs rules, sizes as math, specials escaped */
     ck_assert_ptr_nonnull(strstr(t, "\\toprule"));
     ck_assert_ptr_nonnull(strstr(t, "\\midrule"));
@@ -612,11 +627,18 @@ START_TEST(test_report_md_tex)
     ck_assert_ptr_nonnull(strstr(t, "i\\textasciicircum{}a\\_1 \\% \\{x\\} \\& \\$y\\$ \\# "
                                     "\\textasciitilde{}"));
     ck_assert_ptr_nonnull(strstr(t, "\\textless{}script\\textgreater{}"));
+    /* the key table: 2 rows of 5 columns */
     int amp = 0;
-    for (const char *p = strstr(t, "\\midrule"); p && (p = strchr(p, '&')) != NULL; p++)
+    const char *end = strstr(t, "\\bottomrule");
+    for (const char *p = strstr(t, "\\midrule"); p && (p = strchr(p, '&')) != NULL && p < end;
+         p++)
         if (p[-1] != '\\')
             amp++;
-    ck_assert_int_eq(amp, 2 * 9);   /* 10 columns in each of the two rows */
+    ck_assert_int_eq(amp, 2 * 4);
+    ck_assert_ptr_nonnull(strstr(t, "\\documentclass"));
+    ck_assert_ptr_nonnull(strstr(t, "\\end{document}"));
+    ck_assert_ptr_nonnull(strstr(t, "\\hyperref[fam-1]{inverse}"));
+    ck_assert_ptr_nonnull(strstr(t, "\\label{fam-1}"));
     free(m);
     free(t);
     embz_report_clear(r);

@@ -193,7 +193,8 @@ int cli_cmd_report(int argc, char **argv)
     long ngoals = 0, nsizes = 0;
     fmpz *sizes = NULL;
     embz_report_t rep;
-    embz_plot_struct figs[3];
+    embz_plot_struct figs[4];
+    long *order = malloc((size_t) (nfam > 0 ? nfam : 1) * sizeof(long));
     int nfigs = 0;
     const char *t;
     for (long i = 0; i < nfam; i++) embz_family_init(fam + i);
@@ -342,19 +343,20 @@ int cli_cmd_report(int argc, char **argv)
     have_rows = 1;
     code = cli_compare_run(rows, fam, nfam, &o);
     if (code == CLI_EXIT_USAGE) goto done;
-    cli_compare_fill(rep, figs, rows, nfam, &o);
-    nfigs = 2;
+    cli_compare_order(order, rows, nfam, &o);
+    nfigs = cli_compare_fill(rep, figs, rows, order, nfam, &o);
     if (naxes > 0) {
         slong np = 0;
-        embz_plot_init(figs + 2, NULL);
-        nfigs = 3;
-        int c2 = grid_maps(figs + 2, &np, fam, nfam, axes, naxes, &o);
+        embz_plot_struct *gf = figs + nfigs;
+        embz_plot_init(gf, NULL);
+        nfigs++;
+        int c2 = grid_maps(gf, &np, fam, nfam, axes, naxes, &o);
         if (c2 != 0) {
             code = c2;
             goto done;
         }
         embz_report_add_figure(rep, "Verdict (one ebit) at every point of the parameter grid, "
-                               "from the same classification as the table.", figs + 2);
+                               "from the same classification as the table.", gf);
     }
     embz_err_clear(&err);
     status = embz_report_write(rep, out, format, &err);
@@ -369,6 +371,7 @@ done:
     for (int k = 0; k < nfigs; k++) embz_plot_clear(figs + k);
     if (have_rows) cli_compare_rows_clear(rows, nfam, &o);
     free(rows);
+    free(order);
     for (long i = 0; i < nfam; i++) embz_family_clear(fam + i);
     free(fam);
     for (long k = 0; k < naxes; k++) embz_grid_axis_clear(axes + k);

@@ -1,0 +1,381 @@
+/* The report as Markdown and as a LaTeX document, in the order of the HTML page: the answer
+ * and the key table, the first figure, the reading notes, a block per family, the other
+ * figures, the full numbers. Drawn figures are files beside the document (written by
+ * embz_report_write), linked by name. */
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include "embz/util.h"
+#include "render_impl.h"
+
+#define DASH "\xe2\x80\x93"
+#define BULLET "\xe2\x80\xa2 "
+
+/* ------------------------------------------------------------------ Markdown */
+
+/* Text with its powers in Unicode superscripts, escaped, on one line. */
+static void md_text(embz_buf_t *b, const char *s)
+{
+    char *u = _embz_math_unicode(s);
+    char *e = embz_markdown_escape(u);
+    for (char *p = e; *p; p++)
+        if (*p == '\n')
+            *p = ' ';
+    embz_buf_printf(b, "%s", e);
+    free(e);
+    free(u);
+}
+
+typedef struct { embz_buf_t *b; } md_ctx;
+
+static void md_para(void *ctx, const char *p)
+{
+    md_ctx *c = ctx;
+    int item = strncmp(p, BULLET, strlen(BULLET)) == 0;
+    if (item)
+        embz_buf_printf(c->b, "- ");
+    md_text(c->b, item ? p + strlen(BULLET) : p);
+    embz_buf_printf(c->b, item ? "\n" : "\n\n");
+}
+
+static void md_paragraphs(embz_buf_t *b, const char *s)
+{
+    md_ctx c = { b };
+    _embz_render_paragraphs(s, 1, md_para, &c);
+    if (b->len >= 2 && b->s[b->len - 1] == '\n' && b->s[b->len - 2] != '\n')
+        embz_buf_printf(b, "\n");
+}
+
+static void md_table(embz_buf_t *b, const embz_report_table_t *t, int links)
+{
+    embz_buf_printf(b, "|");
+    for (slong c = 0; c < t->ncols; c++) {
+        embz_buf_printf(b, " ");
+        md_text(b, t->head[c]);
+        embz_buf_printf(b, " |");
+    }
+    embz_buf_printf(b, "\n|");
+    for (slong c = 0; c < t->ncols; c++)
+        embz_buf_printf(b, "%s|", t->numeric[c] ? "---:" : ":---");
+    embz_buf_printf(b, "\n");
+    for (slong i = 0; i < t->nrows; i++) {
+        embz_buf_printf(b, "|");
+        for (slong c = 0; c < t->ncols; c++) {
+            const char *v = t->cell[i * t->ncols + c];
+            embz_buf_printf(b, " ");
+            if (c == 0 && links) {
+                char id[32];
+                _embz_report_anchor(id, sizeof(id), i);
+                embz_buf_printf(b, "[");
+                md_text(b, v ? v : DASH);
+                embz_buf_printf(b, "](#%s)", id);
+            } else if (t->style[c] == EMBZ_COL_CODE && v != NULL) {
+                char *e = embz_markdown_escape(v);
+                embz_buf_printf(b, "%s", e);
+                free(e);
+            } else
+                md_text(b, v ? v : DASH);
+            embz_buf_printf(b, " |");
+        }
+        embz_buf_printf(b, "\n");
+    }
+    embz_buf_printf(b, "\n");
+}
+
+static void md_figure(embz_buf_t *b, const embz_report_figure_struct *g, slong k,
+                      const char *stem)
+{
+    char *file = NULL;
+    if (g->plot != NULL && stem != NULL)
+        file = embz_strdup_printf("%s-fig%ld.svg", stem, (long) k + 1);
+    else if (g->plot == NULL && g->path != NULL)
+        file = embz_strdup_printf("%s", g->path);
+    if (file != NULL) {
+        embz_buf_printf(b, "![Figure %ld](<", (long) k + 1);
+        for (const char *p = file; *p; p++)
+            if (*p == '<' || *p == '>' || *p == '\n' || *p == ' ')
+                embz_buf_printf(b, "%%%02X", (unsigned char) *p);
+            else
+                embz_buf_printf(b, "%c", *p);
+        embz_buf_printf(b, ">)\n\n");
+        free(file);
+    } else if (g->plot != NULL) {
+        embz_buf_printf(b, "(Figure %ld is written beside the document when the Markdown goes "
+                        "to a file.)\n\n", (long) k + 1);
+    }
+    embz_buf_printf(b, "**Figure %ld.** ", (long) k + 1);
+    md_text(b, g->caption ? g->caption : "");
+    embz_buf_printf(b, "\n\n");
+}
+
+static void md_fact(embz_buf_t *b, const char *term, const char *value, int code)
+{
+    if (value == NULL)
+        return;
+    embz_buf_printf(b, "- **");
+    md_text(b, term);
+    embz_buf_printf(b, ":** ");
+    if (code) {
+        char *e = embz_markdown_escape(value);
+        embz_buf_printf(b, "%s", e);
+        free(e);
+    } else
+        md_text(b, value);
+    embz_buf_printf(b, "\n");
+}
+
+int _embz_report_markdown(char **text, const embz_report_struct *r, const char *stem,
+                          embz_err_t *err)
+{
+    (void) err;
+    embz_buf_t b;
+    embz_buf_init(&b);
+    embz_buf_printf(&b, "# ");
+    md_text(&b, r->title ? r->title : "embz report");
+    embz_buf_printf(&b, "\n\n");
+    if (r->subtitle) {
+        embz_buf_printf(&b, "*");
+        md_text(&b, r->subtitle);
+        embz_buf_printf(&b, "*\n\n");
+    }
+    if (r->answer) {
+        embz_buf_printf(&b, "**Answer.** ");
+        md_text(&b, r->answer);
+        embz_buf_printf(&b, "\n\n");
+    }
+    embz_report_table_t t;
+    embz_report_table_build(&t, r, EMBZ_TABLE_KEY);
+    md_table(&b, &t, 1);
+    embz_report_table_clear(&t);
+    if (r->nfig > 0)
+        md_figure(&b, r->fig, 0, stem);
+    md_paragraphs(&b, r->intro);
+    if (r->nfam > 0)
+        embz_buf_printf(&b, "## Family by family\n\n");
+    for (slong i = 0; i < r->nfam; i++) {
+        const embz_report_family_struct *f = r->fam + i;
+        char id[32];
+        _embz_report_anchor(id, sizeof(id), i);
+        embz_buf_printf(&b, "<a id=\"%s\"></a>\n\n### ", id);
+        md_text(&b, f->name);
+        embz_buf_printf(&b, "\n\n");
+        md_fact(&b, "weight", f->weight, 1);
+        md_fact(&b, "verdict", f->verdict, 0);
+        md_fact(&b, "in short", f->summary, 0);
+        embz_buf_printf(&b, "\n");
+        md_paragraphs(&b, f->notes);
+    }
+    for (slong k = 1; k < r->nfig; k++)
+        md_figure(&b, r->fig + k, k, stem);
+    embz_buf_printf(&b, "## All numbers\n\n");
+    embz_report_table_build(&t, r, EMBZ_TABLE_CLASS);
+    md_table(&b, &t, 0);
+    embz_report_table_clear(&t);
+    embz_report_table_build(&t, r, EMBZ_TABLE_NUMBERS);
+    if (t.ncols > 1)
+        md_table(&b, &t, 0);
+    embz_report_table_clear(&t);
+    md_paragraphs(&b, r->footer);
+    *text = b.s;
+    return EMBZ_OK;
+}
+
+int embz_report_markdown(char **text, const embz_report_t r, embz_err_t *err)
+{
+    return _embz_report_markdown(text, r, NULL, err);
+}
+
+/* ------------------------------------------------------------------ LaTeX */
+
+static void tex(embz_buf_t *b, const char *s)
+{
+    _embz_math_tex(b, s);
+}
+
+typedef struct { embz_buf_t *b; int in_list; } tex_ctx;
+
+static void tex_para(void *ctx, const char *p)
+{
+    tex_ctx *c = ctx;
+    int item = strncmp(p, BULLET, strlen(BULLET)) == 0;
+    if (item && !c->in_list)
+        embz_buf_printf(c->b, "\\begin{itemize}\n");
+    if (!item && c->in_list)
+        embz_buf_printf(c->b, "\\end{itemize}\n");
+    c->in_list = item;
+    embz_buf_printf(c->b, item ? "\\item " : "");
+    tex(c->b, item ? p + strlen(BULLET) : p);
+    embz_buf_printf(c->b, item ? "\n" : "\n\n");
+}
+
+static void tex_paragraphs(embz_buf_t *b, const char *s)
+{
+    tex_ctx c = { b, 0 };
+    _embz_render_paragraphs(s, 1, tex_para, &c);
+    if (c.in_list)
+        embz_buf_printf(b, "\\end{itemize}\n\n");
+}
+
+/* A table as wide as it needs, shrunk to the text width when it is wider (graphicx). The key
+ * table instead fills the width, its reason column wrapping (tabularx). */
+static void tex_table(embz_buf_t *b, const embz_report_table_t *t, int key, int links)
+{
+    if (key) {
+        embz_buf_printf(b, "\\begin{table}[!htbp]\n\\centering\\small\n"
+                        "\\begin{tabularx}{\\textwidth}{");
+    } else {
+        embz_buf_printf(b, "\\begin{table}[!htbp]\n\\centering\\small\n"
+                        "\\sbox\\embzbox{\\begin{tabular}{");
+    }
+    for (slong c = 0; c < t->ncols; c++)
+        embz_buf_printf(b, "%s", t->style[c] == EMBZ_COL_NUM ? "r"
+                                 : key && t->style[c] == EMBZ_COL_PROSE
+                                 ? ">{\\raggedright\\arraybackslash}X" : "l");
+    embz_buf_printf(b, "}\n\\toprule\n");
+    for (slong c = 0; c < t->ncols; c++) {
+        if (c > 0)
+            embz_buf_printf(b, " & ");
+        if (key && t->numeric[c])
+            embz_buf_printf(b, "\\shortstack[r]{");
+        tex(b, t->head[c]);
+        if (key && t->numeric[c])
+            embz_buf_printf(b, "}");
+    }
+    embz_buf_printf(b, " \\\\\n\\midrule\n");
+    for (slong i = 0; i < t->nrows; i++) {
+        for (slong c = 0; c < t->ncols; c++) {
+            if (c > 0)
+                embz_buf_printf(b, " & ");
+            const char *v = t->cell[i * t->ncols + c];
+            if (v == NULL)
+                embz_buf_printf(b, "--");
+            else if (t->style[c] == EMBZ_COL_CODE) {
+                char *e = embz_latex_escape(v);
+                embz_buf_printf(b, "\\texttt{%s}", e);
+                free(e);
+            } else if (c == 0 && links) {
+                char id[32];
+                _embz_report_anchor(id, sizeof(id), i);
+                embz_buf_printf(b, "\\hyperref[%s]{", id);
+                tex(b, v);
+                embz_buf_printf(b, "}");
+            } else
+                tex(b, v);
+        }
+        embz_buf_printf(b, " \\\\\n");
+    }
+    if (key)
+        embz_buf_printf(b, "\\bottomrule\n\\end{tabularx}\n\\end{table}\n\n");
+    else
+        embz_buf_printf(b, "\\bottomrule\n\\end{tabular}}%%\n"
+                        "\\ifdim\\wd\\embzbox>\\textwidth\\resizebox{\\textwidth}{!}"
+                        "{\\usebox\\embzbox}\\else\\usebox\\embzbox\\fi\n\\end{table}\n\n");
+}
+
+static void tex_figure(embz_buf_t *b, const embz_report_figure_struct *g, slong k,
+                       const char *stem)
+{
+    char *file = NULL;
+    if (g->plot != NULL && stem != NULL)
+        file = embz_strdup_printf("%s-fig%ld.pdf", stem, (long) k + 1);
+    else if (g->plot == NULL && g->path != NULL)
+        file = embz_strdup_printf("%s", g->path);
+    embz_buf_printf(b, "\\begin{figure}[!htbp]\n\\centering\n");
+    if (file != NULL) {
+        char *e = embz_latex_escape(file);
+        embz_buf_printf(b, "\\includegraphics[width=\\textwidth]{%s}\n", e);
+        free(e);
+        free(file);
+    } else {
+        embz_buf_printf(b, "\\fbox{\\parbox{0.9\\textwidth}{\\centering Figure %ld is written "
+                        "beside the document when the LaTeX goes to a file.}}\n", (long) k + 1);
+    }
+    embz_buf_printf(b, "\\caption{");
+    tex(b, g->caption ? g->caption : "");
+    embz_buf_printf(b, "}\n\\end{figure}\n\n");
+}
+
+int _embz_report_latex(char **text, const embz_report_struct *r, const char *stem,
+                       embz_err_t *err)
+{
+    (void) err;
+    embz_buf_t b;
+    embz_buf_init(&b);
+    embz_buf_printf(&b, "%% Written by embz: a complete document (pdflatex; figures are the "
+                    "PDF files beside it).\n\\documentclass[a4paper,10pt]{article}\n"
+                    "\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n"
+                    "\\usepackage[margin=2cm]{geometry}\n"
+                    "\\usepackage{booktabs,tabularx,array,graphicx,amsmath}\n"
+                    "\\usepackage[hidelinks]{hyperref}\n\\newsavebox\\embzbox\n"
+                    "\\setlength{\\parindent}{0pt}\\setlength{\\parskip}{4pt}\n"
+                    "\\begin{document}\n\\section*{");
+    tex(&b, r->title ? r->title : "embz report");
+    embz_buf_printf(&b, "}\n");
+    if (r->subtitle) {
+        embz_buf_printf(&b, "\\textit{");
+        tex(&b, r->subtitle);
+        embz_buf_printf(&b, "}\n\n");
+    }
+    if (r->answer) {
+        embz_buf_printf(&b, "\\paragraph{Answer.} ");
+        tex(&b, r->answer);
+        embz_buf_printf(&b, "\n\n");
+    }
+    embz_report_table_t t;
+    embz_report_table_build(&t, r, EMBZ_TABLE_KEY);
+    tex_table(&b, &t, 1, 1);
+    embz_report_table_clear(&t);
+    if (r->nfig > 0)
+        tex_figure(&b, r->fig, 0, stem);
+    tex_paragraphs(&b, r->intro);
+    if (r->nfam > 0)
+        embz_buf_printf(&b, "\\subsection*{Family by family}\n\n");
+    for (slong i = 0; i < r->nfam; i++) {
+        const embz_report_family_struct *f = r->fam + i;
+        char id[32];
+        _embz_report_anchor(id, sizeof(id), i);
+        embz_buf_printf(&b, "\\subsubsection*{");
+        tex(&b, f->name);
+        embz_buf_printf(&b, "}\\label{%s}\n\\begin{description}\n", id);
+        if (f->weight) {
+            char *e = embz_latex_escape(f->weight);
+            embz_buf_printf(&b, "\\item[weight] \\texttt{%s}\n", e);
+            free(e);
+        }
+        if (f->verdict) {
+            embz_buf_printf(&b, "\\item[verdict] ");
+            tex(&b, f->verdict);
+            embz_buf_printf(&b, "\n");
+        }
+        if (f->summary) {
+            embz_buf_printf(&b, "\\item[in short] ");
+            tex(&b, f->summary);
+            embz_buf_printf(&b, "\n");
+        }
+        embz_buf_printf(&b, "\\end{description}\n");
+        tex_paragraphs(&b, f->notes);
+    }
+    for (slong k = 1; k < r->nfig; k++)
+        tex_figure(&b, r->fig + k, k, stem);
+    embz_buf_printf(&b, "\\subsection*{All numbers}\n\n");
+    embz_report_table_build(&t, r, EMBZ_TABLE_CLASS);
+    tex_table(&b, &t, 0, 0);
+    embz_report_table_clear(&t);
+    embz_report_table_build(&t, r, EMBZ_TABLE_NUMBERS);
+    if (t.ncols > 1)
+        tex_table(&b, &t, 0, 0);
+    embz_report_table_clear(&t);
+    if (r->footer) {
+        embz_buf_printf(&b, "{\\footnotesize ");
+        tex_paragraphs(&b, r->footer);
+        embz_buf_printf(&b, "}\n");
+    }
+    embz_buf_printf(&b, "\\end{document}\n");
+    *text = b.s;
+    return EMBZ_OK;
+}
+
+int embz_report_latex(char **text, const embz_report_t r, embz_err_t *err)
+{
+    return _embz_report_latex(text, r, NULL, err);
+}
