@@ -265,6 +265,49 @@ check "demo names the report" grep -q "embz-demo.html" "$T/demo/out.txt"
 check "demo wrote the html" grep -q "<table" "$T/demo/embz-demo.html"
 check "demo leaves no temporary file" no_temp "$T/demo"
 
+# ---- layout as a reader sees it: the demo and a three-family report
+LAYOUT="/usr/bin/python3 $(dirname "$0")/report_layout.py"
+THREE=("inverse" "power (a=-1/2)" "geometric (r=9/10)")
+DEMO=("inverse" "logpower (b=1/2)" "tilted" "iterlog" "nearmiss" "geometric (r=9/10)"
+      "power (a=-1/2)" "uniform")
+check "demo pdf" bash -c "cd '$T/demo' && '$EMBZ' demo -q -o demo.pdf > /dev/null"
+if command -v pdftoppm >/dev/null && command -v pdftotext >/dev/null; then
+    pdf_layout() {   # pdf_layout FILE.pdf NAME...: words inside the page, tables whole, names whole
+        local f=$1; shift
+        rm -f "$f".page*
+        pdftotext -bbox "$f" "$f.bbox.html" && pdftotext -raw "$f" "$f.txt" \
+            && pdftoppm -r 40 -gray "$f" "$f.page" && $LAYOUT pdf "$f.bbox.html" "$f.txt" \
+            $(ls "$f".page*.pgm | sort -V) -- "$@"
+    }
+    check "pdf layout: three families" pdf_layout "$T/cmp.pdf" "${THREE[@]}"
+    check "pdf layout: demo" pdf_layout "$T/demo/demo.pdf" "${DEMO[@]}"
+fi
+if [ -x /usr/bin/chromium ]; then
+    html_layout() {   # html_layout FILE.html NAME...: at 1280 x 900, measured in the browser
+        local f=$1; shift
+        $LAYOUT inject "$f" "$f.m.html" || return 1
+        timeout 120 /usr/bin/chromium --headless --no-sandbox --disable-gpu --disable-quic \
+            --no-first-run --disable-background-networking --disable-component-update \
+            --disable-sync --user-data-dir="$T/prof" --window-size=1280,900 \
+            --dump-dom "file://$f.m.html" > "$f.dom" 2>/dev/null || return 1
+        $LAYOUT html "$f.dom" "$@" || return 1
+        # and the picture a reader gets, 1280 px wide
+        timeout 120 /usr/bin/chromium --headless --no-sandbox --disable-gpu --disable-quic \
+            --no-first-run --disable-background-networking --disable-component-update \
+            --disable-sync --user-data-dir="$T/prof" --window-size=1280,900 \
+            --screenshot="$f.png" "file://$f" >/dev/null 2>&1 || return 1
+        png_ok "$f.png" && [ "$(od -An -tu1 -j16 -N4 "$f.png" | awk '{print $1*16777216+$2*65536+$3*256+$4}')" = 1280 ]
+    }
+    check "html layout: three families at 1280 px" html_layout "$T/cmp.html" "${THREE[@]}"
+    check "html layout: demo at 1280 px" html_layout "$T/demo/embz-demo.html" "${DEMO[@]}"
+fi
+# Markdown and LaTeX link figure files written beside them
+check "markdown links its figures" bash -c "grep -q '^!\[Figure 1\](<cmp-fig1.svg>)' '$T/cmp.md' && test -s '$T/cmp-fig1.svg'"
+check "markdown figure parses" xml_ok "$T/cmp-fig1.svg"
+check "latex includes its figures" bash -c "grep -q 'includegraphics\[width=\\\\textwidth\]{cmp-fig1.pdf}' '$T/cmp.tex' && head -c 5 '$T/cmp-fig1.pdf' | grep -q '%PDF-'"
+check "latex typesets powers" grep -q 'E at n = \$10^{30}\$' "$T/cmp.tex"
+check "html typesets powers" grep -q '<msup><mrow><mn>10</mn></mrow><mrow><mn>30</mn></mrow></msup>' "$T/cmp.html"
+
 # `embz report` with the defaults: HTML, escaping, Chromium screenshot
 # a size without an enclosure: '–' in the table, and the notes say why
 check "report of an uncertified size" "$EMBZ" report '1/(i+n/10)' --sizes 10^1000 --points 6 \
