@@ -18,7 +18,8 @@ static const cli_spec_t demo_spec = {
     "demo", "",
     "The built-in scenario: an experiment must embezzle two ebits (target ebits:2) with\n"
     "error at most 1e-3. Which shipped family needs the fewest qubits per side, which never\n"
-    "gets there, and why? Prints the answer as a table and writes the full report.",
+    "gets there, and why? Prints the answer as a table and writes the full report (the\n"
+    "layout of 'embz report': the answer and a key table first, the details after it).",
     "Runs 8 shipped families (invamp is left out: it is the inverse family written through\n"
     "its amplitudes, the same state). Per family: a short one-ebit classification (10 sizes\n"
     "from 10^2 to 10^60 at 64 bits), certified errors at n = 10^30 and 10^100, and the\n"

@@ -26,12 +26,16 @@ static const cli_opt_t report_opts[] = {
 
 static const cli_spec_t report_spec = {
     "report", "FAMILY... [-o FILE]",
-    "One document comparing families: a summary table (verdict, fitted law and exponent,\n"
-    "limit, certified errors at chosen sizes, size and qubits needed per error goal) and\n"
-    "figures (error against n and against ln n with the fitted laws, weights against the\n"
-    "envelopes x^(-1-eps) and x^(-1+eps), and verdict maps for --grid).",
-    "Formats: html (one self-contained file, figures as inline SVG), md (Markdown), tex (a\n"
-    "LaTeX table with booktabs rules) and pdf. Every error value is certified; laws,\n"
+    "One document comparing families, the answer first: a sentence and a key table (verdict,\n"
+    "qubits per side and extra qubits per goal, E at the largest size, the reason in one\n"
+    "line; best first, each name linked to the family's notes), then the figures (error\n"
+    "against n, embezzlers and the others apart; against ln n; each family's weights against\n"
+    "the envelopes x^(-1-eps) and x^(-1+eps); verdict maps for --grid), a block of notes per\n"
+    "family and all numbers (classification; errors and sizes).",
+    "Formats: html (one self-contained file, figures as inline SVG, math as MathML), md\n"
+    "(Markdown), tex (a complete LaTeX document) and pdf (A4). Markdown and LaTeX written to\n"
+    "a file get their figures beside it, FILE without its extension plus -fig1.svg, -fig2.svg,\n"
+    "... (-fig1.pdf, ... for LaTeX), and link them. Every error value is certified; laws,\n"
     "exponents and fitted limits are estimates and say so. The size columns use the\n"
     "qubit-resolution search (see 'embz size --qubits'). For uniform targets each goal also\n"
     "gets 'extra qubits' (the family's qubits per side minus the optimum's, exact), the table\n"

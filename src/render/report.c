@@ -148,7 +148,10 @@ static const char *const tex_unicode[][2] = {
     { "\xc2\xb1", "$\\pm$" },         { "\xe2\x80\x93", "--" },
     { "\xe2\x80\x94", "---" },        { "\xe2\x80\xa6", "\\ldots{}" },
     { "\xe2\x88\x9e", "$\\infty$" },  { "\xce\xb5", "$\\varepsilon$" },
-    { "\xcf\x88", "$\\psi$" },
+    { "\xcf\x88", "$\\psi$" },       { "\xe2\x82\x99", "$_n$" },
+    { "\xe2\x88\x92", "$-$" },        { "\xe2\x86\x92", "$\\to$" },
+    { "\xe2\x8a\x97", "$\\otimes$" },  { "\xc2\xb7", "$\\cdot$" },
+    { "\xe2\x89\xa0", "$\\ne$" },
 };
 
 char *embz_latex_escape(const char *text)

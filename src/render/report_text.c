@@ -235,11 +235,25 @@ static void tex_table(embz_buf_t *b, const embz_report_table_t *t, int key, int 
     for (slong c = 0; c < t->ncols; c++) {
         if (c > 0)
             embz_buf_printf(b, " & ");
-        if (key && t->numeric[c])
+        if (key && t->numeric[c]) {
+            /* a narrow head: words in lines of about 12 characters */
             embz_buf_printf(b, "\\shortstack[r]{");
-        tex(b, t->head[c]);
-        if (key && t->numeric[c])
+            char *h = _embz_render_strdup(t->head[c]);
+            size_t line = 0;
+            for (char *w = strtok(h, " "); w != NULL; w = strtok(NULL, " ")) {
+                if (line > 0 && line + strlen(w) > 12) {
+                    embz_buf_printf(b, "\\\\");
+                    line = 0;
+                } else if (line > 0) {
+                    embz_buf_printf(b, " ");
+                }
+                tex(b, w);
+                line += strlen(w) + 1;
+            }
+            free(h);
             embz_buf_printf(b, "}");
+        } else
+            tex(b, t->head[c]);
     }
     embz_buf_printf(b, " \\\\\n\\midrule\n");
     for (slong i = 0; i < t->nrows; i++) {
