@@ -48,6 +48,22 @@ int _embz_report_markdown(char **text, const embz_report_struct *r, const char *
 int _embz_report_latex(char **text, const embz_report_struct *r, const char *stem,
                        embz_err_t *err);
 
+/* The order of a report, the same in every format: the head (title, subtitle, answer), the
+ * key table, the first figure, the introduction, a heading and one block per family, the
+ * other figures, a heading and the tables of all numbers, the footer. A writer gives one
+ * function per part; _embz_report_walk calls them in that order and stops at the first
+ * figure that fails (its status is returned). */
+typedef struct {
+    void (*head)(void *ctx, const embz_report_struct *r);
+    void (*table)(void *ctx, const embz_report_table_t *t, int kind);
+    int (*figure)(void *ctx, const embz_report_figure_struct *g, slong k);
+    void (*text)(void *ctx, const char *paragraphs);
+    void (*heading)(void *ctx, const char *title, const char *id);
+    void (*family)(void *ctx, const embz_report_struct *r, slong i);
+    void (*footer)(void *ctx, const char *paragraphs);
+} embz_report_writer_t;
+int _embz_report_walk(const embz_report_struct *r, const embz_report_writer_t *w, void *ctx);
+
 /* ---- math in text (report_math.c) ---- */
 /* A power base^exp or an index base_sub found in text: byte ranges [base0, base1) and
  * [exp0, exp1) (parentheses around the exponent dropped), the span ends at end. */

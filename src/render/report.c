@@ -350,6 +350,42 @@ void _embz_render_paragraphs(const char *text, int skip_blank,
     }
 }
 
+/* ------------------------------------------------------------------ the order */
+
+static void walk_table(const embz_report_struct *r, const embz_report_writer_t *w, void *ctx,
+                       int kind)
+{
+    table_t t;
+    embz_report_table_build(&t, r, kind);
+    if (t.ncols > 1)
+        w->table(ctx, &t, kind);
+    embz_report_table_clear(&t);
+}
+
+int _embz_report_walk(const embz_report_struct *r, const embz_report_writer_t *w, void *ctx)
+{
+    int st = EMBZ_OK;
+    w->head(ctx, r);
+    walk_table(r, w, ctx, EMBZ_TABLE_KEY);
+    if (r->nfig > 0 && (st = w->figure(ctx, r->fig, 0)) != EMBZ_OK)
+        return st;
+    w->text(ctx, r->intro);
+    if (r->nfam > 0) {
+        w->heading(ctx, "Family by family", "families");
+        for (slong i = 0; i < r->nfam; i++)
+            w->family(ctx, r, i);
+    }
+    for (slong k = 1; k < r->nfig; k++)
+        if ((st = w->figure(ctx, r->fig + k, k)) != EMBZ_OK)
+            return st;
+    w->heading(ctx, "All numbers", "numbers");
+    walk_table(r, w, ctx, EMBZ_TABLE_CLASS);
+    walk_table(r, w, ctx, EMBZ_TABLE_NUMBERS);
+    if (r->footer)
+        w->footer(ctx, r->footer);
+    return EMBZ_OK;
+}
+
 /* ------------------------------------------------------------------ files */
 
 /* Markdown and LaTeX: the drawn figures as files beside the document (STEM-figK.EXT). */

@@ -269,66 +269,89 @@ static void note(embz_buf_t *b, const embz_report_struct *r, slong i)
     embz_buf_printf(b, "</section>\n");
 }
 
-int embz_report_html(char **out, const embz_report_t r, embz_err_t *err)
+typedef struct { embz_buf_t b; embz_err_t *err; } html_t;
+
+static void w_head(void *ctx, const embz_report_struct *r)
 {
-    embz_buf_t b;
-    embz_buf_init(&b);
-    embz_buf_printf(&b, "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
+    embz_buf_t *b = &((html_t *) ctx)->b;
+    embz_buf_printf(b, "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
                     "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n"
                     "<meta name=\"generator\" content=\"embz\">\n<title>");
-    text(&b, r->title ? r->title : "embz report");
-    embz_buf_printf(&b, "</title>\n<style>\n%s</style>\n</head>\n<body>\n<main>\n<h1>", css);
-    text(&b, r->title ? r->title : "embz report");
-    embz_buf_printf(&b, "</h1>\n");
+    text(b, r->title ? r->title : "embz report");
+    embz_buf_printf(b, "</title>\n<style>\n%s</style>\n</head>\n<body>\n<main>\n<h1>", css);
+    text(b, r->title ? r->title : "embz report");
+    embz_buf_printf(b, "</h1>\n");
     if (r->subtitle) {
-        embz_buf_printf(&b, "<p class=\"sub\">");
-        _embz_math_html(&b, r->subtitle);
-        embz_buf_printf(&b, "</p>\n");
+        embz_buf_printf(b, "<p class=\"sub\">");
+        _embz_math_html(b, r->subtitle);
+        embz_buf_printf(b, "</p>\n");
     }
     if (r->answer) {
-        embz_buf_printf(&b, "<p class=\"answer\" id=\"answer\">");
-        _embz_math_html(&b, r->answer);
-        embz_buf_printf(&b, "</p>\n");
+        embz_buf_printf(b, "<p class=\"answer\" id=\"answer\">");
+        _embz_math_html(b, r->answer);
+        embz_buf_printf(b, "</p>\n");
     }
-    embz_report_table_t t;
-    embz_report_table_build(&t, r, EMBZ_TABLE_KEY);
-    table(&b, &t, "key", 1);
-    embz_report_table_clear(&t);
-    embz_buf_printf(&b, "<p class=\"sub\">Each name leads to the family's notes; the full "
-                    "numbers are in <a href=\"#numbers\">All numbers</a>.</p>\n");
-    int st = EMBZ_OK;
-    if (r->nfig > 0)
-        st = figure(&b, r->fig, 0, err);
-    paragraphs(&b, r->intro);
+}
 
-    if (st == EMBZ_OK && r->nfam > 0) {
-        embz_buf_printf(&b, "<h2 id=\"families\">Family by family</h2>\n");
-        for (slong i = 0; i < r->nfam; i++)
-            note(&b, r, i);
-    }
-    for (slong k = 1; k < r->nfig && st == EMBZ_OK; k++)
-        st = figure(&b, r->fig + k, k, err);
+static void w_table(void *ctx, const embz_report_table_t *t, int kind)
+{
+    embz_buf_t *b = &((html_t *) ctx)->b;
+    if (kind == EMBZ_TABLE_NUMBERS)
+        embz_buf_printf(b, "<p></p>\n");
+    table(b, t, kind == EMBZ_TABLE_KEY ? "key" : NULL, 1);
+    if (kind == EMBZ_TABLE_KEY)
+        embz_buf_printf(b, "<p class=\"sub\">Each name leads to the family's notes; the full "
+                        "numbers are in <a href=\"#numbers\">All numbers</a>.</p>\n");
+}
+
+static int w_figure(void *ctx, const embz_report_figure_struct *g, slong k)
+{
+    html_t *h = ctx;
+    return figure(&h->b, g, k, h->err);
+}
+
+static void w_text(void *ctx, const char *s)
+{
+    paragraphs(&((html_t *) ctx)->b, s);
+}
+
+static void w_heading(void *ctx, const char *title, const char *id)
+{
+    embz_buf_t *b = &((html_t *) ctx)->b;
+    embz_buf_printf(b, "<h2 id=\"%s\">", id);
+    text(b, title);
+    embz_buf_printf(b, "</h2>\n");
+}
+
+static void w_family(void *ctx, const embz_report_struct *r, slong i)
+{
+    note(&((html_t *) ctx)->b, r, i);
+}
+
+static void w_footer(void *ctx, const char *s)
+{
+    embz_buf_t *b = &((html_t *) ctx)->b;
+    embz_buf_printf(b, "<footer>");
+    paragraphs(b, s);
+    embz_buf_printf(b, "</footer>\n");
+}
+
+static const embz_report_writer_t writer = {
+    w_head, w_table, w_figure, w_text, w_heading, w_family, w_footer
+};
+
+int embz_report_html(char **out, const embz_report_t r, embz_err_t *err)
+{
+    html_t h;
+    embz_buf_init(&h.b);
+    h.err = err;
+    int st = _embz_report_walk(r, &writer, &h);
     if (st != EMBZ_OK) {
-        embz_buf_clear(&b);
+        embz_buf_clear(&h.b);
         *out = NULL;
         return st;
     }
-    embz_buf_printf(&b, "<h2 id=\"numbers\">All numbers</h2>\n");
-    embz_report_table_build(&t, r, EMBZ_TABLE_CLASS);
-    table(&b, &t, NULL, 1);
-    embz_report_table_clear(&t);
-    embz_report_table_build(&t, r, EMBZ_TABLE_NUMBERS);
-    if (t.ncols > 1) {
-        embz_buf_printf(&b, "<p></p>\n");
-        table(&b, &t, NULL, 1);
-    }
-    embz_report_table_clear(&t);
-    if (r->footer) {
-        embz_buf_printf(&b, "<footer>");
-        paragraphs(&b, r->footer);
-        embz_buf_printf(&b, "</footer>\n");
-    }
-    embz_buf_printf(&b, "</main>\n</body>\n</html>\n");
-    *out = b.s;
+    embz_buf_printf(&h.b, "</main>\n</body>\n</html>\n");
+    *out = h.b.s;
     return EMBZ_OK;
 }

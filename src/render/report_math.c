@@ -95,6 +95,30 @@ int _embz_math_next(embz_math_span_t *m, const char *s, long from)
     return 0;
 }
 
+/* Writes s: the text between spans through escape, each span through span. */
+static void write_spans(embz_buf_t *out, const char *s, char *(*escape)(const char *),
+                        void (*span)(embz_buf_t *, const char *, const embz_math_span_t *))
+{
+    if (s == NULL)
+        return;
+    embz_math_span_t m;
+    long at = 0;
+    while (_embz_math_next(&m, s, at)) {
+        char *pre = malloc(m.base0 - at + 1);
+        memcpy(pre, s + at, m.base0 - at);
+        pre[m.base0 - at] = 0;
+        char *e = escape(pre);
+        embz_buf_printf(out, "%s", e);
+        free(e);
+        free(pre);
+        span(out, s, &m);
+        at = m.end;
+    }
+    char *e = escape(s + at);
+    embz_buf_printf(out, "%s", e);
+    free(e);
+}
+
 /* ------------------------------------------------------------------ MathML */
 
 /* Tokens of s[a..b) as MathML: names <mi>, numbers <mn>, the rest <mo>; spaces dropped. */
@@ -141,28 +165,17 @@ static void mathml_tokens(embz_buf_t *out, const char *s, long a, long b)
     embz_buf_printf(out, "</mrow>");
 }
 
+static void mathml_span(embz_buf_t *out, const char *s, const embz_math_span_t *m)
+{
+    embz_buf_printf(out, "<math><%s>", m->sub ? "msub" : "msup");
+    mathml_tokens(out, s, m->base0, m->base1);
+    mathml_tokens(out, s, m->exp0, m->exp1);
+    embz_buf_printf(out, "</%s></math>", m->sub ? "msub" : "msup");
+}
+
 void _embz_math_html(embz_buf_t *out, const char *s)
 {
-    if (s == NULL)
-        return;
-    embz_math_span_t m;
-    long at = 0;
-    while (_embz_math_next(&m, s, at)) {
-        char *pre = malloc(m.base0 - at + 1);
-        memcpy(pre, s + at, m.base0 - at);
-        pre[m.base0 - at] = 0;
-        char *e = embz_html_escape(pre);
-        embz_buf_printf(out, "%s<math><%s>", e, m.sub ? "msub" : "msup");
-        free(e);
-        free(pre);
-        mathml_tokens(out, s, m.base0, m.base1);
-        mathml_tokens(out, s, m.exp0, m.exp1);
-        embz_buf_printf(out, "</%s></math>", m.sub ? "msub" : "msup");
-        at = m.end;
-    }
-    char *e = embz_html_escape(s + at);
-    embz_buf_printf(out, "%s", e);
-    free(e);
+    write_spans(out, s, embz_html_escape, mathml_span);
 }
 
 /* ------------------------------------------------------------------ LaTeX */
@@ -209,29 +222,18 @@ static void tex_tokens(embz_buf_t *out, const char *s, long a, long b)
     }
 }
 
+static void tex_span(embz_buf_t *out, const char *s, const embz_math_span_t *m)
+{
+    embz_buf_printf(out, "$");
+    tex_tokens(out, s, m->base0, m->base1);
+    embz_buf_printf(out, "%c{", m->sub ? '_' : '^');
+    tex_tokens(out, s, m->exp0, m->exp1);
+    embz_buf_printf(out, "}$");
+}
+
 void _embz_math_tex(embz_buf_t *out, const char *s)
 {
-    if (s == NULL)
-        return;
-    embz_math_span_t m;
-    long at = 0;
-    while (_embz_math_next(&m, s, at)) {
-        char *pre = malloc(m.base0 - at + 1);
-        memcpy(pre, s + at, m.base0 - at);
-        pre[m.base0 - at] = 0;
-        char *e = embz_latex_escape(pre);
-        embz_buf_printf(out, "%s$", e);
-        free(e);
-        free(pre);
-        tex_tokens(out, s, m.base0, m.base1);
-        embz_buf_printf(out, "%c{", m.sub ? '_' : '^');
-        tex_tokens(out, s, m.exp0, m.exp1);
-        embz_buf_printf(out, "}$");
-        at = m.end;
-    }
-    char *e = embz_latex_escape(s + at);
-    embz_buf_printf(out, "%s", e);
-    free(e);
+    write_spans(out, s, embz_latex_escape, tex_span);
 }
 
 /* ------------------------------------------------------------------ Unicode */

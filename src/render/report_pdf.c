@@ -533,6 +533,83 @@ static cairo_status_t discard(void *closure, const unsigned char *data, unsigned
     return CAIRO_STATUS_SUCCESS;
 }
 
+static void p_head(void *ctx, const embz_report_struct *r)
+{
+    doc_t *d = ctx;
+    cairo_t *cr = d->cr;
+    font(cr, 18, 1, 0);
+    ink(cr, 0.08);
+    wrap(d, r->title ? r->title : "embz report", MARGIN, WIDTH, 23);
+    if (r->subtitle) {
+        font(cr, 10, 0, 0);
+        ink(cr, 0.4);
+        wrap(d, r->subtitle, MARGIN, WIDTH, 14);
+    }
+    d->y += 6;
+    if (r->answer) {
+        font(cr, 11, 0, 0);
+        double h = wrap_height(d, r->answer, WIDTH - 20, 15);
+        cairo_set_source_rgb(cr, 0.918, 0.953, 0.945);
+        cairo_rectangle(cr, MARGIN, d->y, WIDTH, h + 12);
+        cairo_fill(cr);
+        cairo_set_source_rgb(cr, 0.05, 0.37, 0.4);
+        cairo_rectangle(cr, MARGIN, d->y, 3.5, h + 12);
+        cairo_fill(cr);
+        d->y += 6;
+        ink(cr, 0.1);
+        wrap(d, r->answer, MARGIN + 12, WIDTH - 20, 15);
+        d->y += 14;
+    }
+}
+
+static void p_table(void *ctx, const embz_report_table_t *t, int kind)
+{
+    (void) kind;
+    draw_table(ctx, t);
+}
+
+static int p_figure(void *ctx, const embz_report_figure_struct *g, slong k)
+{
+    figure(ctx, g, k);
+    return EMBZ_OK;
+}
+
+static void p_text(void *ctx, const char *s)
+{
+    doc_t *d = ctx;
+    font(d->cr, d->body, 0, 0);
+    ink(d->cr, 0.12);
+    paragraphs(d, s, MARGIN, WIDTH, 0);
+}
+
+static void p_heading(void *ctx, const char *title, const char *id)
+{
+    (void) id;
+    heading(ctx, title, 60);
+}
+
+static void p_family(void *ctx, const embz_report_struct *r, slong i)
+{
+    family_block(ctx, r, i);
+}
+
+static void p_footer(void *ctx, const char *s)
+{
+    doc_t *d = ctx;
+    font(d->cr, 8.5, 0, 0);
+    need(d, 30);
+    d->y += 4;
+    ink(d->cr, 0.4);
+    double keep = d->body;
+    d->body = 8.5;
+    paragraphs(d, s, MARGIN, WIDTH, 0);
+    d->body = keep;
+}
+
+static const embz_report_writer_t writer = {
+    p_head, p_table, p_figure, p_text, p_heading, p_family, p_footer
+};
+
 /* Lays the document out on surf at the density of level 0..3; returns how full the last page
  * is (0..1) and the number of pages in *pages. */
 static double layout(cairo_surface_t *surf, const embz_report_struct *r, int level, int *pages)
@@ -540,69 +617,11 @@ static double layout(cairo_surface_t *surf, const embz_report_struct *r, int lev
     static const double body[4] = { 10, 9.6, 9.3, 9 }, cell[4] = { 8.6, 8.3, 8.1, 7.9 };
     static const double figs[4] = { 1, 0.92, 0.85, 0.78 };
     doc_t d = { cairo_create(surf), MARGIN, 1, body[level], cell[level], figs[level] };
-    cairo_t *cr = d.cr;
-
-    font(cr, 18, 1, 0);
-    ink(cr, 0.08);
-    wrap(&d, r->title ? r->title : "embz report", MARGIN, WIDTH, 23);
-    if (r->subtitle) {
-        font(cr, 10, 0, 0);
-        ink(cr, 0.4);
-        wrap(&d, r->subtitle, MARGIN, WIDTH, 14);
-    }
-    d.y += 6;
-    if (r->answer) {
-        font(cr, 11, 0, 0);
-        double h = wrap_height(&d, r->answer, WIDTH - 20, 15);
-        cairo_set_source_rgb(cr, 0.918, 0.953, 0.945);
-        cairo_rectangle(cr, MARGIN, d.y, WIDTH, h + 12);
-        cairo_fill(cr);
-        cairo_set_source_rgb(cr, 0.05, 0.37, 0.4);
-        cairo_rectangle(cr, MARGIN, d.y, 3.5, h + 12);
-        cairo_fill(cr);
-        d.y += 6;
-        ink(cr, 0.1);
-        wrap(&d, r->answer, MARGIN + 12, WIDTH - 20, 15);
-        d.y += 14;
-    }
-    embz_report_table_t t;
-    embz_report_table_build(&t, r, EMBZ_TABLE_KEY);
-    draw_table(&d, &t);
-    embz_report_table_clear(&t);
-    if (r->nfig > 0)
-        figure(&d, r->fig, 0);
-    font(cr, d.body, 0, 0);
-    ink(cr, 0.12);
-    paragraphs(&d, r->intro, MARGIN, WIDTH, 0);
-    if (r->nfam > 0) {
-        heading(&d, "Family by family", 60);
-        for (slong i = 0; i < r->nfam; i++)
-            family_block(&d, r, i);
-    }
-    for (slong k = 1; k < r->nfig; k++)
-        figure(&d, r->fig + k, k);
-    heading(&d, "All numbers", 60);
-    embz_report_table_build(&t, r, EMBZ_TABLE_CLASS);
-    draw_table(&d, &t);
-    embz_report_table_clear(&t);
-    embz_report_table_build(&t, r, EMBZ_TABLE_NUMBERS);
-    if (t.ncols > 1)
-        draw_table(&d, &t);
-    embz_report_table_clear(&t);
-    if (r->footer) {
-        font(cr, 8.5, 0, 0);
-        need(&d, 30);
-        d.y += 4;
-        ink(cr, 0.4);
-        double keep = d.body;
-        d.body = 8.5;
-        paragraphs(&d, r->footer, MARGIN, WIDTH, 0);
-        d.body = keep;
-    }
+    _embz_report_walk(r, &writer, &d);
     *pages = d.page;
     double fill = (d.y - MARGIN) / (BOTTOM - MARGIN);
-    cairo_status_t st = cairo_status(cr);
-    cairo_destroy(cr);
+    cairo_status_t st = cairo_status(d.cr);
+    cairo_destroy(d.cr);
     return st == CAIRO_STATUS_SUCCESS ? fill : -1;
 }
 

@@ -124,59 +124,77 @@ static void md_fact(embz_buf_t *b, const char *term, const char *value, int code
     embz_buf_printf(b, "\n");
 }
 
+/* the state of a Markdown or LaTeX writer */
+typedef struct { embz_buf_t b; const char *stem; } doc_t;
+
+static void md_head(void *ctx, const embz_report_struct *r)
+{
+    embz_buf_t *b = &((doc_t *) ctx)->b;
+    embz_buf_printf(b, "# ");
+    md_text(b, r->title ? r->title : "embz report");
+    embz_buf_printf(b, "\n\n");
+    if (r->subtitle) {
+        embz_buf_printf(b, "*");
+        md_text(b, r->subtitle);
+        embz_buf_printf(b, "*\n\n");
+    }
+    if (r->answer) {
+        embz_buf_printf(b, "**Answer.** ");
+        md_text(b, r->answer);
+        embz_buf_printf(b, "\n\n");
+    }
+}
+
+static void md_w_table(void *ctx, const embz_report_table_t *t, int kind)
+{
+    md_table(&((doc_t *) ctx)->b, t, kind == EMBZ_TABLE_KEY);
+}
+
+static int md_w_figure(void *ctx, const embz_report_figure_struct *g, slong k)
+{
+    md_figure(&((doc_t *) ctx)->b, g, k, ((doc_t *) ctx)->stem);
+    return EMBZ_OK;
+}
+
+static void md_w_text(void *ctx, const char *s)
+{
+    md_paragraphs(&((doc_t *) ctx)->b, s);
+}
+
+static void md_heading(void *ctx, const char *title, const char *id)
+{
+    (void) id;
+    embz_buf_printf(&((doc_t *) ctx)->b, "## %s\n\n", title);
+}
+
+static void md_family(void *ctx, const embz_report_struct *r, slong i)
+{
+    embz_buf_t *b = &((doc_t *) ctx)->b;
+    const embz_report_family_struct *f = r->fam + i;
+    char id[32];
+    _embz_report_anchor(id, sizeof(id), i);
+    embz_buf_printf(b, "<a id=\"%s\"></a>\n\n### ", id);
+    md_text(b, f->name);
+    embz_buf_printf(b, "\n\n");
+    md_fact(b, "weight", f->weight, 1);
+    md_fact(b, "verdict", f->verdict, 0);
+    md_fact(b, "in short", f->summary, 0);
+    embz_buf_printf(b, "\n");
+    md_paragraphs(b, f->notes);
+}
+
+static const embz_report_writer_t md_writer = {
+    md_head, md_w_table, md_w_figure, md_w_text, md_heading, md_family, md_w_text
+};
+
 int _embz_report_markdown(char **text, const embz_report_struct *r, const char *stem,
                           embz_err_t *err)
 {
     (void) err;
-    embz_buf_t b;
-    embz_buf_init(&b);
-    embz_buf_printf(&b, "# ");
-    md_text(&b, r->title ? r->title : "embz report");
-    embz_buf_printf(&b, "\n\n");
-    if (r->subtitle) {
-        embz_buf_printf(&b, "*");
-        md_text(&b, r->subtitle);
-        embz_buf_printf(&b, "*\n\n");
-    }
-    if (r->answer) {
-        embz_buf_printf(&b, "**Answer.** ");
-        md_text(&b, r->answer);
-        embz_buf_printf(&b, "\n\n");
-    }
-    embz_report_table_t t;
-    embz_report_table_build(&t, r, EMBZ_TABLE_KEY);
-    md_table(&b, &t, 1);
-    embz_report_table_clear(&t);
-    if (r->nfig > 0)
-        md_figure(&b, r->fig, 0, stem);
-    md_paragraphs(&b, r->intro);
-    if (r->nfam > 0)
-        embz_buf_printf(&b, "## Family by family\n\n");
-    for (slong i = 0; i < r->nfam; i++) {
-        const embz_report_family_struct *f = r->fam + i;
-        char id[32];
-        _embz_report_anchor(id, sizeof(id), i);
-        embz_buf_printf(&b, "<a id=\"%s\"></a>\n\n### ", id);
-        md_text(&b, f->name);
-        embz_buf_printf(&b, "\n\n");
-        md_fact(&b, "weight", f->weight, 1);
-        md_fact(&b, "verdict", f->verdict, 0);
-        md_fact(&b, "in short", f->summary, 0);
-        embz_buf_printf(&b, "\n");
-        md_paragraphs(&b, f->notes);
-    }
-    for (slong k = 1; k < r->nfig; k++)
-        md_figure(&b, r->fig + k, k, stem);
-    embz_buf_printf(&b, "## All numbers\n\n");
-    embz_report_table_build(&t, r, EMBZ_TABLE_CLASS);
-    md_table(&b, &t, 0);
-    embz_report_table_clear(&t);
-    embz_report_table_build(&t, r, EMBZ_TABLE_NUMBERS);
-    if (t.ncols > 1)
-        md_table(&b, &t, 0);
-    embz_report_table_clear(&t);
-    md_paragraphs(&b, r->footer);
-    *text = b.s;
+    doc_t d = { { 0 }, stem };
+    embz_buf_init(&d.b);
+    _embz_report_walk(r, &md_writer, &d);
+    *text = d.b.s;
     return EMBZ_OK;
 }
 
@@ -309,13 +327,10 @@ static void tex_figure(embz_buf_t *b, const embz_report_figure_struct *g, slong 
     embz_buf_printf(b, "}\n\\end{figure}\n\n");
 }
 
-int _embz_report_latex(char **text, const embz_report_struct *r, const char *stem,
-                       embz_err_t *err)
+static void tex_head(void *ctx, const embz_report_struct *r)
 {
-    (void) err;
-    embz_buf_t b;
-    embz_buf_init(&b);
-    embz_buf_printf(&b, "%% Written by embz: a complete document (pdflatex; figures are the "
+    embz_buf_t *b = &((doc_t *) ctx)->b;
+    embz_buf_printf(b, "%% Written by embz: a complete document (pdflatex; figures are the "
                     "PDF files beside it).\n\\documentclass[a4paper,10pt]{article}\n"
                     "\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n"
                     "\\usepackage[margin=2cm]{geometry}\n"
@@ -323,69 +338,94 @@ int _embz_report_latex(char **text, const embz_report_struct *r, const char *ste
                     "\\usepackage[hidelinks]{hyperref}\n\\newsavebox\\embzbox\n"
                     "\\setlength{\\parindent}{0pt}\\setlength{\\parskip}{4pt}\n"
                     "\\begin{document}\n\\section*{");
-    tex(&b, r->title ? r->title : "embz report");
-    embz_buf_printf(&b, "}\n");
+    tex(b, r->title ? r->title : "embz report");
+    embz_buf_printf(b, "}\n");
     if (r->subtitle) {
-        embz_buf_printf(&b, "\\textit{");
-        tex(&b, r->subtitle);
-        embz_buf_printf(&b, "}\n\n");
+        embz_buf_printf(b, "\\textit{");
+        tex(b, r->subtitle);
+        embz_buf_printf(b, "}\n\n");
     }
     if (r->answer) {
-        embz_buf_printf(&b, "\\paragraph{Answer.} ");
-        tex(&b, r->answer);
-        embz_buf_printf(&b, "\n\n");
+        embz_buf_printf(b, "\\paragraph{Answer.} ");
+        tex(b, r->answer);
+        embz_buf_printf(b, "\n\n");
     }
-    embz_report_table_t t;
-    embz_report_table_build(&t, r, EMBZ_TABLE_KEY);
-    tex_table(&b, &t, 1, 1);
-    embz_report_table_clear(&t);
-    if (r->nfig > 0)
-        tex_figure(&b, r->fig, 0, stem);
-    tex_paragraphs(&b, r->intro);
-    if (r->nfam > 0)
-        embz_buf_printf(&b, "\\subsection*{Family by family}\n\n");
-    for (slong i = 0; i < r->nfam; i++) {
-        const embz_report_family_struct *f = r->fam + i;
-        char id[32];
-        _embz_report_anchor(id, sizeof(id), i);
-        embz_buf_printf(&b, "\\subsubsection*{");
-        tex(&b, f->name);
-        embz_buf_printf(&b, "}\\label{%s}\n\\begin{description}\n", id);
-        if (f->weight) {
-            char *e = embz_latex_escape(f->weight);
-            embz_buf_printf(&b, "\\item[weight] \\texttt{%s}\n", e);
-            free(e);
-        }
-        if (f->verdict) {
-            embz_buf_printf(&b, "\\item[verdict] ");
-            tex(&b, f->verdict);
-            embz_buf_printf(&b, "\n");
-        }
-        if (f->summary) {
-            embz_buf_printf(&b, "\\item[in short] ");
-            tex(&b, f->summary);
-            embz_buf_printf(&b, "\n");
-        }
-        embz_buf_printf(&b, "\\end{description}\n");
-        tex_paragraphs(&b, f->notes);
-    }
-    for (slong k = 1; k < r->nfig; k++)
-        tex_figure(&b, r->fig + k, k, stem);
-    embz_buf_printf(&b, "\\subsection*{All numbers}\n\n");
-    embz_report_table_build(&t, r, EMBZ_TABLE_CLASS);
-    tex_table(&b, &t, 0, 0);
-    embz_report_table_clear(&t);
-    embz_report_table_build(&t, r, EMBZ_TABLE_NUMBERS);
-    if (t.ncols > 1)
-        tex_table(&b, &t, 0, 0);
-    embz_report_table_clear(&t);
-    if (r->footer) {
-        embz_buf_printf(&b, "{\\footnotesize ");
-        tex_paragraphs(&b, r->footer);
-        embz_buf_printf(&b, "}\n");
-    }
-    embz_buf_printf(&b, "\\end{document}\n");
-    *text = b.s;
+}
+
+static void tex_w_table(void *ctx, const embz_report_table_t *t, int kind)
+{
+    int key = kind == EMBZ_TABLE_KEY;
+    tex_table(&((doc_t *) ctx)->b, t, key, key);
+}
+
+static int tex_w_figure(void *ctx, const embz_report_figure_struct *g, slong k)
+{
+    tex_figure(&((doc_t *) ctx)->b, g, k, ((doc_t *) ctx)->stem);
+    return EMBZ_OK;
+}
+
+static void tex_w_text(void *ctx, const char *s)
+{
+    tex_paragraphs(&((doc_t *) ctx)->b, s);
+}
+
+static void tex_heading(void *ctx, const char *title, const char *id)
+{
+    (void) id;
+    embz_buf_printf(&((doc_t *) ctx)->b, "\\subsection*{%s}\n\n", title);
+}
+
+static void tex_item(embz_buf_t *b, const char *term, const char *value, int code)
+{
+    if (value == NULL)
+        return;
+    embz_buf_printf(b, "\\item[%s] ", term);
+    if (code) {
+        char *e = embz_latex_escape(value);
+        embz_buf_printf(b, "\\texttt{%s}", e);
+        free(e);
+    } else
+        tex(b, value);
+    embz_buf_printf(b, "\n");
+}
+
+static void tex_family(void *ctx, const embz_report_struct *r, slong i)
+{
+    embz_buf_t *b = &((doc_t *) ctx)->b;
+    const embz_report_family_struct *f = r->fam + i;
+    char id[32];
+    _embz_report_anchor(id, sizeof(id), i);
+    embz_buf_printf(b, "\\subsubsection*{");
+    tex(b, f->name);
+    embz_buf_printf(b, "}\\label{%s}\n\\begin{description}\n", id);
+    tex_item(b, "weight", f->weight, 1);
+    tex_item(b, "verdict", f->verdict, 0);
+    tex_item(b, "in short", f->summary, 0);
+    embz_buf_printf(b, "\\end{description}\n");
+    tex_paragraphs(b, f->notes);
+}
+
+static void tex_footer(void *ctx, const char *s)
+{
+    embz_buf_t *b = &((doc_t *) ctx)->b;
+    embz_buf_printf(b, "{\\footnotesize ");
+    tex_paragraphs(b, s);
+    embz_buf_printf(b, "}\n");
+}
+
+static const embz_report_writer_t tex_writer = {
+    tex_head, tex_w_table, tex_w_figure, tex_w_text, tex_heading, tex_family, tex_footer
+};
+
+int _embz_report_latex(char **text, const embz_report_struct *r, const char *stem,
+                       embz_err_t *err)
+{
+    (void) err;
+    doc_t d = { { 0 }, stem };
+    embz_buf_init(&d.b);
+    _embz_report_walk(r, &tex_writer, &d);
+    embz_buf_printf(&d.b, "\\end{document}\n");
+    *text = d.b.s;
     return EMBZ_OK;
 }
 
