@@ -5,7 +5,7 @@
     report_layout.py html DUMP.html NAME...
         reads the measurements Chromium left in the dumped DOM: the page and the key table
         fit the window's width, the answer and the key table's first row are above the fold,
-        every NAME is a row of the key table
+        every NAME is a row of the key table, figures are shown at their natural size
     report_layout.py pdf BBOX.html TEXT.txt PAGE.pgm... -- NAME...
         pdftotext -bbox words, pdftotext -raw text and pdftoppm -gray pages: nothing beyond the right margin, the key
         table on page 1 with every NAME whole, each table on one page, no cut names (no
@@ -37,6 +37,8 @@ window.addEventListener('load', function () {
       return document.getElementById(id) ? id : null; });
   }
   if (ans) r.answer = box(ans);
+  r.figs = Array.prototype.map.call(document.querySelectorAll('figure svg'), function (s) {
+    return [s.getBoundingClientRect().width, s.viewBox.baseVal.width]; });
   var pre = document.createElement('pre');
   pre.id = 'embz-layout';
   pre.textContent = JSON.stringify(r);
@@ -81,6 +83,14 @@ def html(dump, names):
         bad.append("the key table's first row is below the fold")
     if None in r["links"] or len(r["links"]) != len(r["names"]):
         bad.append("a name of the key table links nowhere: %s" % r["links"])
+    # figures at their natural size (their text was drawn for it: tick labels of about
+    # 13 px), not shrunk to fit
+    for k, (shown, natural) in enumerate(r["figs"]):
+        print("figure %d: %.0f px shown, %.0f natural" % (k + 1, shown, natural))
+        if shown < 0.98 * natural:
+            bad.append("figure %d shrunk to %.0f of %.0f px" % (k + 1, shown, natural))
+    if not r["figs"]:
+        bad.append("no figure")
     for n in names:
         if n not in r["names"]:
             bad.append("family %s not a row of the key table (%s)" % (n, r["names"]))

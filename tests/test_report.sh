@@ -271,6 +271,10 @@ THREE=("inverse" "power (a=-1/2)" "geometric (r=9/10)")
 DEMO=("inverse" "logpower (b=1/2)" "tilted" "iterlog" "nearmiss" "geometric (r=9/10)"
       "power (a=-1/2)" "uniform")
 check "demo pdf" bash -c "cd '$T/demo' && '$EMBZ' demo -q -o demo.pdf > /dev/null"
+# three families with the defaults (two goals, three sizes: the widest key table by default)
+for fmt in html pdf; do
+    check "three-family report $fmt" "$EMBZ" report inverse power geometric -q -o "$T/three.$fmt"
+done
 if command -v pdftoppm >/dev/null && command -v pdftotext >/dev/null; then
     pdf_layout() {   # pdf_layout FILE.pdf NAME...: words inside the page, tables whole, names whole
         local f=$1; shift
@@ -279,7 +283,8 @@ if command -v pdftoppm >/dev/null && command -v pdftotext >/dev/null; then
             && pdftoppm -r 40 -gray "$f" "$f.page" && $LAYOUT pdf "$f.bbox.html" "$f.txt" \
             $(ls "$f".page*.pgm | sort -V) -- "$@"
     }
-    check "pdf layout: three families" pdf_layout "$T/cmp.pdf" "${THREE[@]}"
+    check "pdf layout: three families" pdf_layout "$T/three.pdf" "${THREE[@]}"
+    check "pdf layout: three families, one goal" pdf_layout "$T/cmp.pdf" "${THREE[@]}"
     check "pdf layout: demo" pdf_layout "$T/demo/demo.pdf" "${DEMO[@]}"
 fi
 if [ -x /usr/bin/chromium ]; then
@@ -298,7 +303,7 @@ if [ -x /usr/bin/chromium ]; then
             --screenshot="$f.png" "file://$f" >/dev/null 2>&1 || return 1
         png_ok "$f.png" && [ "$(od -An -tu1 -j16 -N4 "$f.png" | awk '{print $1*16777216+$2*65536+$3*256+$4}')" = 1280 ]
     }
-    check "html layout: three families at 1280 px" html_layout "$T/cmp.html" "${THREE[@]}"
+    check "html layout: three families at 1280 px" html_layout "$T/three.html" "${THREE[@]}"
     check "html layout: demo at 1280 px" html_layout "$T/demo/embz-demo.html" "${DEMO[@]}"
 fi
 # Markdown and LaTeX link figure files written beside them

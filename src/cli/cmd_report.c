@@ -353,6 +353,7 @@ int cli_cmd_report(int argc, char **argv)
         slong np = 0;
         embz_plot_struct *gf = figs + nfigs;
         embz_plot_init(gf, NULL);
+        gf->zoom = 1.25;   /* as the other figures: readable labels at the page width */
         nfigs++;
         int c2 = grid_maps(gf, &np, fam, nfam, axes, naxes, &o);
         if (c2 != 0) {

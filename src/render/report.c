@@ -249,8 +249,7 @@ void embz_report_table_build(table_t *t, const embz_report_struct *r, int kind)
             const char *g = r->goals[j] ? r->goals[j] : "?";
             add_col(t, fmt("qubits per side for E \xe2\x89\xa4 %s", g, NULL), EMBZ_COL_NUM);
             if (r->extra_columns)
-                add_col(t, r->ngoals > 1 ? fmt("extra (%s)", g, NULL) : sdup("extra"),
-                        EMBZ_COL_NUM);
+                add_col(t, sdup("extra"), EMBZ_COL_NUM);   /* of the goal before it */
         }
         if (r->nsizes > 0)
             add_col(t, fmt("E at n = %s", r->sizes[r->nsizes - 1] ? r->sizes[r->nsizes - 1]
