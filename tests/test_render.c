@@ -511,7 +511,8 @@ static void sample_report(embz_report_t r, const embz_plot_struct *fig)
     embz_report_set(&f->error_at[1], "0.00300954");
     embz_report_set(&f->need_n[0], "1.234567890e+451");
     embz_report_set(&f->need_qubits[0], "1499");
-    embz_report_set(&f->notes, "Universal.\n\nSlow: logarithmic decay.");
+    embz_report_set(&f->notes, "Universal.\n\nSlow: logarithmic decay (ln n)^-g, within "
+                    "x^(-1-0.1) and x^-1; OPT_n at 10^60.");
     f = embz_report_add_family(r, EVIL);
     embz_report_set(&f->weight, "i^a_1 % {x} & $y$ # ~");
     embz_report_set(&f->verdict, "not_embezzler");
@@ -542,6 +543,18 @@ START_TEST(test_report_html)
                            "</math>" };
     for (size_t k = 0; k < sizeof(nums) / sizeof(nums[0]); k++)
         ck_assert_msg(strstr(h, nums[k]) != NULL, "%s missing", nums[k]);
+    /* the plain notation of the notes as MathML */
+    const char *math[] = {
+        "<math><msup><mrow><mo>(</mo><mi>ln</mi><mspace width=\"0.25em\"></mspace><mi>n</mi>"
+        "<mo>)</mo></mrow><mrow><mo>\xe2\x88\x92</mo><mi>g</mi></mrow></msup></math>",
+        "<msup><mrow><mi>x</mi></mrow><mrow><mo>\xe2\x88\x92</mo><mn>1</mn><mo>\xe2\x88\x92"
+        "</mo><mn>0.1</mn></mrow></msup>",
+        "<msup><mrow><mi>x</mi></mrow><mrow><mo>\xe2\x88\x92</mo><mn>1</mn></mrow></msup>",
+        "<msub><mrow><mi>OPT</mi></mrow><mrow><mi>n</mi></mrow></msub>",
+        "<msup><mrow><mn>10</mn></mrow><mrow><mn>60</mn></mrow></msup>" };
+    for (size_t k = 0; k < sizeof(math) / sizeof(math[0]); k++)
+        ck_assert_msg(strstr(h, math[k]) != NULL, "MathML %s missing", math[k]);
+    ck_assert_ptr_null(strstr(h, "^-g"));
     /* the document is well-formed enough for an XML parser (void tags aside: none used
      * except meta, which we close here by replacing) */
     make_tmpdir();
@@ -635,6 +648,17 @@ START_TEST(test_report_md_tex)
         if (p[-1] != '\\')
             amp++;
     ck_assert_int_eq(amp, 2 * 4);
+    /* the notes' powers: LaTeX math in LaTeX, Unicode superscripts in Markdown */
+    ck_assert_ptr_nonnull(strstr(t, "$(\\ln n)^{-g}$"));
+    ck_assert_ptr_nonnull(strstr(t, "$x^{-1-0.1}$"));
+    ck_assert_ptr_nonnull(strstr(t, "$x^{-1}$"));
+    ck_assert_ptr_nonnull(strstr(t, "$\\mathrm{OPT}_{n}$"));
+    ck_assert_ptr_nonnull(strstr(t, "$10^{60}$"));
+    ck_assert_ptr_nonnull(strstr(m, "(ln n)\xe2\x81\xbb\xe1\xb5\x8d"));
+    ck_assert_ptr_nonnull(strstr(m, "x\xe2\x81\xbb\xc2\xb9;"));
+    ck_assert_ptr_nonnull(strstr(m, "OPT\xe2\x82\x99"));
+    ck_assert_ptr_nonnull(strstr(m, "10\xe2\x81\xb6\xe2\x81\xb0"));
+    ck_assert_ptr_nonnull(strstr(m, "x^(-1-0.1)"));   /* no superscript for '.': as written */
     ck_assert_ptr_nonnull(strstr(t, "\\documentclass"));
     ck_assert_ptr_nonnull(strstr(t, "\\end{document}"));
     ck_assert_ptr_nonnull(strstr(t, "\\hyperref[fam-1]{inverse}"));

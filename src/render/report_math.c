@@ -190,7 +190,8 @@ static void tex_tokens(embz_buf_t *out, const char *s, long a, long b)
             int l = (int) (j - k);
             if ((l == 2 && !strncmp(s + k, "ln", 2)) || (l == 3 && !strncmp(s + k, "log", 3))
                 || (l == 3 && !strncmp(s + k, "exp", 3)))
-                embz_buf_printf(out, "\\%.*s ", l, s + k);
+                embz_buf_printf(out, "\\%.*s%s", l, s + k,
+                                j < b && isalnum((unsigned char) s[j]) ? " " : "");
             else if (l > 1)
                 embz_buf_printf(out, "\\mathrm{%.*s}", l, s + k);
             else
