@@ -213,7 +213,7 @@ static void weights_panels(embz_plot_t fig, const cli_compare_row_t *rows, const
     for (long k = 0; k < nfam; k++) {
         const cli_compare_row_t *r = rows + order[k];
         double ymin = INFINITY, ymax = -INFINITY;
-        slong pw = embz_plot_add_panel(fig, r->label, "index x", "w(x) / w(1)", 1, 1);
+        slong pw = embz_plot_add_panel(fig, r->label, "index x", "w(x)/w(1)", 1, 1);
         slong s = embz_plot_add_series(fig, pw, NULL, EMBZ_PLOT_LINE, k);
         style_series(fig, pw, s, k);
         embz_err_t err;

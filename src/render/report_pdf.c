@@ -432,11 +432,29 @@ static void draw_table(doc_t *d, const embz_report_table_t *t)
 
 /* ------------------------------------------------------------------ figures, blocks */
 
-static double figure_height(const doc_t *d, const embz_report_figure_struct *g, double *scale)
+/* On the page a figure is laid out at most PAGE_FIG layout points wide (its panels narrowed
+ * in proportion), so that its text, drawn for the layout, keeps about 8 pt once the figure is
+ * scaled to the text width. */
+#define PAGE_FIG 650.0
+
+static embz_plot_struct page_figure(const embz_plot_struct *p)
+{
+    embz_plot_struct c = *p;   /* shares the panels, read only */
+    double W, H, z = c.zoom > 0 ? c.zoom : 1;
+    embz_plot_size(&W, &H, p);
+    if (W / z > PAGE_FIG) {
+        double f = PAGE_FIG / (W / z);
+        c.panel_width *= f;
+        c.panel_height *= sqrt(f);   /* keeps room for the vertical axis label */
+    }
+    return c;
+}
+
+static double figure_height(const doc_t *d, const embz_plot_struct *p, double *scale)
 {
     double W = 0, H = 0;
-    if (g->plot != NULL)
-        embz_plot_size(&W, &H, g->plot);
+    if (p != NULL)
+        embz_plot_size(&W, &H, p);
     if (W <= 0) {
         *scale = 0;
         return 0;
@@ -451,7 +469,10 @@ static double figure_height(const doc_t *d, const embz_report_figure_struct *g, 
 static void figure(doc_t *d, const embz_report_figure_struct *g, slong k)
 {
     cairo_t *cr = d->cr;
-    double s, H = figure_height(d, g, &s);
+    embz_plot_struct pf;
+    if (g->plot != NULL)
+        pf = page_figure(g->plot);
+    double s, H = figure_height(d, g->plot ? &pf : NULL, &s);
     char *cap = embz_strdup_printf("Figure %ld. %s", (long) k + 1,
                                    g->caption ? g->caption : "");
     font(cr, 9, 0, 0);
@@ -459,9 +480,9 @@ static void figure(doc_t *d, const embz_report_figure_struct *g, slong k)
     need(d, H + ch + 14);
     if (s > 0) {
         double W, H0;
-        embz_plot_size(&W, &H0, g->plot);
+        embz_plot_size(&W, &H0, &pf);
         d->y += 4;
-        embz_plot_draw(cr, g->plot, MARGIN + (WIDTH - W * s) / 2, d->y, s);
+        embz_plot_draw(cr, &pf, MARGIN + (WIDTH - W * s) / 2, d->y, s);
         d->y += H;
     } else if (g->path != NULL || g->svg != NULL) {
         free(cap);
