@@ -309,6 +309,8 @@ fi
 # Markdown and LaTeX link figure files written beside them
 check "markdown links its figures" bash -c "grep -q '^!\[Figure 1\](<cmp-fig1.svg>)' '$T/cmp.md' && test -s '$T/cmp-fig1.svg'"
 check "markdown figure parses" xml_ok "$T/cmp-fig1.svg"
+check "report prints the figure files" bash -c "'$EMBZ' report inverse --from 10 --to 10^6 --points 5 \
+    --sizes 1000 --eps 0.1 -q -o '$T/pf.md' | diff - <(printf '%s\n' '$T/pf.md' '$T/pf-fig1.svg' '$T/pf-fig2.svg' '$T/pf-fig3.svg')"
 check "latex includes its figures" bash -c "grep -q 'includegraphics\[width=\\\\textwidth\]{cmp-fig1.pdf}' '$T/cmp.tex' && head -c 5 '$T/cmp-fig1.pdf' | grep -q '%PDF-'"
 check "latex typesets powers" grep -q 'E at n = \$10^{30}\$' "$T/cmp.tex"
 check "html typesets powers" grep -q '<msup><mrow><mn>10</mn></mrow><mrow><mn>30</mn></mrow></msup>' "$T/cmp.html"

@@ -225,6 +225,11 @@ int embz_report_latex(char **text, const embz_report_t r, embz_err_t *err);
  * that name; on standard output ("-") no figure file is written and the text says so. */
 int embz_report_write(const embz_report_t r, const char *path, int format, embz_err_t *err);
 
+/* The file of drawn figure k (0-based) beside the document path in format (Markdown:
+ * STEM-fig(k+1).svg, LaTeX: STEM-fig(k+1).pdf, STEM the path without its extension);
+ * malloc'ed, NULL for the other formats and for standard output. */
+char *embz_report_figure_path(const char *path, slong k, int format);
+
 /* Escaped copies of text (malloc'ed): HTML (& < > " '), LaTeX specials, Markdown specials. */
 char *embz_html_escape(const char *text);
 char *embz_latex_escape(const char *text);

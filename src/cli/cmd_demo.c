@@ -165,6 +165,11 @@ int cli_cmd_demo(int argc, char **argv)
         /* with the report on standard output, the table goes to standard error */
         int to_stdout = embz_output_is_stdout(out);
         embz_buf_printf(&b, "\nReport: %s\n", to_stdout ? "standard output" : out);
+        for (slong k = 0; k < rep->nfig; k++) {   /* the figure files beside it (md, tex) */
+            char *fp = rep->fig[k].plot ? embz_report_figure_path(out, k, format) : NULL;
+            if (fp) embz_buf_printf(&b, "Figure %ld: %s\n", (long) k + 1, fp);
+            free(fp);
+        }
         fputs(b.s, to_stdout ? stderr : stdout);
         embz_buf_clear(&b);
     }

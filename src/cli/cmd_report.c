@@ -369,7 +369,14 @@ int cli_cmd_report(int argc, char **argv)
         code = cli_report("report", status, &err);
         goto done;
     }
-    if (!embz_output_is_stdout(out)) printf("%s\n", out);   /* else stdout holds the document */
+    if (!embz_output_is_stdout(out)) {   /* else stdout holds the document */
+        printf("%s\n", out);
+        for (slong k = 0; k < rep->nfig; k++) {   /* the figure files beside it (md, tex) */
+            char *fp = rep->fig[k].plot ? embz_report_figure_path(out, k, format) : NULL;
+            if (fp) printf("%s\n", fp);
+            free(fp);
+        }
+    }
 
 done:
     embz_report_clear(rep);

@@ -387,27 +387,34 @@ int _embz_report_walk(const embz_report_struct *r, const embz_report_writer_t *w
 
 /* ------------------------------------------------------------------ files */
 
-/* Markdown and LaTeX: the drawn figures as files beside the document (STEM-figK.EXT). */
-static int write_figures(const embz_report_t r, const char *path, const char *ext,
-                         embz_err_t *err)
+char *embz_report_figure_path(const char *path, slong k, int format)
 {
+    if ((format != EMBZ_REPORT_MD && format != EMBZ_REPORT_TEX) || path == NULL
+        || embz_output_is_stdout(path))
+        return NULL;
     char *stem = sdup(path);
     char *dot = strrchr(stem, '.'), *slash = strrchr(stem, '/');
     if (dot != NULL && (slash == NULL || dot > slash))
         *dot = 0;
+    char *name = embz_strdup_printf("%s-fig%ld.%s", stem, (long) k + 1,
+                                    format == EMBZ_REPORT_MD ? "svg" : "pdf");
+    free(stem);
+    return name;
+}
+
+/* Markdown and LaTeX: the drawn figures as files beside the document. */
+static int write_figures(const embz_report_t r, const char *path, int format, embz_err_t *err)
+{
     int st = EMBZ_OK;
     for (slong k = 0; k < r->nfig && st == EMBZ_OK; k++) {
         if (r->fig[k].plot == NULL)
             continue;
-        size_t l = strlen(stem) + 32;
-        char *name = malloc(l);
-        snprintf(name, l, "%s-fig%ld.%s", stem, (long) k + 1, ext);
+        char *name = embz_report_figure_path(path, k, format);
         st = embz_output_check(name, err);
         if (st == EMBZ_OK)
             st = embz_plot_write(r->fig[k].plot, name, err);
         free(name);
     }
-    free(stem);
     return st;
 }
 
@@ -428,7 +435,7 @@ int embz_report_write(const embz_report_t r, const char *path, int format, embz_
     char *text = NULL, *stem = NULL;
     int st = EMBZ_OK, to_file = !embz_output_is_stdout(path);
     if (to_file && (format == EMBZ_REPORT_MD || format == EMBZ_REPORT_TEX)) {
-        st = write_figures(r, path, format == EMBZ_REPORT_MD ? "svg" : "pdf", err);
+        st = write_figures(r, path, format, err);
         if (st != EMBZ_OK)
             return st;
         stem = link_stem(path);
