@@ -102,6 +102,9 @@ static void md_figure(embz_buf_t *b, const embz_report_figure_struct *g, slong k
     } else if (g->plot != NULL) {
         embz_buf_printf(b, "(Figure %ld is written beside the document when the Markdown goes "
                         "to a file.)\n\n", (long) k + 1);
+    } else if (g->svg != NULL) {
+        embz_buf_printf(b, "(Figure %ld, given as SVG text, is drawn in the HTML report "
+                        "only.)\n\n", (long) k + 1);
     }
     embz_buf_printf(b, "**Figure %ld.** ", (long) k + 1);
     md_text(b, g->caption ? g->caption : "");
@@ -319,8 +322,10 @@ static void tex_figure(embz_buf_t *b, const embz_report_figure_struct *g, slong 
         free(e);
         free(file);
     } else {
-        embz_buf_printf(b, "\\fbox{\\parbox{0.9\\textwidth}{\\centering Figure %ld is written "
-                        "beside the document when the LaTeX goes to a file.}}\n", (long) k + 1);
+        embz_buf_printf(b, "\\fbox{\\parbox{0.9\\textwidth}{\\centering Figure %ld %s.}}\n",
+                        (long) k + 1, g->plot != NULL
+                        ? "is written beside the document when the LaTeX goes to a file"
+                        : "is drawn in the HTML report only");
     }
     embz_buf_printf(b, "\\caption{");
     tex(b, g->caption ? g->caption : "");
