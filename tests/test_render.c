@@ -511,7 +511,8 @@ static void sample_report(embz_report_t r, const embz_plot_struct *fig)
     embz_report_set(&f->error_at[1], "0.00300954");
     embz_report_set(&f->need_n[0], "1.234567890e+451");
     embz_report_set(&f->need_qubits[0], "1499");
-    embz_report_set(&f->notes, "Universal.\n\nSlow: logarithmic decay.");
+    embz_report_set(&f->notes, "Universal.\n\nSlow: logarithmic decay (ln n)^-g, within "
+                    "x^(-1-0.1) and x^-1; OPT_n at 10^60.");
     f = embz_report_add_family(r, EVIL);
     embz_report_set(&f->weight, "i^a_1 % {x} & $y$ # ~");
     embz_report_set(&f->verdict, "not_embezzler");
@@ -536,9 +537,24 @@ START_TEST(test_report_html)
     ck_assert_ptr_nonnull(strstr(h, "Comparison &amp; summary"));
     ck_assert_ptr_nonnull(strstr(h, "<svg"));
     const char *nums[] = { "0.0478318", "0.00300954", "1.234567890e+451", "1499", "[0, 0.0031]",
-                           "0.293107062", "10^100", "1e-3" };
+                           "0.293107062", "1e-3",
+                           /* the size 10^100 in a column head, as MathML */
+                           "<math><msup><mrow><mn>10</mn></mrow><mrow><mn>100</mn></mrow></msup>"
+                           "</math>" };
     for (size_t k = 0; k < sizeof(nums) / sizeof(nums[0]); k++)
         ck_assert_msg(strstr(h, nums[k]) != NULL, "%s missing", nums[k]);
+    /* the plain notation of the notes as MathML */
+    const char *math[] = {
+        "<math><msup><mrow><mo>(</mo><mi>ln</mi><mspace width=\"0.25em\"></mspace><mi>n</mi>"
+        "<mo>)</mo></mrow><mrow><mo>\xe2\x88\x92</mo><mi>g</mi></mrow></msup></math>",
+        "<msup><mrow><mi>x</mi></mrow><mrow><mo>\xe2\x88\x92</mo><mn>1</mn><mo>\xe2\x88\x92"
+        "</mo><mn>0.1</mn></mrow></msup>",
+        "<msup><mrow><mi>x</mi></mrow><mrow><mo>\xe2\x88\x92</mo><mn>1</mn></mrow></msup>",
+        "<msub><mrow><mi>OPT</mi></mrow><mrow><mi>n</mi></mrow></msub>",
+        "<msup><mrow><mn>10</mn></mrow><mrow><mn>60</mn></mrow></msup>" };
+    for (size_t k = 0; k < sizeof(math) / sizeof(math[0]); k++)
+        ck_assert_msg(strstr(h, math[k]) != NULL, "MathML %s missing", math[k]);
+    ck_assert_ptr_null(strstr(h, "^-g"));
     /* the document is well-formed enough for an XML parser (void tags aside: none used
      * except meta, which we close here by replacing) */
     make_tmpdir();
@@ -583,8 +599,10 @@ START_TEST(test_report_md_tex)
         ck_assert_msg(strstr(m, nums[k]) != NULL, "md: %s missing", nums[k]);
         ck_assert_msg(strstr(t, nums[k]) != NULL, "tex: %s missing", nums[k]);
     }
-    /* Markdown: one table row per family plus head and rule, same column count */
-    int rows = 0, cols = -1;
+    /* Markdown: three tables (key, classification, errors and sizes), each with one row per
+     * family plus head and rule and the same column count in every row */
+    int rows = 0, cols = -1, tables = 0;
+    const int want_cols[3] = { 1 + 5, 1 + 6, 1 + 1 + 2 + 2 };
     for (char *line = m; line && *line; ) {
         char *e = strchr(line, '\n');
         if (line[0] == '|') {
@@ -596,14 +614,24 @@ START_TEST(test_report_md_tex)
                 cols = c;
             ck_assert_int_eq(c, cols);
             rows++;
+        } else if (cols >= 0) {
+            ck_assert_int_lt(tables, 3);
+            ck_assert_int_eq(rows, 4);
+            ck_assert_int_eq(cols, want_cols[tables]);
+            tables++;
+            rows = 0;
+            cols = -1;
         }
         line = e ? e + 1 : NULL;
     }
-    ck_assert_int_eq(rows, 4);
-    ck_assert_int_eq(cols, 6 + 2 + 2 + 1);
+    ck_assert_int_eq(tables, 3);
+    /* the key table links each name to its notes, which carry the anchor */
+    ck_assert_ptr_nonnull(strstr(m, "| [inverse](#fam-1) |"));
+    ck_assert_ptr_nonnull(strstr(m, "<a id=\"fam-1\"></a>"));
     ck_assert_ptr_nonnull(strstr(m, "\\<script\\>"));
     for (const char *p = m; (p = strchr(p, '<')) != NULL; p++)
-        ck_assert(p > m && p[-1] == '\\');
+        ck_assert(!strncmp(p, "<a id=\"fam-", 11) || (!strncmp(p, "</a>", 4) && p[-1] == '>')
+                  || (p > m && p[-1] == '\\'));
     /* LaTeX: booktabs rules, sizes as math, specials escaped */
     ck_assert_ptr_nonnull(strstr(t, "\\toprule"));
     ck_assert_ptr_nonnull(strstr(t, "\\midrule"));
@@ -612,11 +640,29 @@ START_TEST(test_report_md_tex)
     ck_assert_ptr_nonnull(strstr(t, "i\\textasciicircum{}a\\_1 \\% \\{x\\} \\& \\$y\\$ \\# "
                                     "\\textasciitilde{}"));
     ck_assert_ptr_nonnull(strstr(t, "\\textless{}script\\textgreater{}"));
+    /* the key table: 2 rows of 5 columns */
     int amp = 0;
-    for (const char *p = strstr(t, "\\midrule"); p && (p = strchr(p, '&')) != NULL; p++)
+    const char *end = strstr(t, "\\bottomrule");
+    for (const char *p = strstr(t, "\\midrule"); p && (p = strchr(p, '&')) != NULL && p < end;
+         p++)
         if (p[-1] != '\\')
             amp++;
-    ck_assert_int_eq(amp, 2 * 9);   /* 10 columns in each of the two rows */
+    ck_assert_int_eq(amp, 2 * 4);
+    /* the notes' powers: LaTeX math in LaTeX, Unicode superscripts in Markdown */
+    ck_assert_ptr_nonnull(strstr(t, "$(\\ln n)^{-g}$"));
+    ck_assert_ptr_nonnull(strstr(t, "$x^{-1-0.1}$"));
+    ck_assert_ptr_nonnull(strstr(t, "$x^{-1}$"));
+    ck_assert_ptr_nonnull(strstr(t, "$\\mathrm{OPT}_{n}$"));
+    ck_assert_ptr_nonnull(strstr(t, "$10^{60}$"));
+    ck_assert_ptr_nonnull(strstr(m, "(ln n)\xe2\x81\xbb\xe1\xb5\x8d"));
+    ck_assert_ptr_nonnull(strstr(m, "x\xe2\x81\xbb\xc2\xb9;"));
+    ck_assert_ptr_nonnull(strstr(m, "OPT\xe2\x82\x99"));
+    ck_assert_ptr_nonnull(strstr(m, "10\xe2\x81\xb6\xe2\x81\xb0"));
+    ck_assert_ptr_nonnull(strstr(m, "x^(-1-0.1)"));   /* no superscript for '.': as written */
+    ck_assert_ptr_nonnull(strstr(t, "\\documentclass"));
+    ck_assert_ptr_nonnull(strstr(t, "\\end{document}"));
+    ck_assert_ptr_nonnull(strstr(t, "\\hyperref[fam-1]{inverse}"));
+    ck_assert_ptr_nonnull(strstr(t, "\\label{fam-1}"));
     free(m);
     free(t);
     embz_report_clear(r);

@@ -115,16 +115,25 @@ check "table matches --json" /usr/bin/python3 - "$T" <<'PY'
 import json, re, sys
 from fractions import Fraction
 T = sys.argv[1]
+SUP = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹⁻", "0123456789-")
 rows = {}
 head = None
+# every table of the document (key table, classification, errors and sizes), merged by family;
+# the key table's names are links to the notes
 for line in open(T + "/cmp.md", encoding="utf-8"):
-    if not line.startswith("|") or line.startswith("|:"):
+    if not line.startswith("|"):
+        head = None
+        continue
+    if line.startswith("|:") or line.startswith("|-"):
         continue
     cells = [c.strip().replace("\\", "") for c in re.split(r"(?<!\\)\|", line.strip())[1:-1]]
+    cells[0] = re.sub(r"^\[(.*)\]\(#fam-\d+\)$", r"\1", cells[0])
+    # powers are set as Unicode superscripts (10³⁰): back to 10^30
+    cells = [re.sub("[⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+", lambda m: "^" + m.group(0).translate(SUP), c) for c in cells]
     if head is None:
         head = cells
     else:
-        rows[cells[0].split(" ")[0]] = dict(zip(head, cells))
+        rows.setdefault(cells[0].split(" ")[0], {}).update(dict(zip(head, cells)))
 assert set(rows) == {"inverse", "power", "geometric", "optimal"}, rows.keys()
 bad = []
 # the optimum's row: the closed form of docs/optimal.md as `embz optimal` prints it (its
@@ -207,7 +216,8 @@ check "markdown has no raw tag" bash -c "! grep -Pq '(?<!\\\\)<script' '$T/evil.
 
 # a verdict map for a parameter grid
 check "report with --grid" "$EMBZ" report power --grid a=-1.4:-0.6:3 --from 10 --to 10^12 --points 6 --sizes 1000 --eps 0.1 -q -o "$T/grid.html"
-check "grid adds a third figure" test "$(grep -o '<figure>' "$T/grid.html" | wc -l)" -eq 3
+# power is not an embezzler: errors against n, the weights and the map (no ln n figure)
+check "grid adds a third figure" test "$(grep -o '<figure ' "$T/grid.html" | wc -l)" -eq 3
 check "grid html has no script" bash -c "! grep -qi '<script' '$T/grid.html'"
 
 # usage errors: exit 2 and no file
@@ -269,11 +279,61 @@ check "demo names the report" grep -q "embz-demo.html" "$T/demo/out.txt"
 check "demo wrote the html" grep -q "<table" "$T/demo/embz-demo.html"
 check "demo leaves no temporary file" no_temp "$T/demo"
 
+# ---- layout as a reader sees it: the demo and a three-family report
+LAYOUT="/usr/bin/python3 $(dirname "$0")/report_layout.py"
+THREE=("inverse" "power (a=-1/2)" "geometric (r=9/10)")
+DEMO=("inverse" "logpower (b=1/2)" "tilted" "iterlog" "nearmiss" "geometric (r=9/10)"
+      "power (a=-1/2)" "uniform")
+check "demo pdf" bash -c "cd '$T/demo' && '$EMBZ' demo -q -o demo.pdf > /dev/null"
+# three families with the defaults (two goals, three sizes: the widest key table by default)
+for fmt in html pdf; do
+    check "three-family report $fmt" "$EMBZ" report inverse power geometric -q -o "$T/three.$fmt"
+done
+if command -v pdftoppm >/dev/null && command -v pdftotext >/dev/null; then
+    pdf_layout() {   # pdf_layout FILE.pdf NAME...: words inside the page, tables whole, names whole
+        local f=$1; shift
+        rm -f "$f".page*
+        pdftotext -bbox "$f" "$f.bbox.html" && pdftotext -raw "$f" "$f.txt" \
+            && pdftoppm -r 40 -gray "$f" "$f.page" && $LAYOUT pdf "$f.bbox.html" "$f.txt" \
+            $(ls "$f".page*.pgm | sort -V) -- "$@"
+    }
+    check "pdf layout: three families" pdf_layout "$T/three.pdf" "${THREE[@]}"
+    check "pdf layout: three families, one goal" pdf_layout "$T/cmp.pdf" "${THREE[@]}"
+    check "pdf layout: demo" pdf_layout "$T/demo/demo.pdf" "${DEMO[@]}"
+fi
+if [ -x /usr/bin/chromium ]; then
+    html_layout() {   # html_layout FILE.html NAME...: at 1280 x 900, measured in the browser
+        local f=$1; shift
+        $LAYOUT inject "$f" "$f.m.html" || return 1
+        timeout 120 /usr/bin/chromium --headless --no-sandbox --disable-gpu --disable-quic \
+            --no-first-run --disable-background-networking --disable-component-update \
+            --disable-sync --user-data-dir="$T/prof" --window-size=1280,900 \
+            --dump-dom "file://$f.m.html" > "$f.dom" 2>/dev/null || return 1
+        $LAYOUT html "$f.dom" "$@" || return 1
+        # and the picture a reader gets, 1280 px wide
+        timeout 120 /usr/bin/chromium --headless --no-sandbox --disable-gpu --disable-quic \
+            --no-first-run --disable-background-networking --disable-component-update \
+            --disable-sync --user-data-dir="$T/prof" --window-size=1280,900 \
+            --screenshot="$f.png" "file://$f" >/dev/null 2>&1 || return 1
+        png_ok "$f.png" && [ "$(od -An -tu1 -j16 -N4 "$f.png" | awk '{print $1*16777216+$2*65536+$3*256+$4}')" = 1280 ]
+    }
+    check "html layout: three families at 1280 px" html_layout "$T/three.html" "${THREE[@]}"
+    check "html layout: demo at 1280 px" html_layout "$T/demo/embz-demo.html" "${DEMO[@]}"
+fi
+# Markdown and LaTeX link figure files written beside them
+check "markdown links its figures" bash -c "grep -q '^!\[Figure 1\](<cmp-fig1.svg>)' '$T/cmp.md' && test -s '$T/cmp-fig1.svg'"
+check "markdown figure parses" xml_ok "$T/cmp-fig1.svg"
+check "report prints the figure files" bash -c "'$EMBZ' report inverse --from 10 --to 10^6 --points 5 \
+    --sizes 1000 --eps 0.1 -q -o '$T/pf.md' | diff - <(printf '%s\n' '$T/pf.md' '$T/pf-fig1.svg' '$T/pf-fig2.svg' '$T/pf-fig3.svg')"
+check "latex includes its figures" bash -c "grep -q 'includegraphics\[width=\\\\textwidth\]{cmp-fig1.pdf}' '$T/cmp.tex' && head -c 5 '$T/cmp-fig1.pdf' | grep -q '%PDF-'"
+check "latex typesets powers" grep -q 'E at n = \$10^{30}\$' "$T/cmp.tex"
+check "html typesets powers" grep -q '<msup><mrow><mn>10</mn></mrow><mrow><mn>30</mn></mrow></msup>' "$T/cmp.html"
+
 # `embz report` with the defaults: HTML, escaping, Chromium screenshot
 # a size without an enclosure: '–' in the table, and the notes say why
 check "report of an uncertified size" "$EMBZ" report '1/(i+n/10)' --sizes 10^1000 --points 6 \
     --to 10^20 --eps 0.3 -o "$T/nc.md"
-check "the notes name the reason" grep -q "E at n = 10^1000: not certified (the weight" "$T/nc.md"
+check "the notes name the reason" grep -q "E at n = 10¹⁰⁰⁰: not certified (the weight" "$T/nc.md"
 check "report with the defaults" "$EMBZ" report inverse -o "$T/r.html" --format html -q
 if [ -s "$T/r.html" ]; then
     check "report html" grep -q "<table" "$T/r.html"

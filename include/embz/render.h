@@ -96,6 +96,9 @@ typedef struct {
     slong columns;           /* panels per row (default 1) */
     double panel_width, panel_height;   /* in points (default 640 x 420) */
     double png_scale;        /* pixels per point for PNG output (default 1.5) */
+    double zoom;             /* everything (text, lines, markers) drawn this many times larger
+                                than the panel layout in points (default 1; reports use more
+                                so that tick labels stay readable at the page width) */
     size_t fail_after;       /* testing: file writes fail after this many bytes (0: never) */
 } embz_plot_struct;
 typedef embz_plot_struct embz_plot_t[1];
@@ -135,7 +138,7 @@ int embz_plot_write_format(const embz_plot_t fig, const char *path, const char *
  * kept. *svg is malloc'ed. */
 int embz_plot_svg_string(char **svg, const embz_plot_t fig, const char *id_prefix,
                          embz_err_t *err);
-/* Total size of the figure in points. */
+/* Total size of the figure in points (zoom included). */
 void embz_plot_size(double *width, double *height, const embz_plot_t fig);
 
 /* Free the font caches cairo and fontconfig keep for the whole process. Call only when
@@ -161,7 +164,9 @@ typedef struct {
     char **need_qubits;      /* report->ngoals entries */
     char **extra_qubits;     /* report->ngoals entries: qubits per side beyond the optimum's
                                 (a column per goal only when report->extra_columns) */
-    char *notes;             /* free text (paragraphs separated by blank lines) */
+    char *summary;           /* the reason in one line, for the key table (or NULL) */
+    char *notes;             /* free text (paragraphs separated by blank lines; a paragraph
+                                starting with a bullet and a space is a list item) */
 } embz_report_family_struct;
 
 typedef struct {
@@ -175,7 +180,8 @@ typedef struct {
 typedef struct {
     char *title;
     char *subtitle;          /* e.g. "target: 2 ebits; goal 1e-3" */
-    char *intro;             /* free text */
+    char *answer;            /* the answer in one sentence, shown first (or NULL) */
+    char *intro;             /* free text, after the key table */
     slong nsizes;
     char **sizes;            /* column heads of the error columns, e.g. "10^6" */
     slong ngoals;
@@ -207,12 +213,25 @@ enum { EMBZ_REPORT_HTML = 0, EMBZ_REPORT_MD, EMBZ_REPORT_TEX, EMBZ_REPORT_PDF };
 /* "html"/"htm", "md"/"markdown", "tex"/"latex", "pdf"; -1 when unknown. */
 int embz_report_format_from_name(const char *name);
 
-/* Document text (HTML, Markdown, LaTeX table); *text malloc'ed. */
+/* Document text; *text malloc'ed. The answer and the key table come first (family, verdict,
+ * qubits and extra qubits per goal, E at the largest size, the reason in one line; each name
+ * links to the family's notes), then the figures with their captions, the notes of each
+ * family, and the full numbers in two tables (classification; errors and sizes). Markdown and
+ * LaTeX text made here carry only figures given as files; embz_report_write also writes the
+ * drawn figures beside the document and links them. */
 int embz_report_html(char **text, const embz_report_t r, embz_err_t *err);
 int embz_report_markdown(char **text, const embz_report_t r, embz_err_t *err);
 int embz_report_latex(char **text, const embz_report_t r, embz_err_t *err);
-/* Write the report to path in the given format (PDF drawn with cairo). */
+/* Write the report to path in the given format (PDF drawn with cairo). For Markdown and LaTeX
+ * each drawn figure K is written first, atomically, beside the document as STEM-figK.svg
+ * (Markdown) or STEM-figK.pdf (LaTeX), STEM the path without its extension, and linked by
+ * that name; on standard output ("-") no figure file is written and the text says so. */
 int embz_report_write(const embz_report_t r, const char *path, int format, embz_err_t *err);
+
+/* The file of drawn figure k (0-based) beside the document path in format (Markdown:
+ * STEM-fig(k+1).svg, LaTeX: STEM-fig(k+1).pdf, STEM the path without its extension);
+ * malloc'ed, NULL for the other formats and for standard output. */
+char *embz_report_figure_path(const char *path, slong k, int format);
 
 /* Escaped copies of text (malloc'ed): HTML (& < > " '), LaTeX specials, Markdown specials. */
 char *embz_html_escape(const char *text);

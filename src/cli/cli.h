@@ -243,10 +243,19 @@ int cli_compare_load(embz_family_struct *fam, long nfam, const char *const *spec
 int cli_compare_run(cli_compare_row_t *rows, embz_family_struct *fam, long nfam,
                     const cli_compare_opts_t *o);
 void cli_compare_rows_clear(cli_compare_row_t *rows, long nfam, const cli_compare_opts_t *o);
-/* Fill r (table, notes, subtitle, footer) and fig (the figures, added to r) from the rows.
- * figs must hold 3 initialised figures; grid panels are added by the caller. */
-void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare_row_t *rows,
-                      long nfam, const cli_compare_opts_t *o);
+/* Fill r (table, notes, subtitle, answer, footer) and figs (the figures, added to r) from the
+ * rows, shown in the order order (NULL: as given). figs must hold 3 figures, initialised here;
+ * returns how many were used. Grid panels are added by the caller. */
+int cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare_row_t *rows,
+                     const long *order, long nfam, const cli_compare_opts_t *o);
+/* The display order, best first: goal 0 reached (fewest qubits first), embezzlers that do not
+ * reach it, the other families, those that never reach it, failures (stable). */
+void cli_compare_order(long *order, const cli_compare_row_t *rows, long nfam,
+                       const cli_compare_opts_t *o);
+/* The answer in one paragraph (malloc'ed): the family with the fewest qubits for goal 0 and
+ * the families that do not get there, grouped by why. */
+char *cli_compare_answer(const cli_compare_row_t *rows, const long *order, long nfam,
+                         const cli_compare_opts_t *o);
 /* The plain-text summary for a terminal: a line on the optimum for goal 0, then family,
  * verdict, qubits for goal 0, extra qubits against the optimum, error at size 0, why. order: row indices in display order (NULL: as given). */
 void cli_compare_text(embz_buf_t *b, const cli_compare_row_t *rows, const long *order,

@@ -18,7 +18,8 @@ static const cli_spec_t demo_spec = {
     "demo", "",
     "The built-in scenario: an experiment must embezzle two ebits (target ebits:2) with\n"
     "error at most 1e-3. Which shipped family needs the fewest qubits per side, which never\n"
-    "gets there, and why? Prints the answer as a table and writes the full report.",
+    "gets there, and why? Prints the answer as a table and writes the full report (the\n"
+    "layout of 'embz report': the answer and a key table first, the details after it).",
     "Runs 8 shipped families (invamp is left out: it is the inverse family written through\n"
     "its amplitudes, the same state). Per family: a short one-ebit classification (10 sizes\n"
     "from 10^2 to 10^60 at 64 bits), certified errors at n = 10^30 and 10^100, and the\n"
@@ -42,19 +43,6 @@ static const char *const demo_families[] = {
     "uniform",    /* maximally entangled: error 1/2 for one ebit */
 };
 #define NDEMO ((long) (sizeof(demo_families) / sizeof(demo_families[0])))
-
-/* display order: found (fewest qubits first), not reached, never, failed */
-static long row_rank(const cli_compare_row_t *r, long *qubits)
-{
-    *qubits = 0;
-    if (r->d.status != EMBZ_OK || r->d.need_status[0] != EMBZ_OK) return 4;
-    if (r->d.need[0].status == EMBZ_SIZE_FOUND) {
-        *qubits = r->need_q_text[0] ? atol(r->need_q_text[0]) : 0;
-        return 0;
-    }
-    if (r->d.never[0]) return 3;
-    return r->d.c->verdict == EMBZ_VERDICT_EMBEZZLER ? 1 : 2;
-}
 
 int cli_cmd_demo(int argc, char **argv)
 {
@@ -92,7 +80,8 @@ int cli_cmd_demo(int argc, char **argv)
     cli_compare_row_t rows[NDEMO];
     int have_rows = 0;
     embz_report_t rep;
-    embz_plot_struct figs[2];
+    embz_plot_struct figs[3];
+    long order[NDEMO];
     int nfigs = 0;
     for (long i = 0; i < NDEMO; i++) embz_family_init(fam + i);
     embz_report_init(rep, "Embezzling two ebits at error 1e-3: which family is cheapest?");
@@ -132,8 +121,8 @@ int cli_cmd_demo(int argc, char **argv)
         "The cast: inverse, logpower, tilted, iterlog, nearmiss, geometric, power and uniform "
         "(each fails or succeeds in its own way); invamp is left out because it is the inverse "
         "family written through its amplitudes, the same state.");
-    cli_compare_fill(rep, figs, rows, NDEMO, &o);
-    nfigs = 2;
+    cli_compare_order(order, rows, NDEMO, &o);
+    nfigs = cli_compare_fill(rep, figs, rows, order, NDEMO, &o);
     embz_err_clear(&err);
     int st = embz_report_write(rep, out, format, &err);
     if (st != EMBZ_OK) {
@@ -143,27 +132,15 @@ int cli_cmd_demo(int argc, char **argv)
 
     /* the terminal table, best first */
     {
-        long order[NDEMO], rank[NDEMO], qb[NDEMO];
-        for (long i = 0; i < NDEMO; i++) {
-            order[i] = i;
-            rank[i] = row_rank(rows + i, qb + i);
-        }
-        for (long i = 1; i < NDEMO; i++)   /* insertion sort, stable */
-            for (long j = i; j > 0; j--) {
-                long x = order[j - 1], y = order[j];
-                if (rank[x] > rank[y] || (rank[x] == rank[y] && rank[x] == 0 && qb[x] > qb[y])) {
-                    order[j - 1] = y;
-                    order[j] = x;
-                } else
-                    break;
-            }
         embz_buf_t b;
         embz_buf_init(&b);
         embz_buf_printf(&b, "Embezzling two ebits (target ebits:2) at error 1e-3: the shipped "
                         "families compared\n\n");
         cli_compare_text(&b, rows, order, NDEMO, &o);
         embz_buf_printf(&b, "\n");
-        const cli_compare_row_t *best = rank[order[0]] == 0 ? rows + order[0] : NULL;
+        const cli_compare_row_t *best = rows[order[0]].d.status == EMBZ_OK
+            && rows[order[0]].d.need_status[0] == EMBZ_OK
+            && rows[order[0]].d.need[0].status == EMBZ_SIZE_FOUND ? rows + order[0] : NULL;
         if (best != NULL)
             embz_buf_printf(&b, "Fewest qubits: %s, %s per side (a size n %s reaches the goal, "
                             "certified).\n", best->label, best->need_q_text[0],
@@ -179,6 +156,11 @@ int cli_cmd_demo(int argc, char **argv)
         /* with the report on standard output, the table goes to standard error */
         int to_stdout = embz_output_is_stdout(out);
         embz_buf_printf(&b, "\nReport: %s\n", to_stdout ? "standard output" : out);
+        for (slong k = 0; k < rep->nfig; k++) {   /* the figure files beside it (md, tex) */
+            char *fp = rep->fig[k].plot ? embz_report_figure_path(out, k, format) : NULL;
+            if (fp) embz_buf_printf(&b, "Figure %ld: %s\n", (long) k + 1, fp);
+            free(fp);
+        }
         fputs(b.s, to_stdout ? stderr : stdout);
         embz_buf_clear(&b);
     }

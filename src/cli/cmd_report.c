@@ -27,12 +27,16 @@ static const cli_opt_t report_opts[] = {
 
 static const cli_spec_t report_spec = {
     "report", "FAMILY... [-o FILE]",
-    "One document comparing families: a summary table (verdict, fitted law and exponent,\n"
-    "limit, certified errors at chosen sizes, size and qubits needed per error goal) and\n"
-    "figures (error against n and against ln n with the fitted laws, weights against the\n"
-    "envelopes x^(-1-eps) and x^(-1+eps), and verdict maps for --grid).",
-    "Formats: html (one self-contained file, figures as inline SVG), md (Markdown), tex (a\n"
-    "LaTeX table with booktabs rules) and pdf. Every error value is certified; laws,\n"
+    "One document comparing families, the answer first: a sentence and a key table (verdict,\n"
+    "qubits per side and extra qubits per goal, E at the largest size, the reason in one\n"
+    "line; best first, each name linked to the family's notes), then the figures (error\n"
+    "against n, embezzlers and the others apart; against ln n; each family's weights against\n"
+    "the envelopes x^(-1-eps) and x^(-1+eps); verdict maps for --grid), a block of notes per\n"
+    "family and all numbers (classification; errors and sizes).",
+    "Formats: html (one self-contained file, figures as inline SVG, math as MathML), md\n"
+    "(Markdown), tex (a complete LaTeX document) and pdf (A4). Markdown and LaTeX written to\n"
+    "a file get their figures beside it, FILE without its extension plus -fig1.svg, -fig2.svg,\n"
+    "... (-fig1.pdf, ... for LaTeX), and link them. Every error value is certified; laws,\n"
     "exponents and fitted limits are estimates and say so. The size columns use the\n"
     "qubit-resolution search (see 'embz size --qubits'). For uniform targets each goal also\n"
     "gets 'extra qubits' (the family's qubits per side minus the optimum's, exact), the table\n"
@@ -188,7 +192,8 @@ int cli_cmd_report(int argc, char **argv)
     long ngoals = 0, nsizes = 0;
     fmpz *sizes = NULL;
     embz_report_t rep;
-    embz_plot_struct figs[3];
+    embz_plot_struct figs[4];
+    long *order = malloc((size_t) (nfam > 0 ? nfam : 1) * sizeof(long));
     int nfigs = 0;
     const char *t;
     for (long i = 0; i < nfam; i++) embz_family_init(fam + i);
@@ -323,19 +328,21 @@ int cli_cmd_report(int argc, char **argv)
     have_rows = 1;
     code = cli_compare_run(rows, fam, nfam, &o);
     if (code == CLI_EXIT_USAGE) goto done;
-    cli_compare_fill(rep, figs, rows, nfam, &o);
-    nfigs = 2;
+    cli_compare_order(order, rows, nfam, &o);
+    nfigs = cli_compare_fill(rep, figs, rows, order, nfam, &o);
     if (naxes > 0) {
         slong np = 0;
-        embz_plot_init(figs + 2, NULL);
-        nfigs = 3;
-        int c2 = grid_maps(figs + 2, &np, fam, nfam, axes, naxes, &o);
+        embz_plot_struct *gf = figs + nfigs;
+        embz_plot_init(gf, NULL);
+        gf->zoom = 1.25;   /* as the other figures: readable labels at the page width */
+        nfigs++;
+        int c2 = grid_maps(gf, &np, fam, nfam, axes, naxes, &o);
         if (c2 != 0) {
             code = c2;
             goto done;
         }
         embz_report_add_figure(rep, "Verdict (one ebit) at every point of the parameter grid, "
-                               "from the same classification as the table.", figs + 2);
+                               "from the same classification as the table.", gf);
     }
     embz_err_clear(&err);
     status = embz_report_write(rep, out, format, &err);
@@ -343,13 +350,21 @@ int cli_cmd_report(int argc, char **argv)
         code = cli_report("report", status, &err);
         goto done;
     }
-    if (!embz_output_is_stdout(out)) printf("%s\n", out);   /* else stdout holds the document */
+    if (!embz_output_is_stdout(out)) {   /* else stdout holds the document */
+        printf("%s\n", out);
+        for (slong k = 0; k < rep->nfig; k++) {   /* the figure files beside it (md, tex) */
+            char *fp = rep->fig[k].plot ? embz_report_figure_path(out, k, format) : NULL;
+            if (fp) printf("%s\n", fp);
+            free(fp);
+        }
+    }
 
 done:
     embz_report_clear(rep);
     for (int k = 0; k < nfigs; k++) embz_plot_clear(figs + k);
     if (have_rows) cli_compare_rows_clear(rows, nfam, &o);
     free(rows);
+    free(order);
     for (long i = 0; i < nfam; i++) embz_family_clear(fam + i);
     free(fam);
     for (long k = 0; k < naxes; k++) embz_grid_axis_clear(axes + k);

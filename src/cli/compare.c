@@ -372,8 +372,9 @@ static void make_texts(cli_compare_row_t *r, const cli_compare_opts_t *o,
     /* notes: the why, the sizes' evidence, the classification's reasons */
     embz_buf_t nb;
     embz_buf_init(&nb);
-    embz_buf_printf(&nb, "Weight %s%s. In short: %s.", r->d.fam->weight_text,
-                    r->d.fam->amplitude ? " (amplitude; the weight is its square)" : "", r->why);
+    if (r->d.fam->amplitude)
+        embz_buf_printf(&nb, "The family is given by its amplitude %s; the weight is its "
+                        "square.", r->d.fam->weight_text);
     for (slong j = 0; j < o->ngoals; j++) {
         const embz_size_result_struct *s = r->d.need + j;
         if (r->d.need_status[j] != EMBZ_OK) continue;
@@ -533,6 +534,110 @@ int cli_compare_run(cli_compare_row_t *rows, embz_family_struct *fam, long nfam,
     embz_target_clear(q);
     embz_compare_opts_clear(co);
     return code;
+}
+
+/* ------------------------------------------------------------------ order and answer */
+
+/* rank for the display order: found (fewest qubits first), not reached, never, failed */
+static long row_rank(const cli_compare_row_t *r, const cli_compare_opts_t *o, long *qubits)
+{
+    *qubits = 0;
+    if (r->d.status != EMBZ_OK) return 4;
+    if (o->ngoals == 0 || r->d.need_status[0] != EMBZ_OK)
+        return r->d.c->verdict == EMBZ_VERDICT_EMBEZZLER ? 1 : 2;
+    if (r->d.need[0].status == EMBZ_SIZE_FOUND) {
+        *qubits = r->d.need[0].qubits;
+        return 0;
+    }
+    if (r->d.never[0]) return 3;
+    return r->d.c->verdict == EMBZ_VERDICT_EMBEZZLER ? 1 : 2;
+}
+
+void cli_compare_order(long *order, const cli_compare_row_t *rows, long nfam,
+                       const cli_compare_opts_t *o)
+{
+    long *rank = malloc((size_t) (nfam > 0 ? nfam : 1) * sizeof(long));
+    long *qb = malloc((size_t) (nfam > 0 ? nfam : 1) * sizeof(long));
+    for (long i = 0; i < nfam; i++) {
+        order[i] = i;
+        rank[i] = row_rank(rows + i, o, qb + i);
+    }
+    for (long i = 1; i < nfam; i++)   /* insertion sort, stable */
+        for (long j = i; j > 0; j--) {
+            long x = order[j - 1], y = order[j];
+            if (rank[x] > rank[y] || (rank[x] == rank[y] && rank[x] == 0 && qb[x] > qb[y])) {
+                order[j - 1] = y;
+                order[j] = x;
+            } else
+                break;
+        }
+    free(rank);
+    free(qb);
+}
+
+/* "a, b and c" of the rows in order whose rank is k (empty when none) */
+static int names_of_rank(embz_buf_t *b, const cli_compare_row_t *rows, const long *order,
+                         long nfam, const cli_compare_opts_t *o, long k)
+{
+    long n = 0, total = 0, q;
+    for (long i = 0; i < nfam; i++) total += row_rank(rows + order[i], o, &q) == k;
+    for (long i = 0; i < nfam; i++) {
+        if (row_rank(rows + order[i], o, &q) != k) continue;
+        n++;
+        embz_buf_printf(b, "%s%s", n == 1 ? "" : n == total ? " and " : ", ",
+                        rows[order[i]].label);
+    }
+    return (int) total;
+}
+
+char *cli_compare_answer(const cli_compare_row_t *rows, const long *order, long nfam,
+                         const cli_compare_opts_t *o)
+{
+    embz_buf_t b;
+    embz_buf_init(&b);
+    long q0;
+    if (o->ngoals == 0) {
+        embz_buf_printf(&b, "Embezzlers (one ebit): ");
+        if (!names_of_rank(&b, rows, order, nfam, o, 1)) embz_buf_printf(&b, "none");
+        embz_buf_printf(&b, ". Not embezzlers or inconclusive: ");
+        if (!names_of_rank(&b, rows, order, nfam, o, 2)) embz_buf_printf(&b, "none");
+        embz_buf_printf(&b, ".");
+        return b.s;
+    }
+    const char *g = o->goal_text[0];
+    const cli_compare_row_t *best = nfam > 0 && row_rank(rows + order[0], o, &q0) == 0
+                                  ? rows + order[0] : NULL;
+    if (best != NULL) {
+        embz_buf_printf(&b, "Fewest qubits for E \xe2\x89\xa4 %s: %s, %s qubits per side (a size "
+                        "n %s reaches the goal, certified)", g, best->label,
+                        best->need_q_text[0], best->need_n_text[0]);
+        if (best->extra_q_text[0] != NULL && strcmp(best->extra_q_text[0], "n/a") != 0)
+            embz_buf_printf(&b, ", %s more than the optimum over all states",
+                            best->extra_q_text[0]);
+        embz_buf_printf(&b, ".");
+    } else {
+        embz_buf_printf(&b, "No family reaches E \xe2\x89\xa4 %s within the search.", g);
+    }
+    embz_buf_t n;
+    embz_buf_init(&n);
+    int k = names_of_rank(&n, rows, order, nfam, o, 1);
+    if (k) embz_buf_printf(&b, " Too slow to get there by n = 10^%ld: %s.",
+                           _cli_cmp_search_decades(), n.s);
+    embz_buf_clear(&n);
+    embz_buf_init(&n);
+    k = names_of_rank(&n, rows, order, nfam, o, 2);
+    if (k) embz_buf_printf(&b, " Not embezzlers, not there by n = 10^%ld: %s.",
+                           _cli_cmp_search_decades(), n.s);
+    embz_buf_clear(&n);
+    embz_buf_init(&n);
+    k = names_of_rank(&n, rows, order, nfam, o, 3);
+    if (k) embz_buf_printf(&b, " Never (the error tends to a limit above the goal): %s.", n.s);
+    embz_buf_clear(&n);
+    embz_buf_init(&n);
+    k = names_of_rank(&n, rows, order, nfam, o, 4);
+    if (k) embz_buf_printf(&b, " Failed: %s.", n.s);
+    embz_buf_clear(&n);
+    return b.s;
 }
 
 /* ------------------------------------------------------------------ terminal table */

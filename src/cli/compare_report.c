@@ -94,15 +94,20 @@ static void style_series(embz_plot_t fig, slong panel, slong s, long i)
     fig->panels[panel].series[s].marker = (int) ((i + i / EMBZ_PLOT_NCOLOURS) % 6);
 }
 
+/* Figures of the report: drawn 1.25 times larger than their layout so that tick labels are
+ * about 13 px at the page width (figure width about 1050 pt). */
+#define REPORT_ZOOM 1.25
+#define REPORT_FIG_W 840.0
+
 /* The optimum's curve OPT_n (exact closed form, docs/optimal.md) at the sizes of the first
  * computed sweep, as a dashed grey line labelled 'optimum'; uniform targets only. */
-static void optimum_series(embz_plot_t fig, slong p, const cli_compare_row_t *rows, long nfam,
-                           const embz_target_t q, int xmode)
+static void optimum_series(embz_plot_t fig, slong p, const cli_compare_row_t *rows,
+                           const long *order, long nfam, const embz_target_t q, int xmode)
 {
     if (q->kind != EMBZ_TARGET_UNIFORM) return;
     const embz_sweep_struct *sw = NULL;
-    for (long i = 0; i < nfam && sw == NULL; i++)
-        if (rows[i].d.status == EMBZ_OK) sw = _cli_cmp_target_sweep(rows + i);
+    for (long k = 0; k < nfam && sw == NULL; k++)
+        if (rows[order[k]].d.status == EMBZ_OK) sw = _cli_cmp_target_sweep(rows + order[k]);
     if (sw == NULL) return;
     fmpz *ns = _fmpz_vec_init(sw->len);
     double *xs = malloc((size_t) (sw->len > 0 ? sw->len : 1) * sizeof(double));
@@ -120,24 +125,33 @@ static void optimum_series(embz_plot_t fig, slong p, const cli_compare_row_t *ro
     _fmpz_vec_clear(ns, sw->len);
 }
 
-/* Error against n (xmode 0) or against ln n (xmode 1), both on log axes, with the fits and,
- * for a uniform target, the optimum. */
-static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfam,
-                        const embz_target_t q, int xmode)
+/* which families a panel shows: 1 the embezzlers, 0 the others, -1 all */
+static int in_group(const cli_compare_row_t *r, int group)
 {
-    const char *target_label = q->label;
-    char title[200];
-    snprintf(title, sizeof(title), "%s, target %s", xmode == 0 ? "Error against size"
-                                                               : "Error against ln n",
-             target_label);
+    if (r->d.status != EMBZ_OK) return 0;
+    int e = r->d.c->verdict == EMBZ_VERDICT_EMBEZZLER;
+    return group < 0 || e == group;
+}
+
+/* Error against n (xmode 0) or against ln n (xmode 1), both on log axes, for the families of
+ * one group, with the fits, the first goal as a solid dark line and, for a uniform target,
+ * the optimum. Returns the panel, or -1 when the group is empty. */
+static slong error_panel(embz_plot_t fig, const cli_compare_row_t *rows, const long *order,
+                         long nfam, const embz_target_t q, int xmode, int group,
+                         const char *title, const cli_compare_opts_t *o)
+{
+    int any = 0;
+    for (long k = 0; k < nfam; k++) any |= in_group(rows + order[k], group);
+    if (!any) return -1;
     slong p = embz_plot_add_panel(fig, title, xmode == 0 ? "size n" : "ln n",
-                                  "E\xe2\x82\x99 (certified points; dashed: fitted law)", 1, 1);
-    for (long i = 0; i < nfam; i++) {
-        const cli_compare_row_t *r = rows + i;
-        if (r->d.status != EMBZ_OK) continue;
+                                  "E\xe2\x82\x99", 1, 1);
+    double gx0 = INFINITY, gx1 = -INFINITY;
+    for (long k = 0; k < nfam; k++) {
+        const cli_compare_row_t *r = rows + order[k];
+        if (!in_group(r, group)) continue;
         const embz_sweep_struct *sw = _cli_cmp_target_sweep(r);
-        slong s = embz_plot_add_series(fig, p, r->label, EMBZ_PLOT_POINTS, i);
-        style_series(fig, p, s, i);
+        slong s = embz_plot_add_series(fig, p, r->label, EMBZ_PLOT_POINTS, k);
+        style_series(fig, p, s, k);
         double xmin = INFINITY, xmax = -INFINITY;
         for (slong j = 0; j < sw->len; j++) {
             const embz_sweep_point_struct *pt = sw->pts + j;
@@ -150,75 +164,96 @@ static void error_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfa
             xmin = x < xmin ? x : xmin;
             xmax = x > xmax ? x : xmax;
         }
+        gx0 = xmin < gx0 ? xmin : gx0;
+        gx1 = xmax > gx1 ? xmax : gx1;
         const embz_fitset_struct *fs = _cli_cmp_target_fits(r);
         int law = fs == NULL ? EMBZ_LAW_NONE : r->d.own_sweep ? fs->best : r->d.c->law;
         if (law == EMBZ_LAW_NONE || fs->m < 2 || !(xmax > xmin)) continue;
         const embz_fit_struct *f = fs->fits + law;
         if (!f->ok || !isfinite(f->C) || !isfinite(f->g)) continue;
-        slong sf = embz_plot_add_series(fig, p, NULL, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED, i);
+        slong sf = embz_plot_add_series(fig, p, NULL, EMBZ_PLOT_LINE | EMBZ_PLOT_DASHED, k);
         /* drawn over the range the fit used */
         double ln_lo = fs->logn[0], ln_hi = fs->logn[fs->m - 1];
-        for (int k = 0; k <= 60; k++) {
-            double ln = exp(log(ln_lo) + (log(ln_hi) - log(ln_lo)) * k / 60.0);
+        for (int j = 0; j <= 60; j++) {
+            double ln = exp(log(ln_lo) + (log(ln_hi) - log(ln_lo)) * j / 60.0);
             double v = _cli_cmp_law_value(law, f, ln);
             double x = xmode == 0 ? ln / log(10.0) : log10(ln);
             embz_plot_push(fig, p, sf, x, v > 0 ? log10(v) : NAN, NAN, NAN);
         }
     }
-    optimum_series(fig, p, rows, nfam, q, xmode);
+    fmpq_t g;
+    fmpq_init(g);
+    if (o->ngoals > 0 && embz_number_parse(g, o->goal_text[0]) == EMBZ_OK && fmpq_sgn(g) > 0
+        && gx1 > gx0) {
+        char label[96];
+        snprintf(label, sizeof(label), "goal %.60s", o->goal_text[0]);
+        slong sg = embz_plot_add_series(fig, p, label, EMBZ_PLOT_LINE, EMBZ_PLOT_DARK);
+        double gy = log10(fmpq_get_d(g));
+        embz_plot_push(fig, p, sg, gx0, gy, NAN, NAN);
+        embz_plot_push(fig, p, sg, gx1, gy, NAN, NAN);
+    }
+    fmpq_clear(g);
+    optimum_series(fig, p, rows, order, nfam, q, xmode);
+    return p;
 }
 
-static void weights_panel(embz_plot_t fig, const cli_compare_row_t *rows, long nfam,
-                          const cli_compare_opts_t *o)
+/* One small panel per family: its weights against the two envelopes (no legend; the caption
+ * names the lines). */
+static void weights_panels(embz_plot_t fig, const cli_compare_row_t *rows, const long *order,
+                           long nfam, const cli_compare_opts_t *o)
 {
-    char wt[160];
-    snprintf(wt, sizeof(wt), "Weights against x^(-1\xc2\xb1%g)", o->envelope);
-    slong pw = embz_plot_add_panel(fig, wt, "index x", "w(x) / w(1)", 1, 1);
     slong nw = 40;
-    double LB = fmpz_log10_d(o->to), ymin = INFINITY, ymax = -INFINITY;
+    double LB = fmpz_log10_d(o->to);
     fmpz_t x, one;
     arb_t w, w1;
     fmpz_init(x);
     fmpz_init_set_ui(one, 1);
     arb_init(w);
     arb_init(w1);
-    for (long i = 0; i < nfam; i++) {
-        const cli_compare_row_t *r = rows + i;
-        slong s = embz_plot_add_series(fig, pw, r->label, EMBZ_PLOT_POINTS | EMBZ_PLOT_LINE, i);
-        style_series(fig, pw, s, i);
+    for (long k = 0; k < nfam; k++) {
+        const cli_compare_row_t *r = rows + order[k];
+        double ymin = INFINITY, ymax = -INFINITY;
+        slong pw = embz_plot_add_panel(fig, r->label, "index x", "w(x)/w(1)", 1, 1);
+        slong s = embz_plot_add_series(fig, pw, NULL, EMBZ_PLOT_LINE, k);
+        style_series(fig, pw, s, k);
         embz_err_t err;
         embz_err_clear(&err);
-        if (embz_family_weight_arb(w1, r->d.fam, one, o->to, o->prec, &err) != EMBZ_OK
-            || !arb_is_positive(w1))
-            continue;
-        for (slong j = 0; j < nw; j++) {
-            /* x = 10^(LB j / (nw - 1)), rounded to an integer */
-            double t = LB * (double) j / (double) (nw - 1);
-            arb_set_d(w, t);
-            arb_t ten;
-            arb_init(ten);
-            arb_set_ui(ten, 10);
-            arb_pow(w, ten, w, (slong) (3.4 * t) + 64);
-            arb_clear(ten);
-            arf_get_fmpz(x, arb_midref(w), ARF_RND_NEAR);
-            if (fmpz_cmp_ui(x, 1) < 0) fmpz_one(x);
-            embz_err_clear(&err);
-            if (embz_family_weight_arb(w, r->d.fam, x, o->to, o->prec, &err) != EMBZ_OK) continue;
-            arb_div(w, w, w1, o->prec);
-            double lo, mid, hi;
-            arb_log10_d(&lo, &mid, &hi, w);
-            if (!isfinite(mid)) {
-                embz_plot_push(fig, pw, s, NAN, NAN, NAN, NAN);
-                continue;
+        if (embz_family_weight_arb(w1, r->d.fam, one, o->to, o->prec, &err) == EMBZ_OK
+            && arb_is_positive(w1))
+            for (slong j = 0; j < nw; j++) {
+                /* x = 10^(LB j / (nw - 1)), rounded to an integer */
+                double t = LB * (double) j / (double) (nw - 1);
+                arb_set_d(w, t);
+                arb_t ten;
+                arb_init(ten);
+                arb_set_ui(ten, 10);
+                arb_pow(w, ten, w, (slong) (3.4 * t) + 64);
+                arb_clear(ten);
+                arf_get_fmpz(x, arb_midref(w), ARF_RND_NEAR);
+                if (fmpz_cmp_ui(x, 1) < 0) fmpz_one(x);
+                embz_err_clear(&err);
+                if (embz_family_weight_arb(w, r->d.fam, x, o->to, o->prec, &err) != EMBZ_OK)
+                    continue;
+                arb_div(w, w, w1, o->prec);
+                double lo, mid, hi;
+                arb_log10_d(&lo, &mid, &hi, w);
+                if (!isfinite(mid)) {
+                    embz_plot_push(fig, pw, s, NAN, NAN, NAN, NAN);
+                    continue;
+                }
+                embz_plot_push(fig, pw, s, fmpz_log10_d(x), mid, NAN, NAN);
+                ymin = mid < ymin ? mid : ymin;
+                ymax = mid > ymax ? mid : ymax;
             }
-            embz_plot_push(fig, pw, s, fmpz_log10_d(x), mid, NAN, NAN);
-            ymin = mid < ymin ? mid : ymin;
-            ymax = mid > ymax ? mid : ymax;
+        char env[32];
+        snprintf(env, sizeof(env), "%g", o->envelope);
+        slong before = fig->panels[pw].nseries;
+        cli_plot_envelopes(fig, pw, o->envelope, env, LB, ymin, ymax);
+        for (slong e = before; e < fig->panels[pw].nseries; e++) {
+            free(fig->panels[pw].series[e].label);   /* named once, in the caption */
+            fig->panels[pw].series[e].label = NULL;
         }
     }
-    char env[32];
-    snprintf(env, sizeof(env), "%g", o->envelope);
-    cli_plot_envelopes(fig, pw, o->envelope, env, LB, ymin, ymax);
     arb_clear(w);
     arb_clear(w1);
     fmpz_clear(x);
@@ -248,6 +283,7 @@ static void add_optimum_row(embz_report_t r, const cli_compare_opts_t *o, const 
                                                           : "optimal state");
     if (!uniform) {
         embz_report_set(&f->verdict, "n/a");
+        embz_report_set(&f->summary, "known for uniform targets only");
         for (slong j = 0; j < o->nsizes; j++) embz_report_set(f->error_at + j, "n/a");
         for (slong j = 0; j < o->ngoals; j++) {
             embz_report_set(f->need_n + j, "n/a");
@@ -266,6 +302,8 @@ static void add_optimum_row(embz_report_t r, const cli_compare_opts_t *o, const 
     embz_report_set(&f->weight, w);
     free(w);
     embz_report_set(&f->verdict, "optimum (proven)");
+    embz_report_set(&f->summary, "the least error of any state of Schmidt rank n (exact); "
+                    "no family goes below it");
     embz_report_set(&f->law, "1/\xcf\x88" "(n), exact");
     embz_report_set(&f->limit_lo, "0 (proven)");
     embz_buf_t nb;
@@ -317,20 +355,22 @@ static void add_optimum_row(embz_report_t r, const cli_compare_opts_t *o, const 
     embz_buf_clear(&nb);
 }
 
-void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare_row_t *rows,
-                      long nfam, const cli_compare_opts_t *o)
+int cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare_row_t *rows,
+                     const long *order_in, long nfam, const cli_compare_opts_t *o)
 {
     embz_target_t q;
     embz_err_t err;
     embz_target_init(q);
     embz_err_clear(&err);
     if (o->target_text != NULL) embz_target_parse(q, o->target_text, 0, &err);
+    long *order = malloc((size_t) (nfam > 0 ? nfam : 1) * sizeof(long));
+    for (long k = 0; k < nfam; k++) order[k] = order_in ? order_in[k] : k;
 
     embz_report_set_sizes(r, o->nsizes, o->size_text);
     embz_report_set_goals(r, o->ngoals, o->goal_text);
     r->extra_columns = o->ngoals > 0;
-    for (long i = 0; i < nfam; i++) {
-        const cli_compare_row_t *w = rows + i;
+    for (long k = 0; k < nfam; k++) {
+        const cli_compare_row_t *w = rows + order[k];
         embz_report_family_struct *f = embz_report_add_family(r, w->label);
         embz_report_set(&f->weight, w->d.fam->amplitude ? NULL : w->d.fam->weight_text);
         if (w->d.fam->amplitude) {
@@ -348,9 +388,15 @@ void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare
             embz_report_set(f->need_qubits + j, w->need_q_text[j]);
             embz_report_set(f->extra_qubits + j, w->extra_q_text[j]);
         }
+        embz_report_set(&f->summary, w->why);
         embz_report_set(&f->notes, w->notes);
     }
     add_optimum_row(r, o, q);
+    {
+        char *ans = cli_compare_answer(rows, order, nfam, o);
+        embz_report_set(&r->answer, ans);
+        free(ans);
+    }
 
     char *from = _cli_cmp_size_text(o->from, 0), *to = _cli_cmp_size_text(o->to, 0);
     embz_buf_t b;
@@ -409,27 +455,56 @@ void cli_compare_fill(embz_report_t r, embz_plot_struct *figs, const cli_compare
     free(from);
     free(to);
 
-    /* figure 1: error against n and against ln n */
-    embz_plot_init(figs + 0, NULL);
-    error_panel(figs + 0, rows, nfam, q, 0);
-    error_panel(figs + 0, rows, nfam, q, 1);
-    figs[0].columns = 2;
-    char cap[600];
-    snprintf(cap, sizeof(cap), "Certified error E_n for the target %s against n and against "
-             "ln n (log axes). Dashed: the best fitted law over the points it was fitted to "
-             "(an estimate). A law C (ln n)^-g is a straight line in the right-hand panel.%s",
-             q->label, q->kind == EMBZ_TARGET_UNIFORM
+    /* figure 1: does each family reach the goal? embezzlers and the others side by side */
+    int nf = 0;
+    char cap[900];
+    embz_plot_init(figs + nf, NULL);
+    error_panel(figs + nf, rows, order, nfam, q, 0, 1, "Embezzlers: error against size", o);
+    error_panel(figs + nf, rows, order, nfam, q, 0, 0, "The others: error against size", o);
+    figs[nf].columns = 2;
+    figs[nf].panel_width = figs[nf].npanels > 1 ? REPORT_FIG_W / 2 : REPORT_FIG_W;
+    figs[nf].panel_height = 340;
+    figs[nf].zoom = REPORT_ZOOM;
+    snprintf(cap, sizeof(cap), "Certified error E\xe2\x82\x99 for the target %s against n (log "
+             "axes), the embezzlers on the left, the other families on the right. Dashed: the "
+             "best fitted law over the points it was fitted to (an estimate).%s%s",
+             q->label, o->ngoals > 0 ? " Solid dark line: the first error goal." : "",
+             q->kind == EMBZ_TARGET_UNIFORM
              ? " Dashed grey: the optimum OPT_n over all states of Schmidt rank n (exact closed "
                "form, docs/optimal.md), which no family can go below." : "");
-    embz_report_add_figure(r, cap, figs + 0);
-    /* figure 2: weights */
-    embz_plot_init(figs + 1, NULL);
-    weights_panel(figs + 1, rows, nfam, o);
-    snprintf(cap, sizeof(cap), "Normalised weights w(x)/w(1) on log axes against the envelopes "
-             "x^(-1-%g) and x^(-1+%g) (weights that depend on n taken at the largest swept n). "
-             "A universal family must eventually stay between x^(-1-eps) and x^(-1+eps) for "
-             "every eps, and its weights must not be summable.", o->envelope, o->envelope);
-    embz_report_add_figure(r, cap, figs + 1);
+    embz_report_add_figure(r, cap, figs + nf);
+    nf++;
+    /* figure 2: how fast the embezzlers decay (C (ln n)^-g is a straight line) */
+    embz_plot_init(figs + nf, NULL);
+    if (error_panel(figs + nf, rows, order, nfam, q, 1, 1, "Embezzlers: error against ln n",
+                    o) >= 0) {
+        figs[nf].panel_width = REPORT_FIG_W;
+        figs[nf].panel_height = 340;
+        figs[nf].zoom = REPORT_ZOOM;
+        snprintf(cap, sizeof(cap), "How fast the embezzlers get there: the same points against "
+                 "ln n (log axes). A law C (ln n)^-g is a straight line of slope -g here; a "
+                 "flatter line means a slower family.");
+        embz_report_add_figure(r, cap, figs + nf);
+        nf++;
+    } else {
+        embz_plot_clear(figs + nf);
+    }
+    /* figure 3: weights, one small panel per family */
+    embz_plot_init(figs + nf, NULL);
+    weights_panels(figs + nf, rows, order, nfam, o);
+    figs[nf].columns = nfam < 4 ? nfam : 4;
+    figs[nf].panel_width = REPORT_FIG_W / (double) (figs[nf].columns > 0 ? figs[nf].columns : 1);
+    figs[nf].panel_height = 210;
+    figs[nf].zoom = REPORT_ZOOM;
+    snprintf(cap, sizeof(cap), "Normalised weights w(x)/w(1) of each family (log axes) "
+             "between the envelopes x^(-1-%g) (dashed grey) and x^(-1+%g) (dashed dark); "
+             "weights that depend on n are taken at the largest swept n. A universal family "
+             "must eventually stay between x^(-1-eps) and x^(-1+eps) for every eps, and its "
+             "weights must not be summable.", o->envelope, o->envelope);
+    embz_report_add_figure(r, cap, figs + nf);
+    nf++;
+    free(order);
     embz_target_clear(q);
+    return nf;
 }
 

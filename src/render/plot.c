@@ -62,6 +62,7 @@ void embz_plot_init(embz_plot_t fig, const char *title)
     fig->panel_width = 640;
     fig->panel_height = 420;
     fig->png_scale = 1.5;
+    fig->zoom = 1;
 }
 
 void embz_plot_clear(embz_plot_t fig)
@@ -205,8 +206,9 @@ void embz_plot_size(double *width, double *height, const embz_plot_t fig)
     if (cols > np)
         cols = np;
     slong rows = (np + cols - 1) / cols;
-    *width = cols * fig->panel_width;
-    *height = rows * fig->panel_height + (fig->title != NULL && fig->title[0] ? 34 : 0);
+    double z = fig->zoom > 0 ? fig->zoom : 1;
+    *width = z * cols * fig->panel_width;
+    *height = z * (rows * fig->panel_height + (fig->title != NULL && fig->title[0] ? 34 : 0));
 }
 
 /* ------------------------------------------------------------------ ticks */

@@ -657,11 +657,13 @@ static void draw_panel(cairo_t *cr, const embz_plot_panel_struct *P, double x0, 
 
 void embz_plot_draw(cairo_t *cr, const embz_plot_struct *fig, double x, double y, double s)
 {
-    double W, H;
+    double W, H, z = fig->zoom > 0 ? fig->zoom : 1;
     embz_plot_size(&W, &H, fig);
+    W /= z;   /* the layout is in unzoomed points */
+    H /= z;
     cairo_save(cr);
     cairo_translate(cr, x, y);
-    cairo_scale(cr, s, s);
+    cairo_scale(cr, s * z, s * z);
     cairo_set_source_rgb(cr, 1, 1, 1);
     cairo_rectangle(cr, 0, 0, W, H);
     cairo_fill(cr);
