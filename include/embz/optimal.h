@@ -17,6 +17,7 @@
 
 #include "embz/vec.h"
 #include "embz/analysis.h"   /* embz_progress_fn */
+#include "embz/fidelity.h"   /* embz_measure_t */
 
 typedef enum {
     EMBZ_OPT_HOW_NONE = 0,
@@ -135,5 +136,41 @@ void embz_optimal_vs_clear(embz_optimal_vs_t v);
  * (EMBZ_ERR_UNSUPPORTED). */
 int embz_optimal_vs(embz_optimal_vs_t v, const arb_t error, const fmpz_t n,
                     const embz_target_t q, embz_err_t *err);
+
+/* ---- the fidelity-type measures ----
+ * The best F_max(p -> p (x) u_d) and the best local-unitary overlap O^2 over sorted states of
+ * rank at most n are the same number, (lambda_max(M))^2 / d with M the matrix of the tree
+ * j -> ceil(j / d) (docs/optimal.md, section 6, derived here); the best purified distance is
+ * sqrt(1 - that). It is enclosed by two explicit certificates: an exact state (the Perron
+ * vector rounded to integers a, p = a^2 / |a|^2, its overlap computed exactly: lower end) and
+ * non-decreasing Lagrange multipliers whose bound holds for every sorted state (upper end). */
+
+/* Largest rank of the fidelity-type optimum (O(n) doubles and exact integers). */
+#define EMBZ_OPTIMAL_FID_MAX_N (WORD(1) << 22)
+
+typedef struct {
+    int measure;          /* embz_measure_t: FIDELITY, PURIFIED or OVERLAP */
+    ulong d;
+    slong n;
+    fmpq_t f_lower, f_upper;  /* certified: f_lower <= best F_max = best O^2 <= f_upper */
+    arb_t value;          /* the measure's enclosure: [f_lower, f_upper] for fidelity and
+                             overlap, [sqrt(1 - f_upper), sqrt(1 - f_lower)] for purified */
+    double lambda;        /* lambda_max(M) in double precision (an estimate only) */
+    slong bits;           /* the state's integers are the Perron vector times 2^bits */
+    double seconds;
+} embz_optimal_fid_struct;
+typedef embz_optimal_fid_struct embz_optimal_fid_t[1];
+
+void embz_optimal_fid_init(embz_optimal_fid_t r);
+void embz_optimal_fid_clear(embz_optimal_fid_t r);
+
+/* res <- the certified best value of the measure over states of rank at most n for a uniform
+ * target, 1 <= n <= EMBZ_OPTIMAL_FID_MAX_N (EMBZ_ERR_LIMIT beyond); state (may be NULL)
+ * receives the lower end's state, a sorted exact probability vector of length n whose
+ * overlap squared is res->f_lower (and whose F_max is at least that). Errors:
+ * EMBZ_ERR_UNSUPPORTED for a target vector or the measure K, EMBZ_ERR_PREC if a certificate
+ * could not be formed. */
+int embz_optimal_fid(embz_optimal_fid_t res, embz_qvec_t state, slong n,
+                     const embz_target_t q, int measure, embz_err_t *err);
 
 #endif
