@@ -156,5 +156,84 @@ run size inverse --eps 0.1 --vs-optimal
 expect_out "optimal    rank 256 (8 qubits per side)" "size --vs-optimal text"
 expect_out "extra      2 qubits per side" "size --vs-optimal extra"
 
+# ---------------------------------------------------------------- --measure fidelity|purified|overlap
+# The shared enclosure of the best F_max and O^2 (docs/optimal.md section 6). References: at
+# n = 2 the tree matrix is [[1, 1/2], [1/2, 0]], lambda = (1 + sqrt 2)/2, so the optimum is
+# lambda^2/2 = (3 + 2 sqrt 2)/8 [derived here, by hand]; for n <= d (a star: the root and
+# n - 1 leaves) lambda = (1 + sqrt n)/2, lambda^2/d [derived here, by hand].
+run optimal -n 2 --measure fidelity --json; expect_rc 0 "optimal --measure fidelity -n 2"; json_ok "fidelity json"
+pycheck "n = 2: (3 + 2 sqrt 2)/8 inside the enclosure" '
+import json, sys
+from decimal import Decimal as D, getcontext
+getcontext().prec = 50
+j = json.load(sys.stdin)
+v = (3 + 2 * D(2).sqrt()) / 8
+assert j["measure"] == "fidelity" and j["method"] == "perron" and j["exact"] is False, j
+assert D(j["optimum_lo"]) <= v <= D(j["optimum_hi"]), j
+assert D(j["optimum_hi"]) - D(j["optimum_lo"]) < D("1e-14"), j
+for k in ("fidelity_lo", "fidelity_hi", "optimum_certified", "qubits_per_side", "how", "state_file"):
+    assert k in j, k
+'
+run optimal -n 5 -t uniform:7 --measure purified --json; expect_rc 0 "purified, star"
+pycheck "star n = 5, d = 7: sqrt(1 - ((1 + sqrt 5)/2)^2/7) inside" '
+import json, sys
+from decimal import Decimal as D, getcontext
+getcontext().prec = 50
+j = json.load(sys.stdin)
+lam = (1 + D(5).sqrt()) / 2
+v = (1 - lam * lam / 7).sqrt()
+assert D(j["optimum_lo"]) <= v <= D(j["optimum_hi"]), (v, j)
+'
+# fidelity and overlap share the enclosure; purified is sqrt(1 - it)
+run optimal -n 1000 --measure overlap --json; o=$out
+run optimal -n 1000 --measure purified --json; p=$out
+printf '%s\n%s\n' "$o" "$p" >"$TMP/fp"
+pycheck "purified = sqrt(1 - overlap's enclosure)" "
+import json
+from decimal import Decimal as D, getcontext
+getcontext().prec = 40
+a, b = [json.loads(l) for l in open('$TMP/fp')]
+assert (1 - D(a['optimum_hi'])).sqrt() >= D(b['optimum_lo']) - D('1e-25')
+assert (1 - D(a['optimum_lo'])).sqrt() <= D(b['optimum_hi']) + D('1e-25')
+"
+# never beaten by a shipped family's certified value (embz error --measure)
+for n in 100 4096 100000; do
+    for m in fidelity overlap purified; do
+        run error inverse -n $n --measure $m --json; f=$out
+        run optimal -n $n --measure $m --json
+        printf '%s\n%s\n' "$f" "$out" >"$TMP/fo"
+        pycheck "inverse -n $n --measure $m not better than the optimum" "
+import json
+from decimal import Decimal as D
+f, o = [json.loads(l) for l in open('$TMP/fo')]
+fl, fh = D(f['value_lo']), D(f['value_hi'])
+if '$m' == 'purified': assert fh >= D(o['optimum_lo']), (f, o)
+else: assert fl <= D(o['optimum_hi']), (f, o)
+"
+    done
+done
+# the state file: sorted, n entries summing to 1, read by convert; its overlap is the lower end
+run optimal -n 64 --measure overlap --state "$TMP/st-ov.txt" --json; expect_rc 0 "--measure overlap --state"
+ol=$(printf '%s' "$out" | python3 -c 'import json,sys; print(json.load(sys.stdin)["fidelity_lo"])')
+run convert "$TMP/st-ov.txt" 1 --json; expect_rc 0 "convert reads the overlap state"
+pycheck "the overlap state: 64 sorted entries summing to 1, overlap squared >= the lower end" "
+from fractions import Fraction as F
+from decimal import Decimal as D, getcontext
+getcontext().prec = 40
+v = [F(l) for l in open('$TMP/st-ov.txt') if not l.startswith('#')]
+assert len(v) == 64 and sum(v) == 1 and all(a >= b for a, b in zip(v, v[1:]))
+r = sorted([x / 2 for x in v for _ in range(2)], reverse=True)[:64]
+o = sum((D(a.numerator) / D(a.denominator) * D(b.numerator) / D(b.denominator)).sqrt() for a, b in zip(v, r))
+assert abs(o * o - D('$ol')) < D('1e-25'), (o * o, '$ol')
+"
+run optimal -n 1000 --measure fidelity; expect_rc 0 "fidelity table"
+expect_out "(certified digits)" "certified digits"; expect_out "(certified bounds)" "bounds line"
+run optimal -n 1000 --measure fidelity --csv; expect_rc 0 "fidelity csv"
+pycheck "fidelity --csv" '
+import csv, sys
+rows = list(csv.DictReader(sys.stdin))
+assert len(rows) == 1 and rows[0]["measure"] == "fidelity" and rows[0]["method"] == "perron", rows
+'
+
 echo "$((checks - fails)) passed, $fails failed"
 [ "$fails" -eq 0 ]
