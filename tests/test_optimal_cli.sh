@@ -235,5 +235,29 @@ rows = list(csv.DictReader(sys.stdin))
 assert len(rows) == 1 and rows[0]["measure"] == "fidelity" and rows[0]["method"] == "perron", rows
 '
 
+# --eps with --measure purified: OPT^P_n <= E < OPT^P_(n-1), each end recomputed with -n
+for e in 0.5 0.3 0.2 0.16; do
+    run optimal --eps $e --measure purified --json; expect_rc 0 "optimal --eps $e --measure purified"
+    n=$(printf '%s' "$out" | python3 -c 'import json,sys; j=json.load(sys.stdin); assert j["n_lo"] == j["n_hi"] == j["n"]; print(j["n"])')
+    run optimal -n $n --measure purified --json; a=$out
+    run optimal -n $((n - 1)) --measure purified --json; b=$out
+    printf '%s\n%s\n' "$a" "$b" >"$TMP/pe"
+    pycheck "--eps $e: the optimum at n = $n reaches it, at n - 1 it does not" "
+import json
+from decimal import Decimal as D
+a, b = [json.loads(l) for l in open('$TMP/pe')]
+assert D(a['optimum_hi']) <= D('$e') < D(b['optimum_lo']), (a, b)
+"
+done
+# the family 1/i needs a larger rank for the same goal (its size search, a different path)
+run optimal --eps 0.3 --measure purified --json; o=$out
+run size inverse --eps 0.3 --measure purified --json; f=$out
+printf '%s\n%s\n' "$o" "$f" >"$TMP/pf"
+pycheck "inverse needs at least the optimal rank for P <= 0.3" "
+import json
+o, f = [json.loads(l) for l in open('$TMP/pf')]
+assert int(f['goals'][0]['n']) >= o['n'], (o, f)
+"
+
 echo "$((checks - fails)) passed, $fails failed"
 [ "$fails" -eq 0 ]

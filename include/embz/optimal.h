@@ -173,4 +173,13 @@ void embz_optimal_fid_clear(embz_optimal_fid_t r);
 int embz_optimal_fid(embz_optimal_fid_t res, embz_qvec_t state, slong n,
                      const embz_target_t q, int measure, embz_err_t *err);
 
+/* The smallest rank n* whose best purified distance is at most eps (0 < eps, exact), bracketed:
+ * n_lo <= n* <= n_hi, equal unless an enclosure straddles eps. OPT^P_n is non-increasing in n
+ * (appending a zero changes neither F_max nor the overlap), so every rank >= n* reaches eps.
+ * at_hi <- the enclosure at n_hi (<= eps), before_lo <- the enclosure at n_lo - 1 (> eps;
+ * indeterminate when n_lo = 1). EMBZ_ERR_LIMIT when the goal is not certified to be reached
+ * at EMBZ_OPTIMAL_FID_MAX_N. */
+int embz_optimal_fid_eps(slong *n_lo, slong *n_hi, arb_t at_hi, arb_t before_lo,
+                         const fmpq_t eps, const embz_target_t q, embz_err_t *err);
+
 #endif

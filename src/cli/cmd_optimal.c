@@ -48,7 +48,9 @@ static const cli_spec_t optimal_spec = {
     "--measure purified: the smallest sqrt(1 - F_max). Printed as a certified enclosure: the\n"
     "exact overlap of an explicit state (the Perron vector rounded) and a Lagrange bound that\n"
     "holds for every state, for n <= 2^22 (about 2 s at 2^22); --state writes that state. The\n"
-    "optimal state is not the K-optimal one (it decays more slowly across the blocks).\n",
+    "optimal state is not the K-optimal one (it decays more slowly across the blocks).\n"
+    "--eps E --measure purified: the smallest rank whose best purified distance is <= E\n"
+    "(found in n <= 2^22; a bracket if E falls inside an enclosure).\n",
     optimal_opts, 0, 0
 };
 
@@ -328,6 +330,86 @@ done:
     return code;
 }
 
+/* --eps E --measure purified: the smallest rank whose best purified distance is at most E */
+static int run_fid_eps(const char *eps_text, const embz_target_t q, int json, int csv,
+                       const char *out)
+{
+    fmpq_t eps;
+    fmpq_init(eps);
+    arb_t a, b;
+    arb_init(a); arb_init(b);
+    int code = CLI_EXIT_OK;
+    embz_err_t err;
+    embz_err_clear(&err);
+    if (embz_number_parse(eps, eps_text) != EMBZ_OK || fmpq_sgn(eps) <= 0) {
+        code = cli_usage_error(&optimal_spec, "bad error goal '%.80s' (a positive exact "
+                               "number, e.g. 0.05 or 1/20)", eps_text);
+        goto done;
+    }
+    slong lo, hi;
+    int status = embz_optimal_fid_eps(&lo, &hi, a, b, eps, q, &err);
+    if (status != EMBZ_OK) {
+        code = cli_report("optimal", status, &err);
+        goto done;
+    }
+    fmpz_t nz;
+    fmpz_init_set_si(nz, hi);
+    char qb[32], nlo[32], nhi[32];
+    qubits_text(qb, sizeof(qb), nz);
+    fmpz_clear(nz);
+    snprintf(nlo, sizeof(nlo), "%ld", (long) lo);
+    snprintf(nhi, sizeof(nhi), "%ld", (long) hi);
+    int have_prev = lo > 1;
+    char *ah = embz_arb_hi_string(a, DIGITS), *bl = have_prev ? embz_arb_lo_string(b, DIGITS) : NULL;
+    embz_buf_t o;
+    embz_buf_init(&o);
+    if (json) {
+        embz_buf_printf(&o, "{\"goal\": ");
+        embz_buf_json_string(&o, eps_text);
+        cli_buf_json_key_string(&o, "target", q->label);
+        cli_buf_json_key_string(&o, "measure", "purified");
+        embz_buf_printf(&o, ", \"n\": %s, \"n_lo\": %s, \"n_hi\": %s", lo == hi ? nhi : "null",
+                        nlo, nhi);
+        embz_buf_printf(&o, ", \"qubits_per_side\": %s", qb);
+        cli_buf_json_key_string(&o, "optimum_at_n_hi_upper", ah);
+        embz_buf_printf(&o, ", \"optimum_before_n_lo_lower\": ");
+        cli_buf_json_string_or_null(&o, have_prev ? bl : "");
+        cli_buf_json_key_string(&o, "how", "bisection on certified enclosures; the best "
+                                "purified distance is non-increasing in n");
+        embz_buf_printf(&o, "}\n");
+    } else if (csv) {
+        embz_buf_printf(&o, "goal,target,measure,n_lo,n_hi,qubits_per_side,optimum_at_n_hi_upper,"
+                        "optimum_before_n_lo_lower\n");
+        const char *f[] = { eps_text, q->label, "purified", nlo, nhi, qb, ah };
+        cli_buf_csv_fields(&o, f, 7);
+        cli_buf_csv_field(&o, have_prev ? bl : "");
+        embz_buf_printf(&o, "\n");
+    } else {
+        embz_buf_printf(&o, "%-10s best purified distance <= %s\n", "goal", eps_text);
+        embz_buf_printf(&o, "%-10s %s\n", "target", q->label);
+        if (lo == hi)
+            embz_buf_printf(&o, "%-10s %s   (the smallest rank any state needs)\n", "n", nhi);
+        else
+            embz_buf_printf(&o, "%-10s between %s and %s (certified bracket: the goal lies inside "
+                            "an enclosure)\n", "n", nlo, nhi);
+        embz_buf_printf(&o, "%-10s %s per side (ceil(log2 n) at the upper end)\n", "qubits", qb);
+        embz_buf_printf(&o, "%-10s <= %s <= goal   (certified upper end at n = %s)\n", "optimum",
+                        ah, nhi);
+        if (have_prev)
+            embz_buf_printf(&o, "%-10s >= %s > goal   (certified lower end at n = %ld)\n", "",
+                            bl, (long) (lo - 1));
+        embz_buf_printf(&o, "%-10s bisection on certified enclosures (docs/optimal.md, section 6); "
+                        "the best purified distance never increases with n\n", "how");
+    }
+    code = emit(out, &o);
+    embz_buf_clear(&o);
+    free(ah); free(bl);
+done:
+    arb_clear(a); arb_clear(b);
+    fmpq_clear(eps);
+    return code;
+}
+
 int cli_cmd_optimal(int argc, char **argv)
 {
     cli_args_t a;
@@ -364,9 +446,11 @@ int cli_cmd_optimal(int argc, char **argv)
         code = cli_usage_error(&optimal_spec, "%s", err.text);
         goto done;
     }
-    if (measure != EMBZ_MEASURE_K && (method != NULL || start != NULL || eps_text != NULL)) {
+    if (measure != EMBZ_MEASURE_K && (method != NULL || start != NULL
+                                      || (eps_text != NULL && measure != EMBZ_MEASURE_PURIFIED))) {
         code = cli_usage_error(&optimal_spec, "--measure %s takes -n only (neither --method, "
-                               "--start nor --eps)", embz_measure_name(measure));
+                               "--start nor --eps; --eps goes with k or purified)",
+                               embz_measure_name(measure));
         goto done;
     }
     if (method != NULL) {
@@ -395,6 +479,10 @@ int cli_cmd_optimal(int argc, char **argv)
     if ((out != NULL && (code = cli_check_output(out, "optimal")) != 0)
         || (state != NULL && (code = cli_check_output(state, "optimal")) != 0))
         goto done;
+    if (eps_text != NULL && measure == EMBZ_MEASURE_PURIFIED) {
+        code = run_fid_eps(eps_text, q, json, csv, out);
+        goto done;
+    }
     if (eps_text != NULL) {
         code = run_eps(eps_text, q, json, csv, out);
         goto done;
