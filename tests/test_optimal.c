@@ -391,7 +391,10 @@ static void fid_bounds(fmpq_t lo, fmpq_t hi, slong n, const embz_target_t q, int
     embz_optimal_fid_init(r);
     embz_err_t err;
     embz_err_clear(&err);
-    ck_assert_msg(embz_optimal_fid(r, NULL, n, q, measure, &err) == EMBZ_OK, "%s", err.text);
+    fmpz_t nz;
+    fmpz_init_set_si(nz, n);
+    ck_assert_msg(embz_optimal_fid(r, NULL, nz, q, measure, &err) == EMBZ_OK, "%s", err.text);
+    fmpz_clear(nz);
     fmpq_set(lo, r->f_lower);
     fmpq_set(hi, r->f_upper);
     embz_optimal_fid_clear(r);
@@ -507,7 +510,7 @@ static void family_fid_not_better(const char *spec, const char *target, slong n,
                       "%s: %s", spec, err.text);
         embz_optimal_fid_t o;
         embz_optimal_fid_init(o);
-        ck_assert(embz_optimal_fid(o, NULL, n, q, ms[k], &err) == EMBZ_OK);
+        ck_assert(embz_optimal_fid(o, NULL, nz, q, ms[k], &err) == EMBZ_OK);
         /* fidelity, overlap: larger is better; purified: smaller is better */
         if (ms[k] == EMBZ_MEASURE_PURIFIED) {
             ck_assert_msg(!arb_lt(res->value, o->value), "%s better than the optimum (%s, n=%ld)",

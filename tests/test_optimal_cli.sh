@@ -256,7 +256,7 @@ printf '%s\n%s\n' "$o" "$f" >"$TMP/pf"
 pycheck "inverse needs at least the optimal rank for P <= 0.3" "
 import json
 o, f = [json.loads(l) for l in open('$TMP/pf')]
-assert int(f['goals'][0]['n']) >= o['n'], (o, f)
+assert int(f['goals'][0]['n']) >= int(o['n']), (o, f)
 "
 
 echo "$((checks - fails)) passed, $fails failed"

@@ -145,13 +145,17 @@ int embz_optimal_vs(embz_optimal_vs_t v, const arb_t error, const fmpz_t n,
  * vector rounded to integers a, p = a^2 / |a|^2, its overlap computed exactly: lower end) and
  * non-decreasing Lagrange multipliers whose bound holds for every sorted state (upper end). */
 
-/* Largest rank of the fidelity-type optimum (O(n) doubles and exact integers). */
+/* Largest rank at which the fidelity-type optimum is computed node by node (O(n) doubles and
+ * exact integers; the state is formed only there). */
 #define EMBZ_OPTIMAL_FID_MAX_N (WORD(1) << 22)
+/* Beyond, by classes of equal subtrees (O(log^2 n) classes): n < 2^this. */
+#define EMBZ_OPTIMAL_FID_MAX_BITS 1000
 
 typedef struct {
     int measure;          /* embz_measure_t: FIDELITY, PURIFIED or OVERLAP */
     ulong d;
-    slong n;
+    fmpz_t n;
+    int levels;           /* computed by classes of equal subtrees (n > EMBZ_OPTIMAL_FID_MAX_N) */
     fmpq_t f_lower, f_upper;  /* certified: f_lower <= best F_max = best O^2 <= f_upper */
     arb_t value;          /* the measure's enclosure: [f_lower, f_upper] for fidelity and
                              overlap, [sqrt(1 - f_upper), sqrt(1 - f_lower)] for purified */
@@ -165,12 +169,13 @@ void embz_optimal_fid_init(embz_optimal_fid_t r);
 void embz_optimal_fid_clear(embz_optimal_fid_t r);
 
 /* res <- the certified best value of the measure over states of rank at most n for a uniform
- * target, 1 <= n <= EMBZ_OPTIMAL_FID_MAX_N (EMBZ_ERR_LIMIT beyond); state (may be NULL)
- * receives the lower end's state, a sorted exact probability vector of length n whose
- * overlap squared is res->f_lower (and whose F_max is at least that). Errors:
+ * target, 1 <= n < 2^EMBZ_OPTIMAL_FID_MAX_BITS (EMBZ_ERR_LIMIT beyond); state (may be NULL;
+ * n <= EMBZ_OPTIMAL_FID_MAX_N, else EMBZ_ERR_LIMIT) receives the lower end's state, a sorted
+ * exact probability vector of length n whose overlap squared is res->f_lower (and whose
+ * F_max is at least that). Errors:
  * EMBZ_ERR_UNSUPPORTED for a target vector or the measure K, EMBZ_ERR_PREC if a certificate
  * could not be formed. */
-int embz_optimal_fid(embz_optimal_fid_t res, embz_qvec_t state, slong n,
+int embz_optimal_fid(embz_optimal_fid_t res, embz_qvec_t state, const fmpz_t n,
                      const embz_target_t q, int measure, embz_err_t *err);
 
 /* The smallest rank n* whose best purified distance is at most eps (0 < eps, exact), bracketed:
@@ -178,8 +183,8 @@ int embz_optimal_fid(embz_optimal_fid_t res, embz_qvec_t state, slong n,
  * (appending a zero changes neither F_max nor the overlap), so every rank >= n* reaches eps.
  * at_hi <- the enclosure at n_hi (<= eps), before_lo <- the enclosure at n_lo - 1 (> eps;
  * indeterminate when n_lo = 1). EMBZ_ERR_LIMIT when the goal is not certified to be reached
- * at EMBZ_OPTIMAL_FID_MAX_N. */
-int embz_optimal_fid_eps(slong *n_lo, slong *n_hi, arb_t at_hi, arb_t before_lo,
+ * below 2^EMBZ_OPTIMAL_FID_MAX_BITS. */
+int embz_optimal_fid_eps(fmpz_t n_lo, fmpz_t n_hi, arb_t at_hi, arb_t before_lo,
                          const fmpq_t eps, const embz_target_t q, embz_err_t *err);
 
 #endif

@@ -47,10 +47,11 @@ static const cli_spec_t optimal_spec = {
     "largest eigenvalue of the tree matrix of the sorted product (docs/optimal.md, section 6);\n"
     "--measure purified: the smallest sqrt(1 - F_max). Printed as a certified enclosure: the\n"
     "exact overlap of an explicit state (the Perron vector rounded) and a Lagrange bound that\n"
-    "holds for every state, for n <= 2^22 (about 2 s at 2^22); --state writes that state. The\n"
+    "holds for every state, for n < 2^1000 (node by node up to 2^22, beyond by classes of\n"
+    "equal subtrees); --state writes that state (n <= 10^6). The\n"
     "optimal state is not the K-optimal one (it decays more slowly across the blocks).\n"
     "--eps E --measure purified: the smallest rank whose best purified distance is <= E\n"
-    "(found in n <= 2^22; a bracket if E falls inside an enclosure).\n",
+    "(searched in n < 2^1000; a bracket if E falls inside an enclosure).\n",
     optimal_opts, 0, 0
 };
 
@@ -231,13 +232,11 @@ static const char *fid_meaning(int m)
 static int run_fid(const fmpz_t nz, const char *size_text, const embz_target_t q, int measure,
                    const char *state, int json, int csv, const char *out)
 {
-    if (fmpz_cmp_si(nz, EMBZ_OPTIMAL_FID_MAX_N) > 0) {
-        fprintf(stderr, "embz optimal: the optimum for --measure %s is computed for n <= %ld "
-                "(2^22), got %.80s\n", embz_measure_name(measure),
-                (long) EMBZ_OPTIMAL_FID_MAX_N, size_text);
+    if (fmpz_bits(nz) > EMBZ_OPTIMAL_FID_MAX_BITS) {
+        fprintf(stderr, "embz optimal: the optimum for --measure %s is computed for n < 2^%d, "
+                "got %.80s\n", embz_measure_name(measure), EMBZ_OPTIMAL_FID_MAX_BITS, size_text);
         return CLI_EXIT_RUNTIME;
     }
-    slong n = fmpz_get_si(nz);
     embz_optimal_fid_t r;
     embz_optimal_fid_init(r);
     embz_qvec_t st;
@@ -245,7 +244,7 @@ static int run_fid(const fmpz_t nz, const char *size_text, const embz_target_t q
     embz_err_t err;
     embz_err_clear(&err);
     int code = CLI_EXIT_OK;
-    int status = embz_optimal_fid(r, state != NULL ? st : NULL, n, q, measure, &err);
+    int status = embz_optimal_fid(r, state != NULL ? st : NULL, nz, q, measure, &err);
     if (status != EMBZ_OK) {
         code = cli_report("optimal", status, &err);
         goto done;
@@ -346,20 +345,23 @@ static int run_fid_eps(const char *eps_text, const embz_target_t q, int json, in
                                "number, e.g. 0.05 or 1/20)", eps_text);
         goto done;
     }
-    slong lo, hi;
-    int status = embz_optimal_fid_eps(&lo, &hi, a, b, eps, q, &err);
+    fmpz_t lo, hi;
+    fmpz_init(lo); fmpz_init(hi);
+    int status = embz_optimal_fid_eps(lo, hi, a, b, eps, q, &err);
     if (status != EMBZ_OK) {
         code = cli_report("optimal", status, &err);
+        fmpz_clear(lo); fmpz_clear(hi);
         goto done;
     }
-    fmpz_t nz;
-    fmpz_init_set_si(nz, hi);
-    char qb[32], nlo[32], nhi[32];
-    qubits_text(qb, sizeof(qb), nz);
-    fmpz_clear(nz);
-    snprintf(nlo, sizeof(nlo), "%ld", (long) lo);
-    snprintf(nhi, sizeof(nhi), "%ld", (long) hi);
-    int have_prev = lo > 1;
+    char qb[32];
+    qubits_text(qb, sizeof(qb), hi);
+    char *nlo = int_text(lo), *nhi = int_text(hi);
+    int have_prev = fmpz_cmp_ui(lo, 1) > 0, same = fmpz_equal(lo, hi);
+    fmpz_t prev;
+    fmpz_init(prev);
+    fmpz_sub_ui(prev, lo, 1);
+    char *npr = int_text(prev);
+    fmpz_clear(prev);
     char *ah = embz_arb_hi_string(a, DIGITS), *bl = have_prev ? embz_arb_lo_string(b, DIGITS) : NULL;
     embz_buf_t o;
     embz_buf_init(&o);
@@ -368,8 +370,10 @@ static int run_fid_eps(const char *eps_text, const embz_target_t q, int json, in
         embz_buf_json_string(&o, eps_text);
         cli_buf_json_key_string(&o, "target", q->label);
         cli_buf_json_key_string(&o, "measure", "purified");
-        embz_buf_printf(&o, ", \"n\": %s, \"n_lo\": %s, \"n_hi\": %s", lo == hi ? nhi : "null",
-                        nlo, nhi);
+        embz_buf_printf(&o, ", \"n\": ");
+        cli_buf_json_string_or_null(&o, same ? nhi : "");
+        cli_buf_json_key_string(&o, "n_lo", nlo);
+        cli_buf_json_key_string(&o, "n_hi", nhi);
         embz_buf_printf(&o, ", \"qubits_per_side\": %s", qb);
         cli_buf_json_key_string(&o, "optimum_at_n_hi_upper", ah);
         embz_buf_printf(&o, ", \"optimum_before_n_lo_lower\": ");
@@ -387,7 +391,7 @@ static int run_fid_eps(const char *eps_text, const embz_target_t q, int json, in
     } else {
         embz_buf_printf(&o, "%-10s best purified distance <= %s\n", "goal", eps_text);
         embz_buf_printf(&o, "%-10s %s\n", "target", q->label);
-        if (lo == hi)
+        if (same)
             embz_buf_printf(&o, "%-10s %s   (the smallest rank any state needs)\n", "n", nhi);
         else
             embz_buf_printf(&o, "%-10s between %s and %s (certified bracket: the goal lies inside "
@@ -396,14 +400,15 @@ static int run_fid_eps(const char *eps_text, const embz_target_t q, int json, in
         embz_buf_printf(&o, "%-10s <= %s <= goal   (certified upper end at n = %s)\n", "optimum",
                         ah, nhi);
         if (have_prev)
-            embz_buf_printf(&o, "%-10s >= %s > goal   (certified lower end at n = %ld)\n", "",
-                            bl, (long) (lo - 1));
+            embz_buf_printf(&o, "%-10s >= %s > goal   (certified lower end at n = %s)\n", "",
+                            bl, npr);
         embz_buf_printf(&o, "%-10s bisection on certified enclosures (docs/optimal.md, section 6); "
                         "the best purified distance never increases with n\n", "how");
     }
     code = emit(out, &o);
     embz_buf_clear(&o);
-    free(ah); free(bl);
+    free(ah); free(bl); free(nlo); free(nhi); free(npr);
+    fmpz_clear(lo); fmpz_clear(hi);
 done:
     arb_clear(a); arb_clear(b);
     fmpq_clear(eps);

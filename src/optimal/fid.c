@@ -10,7 +10,8 @@ void embz_optimal_fid_init(embz_optimal_fid_t r)
 {
     r->measure = EMBZ_MEASURE_FIDELITY;
     r->d = 2;
-    r->n = 0;
+    fmpz_init(r->n);
+    r->levels = 0;
     fmpq_init(r->f_lower);
     fmpq_init(r->f_upper);
     arb_init(r->value);
@@ -24,10 +25,17 @@ void embz_optimal_fid_clear(embz_optimal_fid_t r)
     fmpq_clear(r->f_lower);
     fmpq_clear(r->f_upper);
     arb_clear(r->value);
+    fmpz_clear(r->n);
 }
 
-int embz_optimal_fid(embz_optimal_fid_t res, embz_qvec_t state, slong n,
+int embz_optimal_fid(embz_optimal_fid_t res, embz_qvec_t state, const fmpz_t nz,
                      const embz_target_t q, int measure, embz_err_t *err)
+{
+    return _embz_opt_fid_run(res, state, nz, q, measure, 0, err);
+}
+
+int _embz_opt_fid_run(embz_optimal_fid_t res, embz_qvec_t state, const fmpz_t nz,
+                      const embz_target_t q, int measure, int by_classes, embz_err_t *err)
 {
     if (q->kind != EMBZ_TARGET_UNIFORM)
         return embz_err_set(err, EMBZ_ERR_UNSUPPORTED, "the optimum is known for uniform "
@@ -37,26 +45,40 @@ int embz_optimal_fid(embz_optimal_fid_t res, embz_qvec_t state, slong n,
         && measure != EMBZ_MEASURE_OVERLAP)
         return embz_err_set(err, EMBZ_ERR_UNSUPPORTED, "this optimum is for the measures "
                             "fidelity, purified and overlap");
-    if (n < 1) return embz_err_set(err, EMBZ_ERR_INPUT, "the rank n must be at least 1");
-    if (n > EMBZ_OPTIMAL_FID_MAX_N)
+    if (fmpz_cmp_ui(nz, 1) < 0)
+        return embz_err_set(err, EMBZ_ERR_INPUT, "the rank n must be at least 1");
+    if (fmpz_bits(nz) > EMBZ_OPTIMAL_FID_MAX_BITS)
         return embz_err_set(err, EMBZ_ERR_LIMIT, "the optimum for the measure %s is computed "
-                            "for n <= %ld (2^22) only", embz_measure_name(measure),
-                            (long) EMBZ_OPTIMAL_FID_MAX_N);
+                            "for n < 2^%d only", embz_measure_name(measure),
+                            EMBZ_OPTIMAL_FID_MAX_BITS);
+    int flat = !by_classes && fmpz_cmp_si(nz, EMBZ_OPTIMAL_FID_MAX_N) <= 0;
+    if (!flat && state != NULL)
+        return embz_err_set(err, EMBZ_ERR_LIMIT, "the optimal state is formed for n <= %ld "
+                            "(2^22) only", (long) EMBZ_OPTIMAL_FID_MAX_N);
     clock_t c0 = clock();
     res->measure = measure;
     res->d = q->d;
-    res->n = n;
+    fmpz_set(res->n, nz);
+    res->levels = !flat;
+    slong n = flat ? fmpz_get_si(nz) : 1;
     double *x = flint_malloc(sizeof(double) * n), *ell = flint_malloc(sizeof(double) * n);
     fmpz *a = _fmpz_vec_init(n);
     int status = EMBZ_OK;
-    if (!_embz_opt_perron_d(x, ell, &res->lambda, n, q->d)) {
+    if (!flat) {
+        if (!_embz_opt_fid_levels(res->f_lower, res->f_upper, &res->lambda, &res->bits, nz,
+                                  q->d, FID_PREC)) {
+            status = embz_err_set(err, EMBZ_ERR_PREC, "the Perron vector of the tree matrix "
+                                  "could not be estimated at this n (an entry underflowed)");
+            goto done;
+        }
+    } else if (!_embz_opt_perron_d(x, ell, &res->lambda, n, q->d)) {
         status = embz_err_set(err, EMBZ_ERR_PREC, "the Perron vector of the tree matrix could "
                               "not be estimated at n = %ld (an entry underflowed)", (long) n);
         goto done;
     }
-    _embz_opt_fid_scale(a, &res->bits, x, n);
-    if (!_embz_opt_fid_lower(res->f_lower, a, n, q->d)
-        || !_embz_opt_fid_upper(res->f_upper, ell, n, q->d, FID_PREC)) {
+    if (flat) _embz_opt_fid_scale(a, &res->bits, x, n);
+    if (flat && (!_embz_opt_fid_lower(res->f_lower, a, n, q->d)
+                 || !_embz_opt_fid_upper(res->f_upper, ell, n, q->d, FID_PREC))) {
         status = embz_err_set(err, EMBZ_ERR_PREC, "internal check failed: a certificate of the "
                               "optimum could not be formed at n = %ld", (long) n);
         goto done;

@@ -86,4 +86,15 @@ int _embz_opt_fid_lower(fmpq_t f, const fmpz *a, slong n, ulong d);
  * arithmetic at prec bits). Returns 0 unless ell is positive and non-decreasing. */
 int _embz_opt_fid_upper(fmpq_t f, const double *ell, slong n, ulong d, slong prec);
 
+/* The same two ends by classes of equal subtrees (fid_levels.c), for any n >= 1 whose Perron
+ * vector stays within the range of doubles: f_lo, f_hi as for _embz_opt_fid_lower/_upper,
+ * lambda the double estimate, bits the scale of the integer state. Returns 0 when an estimate
+ * or a certificate could not be formed. */
+int _embz_opt_fid_levels(fmpq_t f_lo, fmpq_t f_hi, double *lambda, slong *bits,
+                         const fmpz_t n, ulong d, slong prec);
+
+/* embz_optimal_fid, by classes of equal subtrees at every n when by_classes (no state). */
+int _embz_opt_fid_run(embz_optimal_fid_t res, embz_qvec_t state, const fmpz_t n,
+                      const embz_target_t q, int measure, int by_classes, embz_err_t *err);
+
 #endif
