@@ -259,5 +259,37 @@ o, f = [json.loads(l) for l in open('$TMP/pf')]
 assert int(f['goals'][0]['n']) >= int(o['n']), (o, f)
 "
 
+# error --vs-optimal with a fidelity-type measure: the optimum at rank n is the one of
+# `embz optimal --measure`, and the optimal state reaches the family's value exactly from the
+# rank printed: at rank_hi its enclosure is on the better side of the family's, at rank_lo - 1
+# on the worse side
+for spec in "inverse 1000 purified" "inverse 10^30 fidelity" "power 100 overlap" "inverse 4096 fidelity"; do
+    set -- $spec
+    run error $1 -n $2 --measure $3 --vs-optimal --json; expect_rc 0 "error $1 -n $2 --measure $3 --vs-optimal"
+    f=$out
+    printf '%s' "$f" | python3 -c 'import json,sys; j=json.load(sys.stdin); print(j["optimal_rank_lo"], j["optimal_rank_hi"])' >"$TMP/rk"
+    read rlo rhi <"$TMP/rk"
+    run optimal -n $2 --measure $3 --json; o=$out
+    run optimal -n $rhi --measure $3 --json; a=$out
+    if [ "$rlo" -gt 1 ]; then run optimal -n $((rlo - 1)) --measure $3 --json; b=$out; else b=null; fi
+    printf '%s\n%s\n%s\n%s\n' "$f" "$o" "$a" "$b" >"$TMP/vs"
+    pycheck "error $1 -n $2 --measure $3 --vs-optimal against embz optimal" "
+import json
+from decimal import Decimal as D
+f, o, a, b = [json.loads(l) for l in open('$TMP/vs')]
+assert abs(D(f['optimum_lo']) - D(o['optimum_lo'])) < D('1e-20') and abs(D(f['optimum_hi']) - D(o['optimum_hi'])) < D('1e-20'), (f, o)
+assert int(f['optimal_rank_lo']) <= int(f['optimal_rank_hi']) <= int(float(f['n'])), f
+if '$3' == 'purified':
+    assert D(a['optimum_hi']) <= D(f['value_lo']), (a, f)
+    assert b is None or D(b['optimum_lo']) > D(f['value_hi']), (b, f)
+else:
+    assert D(a['optimum_lo']) >= D(f['value_hi']), (a, f)
+    assert b is None or D(b['optimum_hi']) < D(f['value_lo']), (b, f)
+assert f['extra_qubits_lo'] >= 0, f
+"
+done
+run error inverse -n 1000 --measure purified --vs-optimal; expect_rc 0 "--vs-optimal purified text"
+expect_out "extra per side" "--vs-optimal purified prints the extra qubits"
+
 echo "$((checks - fails)) passed, $fails failed"
 [ "$fails" -eq 0 ]

@@ -187,4 +187,23 @@ int embz_optimal_fid(embz_optimal_fid_t res, embz_qvec_t state, const fmpz_t n,
 int embz_optimal_fid_eps(fmpz_t n_lo, fmpz_t n_hi, arb_t at_hi, arb_t before_lo,
                          const fmpq_t eps, const embz_target_t q, embz_err_t *err);
 
+/* ---- a family's fidelity-type value against the optimum ---- */
+typedef struct {
+    embz_optimal_fid_t opt;   /* the optimum at the family's rank n */
+    int have_rank;            /* the rank below was found (below 2^EMBZ_OPTIMAL_FID_MAX_BITS) */
+    fmpz_t rank_lo, rank_hi;  /* the smallest rank whose optimum reaches the family's value lies
+                                 in [rank_lo, rank_hi] (rank_hi <= n) */
+    slong qubits;             /* ceil(log2 n) */
+    slong opt_qubits_lo, opt_qubits_hi;   /* ceil(log2 rank_lo), ceil(log2 rank_hi) */
+} embz_optimal_fid_vs_struct;
+typedef embz_optimal_fid_vs_struct embz_optimal_fid_vs_t[1];
+
+void embz_optimal_fid_vs_init(embz_optimal_fid_vs_t v);
+void embz_optimal_fid_vs_clear(embz_optimal_fid_vs_t v);
+/* v <- the optimum of the measure at rank n and the smallest rank at which the optimal state
+ * reaches a value certified to lie in [lower, upper] (a family's fidelity, overlap squared or
+ * purified distance at rank n). Uniform targets, 1 <= n < 2^EMBZ_OPTIMAL_FID_MAX_BITS. */
+int embz_optimal_fid_vs(embz_optimal_fid_vs_t v, const arb_t lower, const arb_t upper,
+                        const fmpz_t n, const embz_target_t q, int measure, embz_err_t *err);
+
 #endif
