@@ -3,7 +3,12 @@
  * t-fid_cert.c): the two certified enclosures overlap and both are narrow, at every n <= 3000
  * (1000 with EMBZ_QUICK=1) for d = 2, 3, 5, 16, at random n up to 2^22 and at the powers of d;
  * beyond, the optimum never decreases in n (checked on a chain of sizes up to 10^300) and stays
- * below 1. */
+ * below 1;
+ *  - against the distance K's proven optimum OPT^K_n = 1/psi_d(n) (closed.c) through
+ *    K <= P <= sqrt(K (2 - K)) (docs/measures.md: Fuchs-van de Graaf and the construction
+ *    there): OPT^K_n <= OPT^P_n (every state has P >= K) and OPT^P_n <= sqrt(K (2 - K)) at the
+ *    K-optimal state, at n = 1..600 and at 10^k (every seventh k) up to 10^300, d = 2, 3, 7. */
+#include <stdio.h>
 #include "topt.h"
 
 #define PREC 128
@@ -92,6 +97,53 @@ START_TEST(test_large)
 }
 END_TEST
 
+START_TEST(test_against_k)
+{
+    ulong ds[] = { 2, 3, 7 };
+    fmpz_t n;
+    fmpz_init(n);
+    arb_t k, t;
+    arb_init(k); arb_init(t);
+    for (int j = 0; j < 3; j++) {
+        char spec[32];
+        snprintf(spec, sizeof(spec), "uniform:%lu", ds[j]);
+        embz_target_t q;
+        embz_target_init(q);
+        tu_target_set(q, spec);
+        slong M = topt_quick() ? 200 : 600;
+        for (slong i = 1; i <= M + 300; i += i <= M ? 1 : 7) {
+            if (i <= M) fmpz_set_si(n, i);
+            else {
+                fmpz_set_ui(n, 10);
+                fmpz_pow_ui(n, n, (ulong) (i - M));
+            }
+            embz_optimal_result_t r;
+            embz_optimal_result_init(r);
+            ck_assert(embz_optimal_closed(r, n, q, NULL) == EMBZ_OK);
+            arb_set_fmpq(k, r->upper, PREC);
+            embz_optimal_result_clear(r);
+            embz_optimal_fid_t o;
+            embz_optimal_fid_init(o);
+            embz_err_t err;
+            embz_err_clear(&err);
+            ck_assert_msg(embz_optimal_fid(o, NULL, n, q, EMBZ_MEASURE_PURIFIED, &err) == EMBZ_OK,
+                          "%s", err.text);
+            ck_assert_msg(!arb_lt(o->value, k), "best P below best K at i = %ld, d = %lu",
+                          (long) i, ds[j]);
+            arb_sub_ui(t, k, 2, PREC);
+            arb_neg(t, t);
+            arb_mul(t, t, k, PREC);
+            arb_sqrtpos(t, t, PREC);                /* sqrt(K (2 - K)) */
+            ck_assert_msg(!arb_gt(o->value, t), "best P above sqrt(K(2-K)) at i = %ld", (long) i);
+            embz_optimal_fid_clear(o);
+        }
+        embz_target_clear(q);
+    }
+    arb_clear(k); arb_clear(t);
+    fmpz_clear(n);
+}
+END_TEST
+
 int main(void)
 {
     Suite *s = suite_create("optimal-fid_levels");
@@ -99,6 +151,7 @@ int main(void)
     tcase_set_timeout(tc, 900);
     tcase_add_test(tc, test_against_flat);
     tcase_add_test(tc, test_large);
+    tcase_add_test(tc, test_against_k);
     suite_add_tcase(s, tc);
     return tu_run_suite(s);
 }
