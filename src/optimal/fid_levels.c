@@ -140,8 +140,9 @@ int _embz_opt_fid_levels(fmpq_t f_lo, fmpq_t f_hi, double *lambda, slong *bits,
     c[0].x = 1.0; fmpz_init_set_ui(c[0].count, 1); c[0].parent = -1;
     idxA[0] = 0;
     m = 1;
+    slong *curF = flint_malloc(sizeof(slong) * (L + 2));
+    slong *curE = flint_malloc(sizeof(slong) * (L + 2));
     for (slong t = 1; t <= L; t++) {
-        slong curF[L + 2], curE[L + 2];
         for (slong s = 0; s <= L + 1; s++) curF[s] = curE[s] = -1;
         for (slong s = 1; s <= t; s++) {
             if (fmpz_is_zero(v.f + s - 1)) continue;
@@ -172,6 +173,8 @@ int _embz_opt_fid_levels(fmpq_t f_lo, fmpq_t f_hi, double *lambda, slong *bits,
             }
         for (slong s = 0; s <= L + 1; s++) { prevF[s] = curF[s]; prevE[s] = curE[s]; }
     }
+    flint_free(curF);
+    flint_free(curE);
     /* non-increasing in index order (rounding may break ties), positive */
     for (slong k = 1; k < m; k++) {
         if (c[k].x > c[k - 1].x) c[k].x = c[k - 1].x;
