@@ -49,7 +49,8 @@ static const cli_spec_t optimal_spec = {
     "exact overlap of an explicit state (the Perron vector rounded) and a Lagrange bound that\n"
     "holds for every state, for n < 2^1000 (node by node up to 2^22, beyond by classes of\n"
     "equal subtrees); --state writes that state (n <= 10^6). It is not the K-optimal state:\n"
-    "other values on the blocks (d^(t-1), d^t], and not constant on them unless n = d^L.\n"
+    "other values on the blocks (d^(t-1), d^t], and in general not constant on them (it is\n"
+    "at n = d^L).\n"
     "--eps E --measure purified: the smallest rank whose best purified distance is <= E\n"
     "(searched in n < 2^1000; a bracket if E falls inside an enclosure).\n",
     optimal_opts, 0, 0
