@@ -27,6 +27,7 @@
 #include <flint/acb_calc.h>
 #include <flint/arb_hypgeom.h>
 #include <flint/acb_dirichlet.h>
+#include <flint/acb_mat.h>
 #else
 #include <flint/flint.h>
 #include <flint/fmpz.h>
@@ -39,6 +40,7 @@
 #include <acb_calc.h>
 #include <arb_hypgeom.h>
 #include <acb_dirichlet.h>
+#include <acb_mat.h>
 #endif
 
 #endif

@@ -17,6 +17,7 @@
 
 #include "embz/vec.h"
 #include "embz/analysis.h"   /* embz_progress_fn */
+#include "embz/fidelity.h"   /* embz_measure_t */
 
 typedef enum {
     EMBZ_OPT_HOW_NONE = 0,
@@ -135,5 +136,74 @@ void embz_optimal_vs_clear(embz_optimal_vs_t v);
  * (EMBZ_ERR_UNSUPPORTED). */
 int embz_optimal_vs(embz_optimal_vs_t v, const arb_t error, const fmpz_t n,
                     const embz_target_t q, embz_err_t *err);
+
+/* ---- the fidelity-type measures ----
+ * The best F_max(p -> p (x) u_d) and the best local-unitary overlap O^2 over sorted states of
+ * rank at most n are the same number, (lambda_max(M))^2 / d with M the matrix of the tree
+ * j -> ceil(j / d) (docs/optimal.md, section 6, derived here); the best purified distance is
+ * sqrt(1 - that). It is enclosed by two explicit certificates: an exact state (the Perron
+ * vector rounded to integers a, p = a^2 / |a|^2, its overlap computed exactly: lower end) and
+ * non-decreasing Lagrange multipliers whose bound holds for every sorted state (upper end). */
+
+/* Largest rank at which the fidelity-type optimum is computed node by node (O(n) doubles and
+ * exact integers; the state is formed only there). */
+#define EMBZ_OPTIMAL_FID_MAX_N (WORD(1) << 22)
+/* Beyond, by classes of equal subtrees (O(log^2 n) classes): n < 2^this. */
+#define EMBZ_OPTIMAL_FID_MAX_BITS 1000
+
+typedef struct {
+    int measure;          /* embz_measure_t: FIDELITY, PURIFIED or OVERLAP */
+    ulong d;
+    fmpz_t n;
+    int levels;           /* computed by classes of equal subtrees (n > EMBZ_OPTIMAL_FID_MAX_N) */
+    fmpq_t f_lower, f_upper;  /* certified: f_lower <= best F_max = best O^2 <= f_upper */
+    arb_t value;          /* the measure's enclosure: [f_lower, f_upper] for fidelity and
+                             overlap, [sqrt(1 - f_upper), sqrt(1 - f_lower)] for purified */
+    double lambda;        /* lambda_max(M) in double precision (an estimate only) */
+    slong bits;           /* the state's integers are the Perron vector times 2^bits */
+    double seconds;
+} embz_optimal_fid_struct;
+typedef embz_optimal_fid_struct embz_optimal_fid_t[1];
+
+void embz_optimal_fid_init(embz_optimal_fid_t r);
+void embz_optimal_fid_clear(embz_optimal_fid_t r);
+
+/* res <- the certified best value of the measure over states of rank at most n for a uniform
+ * target, 1 <= n < 2^EMBZ_OPTIMAL_FID_MAX_BITS (EMBZ_ERR_LIMIT beyond); state (may be NULL;
+ * n <= EMBZ_OPTIMAL_FID_MAX_N, else EMBZ_ERR_LIMIT) receives the lower end's state, a sorted
+ * exact probability vector of length n whose overlap squared is res->f_lower (and whose
+ * F_max is at least that). Errors:
+ * EMBZ_ERR_UNSUPPORTED for a target vector or the measure K, EMBZ_ERR_PREC if a certificate
+ * could not be formed. */
+int embz_optimal_fid(embz_optimal_fid_t res, embz_qvec_t state, const fmpz_t n,
+                     const embz_target_t q, int measure, embz_err_t *err);
+
+/* The smallest rank n* whose best purified distance is at most eps (0 < eps, exact), bracketed:
+ * n_lo <= n* <= n_hi, equal unless an enclosure straddles eps. OPT^P_n is non-increasing in n
+ * (appending a zero changes neither F_max nor the overlap), so every rank >= n* reaches eps.
+ * at_hi <- the enclosure at n_hi (<= eps), before_lo <- the enclosure at n_lo - 1 (> eps;
+ * indeterminate when n_lo = 1). EMBZ_ERR_LIMIT when the goal is not certified to be reached
+ * below 2^EMBZ_OPTIMAL_FID_MAX_BITS. */
+int embz_optimal_fid_eps(fmpz_t n_lo, fmpz_t n_hi, arb_t at_hi, arb_t before_lo,
+                         const fmpq_t eps, const embz_target_t q, embz_err_t *err);
+
+/* ---- a family's fidelity-type value against the optimum ---- */
+typedef struct {
+    embz_optimal_fid_t opt;   /* the optimum at the family's rank n */
+    int have_rank;            /* the rank below was found (below 2^EMBZ_OPTIMAL_FID_MAX_BITS) */
+    fmpz_t rank_lo, rank_hi;  /* the smallest rank whose optimum reaches the family's value lies
+                                 in [rank_lo, rank_hi] (rank_hi <= n) */
+    slong qubits;             /* ceil(log2 n) */
+    slong opt_qubits_lo, opt_qubits_hi;   /* ceil(log2 rank_lo), ceil(log2 rank_hi) */
+} embz_optimal_fid_vs_struct;
+typedef embz_optimal_fid_vs_struct embz_optimal_fid_vs_t[1];
+
+void embz_optimal_fid_vs_init(embz_optimal_fid_vs_t v);
+void embz_optimal_fid_vs_clear(embz_optimal_fid_vs_t v);
+/* v <- the optimum of the measure at rank n and the smallest rank at which the optimal state
+ * reaches a value certified to lie in [lower, upper] (a family's fidelity, overlap squared or
+ * purified distance at rank n). Uniform targets, 1 <= n < 2^EMBZ_OPTIMAL_FID_MAX_BITS. */
+int embz_optimal_fid_vs(embz_optimal_fid_vs_t v, const arb_t lower, const arb_t upper,
+                        const fmpz_t n, const embz_target_t q, int measure, embz_err_t *err);
 
 #endif

@@ -254,5 +254,7 @@ char *embz_error_how_text(const embz_error_how_struct *h);
 char *embz_fidelity_how_text(const embz_fidelity_how_struct *h);
 /* How an optimum (embz/optimal.h) was found (malloc'ed). */
 char *embz_optimal_how_text(const embz_optimal_result_struct *r);
+/* How the best fidelity-type value (embz_optimal_fid) was certified (malloc'ed). */
+char *embz_optimal_fid_how_text(const embz_optimal_fid_struct *r);
 
 #endif

@@ -36,7 +36,9 @@ static const cli_spec_t error_spec = {
     "non-increasing, the analytic engine certifies the overlap, and fidelity and purified\n"
     "where its two-sided bounds meet; elsewhere fidelity and purified are certified BOUNDS\n"
     "from K (K <= P <= sqrt(K(2-K))), marked as such, with tighter ones when available.\n"
-    "--vs-optimal (distance K, uniform targets): the smallest error any state of rank n\n"
+    "--vs-optimal (uniform targets; with --measure fidelity|purified|overlap: the best value\n"
+    "of that measure at rank n, and the rank from which the optimal state reaches the\n"
+    "family's value, with the extra qubits per side). For K: the smallest error any state of rank n\n"
     "reaches (embz optimal), E_n divided by it, and the qubits per side the optimal state\n"
     "needs for the same error against ceil(log2 n).\n",
     error_opts, 1, 1
@@ -229,8 +231,11 @@ static char *weight_text(const embz_family_t fam)
     return w;
 }
 
+static char *rank_range(const fmpz_t a, const fmpz_t b);
+static char *slong_range(slong a, slong b);
+
 static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_target_t q,
-                        int measure, int method, slong prec, int json, int csv)
+                        int measure, int method, slong prec, int json, int csv, int vs)
 {
     embz_err_t err;
     embz_err_clear(&err);
@@ -240,6 +245,26 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
     if (status != EMBZ_OK) {
         embz_fidelity_result_clear(res);
         return cli_report("error", status, &err);
+    }
+    /* --vs-optimal: the optimum at rank n and the rank at which it reaches this value */
+    embz_optimal_fid_vs_t v;
+    embz_optimal_fid_vs_init(v);
+    char *vlo = NULL, *vhi = NULL, *vc = NULL, *vrk = NULL, *voq = NULL, *vex = NULL;
+    if (vs) {
+        status = embz_optimal_fid_vs(v, res->lower, res->upper, n, q, measure, &err);
+        if (status != EMBZ_OK) {
+            embz_optimal_fid_vs_clear(v);
+            embz_fidelity_result_clear(res);
+            return cli_report("error", status, &err);
+        }
+        vlo = embz_arb_lo_string(v->opt->value, JSON_DIGITS);
+        vhi = embz_arb_hi_string(v->opt->value, JSON_DIGITS);
+        vc = embz_arb_certified_string(v->opt->value, CERT_DIGITS);
+        if (v->have_rank) {
+            vrk = rank_range(v->rank_lo, v->rank_hi);
+            voq = slong_range(v->opt_qubits_lo, v->opt_qubits_hi);
+            vex = slong_range(v->qubits - v->opt_qubits_hi, v->qubits - v->opt_qubits_lo);
+        }
     }
     const char *mname = embz_measure_name(measure);
     const char *how = res->bounds_only ? "bounds" : res->how.analytic ? "analytic" : "explicit";
@@ -284,12 +309,28 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
             free(a); free(z);
         }
         cli_buf_json_key_string(&b, "detail", detail);
+        if (vs) {
+            cli_buf_json_key_string(&b, "optimum_lo", vlo);
+            cli_buf_json_key_string(&b, "optimum_hi", vhi);
+            cli_buf_json_key_string(&b, "optimum_certified", vc);
+            embz_buf_printf(&b, ", \"qubits_per_side\": %ld", (long) v->qubits);
+            if (v->have_rank) {
+                char *a1 = fmpz_get_str(NULL, 10, v->rank_lo), *a2 = fmpz_get_str(NULL, 10, v->rank_hi);
+                cli_buf_json_key_string(&b, "optimal_rank_lo", a1);
+                cli_buf_json_key_string(&b, "optimal_rank_hi", a2);
+                flint_free(a1); flint_free(a2);
+                embz_buf_printf(&b, ", \"extra_qubits_lo\": %ld, \"extra_qubits_hi\": %ld",
+                                (long) (v->qubits - v->opt_qubits_hi),
+                                (long) (v->qubits - v->opt_qubits_lo));
+            }
+        }
         embz_buf_printf(&b, "}\n");
         free(pj);
     } else if (csv) {
         char *pt = params_text(fam, 0);
         embz_buf_printf(&b, "family,params,weight,n,target,measure,bounds_only,value,value_lo,"
-                        "value_hi,detail\n");
+                        "value_hi,detail%s\n", vs ? ",optimum_lo,optimum_hi,extra_qubits_lo,"
+                        "extra_qubits_hi" : "");
         const char *f1[] = { fam->name, pt, w, ns, q->label, mname };
         cli_buf_csv_fields(&b, f1, 6);
         embz_buf_printf(&b, "%s,", res->bounds_only ? "true" : "false");
@@ -298,6 +339,14 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
         const char *f2[] = { lo, hi };
         cli_buf_csv_fields(&b, f2, 2);
         cli_buf_csv_field(&b, detail);
+        if (vs) {
+            embz_buf_printf(&b, ",%s,%s,", vlo, vhi);
+            if (v->have_rank)
+                embz_buf_printf(&b, "%ld,%ld", (long) (v->qubits - v->opt_qubits_hi),
+                                (long) (v->qubits - v->opt_qubits_lo));
+            else
+                embz_buf_printf(&b, ",");
+        }
         embz_buf_printf(&b, "\n");
         free(pt);
     } else {
@@ -352,11 +401,21 @@ static int run_fidelity(const embz_family_t fam, const fmpz_t n, const embz_targ
         }
         free(tl); free(th);
         embz_buf_printf(&b, "%-10s %s (%s)\n", "method", how, detail);
+        if (vs) {
+            embz_buf_printf(&b, "%-10s %s   (the best %s any state of rank n reaches; embz "
+                            "optimal --measure %s)\n", "optimum", vc, mname, mname);
+            if (v->have_rank)
+                embz_buf_printf(&b, "%-10s %ld per side; the optimal state reaches this value "
+                                "from rank %s (%s per side): %s extra per side\n", "qubits",
+                                (long) v->qubits, vrk, voq, vex);
+        }
         free(label); free(nt);
     }
     fputs(b.s, stdout);
     embz_buf_clear(&b);
     free(ns); free(w); free(lo); free(hi); free(detail);
+    free(vlo); free(vhi); free(vc); free(vrk); free(voq); free(vex);
+    embz_optimal_fid_vs_clear(v);
     embz_fidelity_result_clear(res);
     return CLI_EXIT_OK;
 }
@@ -511,16 +570,16 @@ int cli_cmd_error(int argc, char **argv)
         goto done;
 
     embz_err_clear(&err);
-    if (vs && (measure != EMBZ_MEASURE_K || q->kind != EMBZ_TARGET_UNIFORM
-               || embz_family_is_levels(fam))) {
-        fprintf(stderr, "embz error: --vs-optimal compares the distance K for uniform targets "
+    if (vs && (q->kind != EMBZ_TARGET_UNIFORM || embz_family_is_levels(fam))) {
+        fprintf(stderr, "embz error: --vs-optimal compares the %s for uniform targets "
                 "(ebit, ebits:J, uniform:D) and families whose n is the Schmidt rank%s\n",
+                measure == EMBZ_MEASURE_K ? "distance K" : "measure with its optimum",
                 embz_family_is_levels(fam) ? " (a level family's n counts copies or sites)" : "");
         code = CLI_EXIT_USAGE;
         goto done;
     }
     if (measure != EMBZ_MEASURE_K) {
-        code = run_fidelity(fam, n, q, measure, method, prec, json, csv);
+        code = run_fidelity(fam, n, q, measure, method, prec, json, csv, vs);
         goto done;
     }
     status = embz_error(res, fam, n, q, method, prec, &err);

@@ -10,6 +10,9 @@ static const cli_opt_t optimal_opts[] = {
     { "size", 'n', CLI_VALUE, "N", "Schmidt rank n: 1000, 1e6, 10^6, 2^20" },
     { "eps", 'e', CLI_VALUE, "E", "instead of -n: the smallest rank whose optimum is at most E" },
     { "target", 't', CLI_VALUE, "T", "target state: ebit (default), ebits:J or uniform:D" },
+    { "measure", 0, CLI_VALUE, "M",
+      "k (default: the distance K), fidelity (F_max), purified (sqrt(1 - F_max)) or overlap "
+      "(O^2, local unitaries only)" },
     { "method", 'm', CLI_VALUE, "M",
       "closed (default: the proven closed form, any n) or lp (the certified linear program)" },
     { "start", 0, CLI_VALUE, "S",
@@ -25,7 +28,8 @@ static const cli_opt_t optimal_opts[] = {
 static const cli_spec_t optimal_spec = {
     "optimal", "-n N | --eps E",
     "The optimal baseline: OPT_n = the smallest embezzlement error K(p -> p (x) q) that any\n"
-    "state of Schmidt rank at most n reaches for the target q (uniform targets).",
+    "state of Schmidt rank at most n reaches for the target q (uniform targets); with\n"
+    "--measure fidelity, purified or overlap the best value of that measure instead.",
     "--method closed: OPT_n(u_d) = 1/psi_d(n), psi_d(n) = j + 1 + n/(d^j (d - 1)),\n"
     "j = floor(log_d n), exact at every n (proof in docs/optimal.md); the optimal state has\n"
     "Schmidt probabilities proportional to d^(-ceil(log_d i)) (for one ebit the family\n"
@@ -37,7 +41,18 @@ static const cli_spec_t optimal_spec = {
     "--state FILE writes the state (n <= 10^6) in the vector form 'embz convert' and\n"
     "--target read. OPT_n never increases with n (a zero appended to p changes no Ky Fan\n"
     "norm), so --eps E gives the smallest rank n with OPT_n <= E, and every larger rank\n"
-    "reaches E too; qubits per side are ceil(log2 n).\n",
+    "reaches E too; qubits per side are ceil(log2 n).\n"
+    "--measure fidelity|overlap: the largest F_max(p -> p (x) u_d) (LOCC) and the largest O^2\n"
+    "(local unitaries only) over states of rank n are one number, lambda^2/d with lambda the\n"
+    "largest eigenvalue of the tree matrix of the sorted product (docs/optimal.md, section 6);\n"
+    "--measure purified: the smallest sqrt(1 - F_max). Printed as a certified enclosure: the\n"
+    "exact overlap of an explicit state (the Perron vector rounded) and a Lagrange bound that\n"
+    "holds for every state, for n < 2^1000 (node by node up to 2^22, beyond by classes of\n"
+    "equal subtrees); --state writes that state (n <= 10^6). It is not the K-optimal state:\n"
+    "other values on the blocks (d^(t-1), d^t], and in general not constant on them (it is\n"
+    "at n = d^L).\n"
+    "--eps E --measure purified: the smallest rank whose best purified distance is <= E\n"
+    "(searched in n < 2^1000; a bracket if E falls inside an enclosure).\n",
     optimal_opts, 0, 0
 };
 
@@ -205,6 +220,202 @@ done:
     return code;
 }
 
+static const char *fid_meaning(int m)
+{
+    switch (m) {
+    case EMBZ_MEASURE_FIDELITY: return "the largest optimal LOCC fidelity F_max(p -> p (x) q)";
+    case EMBZ_MEASURE_PURIFIED: return "the smallest purified distance sqrt(1 - F_max)";
+    default: return "the largest fidelity O^2 with local unitaries only";
+    }
+}
+
+/* --measure fidelity|purified|overlap at one rank */
+static int run_fid(const fmpz_t nz, const char *size_text, const embz_target_t q, int measure,
+                   const char *state, int json, int csv, const char *out)
+{
+    if (fmpz_bits(nz) > EMBZ_OPTIMAL_FID_MAX_BITS) {
+        fprintf(stderr, "embz optimal: the optimum for --measure %s is computed for n < 2^%d, "
+                "got %.80s\n", embz_measure_name(measure), EMBZ_OPTIMAL_FID_MAX_BITS, size_text);
+        return CLI_EXIT_RUNTIME;
+    }
+    embz_optimal_fid_t r;
+    embz_optimal_fid_init(r);
+    embz_qvec_t st;
+    embz_qvec_init(st);
+    embz_err_t err;
+    embz_err_clear(&err);
+    int code = CLI_EXIT_OK;
+    int status = embz_optimal_fid(r, state != NULL ? st : NULL, nz, q, measure, &err);
+    if (status != EMBZ_OK) {
+        code = cli_report("optimal", status, &err);
+        goto done;
+    }
+    char *ns = int_text(nz), *how = embz_optimal_fid_how_text(r);
+    char *flo = fmpq_dec(r->f_lower, -1), *fhi = fmpq_dec(r->f_upper, +1);
+    /* the ends: the exact fractions' decimals, or those of the purified distance's ball */
+    char *lo = measure == EMBZ_MEASURE_PURIFIED ? embz_arb_lo_string(r->value, DIGITS)
+               : cli_strdup(flo);
+    char *hi = measure == EMBZ_MEASURE_PURIFIED ? embz_arb_hi_string(r->value, DIGITS)
+               : cli_strdup(fhi);
+    char *cert = embz_arb_certified_string(r->value, DIGITS);
+    char qb[32];
+    qubits_text(qb, sizeof(qb), nz);
+    const char *mname = embz_measure_name(measure);
+    if (state != NULL) {
+        embz_buf_t b;
+        embz_buf_init(&b);
+        embz_buf_printf(&b, "# Schmidt probabilities of a state of rank %s whose overlap squared "
+                        "with its embezzled %s is at least %s (embz optimal --measure %s: the "
+                        "lower end of the best value)\n", ns, q->label, flo, mname);
+        for (slong i = 0; i < st->len; i++) {
+            char *s = fmpq_get_str(NULL, 10, st->p + i);
+            embz_buf_printf(&b, "%s\n", s);
+            flint_free(s);
+        }
+        status = embz_write_atomic(state, b.s, b.len, &err);
+        embz_buf_clear(&b);
+        if (status != EMBZ_OK) {
+            code = cli_report("optimal", status, &err);
+            goto texts;
+        }
+    }
+    embz_buf_t b;
+    embz_buf_init(&b);
+    if (json) {
+        embz_buf_printf(&b, "{\"target\": ");
+        embz_buf_json_string(&b, q->label);
+        cli_buf_json_key_string(&b, "n", ns);
+        embz_buf_printf(&b, ", \"d\": %lu", r->d);
+        cli_buf_json_key_string(&b, "measure", mname);
+        cli_buf_json_key_string(&b, "method", "perron");
+        embz_buf_printf(&b, ", \"exact\": false");
+        cli_buf_json_key_string(&b, "optimum_lo", lo);
+        cli_buf_json_key_string(&b, "optimum_hi", hi);
+        cli_buf_json_key_string(&b, "optimum_certified", cert);
+        cli_buf_json_key_string(&b, "fidelity_lo", flo);
+        cli_buf_json_key_string(&b, "fidelity_hi", fhi);
+        embz_buf_printf(&b, ", \"qubits_per_side\": %s", qb);
+        cli_buf_json_key_double(&b, "lambda_estimate", r->lambda);
+        cli_buf_json_key_double(&b, "seconds", r->seconds);
+        embz_buf_printf(&b, ", \"state_file\": ");
+        cli_buf_json_string_or_null(&b, state != NULL ? state : "");
+        cli_buf_json_key_string(&b, "how", how);
+        embz_buf_printf(&b, "}\n");
+    } else if (csv) {
+        embz_buf_printf(&b, "target,n,measure,method,optimum_lo,optimum_hi,optimum_certified,"
+                        "qubits_per_side,how\n");
+        const char *f[] = { q->label, ns, mname, "perron", lo, hi, cert, qb };
+        cli_buf_csv_fields(&b, f, 8);
+        cli_buf_csv_field(&b, how);
+        embz_buf_printf(&b, "\n");
+    } else {
+        embz_buf_printf(&b, "%-10s %s\n", "target", q->label);
+        embz_buf_printf(&b, "%-10s %s   (Schmidt rank; %s qubits per side)\n", "n", ns, qb);
+        embz_buf_printf(&b, "%-10s %s: %s\n", "measure", mname, fid_meaning(measure));
+        embz_buf_printf(&b, "%-10s %s   (certified digits)\n", "optimum", cert);
+        embz_buf_printf(&b, "%-10s [%s, %s]   (certified bounds)\n", "", lo, hi);
+        embz_buf_printf(&b, "%-10s %s\n", "how", how);
+        embz_buf_printf(&b, "%-10s the Perron vector of the tree matrix, squared: not the K-optimal "
+                        "state (docs/optimal.md)\n", "state");
+        if (state != NULL)
+            embz_buf_printf(&b, "%-10s written to %s (%s exact fractions)\n", "", state, ns);
+    }
+    code = emit(out, &b);
+    embz_buf_clear(&b);
+texts:
+    free(ns); free(how); free(lo); free(hi); free(cert); free(flo); free(fhi);
+done:
+    embz_qvec_clear(st);
+    embz_optimal_fid_clear(r);
+    return code;
+}
+
+/* --eps E --measure purified: the smallest rank whose best purified distance is at most E */
+static int run_fid_eps(const char *eps_text, const embz_target_t q, int json, int csv,
+                       const char *out)
+{
+    fmpq_t eps;
+    fmpq_init(eps);
+    arb_t a, b;
+    arb_init(a); arb_init(b);
+    int code = CLI_EXIT_OK;
+    embz_err_t err;
+    embz_err_clear(&err);
+    if (embz_number_parse(eps, eps_text) != EMBZ_OK || fmpq_sgn(eps) <= 0) {
+        code = cli_usage_error(&optimal_spec, "bad error goal '%.80s' (a positive exact "
+                               "number, e.g. 0.05 or 1/20)", eps_text);
+        goto done;
+    }
+    fmpz_t lo, hi;
+    fmpz_init(lo); fmpz_init(hi);
+    int status = embz_optimal_fid_eps(lo, hi, a, b, eps, q, &err);
+    if (status != EMBZ_OK) {
+        code = cli_report("optimal", status, &err);
+        fmpz_clear(lo); fmpz_clear(hi);
+        goto done;
+    }
+    char qb[32];
+    qubits_text(qb, sizeof(qb), hi);
+    char *nlo = int_text(lo), *nhi = int_text(hi);
+    int have_prev = fmpz_cmp_ui(lo, 1) > 0, same = fmpz_equal(lo, hi);
+    fmpz_t prev;
+    fmpz_init(prev);
+    fmpz_sub_ui(prev, lo, 1);
+    char *npr = int_text(prev);
+    fmpz_clear(prev);
+    char *ah = embz_arb_hi_string(a, DIGITS), *bl = have_prev ? embz_arb_lo_string(b, DIGITS) : NULL;
+    embz_buf_t o;
+    embz_buf_init(&o);
+    if (json) {
+        embz_buf_printf(&o, "{\"goal\": ");
+        embz_buf_json_string(&o, eps_text);
+        cli_buf_json_key_string(&o, "target", q->label);
+        cli_buf_json_key_string(&o, "measure", "purified");
+        embz_buf_printf(&o, ", \"n\": ");
+        cli_buf_json_string_or_null(&o, same ? nhi : "");
+        cli_buf_json_key_string(&o, "n_lo", nlo);
+        cli_buf_json_key_string(&o, "n_hi", nhi);
+        embz_buf_printf(&o, ", \"qubits_per_side\": %s", qb);
+        cli_buf_json_key_string(&o, "optimum_at_n_hi_upper", ah);
+        embz_buf_printf(&o, ", \"optimum_before_n_lo_lower\": ");
+        cli_buf_json_string_or_null(&o, have_prev ? bl : "");
+        cli_buf_json_key_string(&o, "how", "bisection on certified enclosures; the best "
+                                "purified distance is non-increasing in n");
+        embz_buf_printf(&o, "}\n");
+    } else if (csv) {
+        embz_buf_printf(&o, "goal,target,measure,n_lo,n_hi,qubits_per_side,optimum_at_n_hi_upper,"
+                        "optimum_before_n_lo_lower\n");
+        const char *f[] = { eps_text, q->label, "purified", nlo, nhi, qb, ah };
+        cli_buf_csv_fields(&o, f, 7);
+        cli_buf_csv_field(&o, have_prev ? bl : "");
+        embz_buf_printf(&o, "\n");
+    } else {
+        embz_buf_printf(&o, "%-10s best purified distance <= %s\n", "goal", eps_text);
+        embz_buf_printf(&o, "%-10s %s\n", "target", q->label);
+        if (same)
+            embz_buf_printf(&o, "%-10s %s   (the smallest rank any state needs)\n", "n", nhi);
+        else
+            embz_buf_printf(&o, "%-10s between %s and %s (certified bracket: the goal lies inside "
+                            "an enclosure)\n", "n", nlo, nhi);
+        embz_buf_printf(&o, "%-10s %s per side (ceil(log2 n) at the upper end)\n", "qubits", qb);
+        embz_buf_printf(&o, "%-10s <= %s <= goal   (certified upper end at n = %s)\n", "optimum",
+                        ah, nhi);
+        if (have_prev)
+            embz_buf_printf(&o, "%-10s >= %s > goal   (certified lower end at n = %s)\n", "",
+                            bl, npr);
+        embz_buf_printf(&o, "%-10s bisection on certified enclosures (docs/optimal.md, section 6); "
+                        "the best purified distance never increases with n\n", "how");
+    }
+    code = emit(out, &o);
+    embz_buf_clear(&o);
+    free(ah); free(bl); free(nlo); free(nhi); free(npr);
+    fmpz_clear(lo); fmpz_clear(hi);
+done:
+    arb_clear(a); arb_clear(b);
+    fmpq_clear(eps);
+    return code;
+}
+
 int cli_cmd_optimal(int argc, char **argv)
 {
     cli_args_t a;
@@ -221,6 +432,8 @@ int cli_cmd_optimal(int argc, char **argv)
     const char *size_text = cli_value(&a, "size"), *eps_text = cli_value(&a, "eps");
     const char *method = cli_value(&a, "method"), *start = cli_value(&a, "start");
     const char *state = cli_value(&a, "state"), *out = cli_value(&a, "output");
+    const char *measure_text = cli_value(&a, "measure");
+    int measure = EMBZ_MEASURE_K;
     int json = cli_flag(&a, "json"), csv = cli_flag(&a, "csv");
     int lp = 0;
     embz_optimal_opts_t o;
@@ -233,6 +446,17 @@ int cli_cmd_optimal(int argc, char **argv)
         code = cli_usage_error(&optimal_spec, size_text == NULL
                                ? "give the rank (-n N) or an error goal (--eps E)"
                                : "-n and --eps exclude each other");
+        goto done;
+    }
+    if (measure_text != NULL && embz_measure_parse(&measure, measure_text, &err) != EMBZ_OK) {
+        code = cli_usage_error(&optimal_spec, "%s", err.text);
+        goto done;
+    }
+    if (measure != EMBZ_MEASURE_K && (method != NULL || start != NULL
+                                      || (eps_text != NULL && measure != EMBZ_MEASURE_PURIFIED))) {
+        code = cli_usage_error(&optimal_spec, "--measure %s takes -n only (neither --method, "
+                               "--start nor --eps; --eps goes with k or purified)",
+                               embz_measure_name(measure));
         goto done;
     }
     if (method != NULL) {
@@ -261,11 +485,19 @@ int cli_cmd_optimal(int argc, char **argv)
     if ((out != NULL && (code = cli_check_output(out, "optimal")) != 0)
         || (state != NULL && (code = cli_check_output(state, "optimal")) != 0))
         goto done;
+    if (eps_text != NULL && measure == EMBZ_MEASURE_PURIFIED) {
+        code = run_fid_eps(eps_text, q, json, csv, out);
+        goto done;
+    }
     if (eps_text != NULL) {
         code = run_eps(eps_text, q, json, csv, out);
         goto done;
     }
     if ((code = cli_load_size(n, size_text, NULL, &optimal_spec)) != CLI_EXIT_OK) goto done;
+    if (measure != EMBZ_MEASURE_K && (state == NULL || fmpz_cmp_si(n, STATE_MAX_N) <= 0)) {
+        code = run_fid(n, size_text, q, measure, state, json, csv, out);
+        goto done;
+    }
     if (state != NULL && fmpz_cmp_si(n, STATE_MAX_N) > 0) {
         fprintf(stderr, "embz optimal: --state writes vectors of at most %ld entries (got n = "
                 "%.80s)\n", STATE_MAX_N, size_text);

@@ -59,4 +59,42 @@ void _embz_opt_normalise(fmpq *w, slong n, const fmpq_t s);
 /* psi <- psi_d(n) = j + 1 + n / (d^j (d - 1)), j = floor(log_d n) (level), n >= 1. */
 void _embz_opt_psi(fmpq_t psi, fmpz_t level, const fmpz_t n, ulong d);
 
+/* ---- the fidelity-type optimum (fid_perron.c, fid_cert.c, fid.c) ---- */
+
+/* par(j) = ceil(j / d), the parent of j in the tree of the sorted product (par(1) = 1) */
+static inline slong _embz_opt_par(slong j, ulong d)
+{
+    return j <= 1 ? 1 : (slong) ((ulong) (j - 1) / d) + 1;
+}
+
+/* Double-precision estimates (not trusted): lambda <- just above lambda_max of the tree matrix
+ * M (bisection on the positivity of the pivots of mu I - M), x <- its Perron vector (x_1 = 1,
+ * made non-increasing), ell <- the multipliers 2 g_j (ell_1 = 1, made non-decreasing). All of
+ * length n. Returns 0 when the estimate failed (a pivot or an entry not positive). */
+int _embz_opt_perron_d(double *x, double *ell, double *lambda, slong n, ulong d);
+
+/* a <- x 2^bits exactly, with bits such that every entry is an integer (x > 0 doubles). */
+void _embz_opt_fid_scale(fmpz *a, slong *bits, const double *x, slong n);
+
+/* f <- O(p, p (x) u_d)^2 exactly for the state p = a^2 / |a|^2; a lower bound on the best
+ * overlap and on the best F_max. Returns 0 (f untouched) unless a is positive and
+ * non-increasing. */
+int _embz_opt_fid_lower(fmpq_t f, const fmpz *a, slong n, ulong d);
+
+/* f <- a rational upper bound on F_max(q -> q (x) u_d) (and on O^2) for every sorted
+ * probability vector q of length n, from the non-decreasing multipliers ell > 0 (ball
+ * arithmetic at prec bits). Returns 0 unless ell is positive and non-decreasing. */
+int _embz_opt_fid_upper(fmpq_t f, const double *ell, slong n, ulong d, slong prec);
+
+/* The same two ends by classes of equal subtrees (fid_levels.c), for any n >= 1 whose Perron
+ * vector stays within the range of doubles: f_lo, f_hi as for _embz_opt_fid_lower/_upper,
+ * lambda the double estimate, bits the scale of the integer state. Returns 0 when an estimate
+ * or a certificate could not be formed. */
+int _embz_opt_fid_levels(fmpq_t f_lo, fmpq_t f_hi, double *lambda, slong *bits,
+                         const fmpz_t n, ulong d, slong prec);
+
+/* embz_optimal_fid, by classes of equal subtrees at every n when by_classes (no state). */
+int _embz_opt_fid_run(embz_optimal_fid_t res, embz_qvec_t state, const fmpz_t n,
+                      const embz_target_t q, int measure, int by_classes, embz_err_t *err);
+
 #endif

@@ -30,3 +30,14 @@ char *embz_optimal_how_text(const embz_optimal_result_struct *r)
             r->exact ? "; both ends agree: the exact optimum" : "");
     return embz_strdup_printf("not computed");
 }
+
+char *embz_optimal_fid_how_text(const embz_optimal_fid_struct *r)
+{
+    return embz_strdup_printf(
+        "best F_max = best O^2 = lambda_max(M)^2/%lu, M the matrix of the tree j -> ceil(j/%lu) "
+        "(docs/optimal.md, section 6)%s; lower end: the exact overlap of the Perron vector "
+        "rounded to integers (times 2^%ld); upper end: Lagrange multipliers from the tree's "
+        "pivots, a bound for every sorted state, in ball arithmetic; %.3g s",
+        r->d, r->d, r->levels ? ", by classes of equal subtrees" : "", (long) r->bits,
+        r->seconds);
+}
