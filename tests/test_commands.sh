@@ -49,12 +49,13 @@ rows = list(csv.DictReader(sys.stdin))
 assert len(rows) == 16 and rows[0]["n"] == "100" and rows[-1]["log10_n"] == "120", rows[-1]
 '
 # report: -n/--size, the old --sizes read with a note
-run report inverse --from 10 --to 10^4 --points 5 --sizes 1000 --eps 0.1 -q -o "$TMP/r.md"
+mkdir -p "$TMP/a" "$TMP/b"     # the same file name: a Markdown report names its figures after it
+run report inverse --from 10 --to 10^4 --points 5 --sizes 1000 --eps 0.1 -q -o "$TMP/a/r.md"
 expect_rc 0 "report --sizes (old name)"
 expect_err "note: --sizes is now --size (-n)" "the old name is noted"
-run report inverse --from 10 --to 10^4 --points 5 -n 1000 --eps 0.1 -q -o "$TMP/r2.md"
+run report inverse --from 10 --to 10^4 --points 5 -n 1000 --eps 0.1 -q -o "$TMP/b/r.md"
 expect_rc 0 "report -n"
-if cmp -s "$TMP/r.md" "$TMP/r2.md"; then ok; else fail "report --sizes and -n differ"; fi
+if cmp -s "$TMP/a/r.md" "$TMP/b/r.md"; then ok; else fail "report --sizes and -n differ"; fi
 run report --help
 if printf '%s' "$out" | grep -q -- "--sizes"; then fail "the old name is in --help"; else ok; fi
 

@@ -478,7 +478,8 @@ int cli_cmd_optimal(int argc, char **argv)
     if ((code = cli_load_target(q, &a, "optimal")) != 0) goto done;
     if (q->kind != EMBZ_TARGET_UNIFORM) {
         fprintf(stderr, "embz optimal: the optimum is known for uniform targets only "
-                "(ebit, ebits:J, uniform:D), not for the target %s\n", q->label);
+                "(ebit, ebits:J, uniform:D), not for a target vector (here %ld entries)\n",
+                (long) q->q->len);
         code = CLI_EXIT_USAGE;
         goto done;
     }
