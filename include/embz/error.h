@@ -309,6 +309,9 @@ int embz_fidelity(embz_fidelity_result_t res, const embz_family_t f, const fmpz_
 /* Most blocks of a weight constant on blocks (floor and ceil of i) summed for one size: the
  * cost is about a hundred evaluations of the weight's floor/ceil arguments per block. */
 #define EMBZ_STEPS_MAX_BLOCKS 1000000L
+/* ... and the evaluations of floor/ceil arguments spent finding and proving them (about a
+ * minute at 10^1000, far less at smaller n). */
+#define EMBZ_STEPS_MAX_EVALS 20000000L
 
 /* x <- the levels of f at size n (values as balls at prec, counts exact). Errors:
  * EMBZ_ERR_DOMAIN for a count that is not a non-negative integer, a value that is negative or

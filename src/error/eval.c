@@ -109,7 +109,12 @@ int embz_eval_prepare(embz_eval_t ev, embz_eval_work_t w, const fmpz_t nmax, emb
     ev->analytic_ok = 1;
     ev->prep_reason[0] = '\0';
     if (embz_family_is_levels(ev->f)) return EMBZ_OK;   /* evaluated level by level */
-    if (_embz_steps_applies(ev->f)) return EMBZ_OK;     /* block by block, at any n */
+    if (_embz_steps_applies(ev->f)) {
+        /* block by block, at any n, unless there are provably too many blocks up to nmax */
+        if (_embz_steps_refused(ev->prep_reason, sizeof(ev->prep_reason), ev->f, nmax))
+            ev->analytic_ok = 0;
+        return EMBZ_OK;
+    }
     if (w->eng == NULL) w->eng = calloc(1, sizeof(eval_work));
     eval_work *ew = w->eng;
     if (!ew->have[0]) {
@@ -175,7 +180,18 @@ static int explicit_at(embz_error_result_t res, const embz_eval_t ev, const fmpz
 static int blocks_at(embz_error_result_t res, const embz_eval_t ev, const fmpz_t n,
                      const embz_target_t q, slong wp, embz_err_t *err)
 {
-    int st = _embz_error_steps(res, ev->f, n, q, wp, err);
+    int st = _embz_error_steps(res, ev->f, n, q, ev->opts.cancel, ev->opts.seconds, wp, err);
+    /* as on the other routes: fewer than 8 certified bits, more precision (digit_steps) */
+    int dsteps = ev->opts.digit_steps < EMBZ_EVAL_MAX_STEPS ? ev->opts.digit_steps
+                                                            : EMBZ_EVAL_MAX_STEPS;
+    for (slong hp = 2 * wp; dsteps > 1 && st == EMBZ_OK && !usable(res->error)
+         && hp <= (wp << (dsteps - 1)); hp *= 2) {
+        embz_err_clear(err);
+        st = _embz_error_steps(res, ev->f, n, q, ev->opts.cancel, ev->opts.seconds, hp, err);
+    }
+    if (dsteps > 1 && st == EMBZ_OK && !usable(res->error))
+        st = embz_err_set(err, EMBZ_ERR_PREC, "no certified digit up to %ld bits",
+                          (long) (wp << (dsteps - 1)));
     if (st == EMBZ_OK) res->used |= 1 << EMBZ_METHOD_ANALYTIC;
     return st;
 }
@@ -209,7 +225,7 @@ static int eval_step(embz_error_result_t res, const embz_eval_t ev, embz_eval_wo
     if (up_to > 0 && fmpz_cmp_si(n, up_to) <= 0) return explicit_at(res, ev, n, q, wp, err);
 
     int st = EMBZ_ERR_UNSUPPORTED;
-    if (steps) {
+    if (steps && ev->analytic_ok) {
         /* a weight constant on blocks: the analytic engine has no Taylor expansion to use,
          * the blocks are what it is made of */
         st = blocks_at(res, ev, n, q, wp, err);

@@ -431,9 +431,14 @@ int _embz_error_of_levels(embz_error_result_t res, const embz_levels_t x,
  * ceil (at most 8 outermost ones); the blocks up to n as levels (at most max_blocks, <= 0:
  * EMBZ_STEPS_MAX_BLOCKS); E_n(q) from them (method analytic, how.kind EMBZ_HOW_BLOCKS). */
 int _embz_steps_applies(const embz_family_t f);
+/* 1 (and why) when more than EMBZ_STEPS_MAX_BLOCKS blocks up to n are proven up front. */
+int _embz_steps_refused(char *why, size_t len, const embz_family_t f, const fmpz_t n);
+/* cancel (may be NULL) and seconds (> 0) stop the search with EMBZ_ERR_LIMIT. */
 int _embz_steps_levels(embz_levels_t x, const embz_family_t f, const fmpz_t n, slong prec,
-                       slong max_blocks, embz_err_t *err);
+                       slong max_blocks, const volatile int *cancel, double seconds,
+                       embz_err_t *err);
 int _embz_error_steps(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
-                      const embz_target_t q, slong prec, embz_err_t *err);
+                      const embz_target_t q, const volatile int *cancel, double seconds,
+                      slong prec, embz_err_t *err);
 
 #endif

@@ -15,6 +15,7 @@
  * any argument, monotone or not; monotone arguments make them cheap. */
 #include <stdlib.h>
 #include <string.h>
+#include <time.h>
 #include "embz/error.h"
 #include "embz/util.h"
 #include "embz/levels.h"
@@ -30,8 +31,28 @@ typedef struct {
     slong len;
     arb_t n;                 /* the size, exact */
     slong wp;                /* working precision of the decisions */
-    slong evals;             /* evaluations spent (the budget counts them) */
+    slong evals;             /* evaluations spent */
+    slong max_evals;         /* the budget of evaluations */
+    const volatile int *cancel;
+    double deadline;         /* > 0: wall-clock seconds (CLOCK_MONOTONIC) to stop at */
+    int domain;              /* an evaluation was undefined (not merely undecided) */
+    fmpz_t bad;              /* where */
 } steps_ctx;
+
+static double now_seconds(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
+}
+
+/* The budget, the cancel flag or the time is used up. */
+static int stopped(const steps_ctx *c)
+{
+    if (c->evals > c->max_evals) return 1;
+    if (c->cancel != NULL && *c->cancel) return 1;
+    return c->deadline > 0 && (c->evals & 63) == 0 && now_seconds() > c->deadline;
+}
 
 int _embz_steps_applies(const embz_family_t f)
 {
@@ -49,8 +70,12 @@ static int key_at(fmpz_t key, steps_ctx *c, slong k, const fmpz_t i)
     arb_init(v);
     arb_set_fmpz(x, i);
     c->evals++;
-    int ok = embz_expr_eval_arb_node(v, c->e, c->node[k], x, c->n, c->wp) == EMBZ_OK
-             && arb_is_exact(v) && arb_get_unique_fmpz(key, v);
+    int st = embz_expr_eval_arb_node(v, c->e, c->node[k], x, c->n, c->wp);
+    int ok = st == EMBZ_OK && arb_is_exact(v) && arb_get_unique_fmpz(key, v) && !stopped(c);
+    if (st == EMBZ_ERR_DOMAIN && !c->domain) {
+        c->domain = 1;
+        fmpz_set(c->bad, i);
+    }
     arb_clear(x);
     arb_clear(v);
     return ok;
@@ -204,7 +229,8 @@ static int change_point(fmpz_t b, steps_ctx *c, slong k, const fmpz_t K, const f
             if (guided && side == 1) arf_mul_2exp_si(hlo, hlo, -1);
             side = 1;
         }
-        if (guided && arf_sgn(hlo) * arf_sgn(hhi) >= 0) guided = 0;
+        if (guided && (arf_sgn(hlo) * arf_sgn(hhi) >= 0 || it + 1 >= STEPS_FALSI_ITER))
+            guided = 0;
     }
     fmpz_set(b, lo);
     fmpz_clear(lo); fmpz_clear(hi); fmpz_clear(m); fmpz_clear(key); fmpz_clear(target);
@@ -214,21 +240,96 @@ static int change_point(fmpz_t b, steps_ctx *c, slong k, const fmpz_t K, const f
     return ok;
 }
 
-int _embz_steps_levels(embz_levels_t x, const embz_family_t f, const fmpz_t n, slong prec,
-                       slong max_blocks, embz_err_t *err)
+/* A proven lower bound on the number of blocks up to n, or -1 when none is proven: a node
+ * whose argument g has |g'| <= 1 on [1, n] changes by at most 1 from one index to the next,
+ * so it takes every integer between its values at 1 and n, each on a block of its own. */
+static int count_lower(fmpz_t count, steps_ctx *c, const fmpz_t n)
+{
+    fmpz_t k0, k1;
+    arb_struct s[2], d[2];
+    fmpz_init(k0); fmpz_init(k1);
+    arb_init(s + 0); arb_init(s + 1); arb_init(d + 0); arb_init(d + 1);
+    arb_set_fmpz(s + 0, n);
+    arb_union(s + 0, s + 0, c->n, c->wp);
+    arb_t one;
+    arb_init(one);
+    arb_one(one);
+    arb_union(s + 0, s + 0, one, c->wp);          /* the real interval [1, n] */
+    arb_one(s + 1);
+    fmpz_zero(count);
+    int any = 0;
+    for (slong j = 0; j < c->len; j++) {
+        fmpz_one(k0);
+        if (!key_at(k1, c, j, k0) || !key_at(k0, c, j, n)) continue;
+        if (embz_expr_eval_series_node(d, c->e, c->e->nodes[c->node[j]].a, s, c->n, 2, c->wp)
+            != EMBZ_OK)
+            continue;
+        arb_abs(d + 1, d + 1);
+        if (!arb_le(d + 1, one)) continue;
+        fmpz_sub(k1, k1, k0);
+        fmpz_abs(k1, k1);
+        fmpz_add_ui(k1, k1, 1);
+        if (fmpz_cmp(k1, count) > 0) fmpz_set(count, k1);
+        any = 1;
+    }
+    fmpz_clear(k0); fmpz_clear(k1);
+    arb_clear(s + 0); arb_clear(s + 1); arb_clear(d + 0); arb_clear(d + 1);
+    arb_clear(one);
+    return any;
+}
+
+static void ctx_init(steps_ctx *c, const embz_family_t f, const fmpz_t n, slong prec)
+{
+    memset(c, 0, sizeof(*c));
+    c->e = f->weight;
+    c->len = embz_expr_step_nodes(c->node, STEPS_MAX_NODES, f->weight);
+    arb_init(c->n);
+    arb_set_fmpz(c->n, n);
+    c->wp = prec + (slong) fmpz_bits(n) + 64;
+    c->max_evals = EMBZ_STEPS_MAX_EVALS;
+    fmpz_init(c->bad);
+}
+
+static void ctx_clear(steps_ctx *c)
+{
+    arb_clear(c->n);
+    fmpz_clear(c->bad);
+}
+
+int _embz_steps_refused(char *why, size_t len, const embz_family_t f, const fmpz_t n)
 {
     steps_ctx c;
-    memset(&c, 0, sizeof(c));
-    c.e = f->weight;
-    c.len = embz_expr_step_nodes(c.node, STEPS_MAX_NODES, f->weight);
-    if (c.len < 1 || c.len > STEPS_MAX_NODES)
+    ctx_init(&c, f, n, 64);
+    fmpz_t count;
+    fmpz_init(count);
+    int refused = c.len >= 1 && c.len <= STEPS_MAX_NODES && count_lower(count, &c, n)
+                  && fmpz_cmp_si(count, EMBZ_STEPS_MAX_BLOCKS) > 0;
+    if (refused) {
+        char *cs = embz_fmpz_string(count, 12);
+        snprintf(why, len, "the weight has at least %s blocks of constant value up to n; at "
+                 "most %ld are summed block by block", cs, (long) EMBZ_STEPS_MAX_BLOCKS);
+        free(cs);
+    }
+    fmpz_clear(count);
+    ctx_clear(&c);
+    return refused;
+}
+
+int _embz_steps_levels(embz_levels_t x, const embz_family_t f, const fmpz_t n, slong prec,
+                       slong max_blocks, const volatile int *cancel, double seconds,
+                       embz_err_t *err)
+{
+    steps_ctx c;
+    ctx_init(&c, f, n, prec);
+    if (c.len < 1 || c.len > STEPS_MAX_NODES) {
+        ctx_clear(&c);
         return embz_err_set(err, EMBZ_ERR_UNSUPPORTED, "the weight is not constant on blocks "
                             "(i outside floor and ceil, or more than %d of them)",
                             STEPS_MAX_NODES);
+    }
     if (max_blocks <= 0) max_blocks = EMBZ_STEPS_MAX_BLOCKS;
-    arb_init(c.n);
-    arb_set_fmpz(c.n, n);
-    c.wp = prec + (slong) fmpz_bits(n) + 64;
+    c.cancel = cancel;
+    if (seconds > 0) c.deadline = now_seconds() + seconds;
     fmpz *keys = _fmpz_vec_init(c.len);
     fmpz_t a, b, end, k1, one, len;
     arb_t w;
@@ -237,19 +338,8 @@ int _embz_steps_levels(embz_levels_t x, const embz_family_t f, const fmpz_t n, s
     arb_init(w);
     int st = EMBZ_OK;
 
-    /* up front: the value of each node moves from its value at 1 to that at n, so there are
-     * at least that many blocks (the exact count for a monotone argument) */
-    for (slong j = 0; j < c.len && st == EMBZ_OK; j++) {
-        if (!key_at(keys + j, &c, j, one) || !key_at(k1, &c, j, n)) {
-            st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED, "cannot decide a floor or ceil of "
-                              "the weight at i = 1 or i = n");
-            break;
-        }
-        fmpz_sub(k1, k1, keys + j);
-        fmpz_abs(k1, k1);
-        fmpz_add(len, len, k1);
-    }
-    if (st == EMBZ_OK && fmpz_cmp_si(len, max_blocks) >= 0) {
+    /* up front, where it is proven: at least this many blocks */
+    if (count_lower(len, &c, n) && fmpz_cmp_si(len, max_blocks) > 0) {
         char *ls = embz_fmpz_string(len, 12);
         st = embz_err_set(err, EMBZ_ERR_LIMIT, "the weight has at least %s blocks of constant "
                           "value up to n; at most %ld are summed block by block", ls,
@@ -273,13 +363,7 @@ int _embz_steps_levels(embz_levels_t x, const embz_family_t f, const fmpz_t n, s
             if (!change_point(b, &c, j, keys + j, k1, a, end)) st = EMBZ_ERR_UNSUPPORTED;
             else fmpz_set(end, b);
         }
-        if (st != EMBZ_OK) {
-            char *is = embz_fmpz_string(a, 40);
-            st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED, "cannot decide a floor or ceil of the "
-                              "weight near i = %s", is);
-            free(is);
-            break;
-        }
+        if (st != EMBZ_OK) break;
         if (!constant_on(&c, keys, a, end)) {
             /* the search was misled (an argument that is not monotone): the largest proven
              * block, by bisection (a proven block stays proven when shortened) */
@@ -293,12 +377,17 @@ int _embz_steps_levels(embz_levels_t x, const embz_family_t f, const fmpz_t n, s
                 fmpz_fdiv_q_2exp(m, m, 1);
                 if (constant_on(&c, keys, a, m)) fmpz_set(lo, m);
                 else fmpz_sub_ui(hi, m, 1);
+                if (c.domain || stopped(&c)) break;
             }
             fmpz_set(end, lo);
             fmpz_clear(lo); fmpz_clear(hi); fmpz_clear(m);
         }
         /* at the decisions' precision: a floor or ceil in the weight must come out exact
          * at a, which is as hard as the decisions themselves (log2(2^t + 1) against t) */
+        if (c.domain || stopped(&c)) {
+            st = EMBZ_ERR_UNSUPPORTED;
+            break;
+        }
         if (embz_family_weight_arb(w, f, a, n, c.wp, err) != EMBZ_OK) {
             st = err != NULL && err->code ? err->code : EMBZ_ERR_DOMAIN;
             break;
@@ -316,20 +405,42 @@ int _embz_steps_levels(embz_levels_t x, const embz_family_t f, const fmpz_t n, s
         embz_levels_push(x, w, len);
         fmpz_add_ui(a, end, 1);
     }
+    if (st == EMBZ_ERR_UNSUPPORTED) {
+        /* say why: an undefined value (its own message), a limit, or an undecided step */
+        char *is = embz_fmpz_string(c.domain ? c.bad : a, 40);
+        if (c.domain) {
+            if (embz_family_weight_arb(w, f, c.bad, n, c.wp, err) == EMBZ_OK)
+                embz_err_set(err, EMBZ_ERR_DOMAIN, "a floor or ceil of the weight is undefined "
+                             "at i = %s", is);
+            st = EMBZ_ERR_DOMAIN;
+        } else if (cancel != NULL && *cancel) {
+            st = embz_err_set(err, EMBZ_ERR_LIMIT, "cancelled");
+        } else if (c.evals > c.max_evals || (c.deadline > 0 && now_seconds() > c.deadline)) {
+            st = embz_err_set(err, EMBZ_ERR_LIMIT, "the blocks of the weight took more than "
+                              "%s up to i = %s (%ld blocks so far)",
+                              c.evals > c.max_evals ? "the evaluation budget" : "the time allowed",
+                              is, (long) x->len);
+        } else {
+            st = embz_err_set(err, EMBZ_ERR_UNSUPPORTED, "cannot decide a floor or ceil of the "
+                              "weight near i = %s", is);
+        }
+        free(is);
+    }
     _fmpz_vec_clear(keys, c.len);
     fmpz_clear(a); fmpz_clear(b); fmpz_clear(end); fmpz_clear(k1); fmpz_clear(one);
     fmpz_clear(len);
     arb_clear(w);
-    arb_clear(c.n);
+    ctx_clear(&c);
     return st;
 }
 
 int _embz_error_steps(embz_error_result_t res, const embz_family_t f, const fmpz_t n,
-                      const embz_target_t q, slong prec, embz_err_t *err)
+                      const embz_target_t q, const volatile int *cancel, double seconds,
+                      slong prec, embz_err_t *err)
 {
     embz_levels_t x;
     embz_levels_init(x);
-    int st = _embz_steps_levels(x, f, n, prec + 32, 0, err);
+    int st = _embz_steps_levels(x, f, n, prec + 32, 0, cancel, seconds, err);
     if (st == EMBZ_OK) st = _embz_error_of_levels(res, x, q, prec, err);
     if (st == EMBZ_OK) {
         res->method = EMBZ_METHOD_ANALYTIC;

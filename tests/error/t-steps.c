@@ -40,7 +40,7 @@ static void against_explicit(const char *expr, slong n, const char *target)
     embz_error_result_init(b);
     embz_err_t err;
     embz_err_clear(&err);
-    ck_assert_msg(_embz_error_steps(a, f, nn, q, 128, &err) == EMBZ_OK, "%s n=%ld: %s", expr,
+    ck_assert_msg(_embz_error_steps(a, f, nn, q, NULL, 0, 128, &err) == EMBZ_OK, "%s n=%ld: %s", expr,
                   (long) n, err.text);
     ck_assert_msg(embz_error_explicit(b, f, nn, q, 128, &err) == EMBZ_OK, "%s", err.text);
     ck_assert_msg(arb_overlaps(a->error, b->error), "%s at n = %ld, target %s", expr,
@@ -62,7 +62,8 @@ START_TEST(test_against_explicit)
         "1/(1+floor(sqrt(i)))",              /* about sqrt(n) blocks */
         "1/ceil(i/7)^2",                     /* blocks of 7, summable */
         "3^(-floor(log2(i)))",               /* dyadic blocks, values falling faster */
-        "1/(3+floor(2*sin(i/40)))",          /* an argument that is not monotone */
+        "1/(3+floor(2*sin(i/40)))",
+        "1/(1+floor(n/i))",                  /* about 2 sqrt(n) blocks, jumps of many units */          /* an argument that is not monotone */
     };
     static const char *const targets[] = { "ebit", "uniform:3", "0.7,0.3" };
     static const slong sizes[] = { 1, 2, 3, 17, 1000, 4096, 65537 };
@@ -89,7 +90,7 @@ START_TEST(test_blocks)
         fmpz_init_set_si(nn, n);
         embz_err_t err;
         embz_err_clear(&err);
-        ck_assert(_embz_steps_levels(x, f, nn, 128, 0, &err) == EMBZ_OK);
+        ck_assert(_embz_steps_levels(x, f, nn, 128, 0, NULL, 0, &err) == EMBZ_OK);
         slong r = 1;
         while ((r + 1) * (r + 1) <= n) r++;          /* floor(sqrt(n)) */
         ck_assert_int_eq(x->len, r);
@@ -136,7 +137,7 @@ START_TEST(test_optimal_state)
         embz_error_result_init(r);
         embz_err_t err;
         embz_err_clear(&err);
-        ck_assert_msg(_embz_error_steps(r, f, n, q, 128, &err) == EMBZ_OK, "%s", err.text);
+        ck_assert_msg(_embz_error_steps(r, f, n, q, NULL, 0, 128, &err) == EMBZ_OK, "%s", err.text);
         ck_assert(arb_overlaps(r->error, exact));
         ck_assert(mag_cmp_2exp_si(arb_radref(r->error), -90) < 0);
         ck_assert_int_eq(r->how.levels, (slong) j + 1 + (fmpz_equal(n, p) ? 0 : 1));
@@ -168,12 +169,40 @@ START_TEST(test_refused)
     fmpz_ui_pow_ui(n, 10, 30);
     embz_err_t err;
     embz_err_clear(&err);
-    ck_assert_int_eq(_embz_steps_levels(x, f, n, 128, 0, &err), EMBZ_ERR_LIMIT);
+    ck_assert_int_eq(_embz_steps_levels(x, f, n, 128, 0, NULL, 0, &err), EMBZ_ERR_LIMIT);
     ck_assert(strstr(err.text, "blocks") != NULL);
     /* a budget of its own: <= 0 means the default */
     fmpz_set_ui(n, 100);
     embz_err_clear(&err);
-    ck_assert_int_eq(_embz_steps_levels(x, f, n, 128, 10, &err), EMBZ_ERR_LIMIT);
+    ck_assert_int_eq(_embz_steps_levels(x, f, n, 128, 10, NULL, 0, &err), EMBZ_ERR_LIMIT);
+    /* floor(n/i) jumps by many units at small i: no lower bound on the count is proven, so
+     * it is not refused up front, and its 2 sqrt(n) blocks are summed (n = 10^7) */
+    embz_family_clear(f);
+    family(f, "1/(1+floor(n/i))");
+    fmpz_set_ui(n, 10000000);
+    embz_levels_clear(x);
+    embz_levels_init(x);
+    embz_err_clear(&err);
+    ck_assert_int_eq(_embz_steps_levels(x, f, n, 128, 0, NULL, 0, &err), EMBZ_OK);
+    ck_assert(x->len > 6000 && x->len < 6400);
+    /* an undefined value is a domain error naming the index, not an undecided step */
+    embz_family_clear(f);
+    family(f, "1/(1+floor(log(100-i)))");
+    fmpz_set_ui(n, 200);
+    embz_levels_clear(x);
+    embz_levels_init(x);
+    embz_err_clear(&err);
+    ck_assert_int_eq(_embz_steps_levels(x, f, n, 128, 0, NULL, 0, &err), EMBZ_ERR_DOMAIN);
+    /* a cancel flag stops the search */
+    embz_family_clear(f);
+    family(f, "2^(-ceil(log2(i)))");
+    fmpz_ui_pow_ui(n, 10, 30);
+    volatile int cancel = 1;
+    embz_levels_clear(x);
+    embz_levels_init(x);
+    embz_err_clear(&err);
+    ck_assert_int_eq(_embz_steps_levels(x, f, n, 128, 0, &cancel, 0, &err), EMBZ_ERR_LIMIT);
+    ck_assert(strstr(err.text, "cancelled") != NULL);
     fmpz_clear(n);
     embz_levels_clear(x);
     embz_family_clear(f);
