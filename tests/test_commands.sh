@@ -90,6 +90,29 @@ got=$(complete_words error inver)
 [ "$got" = inverse ] && ok || fail "family name completion: $got"
 got=$(complete_words report --siz)
 [ "$got" = --size ] && ok || fail "report --siz offers only the current name: $got"
+# --opt=value: bash splits at '=', the script joins it again
+got=$(complete_words error inverse --measure = "" | sort | tr '\n' ' ')
+[ "$got" = "fidelity k overlap purified " ] && ok || fail "values of error --measure=: $got"
+got=$(complete_words error inverse --measure = pu)
+[ "$got" = purified ] && ok || fail "error --measure=pu: $got"
+# file names are candidates as they are: a space stays inside one candidate, a '*' is not a glob
+mkdir -p "$TMP/files"
+: >"$TMP/files/my probs.txt"
+: >"$TMP/files/star*"
+got=$(cd "$TMP/files" && complete_words convert my | tr '\n' '|')
+[ "$got" = "my probs.txt|" ] && ok || fail "a file name with a space: $got"
+got=$(cd "$TMP/files" && complete_words convert 'star' | tr '\n' '|')
+[ "$got" = "star*|" ] && ok || fail "a file name with a star: $got"
+# a family name that looks like shell code is offered, never run
+mkdir -p "$TMP/fam"
+printf 'name = $(touch %s/ran)\nweight = 1/i\n' "$TMP" >"$TMP/fam/odd.fam"
+got=$(EMBZ_FAMILY_PATH="$TMP/fam" complete_words error '$')
+[ "$got" = "\$(touch $TMP/ran)" ] && ok || fail "the odd family name is offered as it is: $got"
+[ ! -e "$TMP/ran" ] && ok || fail "a family name was run by the completion"
+run help completion
+expect_rc 0 "embz help completion"
+expect_out "usage: embz completion" "help completion prints its usage"
+
 # every option of every command's --help is offered after '-', and nothing else
 for c in $("$EMBZ" --help | awk '/^commands:/ {on = 1; next} on && !NF {exit} on {print $1}'); do
     want=$("$EMBZ" "$c" --help | grep -oE '^ +(-[a-zA-Z], )?--[a-z-]+' | grep -oE -- '--[a-z-]+|-[a-zA-Z]' | sort -u)

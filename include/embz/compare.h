@@ -74,5 +74,8 @@ int embz_errors_at(arb_ptr E, int *status, embz_err_t *errs, const embz_family_t
 
 /* How many threads this machine offers (for a default of `threads`). */
 int embz_threads_available(void);
+/* The default number of threads of every command: the OpenMP maximum (every processor, or
+ * OMP_NUM_THREADS), at most EMBZ_THREADS_MAX, at least 1. */
+int embz_threads_default(void);
 
 #endif

@@ -26,6 +26,16 @@ int embz_threads_available(void)
 #endif
 }
 
+int embz_threads_default(void)
+{
+#ifdef _OPENMP
+    int t = omp_get_max_threads();
+#else
+    int t = 1;
+#endif
+    return t < 1 ? 1 : t > EMBZ_THREADS_MAX ? EMBZ_THREADS_MAX : t;
+}
+
 void embz_compare_opts_init(embz_compare_opts_t o)
 {
     memset(o, 0, sizeof(*o));

@@ -56,7 +56,7 @@ static void value_cases(FILE *out, const cli_spec_t *spec)
         const char *words = choice_words(spec->name, o->name);
         int files = o->metavar != NULL && strcmp(o->metavar, "FILE") == 0;
         if (strcmp(o->name, "target") == 0)
-            fprintf(out, "                    %s) _embz_words \"%s\"; _embz_files; compopt -o nospace 2>/dev/null; return ;;\n",
+            fprintf(out, "                    %s) _embz_words \"%s\"; _embz_files; _embz_nospace; return ;;\n",
                     pat, words);
         else if (words != NULL)
             fprintf(out, "                    %s) _embz_words \"%s\"; return ;;\n", pat, words);
@@ -74,12 +74,25 @@ static void write_bash(FILE *out, const cli_spec_t *const *specs, long nspecs)
             "# bash completion for embz, made by 'embz completion bash' from the option tables\n"
             "# that 'embz COMMAND --help' prints. Install it as\n"
             "# share/bash-completion/completions/embz, or source it.\n"
-            "_embz_words() { COMPREPLY+=( $(compgen -W \"$1\" -- \"$cur\") ); }\n"
-            "_embz_files() { COMPREPLY+=( $(compgen -f -- \"$cur\") ); }\n"
-            "_embz_families() { _embz_words \"$(\"${COMP_WORDS[0]}\" families --names 2>/dev/null)\"; }\n"
+            "# Candidates are added one per line (no word splitting or globbing of names), words\n"
+            "# of a fixed list through compgen -W, file and family names without expansion.\n"
+            "_embz_words() { local w; while IFS= read -r w; do [ -n \"$w\" ] && COMPREPLY+=(\"$w\"); done < <(compgen -W \"$1\" -- \"$cur\"); }\n"
+            "_embz_files() { local w; compopt -o filenames 2>/dev/null; while IFS= read -r w; do COMPREPLY+=(\"$w\"); done < <(compgen -f -- \"$cur\"); }\n"
+            "_embz_families() {\n"
+            "    local w p=\"${COMP_WORDS[0]}\"\n"
+            "    p=\"${p/#\\~/$HOME}\"\n"
+            "    while IFS= read -r w; do\n"
+            "        [[ \"$w\" == \"$cur\"* ]] && COMPREPLY+=(\"$w\")\n"
+            "    done < <(\"$p\" families --names 2>/dev/null)\n"
+            "}\n"
+            "# no space after a candidate only when every candidate ends in ':' (ebits:, uniform:)\n"
+            "_embz_nospace() { local w; for w in \"${COMPREPLY[@]}\"; do [[ \"$w\" == *: ]] || return; done; [ ${#COMPREPLY[@]} -gt 0 ] && compopt -o nospace 2>/dev/null; }\n"
             "_embz() {\n"
             "    local cur=\"${COMP_WORDS[COMP_CWORD]}\" prev=\"${COMP_WORDS[COMP_CWORD-1]}\"\n"
             "    COMPREPLY=()\n"
+            "    # bash splits --opt=value and uniform:4 into words at '=' and ':'\n"
+            "    if [ \"$cur\" = \"=\" ]; then cur=\"\"; elif [ \"$prev\" = \"=\" ] && [ \"$COMP_CWORD\" -ge 2 ]; then prev=\"${COMP_WORDS[COMP_CWORD-2]}\"; fi\n"
+            "    if [ \"$cur\" = \":\" ] || [ \"$prev\" = \":\" ]; then return; fi\n"
             "    if [ \"$COMP_CWORD\" -eq 1 ]; then\n"
             "        _embz_words \"");
     for (long k = 0; k < nspecs; k++) fprintf(out, "%s ", specs[k]->name);

@@ -113,7 +113,8 @@ int cli_load_prec_upto(long *prec, const cli_args_t *a, const cli_spec_t *spec,
 int cli_load_threads(int *threads, const cli_args_t *a, const cli_spec_t *spec)
 {
     const char *text = cli_value(a, "threads");
-    long t = embz_threads_available();
+    /* every processor, or what OMP_NUM_THREADS allows */
+    long t = embz_threads_default();
     if (text != NULL && cli_parse_long(&t, text, 1, EMBZ_THREADS_MAX))
         return cli_usage_error(spec, "bad number of threads '%s' (1 to %d)", text,
                                EMBZ_THREADS_MAX);

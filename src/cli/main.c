@@ -76,6 +76,11 @@ static int run_main(int argc, char **argv)
             print_main_help(stdout);
             return CLI_EXIT_OK;
         }
+        if (strcmp(argv[2], "completion") == 0) {
+            char help[] = "--help";
+            char *sub[3] = { argv[2], help, NULL };
+            return cli_cmd_completion(2, sub, NULL, 0);
+        }
         const cli_command_t *c = find_command(argv[2]);
         if (c == NULL) {
             fprintf(stderr, "embz: unknown command '%s'\n", argv[2]);
