@@ -59,6 +59,43 @@ if cmp -s "$TMP/a/r.md" "$TMP/b/r.md"; then ok; else fail "report --sizes and -n
 run report --help
 if printf '%s' "$out" | grep -q -- "--sizes"; then fail "the old name is in --help"; else ok; fi
 
+# --- tables as data: families --csv (one row per family, as --names), demo --json/--csv
+run families --csv
+pycheck "families --csv: a row per family of --names, each with its kind and weight" "
+import csv, subprocess, sys
+rows = list(csv.DictReader(sys.stdin))
+names = subprocess.run(['$EMBZ', 'families', '--names'], capture_output=True, text=True).stdout.split()
+assert [r['name'] for r in rows] == names, (rows, names)
+assert all(r['kind'] in ('weight', 'amplitude', 'levels') and r['weight'] for r in rows)
+"
+run demo -q --json -o "$TMP/demo.html"
+expect_rc 0 "demo --json"
+printf '%s' "$out" >"$TMP/demo.json"
+run size inverse --eps 1e-3 --target ebits:2 --qubits --json
+printf '%s' "$out" >"$TMP/size.json"
+run error inverse -n 10^30 --target ebits:2 --prec 64 --json
+pycheck "demo --json: the rows agree with embz size and embz error for the same family" "
+import json, sys
+from fractions import Fraction as F
+e = json.load(sys.stdin)
+d = json.load(open('$TMP/demo.json'))
+s = json.load(open('$TMP/size.json'))
+assert d['target'] == 'ebits:2' and d['goals'] == ['1e-3'] and d['sizes'] == ['10^30', '10^100']
+inv = [r for r in d['rows'] if r['family'] == 'inverse'][0]
+assert int(inv['qubits_per_side'][0]) == s['goals'][0]['qubits'], (inv, s['goals'][0])
+t = inv['error'][0]          # certified digits: the enclosure of embz error lies inside them
+lo, hi = F(e['error_lo']), F(e['error_hi'])
+assert F(t) - F(1, 10 ** (len(t) - 2)) <= lo and hi <= F(t) + F(1, 10 ** (len(t) - 2)), (t, lo, hi)
+"
+run demo -q --csv -o "$TMP/demo2.html"
+pycheck "demo --csv: a header and one row per shipped family of the scenario" '
+import csv, sys
+rows = list(csv.DictReader(sys.stdin))
+assert len(rows) == 8 and rows[0]["family"] == "inverse" and "why" in rows[0], rows
+'
+run demo --json --csv
+expect_rc 2 "demo --json --csv"
+
 # --- completion
 run completion bash
 expect_rc 0 "completion bash"

@@ -260,6 +260,11 @@ char *cli_compare_answer(const cli_compare_row_t *rows, const long *order, long 
  * verdict, qubits for goal 0, extra qubits against the optimum, error at size 0, why. order: row indices in display order (NULL: as given). */
 void cli_compare_text(embz_buf_t *b, const cli_compare_row_t *rows, const long *order,
                       long nfam, const cli_compare_opts_t *o);
+/* The same rows as data, best first: CSV (json == 0: a header, then one line per family with
+ * every goal and size) or one JSON object ({"target", "goals", "sizes", "rows": [...]}).
+ * Cells are the texts of the table: certified digits, "never", "not by 10^924", "". */
+void cli_compare_data(embz_buf_t *b, const cli_compare_row_t *rows, const long *order,
+                      long nfam, const cli_compare_opts_t *o, int json);
 /* Format from --format or the extension of path (-1 when neither says). */
 int cli_compare_format(const char *format_opt, const char *path);
 

@@ -10,6 +10,8 @@ static const cli_opt_t demo_opts[] = {
     { "output", 'o', CLI_VALUE, "FILE", "the report (default embz-demo.html; - for stdout)" },
     { "format", 'f', CLI_VALUE, "F", "html, md, tex or pdf (default: from the extension of FILE)" },
     CLI_OPT_THREADS("families"),
+    { "json", 0, CLI_FLAG, NULL, "print the table as one JSON object (the report is written as usual)" },
+    { "csv", 0, CLI_FLAG, NULL, "print the table as CSV (a header, one row per family)" },
     { "quiet", 'q', CLI_FLAG, NULL, "no progress lines on stderr" },
     { NULL, 0, 0, NULL, NULL }
 };
@@ -105,6 +107,10 @@ int cli_cmd_demo(int argc, char **argv)
     if (out == NULL) out = default_out[format];
     if ((code = cli_check_output(out, "demo")) != 0) goto done;
     if ((code = cli_load_threads(&o.threads, &a, &demo_spec)) != 0) goto done;
+    if (cli_flag(&a, "json") && cli_flag(&a, "csv")) {
+        code = cli_usage_error(&demo_spec, "--json and --csv exclude each other");
+        goto done;
+    }
     if ((code = cli_compare_load(fam, NDEMO, demo_families, &a, &demo_spec)) != 0) goto done;
 
     o.progress = !cli_flag(&a, "quiet") && isatty(fileno(stderr));
@@ -130,8 +136,14 @@ int cli_cmd_demo(int argc, char **argv)
         goto done;
     }
 
-    /* the terminal table, best first */
-    {
+    /* the table as data, best first, where the terminal table would go */
+    if (cli_flag(&a, "json") || cli_flag(&a, "csv")) {
+        embz_buf_t b;
+        embz_buf_init(&b);
+        cli_compare_data(&b, rows, order, NDEMO, &o, cli_flag(&a, "json"));
+        fputs(b.s, embz_output_is_stdout(out) ? stderr : stdout);
+        embz_buf_clear(&b);
+    } else {
         embz_buf_t b;
         embz_buf_init(&b);
         embz_buf_printf(&b, "Embezzling two ebits (target ebits:2) at error 1e-3: the shipped "

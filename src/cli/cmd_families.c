@@ -6,6 +6,7 @@
 static const cli_opt_t families_opts[] = {
     { "json", 0, CLI_FLAG, NULL, "print a JSON array instead of the table" },
     { "names", 0, CLI_FLAG, NULL, "print only the names, one per line (for scripts)" },
+    { "csv", 0, CLI_FLAG, NULL, "print CSV: name, kind, weight, parameters, description, file" },
     CLI_OPT_END
 };
 
@@ -35,9 +36,10 @@ int cli_cmd_families(int argc, char **argv)
     cli_args_t a;
     int pr;
     if (!cli_begin(&a, &families_spec, argc, argv, &pr)) return pr;
-    int json = cli_flag(&a, "json"), names = cli_flag(&a, "names");
+    int json = cli_flag(&a, "json"), names = cli_flag(&a, "names"), csv = cli_flag(&a, "csv");
     cli_args_clear(&a);
-    if (json && names) return cli_usage_error(&families_spec, "--json and --names exclude each other");
+    if (json + names + csv > 1)
+        return cli_usage_error(&families_spec, "--json, --csv and --names exclude each other");
 
     char **paths = NULL;
     long count = 0;
@@ -64,6 +66,22 @@ int cli_cmd_families(int argc, char **argv)
     if (names) {
         for (long k = 0; k < count; k++)
             if (ok[k]) embz_buf_printf(&out, "%s\n", fams[k]->name);
+    } else if (csv) {
+        embz_buf_printf(&out, "name,kind,weight,parameters,description,file\n");
+        for (long k = 0; k < count; k++) {
+            if (!ok[k]) continue;
+            char *pt = param_text(fams[k]);
+            const char *f[6] = { fams[k]->name, embz_family_is_levels(fams[k]) ? "levels"
+                                                : fams[k]->amplitude ? "amplitude" : "weight",
+                                 fams[k]->weight_text, pt, fams[k]->description,
+                                 fams[k]->origin };
+            for (int j = 0; j < 6; j++) {
+                if (j) embz_buf_printf(&out, ",");
+                cli_buf_csv_field(&out, f[j] ? f[j] : "");
+            }
+            embz_buf_printf(&out, "\n");
+            free(pt);
+        }
     } else if (json) {
         embz_buf_printf(&out, "[");
         int first = 1;

@@ -720,3 +720,78 @@ void cli_compare_text(embz_buf_t *b, const cli_compare_row_t *rows, const long *
     }
     free(cells);
 }
+
+void cli_compare_data(embz_buf_t *b, const cli_compare_row_t *rows, const long *order,
+                      long nfam, const cli_compare_opts_t *o, int json)
+{
+    const char *target = o->target_text != NULL ? o->target_text : "ebit";
+    if (json) {
+        embz_buf_printf(b, "{\"target\": ");
+        embz_buf_json_string(b, target);
+        embz_buf_printf(b, ", \"goals\": [");
+        for (long g = 0; g < o->ngoals; g++) {
+            embz_buf_printf(b, "%s", g ? ", " : "");
+            embz_buf_json_string(b, o->goal_text[g]);
+        }
+        embz_buf_printf(b, "], \"sizes\": [");
+        for (long s = 0; s < o->nsizes; s++) {
+            embz_buf_printf(b, "%s", s ? ", " : "");
+            embz_buf_json_string(b, o->size_text[s]);
+        }
+        embz_buf_printf(b, "], \"rows\": [");
+    } else {
+        embz_buf_printf(b, "family,verdict");
+        for (long g = 0; g < o->ngoals; g++)
+            embz_buf_printf(b, ",qubits_per_side_eps_%s,size_eps_%s,extra_qubits_eps_%s",
+                            o->goal_text[g], o->goal_text[g], o->goal_text[g]);
+        for (long s = 0; s < o->nsizes; s++) embz_buf_printf(b, ",error_at_%s", o->size_text[s]);
+        embz_buf_printf(b, ",why\n");
+    }
+    for (long ii = 0; ii < nfam; ii++) {
+        const cli_compare_row_t *r = rows + (order ? order[ii] : ii);
+        if (json) {
+            embz_buf_printf(b, "%s\n  {\"family\": ", ii ? "," : "");
+            embz_buf_json_string(b, r->label);
+            cli_buf_json_key_string(b, "verdict", r->verdict ? r->verdict : "");
+            const char *keys[3] = { "qubits_per_side", "size", "extra_qubits" };
+            for (int k = 0; k < 3; k++) {
+                embz_buf_printf(b, ", \"%s\": [", keys[k]);
+                for (long g = 0; g < o->ngoals; g++) {
+                    char *const *t = k == 0 ? r->need_q_text : k == 1 ? r->need_n_text
+                                                                      : r->extra_q_text;
+                    embz_buf_printf(b, "%s", g ? ", " : "");
+                    embz_buf_json_string(b, t && t[g] ? t[g] : "");
+                }
+                embz_buf_printf(b, "]");
+            }
+            embz_buf_printf(b, ", \"error\": [");
+            for (long s = 0; s < o->nsizes; s++) {
+                embz_buf_printf(b, "%s", s ? ", " : "");
+                embz_buf_json_string(b, r->error_text && r->error_text[s] ? r->error_text[s] : "");
+            }
+            embz_buf_printf(b, "]");
+            cli_buf_json_key_string(b, "why", r->why ? r->why : "");
+            embz_buf_printf(b, "}");
+        } else {
+            cli_buf_csv_field(b, r->label);
+            embz_buf_printf(b, ",");
+            cli_buf_csv_field(b, r->verdict ? r->verdict : "");
+            for (long g = 0; g < o->ngoals; g++) {
+                const char *t[3] = { r->need_q_text[g], r->need_n_text[g],
+                                     r->extra_q_text ? r->extra_q_text[g] : NULL };
+                for (int k = 0; k < 3; k++) {
+                    embz_buf_printf(b, ",");
+                    cli_buf_csv_field(b, t[k] ? t[k] : "");
+                }
+            }
+            for (long s = 0; s < o->nsizes; s++) {
+                embz_buf_printf(b, ",");
+                cli_buf_csv_field(b, r->error_text[s] ? r->error_text[s] : "");
+            }
+            embz_buf_printf(b, ",");
+            cli_buf_csv_field(b, r->why ? r->why : "");
+            embz_buf_printf(b, "\n");
+        }
+    }
+    if (json) embz_buf_printf(b, "\n]}\n");
+}
