@@ -39,6 +39,17 @@ static const cli_spec_t classify_spec = {
     classify_opts, 1, 1
 };
 
+/* "reasons:" and one line per fact */
+static void reasons_text(embz_buf_t *b, const embz_classify_fact_struct *facts, slong n)
+{
+    embz_buf_printf(b, "reasons:\n");
+    for (slong k = 0; k < n; k++) {
+        char *t = embz_classify_fact_text(facts + k);
+        embz_buf_printf(b, "  - %s\n", t);
+        free(t);
+    }
+}
+
 /* --measure fidelity|purified|overlap: the measure's convergence */
 static int run_measure(const embz_family_t fam, int measure, const embz_classify_opts_t o,
                        int json, int csv)
@@ -201,12 +212,7 @@ static int run_measure(const embz_family_t fam, int measure, const embz_classify
         embz_buf_printf(&b, "sizes      %ld: %ld with values, %ld with bounds only, %ld failed\n",
                         (long) c->sweep->len, (long) c->nvalues, (long) c->nbounds,
                         (long) c->nfailed);
-        embz_buf_printf(&b, "reasons:\n");
-        for (slong k = 0; k < c->nfacts; k++) {
-            char *t = embz_classify_fact_text(c->facts + k);
-            embz_buf_printf(&b, "  - %s\n", t);
-            free(t);
-        }
+        reasons_text(&b, c->facts, c->nfacts);
     }
     fputs(b.s, stdout);
     embz_buf_clear(&b);
@@ -390,12 +396,7 @@ int cli_cmd_classify(int argc, char **argv)
         else if (c->law)
             embz_buf_printf(&b, "law        E ~ %s, coefficients not resolved by the fit   "
                             "(fitted estimate)\n", embz_law_formula(c->law));
-        embz_buf_printf(&b, "reasons:\n");
-        for (slong k = 0; k < c->nfacts; k++) {
-            char *t = embz_classify_fact_text(c->facts + k);
-            embz_buf_printf(&b, "  - %s\n", t);
-            free(t);
-        }
+        reasons_text(&b, c->facts, c->nfacts);
     }
     fputs(b.s, stdout);
     embz_buf_clear(&b);
