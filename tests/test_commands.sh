@@ -96,6 +96,26 @@ assert len(rows) == 8 and rows[0]["family"] == "inverse" and "why" in rows[0], r
 run demo --json --csv
 expect_rc 2 "demo --json --csv"
 
+# plot --data: the drawn points as CSV, one row per family and size, each point inside its bar,
+# and next to the certified enclosure of embz sweep at the same size
+run plot inverse logpower --to 10^30 --points 5 -o "$TMP/p.svg" --data "$TMP/p.csv"
+expect_rc 0 "plot --data"
+run sweep inverse --to 10^30 --points 5 --csv --no-fit
+pycheck "plot --data: 10 rows, points inside their bars, inverse next to sweep's enclosures" "
+import csv, sys
+sw = list(csv.DictReader(sys.stdin))
+rows = list(csv.DictReader(open('$TMP/p.csv')))
+assert len(rows) == 10 and {r['series'] for r in rows} == {'inverse', 'logpower (b=1/2)'}, rows
+for r in rows:
+    assert float(r['y_lo']) <= float(r['y']) <= float(r['y_hi'])
+inv = [r for r in rows if r['series'] == 'inverse']
+for r, s in zip(inv, sw):
+    y, lo, hi = float(r['y']), float(s['error_lo']), float(s['error_hi'])
+    assert lo * (1 - 1e-12) <= y <= hi * (1 + 1e-12), (r, s)
+"
+run plot inverse -o - --data -
+expect_rc 2 "plot -o - --data -"
+
 # --- completion
 run completion bash
 expect_rc 0 "completion bash"

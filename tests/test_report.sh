@@ -327,6 +327,16 @@ check "report prints the figure files" bash -c "'$EMBZ' report inverse --from 10
     --sizes 1000 --eps 0.1 -q -o '$T/pf.md' | diff - <(printf '%s\n' '$T/pf.md' '$T/pf-fig1.svg' '$T/pf-fig2.svg' '$T/pf-fig3.svg')"
 check "latex includes its figures" bash -c "grep -q 'includegraphics\[width=\\\\textwidth\]{cmp-fig1.pdf}' '$T/cmp.tex' && head -c 5 '$T/cmp-fig1.pdf' | grep -q '%PDF-'"
 check "latex typesets powers" grep -q 'E at n = \$10^{30}\$' "$T/cmp.tex"
+# the LaTeX document compiles as it is, with its figures beside it (pdflatex, Debian's
+# texlive-latex-base and -recommended; skipped where they are absent), and no line overflows
+# the text width by more than a hair
+if command -v pdflatex >/dev/null; then
+    check "latex compiles" bash -c "cd '$T' && timeout 300 pdflatex -interaction=nonstopmode \
+        -halt-on-error cmp.tex >cmp.texlog 2>&1 && pdftoppm -r 20 -png -f 1 -l 1 cmp.pdf cmppg"
+    check "latex: no line much too wide" bash -c "! grep -E 'Overfull .hbox \(([1-9][0-9]|[5-9])\.' '$T/cmp.log'"
+else
+    echo "pdflatex absent: skipping the LaTeX compile"
+fi
 check "html typesets powers" grep -q '<msup><mrow><mn>10</mn></mrow><mrow><mn>30</mn></mrow></msup>' "$T/cmp.html"
 
 # `embz report` with the defaults: HTML, escaping, Chromium screenshot

@@ -133,6 +133,10 @@ int embz_plot_write(const embz_plot_t fig, const char *path, embz_err_t *err);
  * for names that have none, such as "-" (standard output). EMBZ_ERR_INPUT for another name. */
 int embz_plot_write_format(const embz_plot_t fig, const char *path, const char *format,
                            embz_err_t *err);
+/* The points of every XY panel as CSV (malloc'ed): panel title, series label, x, y and the
+ * bar y_lo, y_hi (empty where the series has none), as values (10^c on log axes). They are
+ * the doubles drawn: the midpoints and ends of certified enclosures, not certified digits. */
+char *embz_plot_data_csv(const embz_plot_t fig);
 /* The figure as SVG text for inlining in HTML: no XML declaration, ids prefixed with
  * id_prefix (so several figures can share one document), width 100% with the aspect ratio
  * kept. *svg is malloc'ed. */

@@ -21,6 +21,7 @@ static const cli_opt_t plot_opts[] = {
     CLI_OPT_PREC_MANY,
     { "title", 0, CLI_VALUE, "TEXT", "title of the figure" },
     { "measure", 0, CLI_VALUE, "M", "k (default), or fidelity, purified, overlap: plot that measure" },
+    { "data", 0, CLI_VALUE, "FILE", "also write the plotted points as CSV (- for standard output)" },
     CLI_OPT_END
 };
 
@@ -40,6 +41,9 @@ static const cli_spec_t plot_spec = {
     "certified bounds only as vertical intervals without a point (their own legend entry,\n"
     "'bounds only'). P is drawn on a log axis, F_max and O^2 on a linear one; the axis label\n"
     "names the measure. Not with --optimum (the optimum is known for K only).\n"
+    "--data FILE writes what is drawn as CSV (panel, series, x, y, y_lo, y_hi): the doubles\n"
+    "of the points and bars, for plotting elsewhere; certified digits come from 'embz sweep\n"
+    "--csv'. With -o -, --data must name a file.\n"
     "Output: -o - (or /dev/stdout) streams the figure to standard output (svg unless\n"
     "--format says otherwise). Any other FILE is written as 'embz report --help' describes\n"
     "(atomically, links followed, mode kept): an interrupted run leaves no partial or\n"
@@ -211,6 +215,7 @@ int cli_cmd_plot(int argc, char **argv)
     embz_err_t err;
     embz_err_clear(&err);
     const char *out = cli_value(&a, "output");
+    const char *data = cli_value(&a, "data");
     const char *format = cli_value(&a, "format");
     /* the envelope offset is --envelope, as in report; --eps (its old name) still works */
     const char *eps_text = cli_value(&a, "envelope");
@@ -236,6 +241,14 @@ int cli_cmd_plot(int argc, char **argv)
         embz_family_init(fam + i);
     embz_plot_init(fig, cli_value(&a, "title"));
 
+    if (data != NULL && out != NULL && embz_output_is_stdout(out) && embz_output_is_stdout(data)) {
+        code = cli_usage_error(&plot_spec, "the figure goes to standard output: --data must "
+                               "name a file");
+        goto done;
+    }
+    if (data != NULL && !embz_output_is_stdout(data)
+        && (code = cli_check_output(data, "plot")) != 0)
+        goto done;
     if (out == NULL) {
         code = cli_usage_error(&plot_spec, "the output file is required: -o FILE");
         goto done;
@@ -429,6 +442,16 @@ int cli_cmd_plot(int argc, char **argv)
     if (status != EMBZ_OK) {
         code = cli_report("plot", status, &err);
         goto done;
+    }
+    if (data != NULL) {
+        char *csv = embz_plot_data_csv(fig);
+        embz_err_clear(&err);
+        status = embz_write_atomic(data, csv, strlen(csv), &err);
+        free(csv);
+        if (status != EMBZ_OK) {
+            code = cli_report("plot", status, &err);
+            goto done;
+        }
     }
     fprintf(stderr, "embz plot: wrote %s (%ld %s, %ld sizes each%s)\n",
             embz_output_is_stdout(out) ? "standard output" : out, nfam,

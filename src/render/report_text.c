@@ -249,9 +249,12 @@ static void tex_table(embz_buf_t *b, const embz_report_table_t *t, int key, int 
                         "\\sbox\\embzbox{\\begin{tabular}{");
     }
     for (slong c = 0; c < t->ncols; c++)
+        /* in the key table the word columns (family, verdict) wrap at a fixed width, so
+         * that the reason column keeps most of the line */
         embz_buf_printf(b, "%s", t->style[c] == EMBZ_COL_NUM ? "r"
                                  : key && t->style[c] == EMBZ_COL_PROSE
-                                 ? ">{\\raggedright\\arraybackslash}X" : "l");
+                                 ? ">{\\raggedright\\arraybackslash}X"
+                                 : key ? ">{\\raggedright\\arraybackslash}p{2.3cm}" : "l");
     embz_buf_printf(b, "}\n\\toprule\n");
     for (slong c = 0; c < t->ncols; c++) {
         if (c > 0)
